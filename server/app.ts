@@ -1,0 +1,87 @@
+import cookieParser from 'cookie-parser';
+import express, { type Express } from 'express';
+import { existsSync, readFileSync } from 'node:fs';
+import path from 'node:path';
+import type { Pool } from 'pg';
+import type { Sequelize } from 'sequelize';
+import type { Config } from './config';
+import { ApiRouter, type RouteSpec } from './core/api-router';
+import { apiNotFound, errorHandler } from './core/error-handler';
+import { publicAccess } from './core/policy';
+import { securityHeaders } from './core/security-headers';
+import { absoluteLifetime, csrfProtection, sessionMiddleware } from './core/session';
+import './core/request-context';
+import { authRoutes } from './features/auth/auth.routes';
+import { AuthService } from './features/auth/auth.service';
+import { configurePassport } from './features/auth/passport';
+import { openApiDocument } from './features/docs/openapi';
+import { healthRoutes } from './features/health/health.routes';
+import { inviteLinkRoutes, studiosRoutes } from './features/studios/studios.routes';
+import { StudiosService } from './features/studios/studios.service';
+import type { Mailer } from './mail/mailer';
+
+/** What the app needs from outside: configuration and live connections. */
+export interface AppDeps {
+  config: Config;
+  sequelize: Sequelize;
+  /** pg pool for the session store. */
+  sessionPool: Pool;
+  mailer: Mailer;
+}
+
+/** The Express app with every route; `listen` is the caller's business (server/main.ts, tests). */
+export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[] } {
+  const { config, sequelize, mailer } = deps;
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+  app.use(securityHeaders);
+
+  const health = healthRoutes(sequelize);
+  app.use('/api/health', health.router);
+
+  app.use(express.json({ limit: '256kb' }));
+  app.use(cookieParser());
+  app.use(sessionMiddleware(deps.sessionPool, config.sessionSecret, config.env === 'production'));
+  const passport = configurePassport();
+  app.use(passport.session());
+  app.use(absoluteLifetime);
+  app.use(csrfProtection);
+
+  const auth = new AuthService(mailer, config.appUrl);
+  const studios = new StudiosService(mailer, config.appUrl);
+  const routers: ApiRouter[] = [health, authRoutes(auth, sequelize), studiosRoutes(studios), inviteLinkRoutes(studios)];
+  const docs = new ApiRouter('/docs', 'Service');
+  const specs = routers.flatMap((r) => r.specs);
+  docs.route('get', '/', { policy: publicAccess, summary: 'This OpenAPI document' }, (_req, res) => {
+    res.json(openApiDocument([...specs, ...docs.specs]));
+  });
+  routers.push(docs);
+  for (const r of routers.slice(1)) app.use(`/api${r.mount}`, r.router);
+  app.use('/api', apiNotFound);
+
+  serveSpa(app, config.staticDir);
+  app.use(errorHandler);
+  return Object.assign(app, { apiSpecs: routers.flatMap((r) => r.specs) });
+}
+
+/** Serves the built Angular app with a per-request CSP nonce in index.html. */
+function serveSpa(app: Express, staticDir: string): void {
+  const indexFile = path.resolve(staticDir, 'index.html');
+  if (!existsSync(indexFile)) {
+    app.get('/', (_req, res) => {
+      res.type('text').send('The web app is not built yet: run `npm run build` (npm start does it for you).');
+    });
+    return;
+  }
+  const indexHtml = readFileSync(indexFile, 'utf8');
+  app.use(express.static(path.resolve(staticDir), { index: false, maxAge: '1h', setHeaders: noCacheForHtml }));
+  app.get('/{*splat}', (_req, res) => {
+    res.set('Cache-Control', 'no-store');
+    res.type('html').send(indexHtml.replaceAll('__CSP_NONCE__', res.locals.cspNonce as string));
+  });
+}
+
+function noCacheForHtml(res: express.Response, file: string): void {
+  if (file.endsWith('.html')) res.set('Cache-Control', 'no-store');
+}

@@ -1,0 +1,51 @@
+/** Runtime configuration, read once from the environment with defaults for a developer machine. */
+export interface Config {
+  env: 'development' | 'test' | 'production';
+  port: number;
+  /** Public origin used in links inside e-mails. */
+  appUrl: string;
+  db: { host: string; port: number; database: string; user: string; password?: string; poolMax: number };
+  smtp: { host: string; port: number; from: string };
+  sessionSecret: string;
+  /** Where the built Angular app lives (served as static files when present). */
+  staticDir: string;
+  /** Folder for uploaded originals, thumbnails and renders (outside the web root). */
+  storageDir: string;
+}
+
+function num(name: string, fallback: number): number {
+  const raw = process.env[name];
+  if (raw === undefined || raw === '') return fallback;
+  const value = Number(raw);
+  if (!Number.isInteger(value) || value <= 0) throw new Error(`${name} must be a positive integer, got "${raw}"`);
+  return value;
+}
+
+/** Builds the configuration from process.env; throws with the variable's name on bad values. */
+export function loadConfig(): Config {
+  const env = (process.env.NODE_ENV ?? 'development') as Config['env'];
+  const port = num('PORT', 4300);
+  const sessionSecret = process.env.SESSION_SECRET ?? (env === 'production' ? '' : 'emberline-dev-secret-not-for-production');
+  if (!sessionSecret) throw new Error('SESSION_SECRET must be set in production');
+  return {
+    env,
+    port,
+    appUrl: process.env.APP_URL ?? `http://127.0.0.1:${port}`,
+    db: {
+      host: process.env.DB_HOST ?? '127.0.0.1',
+      port: num('DB_PORT', 54329),
+      database: process.env.DB_NAME ?? 'emberline',
+      user: process.env.DB_USER ?? 'emberline',
+      password: process.env.DB_PASSWORD,
+      poolMax: num('DB_POOL_MAX', 10),
+    },
+    smtp: {
+      host: process.env.SMTP_HOST ?? '127.0.0.1',
+      port: num('SMTP_PORT', 1025),
+      from: process.env.MAIL_FROM ?? 'Emberline <no-reply@emberline.example>',
+    },
+    sessionSecret,
+    staticDir: process.env.STATIC_DIR ?? 'dist/emberline/browser',
+    storageDir: process.env.STORAGE_DIR ?? '.data/storage',
+  };
+}

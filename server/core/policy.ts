@@ -1,0 +1,43 @@
+import type { Request, RequestHandler } from 'express';
+import { roleAtLeast, type Role } from '../../shared/model/roles';
+import { Membership } from '../features/studios/membership.model';
+import { forbidden, notFound, unauthenticated } from './app-error';
+
+/** Who may call a route. Every /api route declares one; a route without one is a test failure. */
+export type Policy =
+  | { kind: 'public' }
+  | { kind: 'signedIn' }
+  | { kind: 'studio'; role: Role };
+
+export const POLICY = Symbol('emberline.policy');
+
+export const publicAccess: Policy = { kind: 'public' };
+export const signedIn: Policy = { kind: 'signedIn' };
+export const studioRole = (role: Role): Policy => ({ kind: 'studio', role });
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+/** A route parameter that must be a UUID; anything else is answered as not found. */
+export function idParam(req: Request, name: string, what: string): string {
+  const value = String(req.params[name] ?? '');
+  if (!UUID.test(value)) throw notFound(what);
+  return value;
+}
+
+/** The middleware that enforces a policy; tagged so the router walk can find it. */
+export function enforce(policy: Policy): RequestHandler {
+  const handler: RequestHandler = async (req, _res, next) => {
+    if (policy.kind === 'public') return next();
+    if (!req.user) throw unauthenticated();
+    if (policy.kind === 'signedIn') return next();
+    const studioId = String(req.params.studioId ?? '');
+    // Another studio's id and a malformed id look the same as a missing one (no IDOR oracle).
+    if (!UUID.test(studioId)) throw notFound('The studio');
+    const membership = await Membership.findOne({ where: { studioId, userId: req.user.id } });
+    if (!membership) throw notFound('The studio');
+    if (!roleAtLeast(membership.role, policy.role)) throw forbidden();
+    req.membership = { studioId, userId: req.user.id, role: membership.role };
+    next();
+  };
+  return Object.assign(handler, { [POLICY]: policy });
+}

@@ -1,0 +1,25 @@
+import type { Role } from '../../shared/model/roles';
+
+declare global {
+  namespace Express {
+    /** What passport keeps on req.user: the signed-in account. */
+    interface User {
+      id: string;
+      email: string;
+      displayName: string;
+    }
+    interface Request {
+      /** Set by a studio policy: the caller's membership in req.params.studioId. */
+      membership?: { studioId: string; userId: string; role: Role };
+    }
+  }
+}
+
+declare module 'express-session' {
+  interface SessionData {
+    /** When the user signed in (ms since epoch), for the absolute session lifetime. */
+    signedInAt?: number;
+  }
+}
+
+export {};

@@ -1,0 +1,64 @@
+import connectPgSimple from 'connect-pg-simple';
+import type { RequestHandler, Response, Request } from 'express';
+import session from 'express-session';
+import type { Pool } from 'pg';
+import { csrfSync } from 'csrf-sync';
+
+/** Idle timeout and absolute lifetime of a signed-in session (ASVS 4 3.3.2). */
+export const IDLE_TIMEOUT_MS = 30 * 60 * 1000;
+export const ABSOLUTE_LIFETIME_MS = 12 * 60 * 60 * 1000;
+
+/** Sessions in PostgreSQL; the cookie is HttpOnly, SameSite=Lax and Secure in production. */
+export function sessionMiddleware(pool: Pool, secret: string, production: boolean): RequestHandler {
+  const PgStore = connectPgSimple(session);
+  return session({
+    name: 'emberline.sid',
+    store: new PgStore({ pool, tableName: 'sessions', createTableIfMissing: false, pruneSessionInterval: 15 * 60 }),
+    secret,
+    resave: false,
+    saveUninitialized: false,
+    rolling: true,
+    cookie: { httpOnly: true, sameSite: 'lax', secure: production, maxAge: IDLE_TIMEOUT_MS, path: '/' },
+  });
+}
+
+/** Ends sessions older than the absolute lifetime, whatever their activity. */
+export const absoluteLifetime: RequestHandler = (req, _res, next) => {
+  const signedInAt = req.session?.signedInAt;
+  if (signedInAt && Date.now() - signedInAt > ABSOLUTE_LIFETIME_MS) {
+    req.logout({ keepSessionInfo: false }, () => req.session.destroy(() => next()));
+    return;
+  }
+  next();
+};
+
+const csrf = csrfSync({
+  getTokenFromRequest: (req) => req.get('x-xsrf-token'),
+  errorConfig: { statusCode: 403, code: 'csrf_invalid', message: 'The security token is missing or stale. Reload the page and try again.' },
+});
+
+export const CSRF_COOKIE = 'XSRF-TOKEN';
+
+/** Puts the session's CSRF token in the XSRF-TOKEN cookie Angular reads (rotating it if asked). */
+export function issueCsrfCookie(req: Request, res: Response, rotate = false): void {
+  const token = csrf.generateToken(req, rotate);
+  if (rotate || req.cookies?.[CSRF_COOKIE] !== token) {
+    res.cookie(CSRF_COOKIE, token, { httpOnly: false, sameSite: 'lax', secure: req.secure, path: '/' });
+  }
+}
+
+/** Every response carries the token cookie; mutations must echo it in X-XSRF-TOKEN (ASVS 5.0 3.5). */
+export const csrfProtection: RequestHandler[] = [
+  (req, res, next) => {
+    if (req.method === 'GET' || req.method === 'HEAD') issueCsrfCookie(req, res);
+    next();
+  },
+  (req, res, next) =>
+    csrf.csrfSynchronisedProtection(req, res, (err?: unknown) => {
+      if (err) {
+        res.status(403).json({ error: { code: 'csrf_invalid', message: 'The security token is missing or stale. Reload the page and try again.' } });
+        return;
+      }
+      next();
+    }),
+];

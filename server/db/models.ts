@@ -1,0 +1,19 @@
+import type { Sequelize } from 'sequelize';
+import { initPasswordReset, PasswordReset } from '../features/auth/password-reset.model';
+import { initUser, User } from '../features/auth/user.model';
+import { initInvite, Invite } from '../features/studios/invite.model';
+import { initMembership, Membership } from '../features/studios/membership.model';
+import { initStudio, Studio } from '../features/studios/studio.model';
+
+/** Registers every model and association on one Sequelize instance. */
+export function initModels(sequelize: Sequelize): void {
+  initUser(sequelize);
+  initPasswordReset(sequelize);
+  initStudio(sequelize);
+  initMembership(sequelize);
+  initInvite(sequelize);
+  Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
+  Membership.belongsTo(Studio, { foreignKey: 'studioId', as: 'studio' });
+  Invite.belongsTo(Studio, { foreignKey: 'studioId', as: 'studio' });
+  PasswordReset.belongsTo(User, { foreignKey: 'userId' });
+}

@@ -1,0 +1,24 @@
+import type { Role } from '../../shared/model/roles';
+import { hashPassword } from '../features/auth/password';
+import { User } from '../features/auth/user.model';
+import { Membership } from '../features/studios/membership.model';
+import { Studio } from '../features/studios/studio.model';
+
+/** The fictional demo studio and its accounts (README lists them). One password for all. */
+export const DEMO_PASSWORD = 'amber-glow-demo';
+export const DEMO_STUDIO = 'Kiln & Quartz';
+export const DEMO_ACCOUNTS: { email: string; displayName: string; role: Role }[] = [
+  { email: 'owner@kilnquartz.example', displayName: 'Ottilie Brand (owner)', role: 'owner' },
+  { email: 'editor@kilnquartz.example', displayName: 'Emeric Vale (editor)', role: 'editor' },
+  { email: 'viewer@kilnquartz.example', displayName: 'Vesna Roe (viewer)', role: 'viewer' },
+];
+
+/** Creates what is missing of the demo scenario; running it twice changes nothing. */
+export async function seedDemo(): Promise<void> {
+  const [studio] = await Studio.findOrCreate({ where: { name: DEMO_STUDIO }, defaults: { name: DEMO_STUDIO } });
+  for (const account of DEMO_ACCOUNTS) {
+    let user = await User.findOne({ where: { email: account.email } });
+    user ??= await User.create({ email: account.email, displayName: account.displayName, passwordHash: await hashPassword(DEMO_PASSWORD) });
+    await Membership.findOrCreate({ where: { studioId: studio.id, userId: user.id }, defaults: { studioId: studio.id, userId: user.id, role: account.role } });
+  }
+}

@@ -1,0 +1,45 @@
+import { z } from 'zod';
+import type { RouteSpec } from '../../core/api-router';
+import type { Policy } from '../../core/policy';
+
+const describePolicy = (p: Policy): string =>
+  p.kind === 'public' ? 'No sign-in needed.' : p.kind === 'signedIn' ? 'Signed-in users.' : `Studio members with role ${p.role} or higher.`;
+
+/** Builds an OpenAPI 3.1 document from the registered routes: the same specs the server enforces. */
+export function openApiDocument(specs: RouteSpec[]): object {
+  const paths: Record<string, Record<string, object>> = {};
+  for (const spec of specs) {
+    const path = spec.path.replace(/:([A-Za-z]+)/g, '{$1}');
+    const parameters = [...spec.path.matchAll(/:([A-Za-z]+)/g)].map((m) => ({ name: m[1], in: 'path', required: true, schema: { type: 'string' } }));
+    const ok = String(spec.status ?? 200);
+    paths[path] ??= {};
+    paths[path][spec.method] = {
+      tags: [spec.tag],
+      summary: spec.summary,
+      description: describePolicy(spec.policy),
+      ...(parameters.length ? { parameters } : {}),
+      ...(spec.body ? { requestBody: { required: true, content: { 'application/json': { schema: z.toJSONSchema(spec.body, { io: 'input', unrepresentable: 'any' }) } } } } : {}),
+      ...(spec.policy.kind === 'public' ? { security: [] } : {}),
+      responses: {
+        [ok]: { description: 'Success' },
+        default: { description: 'Error', content: { 'application/json': { schema: { $ref: '#/components/schemas/Error' } } } },
+      },
+    };
+  }
+  return {
+    openapi: '3.1.0',
+    info: { title: 'Emberline API', version: '1' , description: 'Mutations need the X-XSRF-TOKEN header echoing the XSRF-TOKEN cookie.' },
+    paths,
+    components: {
+      securitySchemes: { session: { type: 'apiKey', in: 'cookie', name: 'emberline.sid' } },
+      schemas: {
+        Error: {
+          type: 'object',
+          required: ['error'],
+          properties: { error: { type: 'object', required: ['code', 'message'], properties: { code: { type: 'string' }, message: { type: 'string' }, details: {} } } },
+        },
+      },
+    },
+    security: [{ session: [] }],
+  };
+}

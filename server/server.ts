@@ -1,0 +1,52 @@
+import type { Server } from 'node:http';
+import { Pool } from 'pg';
+import { createApp } from './app';
+import { loadConfig, type Config } from './config';
+import { createSequelize } from './db/connection';
+import { migrate } from './db/migrate';
+import { initModels } from './db/models';
+import { seedDemo } from './db/seed';
+import { Mailer } from './mail/mailer';
+
+/** Running server handles, for a clean shutdown. */
+export interface Running {
+  server: Server;
+  close(): Promise<void>;
+}
+
+/** Connects, migrates, optionally seeds, then listens on 127.0.0.1:PORT. */
+export async function start(config: Config = loadConfig()): Promise<Running> {
+  const sequelize = createSequelize(config.db);
+  initModels(sequelize);
+  await sequelize.authenticate();
+  const applied = await migrate(sequelize);
+  if (applied.length) console.log(`[db] applied migrations: ${applied.join(', ')}`);
+  if (process.env.SEED_DEMO === '1') await seedDemo();
+  const sessionPool = new Pool({
+    host: config.db.host,
+    port: config.db.port,
+    database: config.db.database,
+    user: config.db.user,
+    password: config.db.password,
+    max: 5,
+    connectionTimeoutMillis: 2000,
+  });
+  sessionPool.on('error', (err) => console.error(`[db] idle session-pool client failed: ${err.message}`));
+  const mailer = new Mailer(config.smtp);
+  const app = createApp({ config, sequelize, sessionPool, mailer });
+  const host = process.env.HOST ?? '127.0.0.1';
+  const server = await new Promise<Server>((resolve) => {
+    const s = app.listen(config.port, host, () => resolve(s));
+  });
+  console.log(`[server] Emberline at http://${host}:${config.port}/`);
+  const close = async () => {
+    await new Promise<void>((resolve) => server.close(() => resolve()));
+    mailer.close();
+    await sessionPool.end();
+    await sequelize.close();
+  };
+  for (const signal of ['SIGINT', 'SIGTERM'] as const) {
+    process.once(signal, () => void close().then(() => process.exit(0)));
+  }
+  return { server, close };
+}

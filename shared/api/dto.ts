@@ -1,0 +1,46 @@
+import type { Role } from '../model/roles';
+
+/** The signed-in user as the API returns it. */
+export interface UserDto {
+  id: string;
+  email: string;
+  displayName: string;
+}
+
+/** A studio with the caller's role in it. */
+export interface StudioDto {
+  id: string;
+  name: string;
+  role: Role;
+  createdAt: string;
+}
+
+export interface MemberDto {
+  userId: string;
+  email: string;
+  displayName: string;
+  role: Role;
+  joinedAt: string;
+}
+
+export interface InviteDto {
+  id: string;
+  email: string;
+  role: Role;
+  expiresAt: string;
+  createdAt: string;
+}
+
+/** What an invite link shows before it is accepted. */
+export interface InvitePreviewDto {
+  studioName: string;
+  role: Role;
+  email: string;
+  expired: boolean;
+  accepted: boolean;
+}
+
+/** The error body every failing /api call answers with. */
+export interface ApiErrorBody {
+  error: { code: string; message: string; details?: unknown };
+}
