@@ -8,9 +8,9 @@ import { Studio } from '../features/studios/studio.model';
 export const DEMO_PASSWORD = 'amber-glow-demo';
 export const DEMO_STUDIO = 'Kiln & Quartz';
 export const DEMO_ACCOUNTS: { email: string; displayName: string; role: Role }[] = [
-  { email: 'owner@kilnquartz.example', displayName: 'Ottilie Brand (owner)', role: 'owner' },
-  { email: 'editor@kilnquartz.example', displayName: 'Emeric Vale (editor)', role: 'editor' },
-  { email: 'viewer@kilnquartz.example', displayName: 'Vesna Roe (viewer)', role: 'viewer' },
+  { email: 'owner@kilnquartz.example', displayName: 'Ottilie Brand', role: 'owner' },
+  { email: 'editor@kilnquartz.example', displayName: 'Emeric Vale', role: 'editor' },
+  { email: 'viewer@kilnquartz.example', displayName: 'Vesna Roe', role: 'viewer' },
 ];
 
 /** Creates what is missing of the demo scenario; running it twice changes nothing. */

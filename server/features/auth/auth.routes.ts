@@ -3,8 +3,8 @@ import { RateLimiterPostgres, RateLimiterRes } from 'rate-limiter-flexible';
 import type { Sequelize } from 'sequelize';
 import { passwordResetConfirmSchema, passwordResetSchema, signInSchema, signUpSchema } from '../../../shared/api/auth.schema';
 import { ApiRouter } from '../../core/api-router';
-import { AppError, unauthenticated } from '../../core/app-error';
-import { publicAccess, signedIn } from '../../core/policy';
+import { AppError } from '../../core/app-error';
+import { publicAccess } from '../../core/policy';
 import { issueCsrfCookie } from '../../core/session';
 import type { AuthService } from './auth.service';
 import type { User } from './user.model';
@@ -69,9 +69,8 @@ export function authRoutes(auth: AuthService, sequelize: Sequelize): ApiRouter {
     res.status(204).end();
   });
 
-  api.route('get', '/me', { policy: signedIn, summary: 'The signed-in user' }, (req, res) => {
-    if (!req.user) throw unauthenticated();
-    res.json({ user: req.user });
+  api.route('get', '/me', { policy: publicAccess, summary: 'The signed-in user, or null when signed out' }, (req, res) => {
+    res.json({ user: req.user ?? null });
   });
 
   api.route('post', '/password-reset', { policy: publicAccess, summary: 'E-mail a password reset link', body: passwordResetSchema, status: 202 }, async (req, res) => {

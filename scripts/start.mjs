@@ -1,0 +1,29 @@
+#!/usr/bin/env node
+// `npm start`: database, mail catcher, a production build of the web app, then the server with
+// the demo data. Everything listens on 127.0.0.1 only.
+import { spawn, spawnSync } from 'node:child_process';
+import { start as startDb } from './db.mjs';
+
+const port = process.env.PORT ?? '4300';
+const smtpPort = process.env.SMTP_PORT ?? '1025';
+const mailUiPort = process.env.MAIL_UI_PORT ?? '1080';
+
+startDb(['emberline']);
+
+if (process.env.SKIP_BUILD !== '1') {
+  console.log('[start] building the web app…');
+  const build = spawnSync('npx', ['ng', 'build'], { stdio: 'inherit' });
+  if (build.status !== 0) process.exit(build.status ?? 1);
+}
+
+const env = { ...process.env, PORT: port, SMTP_PORT: smtpPort, MAIL_UI_PORT: mailUiPort, SEED_DEMO: '1' };
+const children = [
+  spawn('npx', ['tsx', 'server/mail/catcher.ts'], { stdio: 'inherit', env }),
+  spawn('npx', ['tsx', 'server/main.ts'], { stdio: 'inherit', env }),
+];
+console.log(`[start] open http://127.0.0.1:${port}/ — demo accounts and password are in README.md; mail inbox at http://127.0.0.1:${mailUiPort}/`);
+
+const stop = () => children.forEach((c) => c.kill('SIGTERM'));
+process.on('SIGINT', stop);
+process.on('SIGTERM', stop);
+for (const child of children) child.on('exit', (code) => { stop(); process.exitCode = code ?? 0; });

@@ -1,0 +1,23 @@
+import type { Routes } from '@angular/router';
+import { homeRedirectGuard, signedInGuard, signedOutGuard } from './core/auth.guard';
+
+export const routes: Routes = [
+  { path: '', pathMatch: 'full', canActivate: [homeRedirectGuard], children: [] },
+  { path: 'sign-in', canActivate: [signedOutGuard], title: 'Sign in · Emberline', loadComponent: () => import('./features/account/sign-in').then((m) => m.SignIn) },
+  { path: 'sign-up', canActivate: [signedOutGuard], title: 'Create account · Emberline', loadComponent: () => import('./features/account/sign-up').then((m) => m.SignUp) },
+  { path: 'forgot-password', title: 'Reset password · Emberline', loadComponent: () => import('./features/account/forgot-password').then((m) => m.ForgotPassword) },
+  { path: 'reset-password', title: 'Choose a new password · Emberline', loadComponent: () => import('./features/account/reset-password').then((m) => m.ResetPassword) },
+  { path: 'invites/:token', title: 'Studio invite · Emberline', loadComponent: () => import('./features/studio/invite-accept').then((m) => m.InviteAccept) },
+  { path: 'studios', canActivate: [signedInGuard], title: 'Your studios · Emberline', loadComponent: () => import('./features/studio/studio-list').then((m) => m.StudioList) },
+  {
+    path: 'studios/:studioId',
+    canActivate: [signedInGuard],
+    loadComponent: () => import('./features/studio/studio-shell').then((m) => m.StudioShell),
+    children: [
+      { path: '', pathMatch: 'full', redirectTo: 'bench' },
+      { path: 'bench', title: 'Bench · Emberline', loadComponent: () => import('./features/bench/bench').then((m) => m.Bench) },
+      { path: 'members', title: 'Members · Emberline', loadComponent: () => import('./features/studio/members').then((m) => m.Members) },
+    ],
+  },
+  { path: '**', title: 'Not found · Emberline', loadComponent: () => import('./features/account/not-found').then((m) => m.NotFound) },
+];

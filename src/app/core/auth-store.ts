@@ -1,0 +1,61 @@
+import { HttpClient } from '@angular/common/http';
+import { computed, inject, Injectable, signal } from '@angular/core';
+import { firstValueFrom } from 'rxjs';
+import type { StudioDto, UserDto } from '../../../shared/api/dto';
+
+/** The signed-in user and their studios, shared by guards, the shell and pages. */
+@Injectable({ providedIn: 'root' })
+export class AuthStore {
+  private readonly http = inject(HttpClient);
+
+  readonly user = signal<UserDto | null>(null);
+  readonly studios = signal<StudioDto[]>([]);
+  readonly signedIn = computed(() => this.user() !== null);
+
+  /** Loads the session's user (null when signed out); called once at start. */
+  async restore(): Promise<void> {
+    try {
+      const { user } = await firstValueFrom(this.http.get<{ user: UserDto | null }>('/api/auth/me'));
+      this.user.set(user);
+      if (user) await this.refreshStudios();
+    } catch {
+      this.user.set(null);
+    }
+  }
+
+  async signIn(email: string, password: string): Promise<void> {
+    const { user } = await firstValueFrom(this.http.post<{ user: UserDto }>('/api/auth/sign-in', { email, password }));
+    this.user.set(user);
+    await this.refreshStudios();
+  }
+
+  async signUp(displayName: string, email: string, password: string): Promise<void> {
+    const { user } = await firstValueFrom(this.http.post<{ user: UserDto }>('/api/auth/sign-up', { displayName, email, password }));
+    this.user.set(user);
+    this.studios.set([]);
+  }
+
+  async signOut(): Promise<void> {
+    await firstValueFrom(this.http.post('/api/auth/sign-out', {}));
+    this.user.set(null);
+    this.studios.set([]);
+    // A fresh anonymous session gets a new XSRF cookie on the next GET.
+    await firstValueFrom(this.http.get('/api/health'));
+  }
+
+  async refreshStudios(): Promise<StudioDto[]> {
+    const { studios } = await firstValueFrom(this.http.get<{ studios: StudioDto[] }>('/api/studios'));
+    this.studios.set(studios);
+    return studios;
+  }
+
+  /** The studio to open after sign-in: the last used one if still a member, else the first. */
+  preferredStudio(): StudioDto | undefined {
+    const last = localStorage.getItem('emberline.lastStudio');
+    return this.studios().find((s) => s.id === last) ?? this.studios()[0];
+  }
+
+  rememberStudio(id: string): void {
+    localStorage.setItem('emberline.lastStudio', id);
+  }
+}

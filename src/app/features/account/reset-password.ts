@@ -1,0 +1,74 @@
+import { HttpClient } from '@angular/common/http';
+import { ChangeDetectionStrategy, Component, inject, input, signal } from '@angular/core';
+import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
+import { RouterLink } from '@angular/router';
+import { firstValueFrom } from 'rxjs';
+import { apiErrorMessage } from '../../core/api-error';
+import { AccountFrame } from './account-frame';
+import { passwordLength } from './password-length';
+
+/** Choose a new password with the token from the e-mailed link. */
+@Component({
+  selector: 'em-reset-password',
+  imports: [AccountFrame, ReactiveFormsModule, RouterLink, MatButtonModule, MatFormFieldModule, MatInputModule],
+  template: `
+    <em-account-frame heading="Choose a new password">
+      @if (!token()) {
+        <p class="error" role="alert">This page needs the link from the reset e-mail. <a routerLink="/forgot-password">Ask for a new link</a>.</p>
+      } @else if (done()) {
+        <p class="ok" role="status">{{ done() }}</p>
+        <a mat-flat-button routerLink="/sign-in">Sign in</a>
+      } @else {
+        <form [formGroup]="form" (ngSubmit)="setPassword()" novalidate>
+          <mat-form-field appearance="outline">
+            <mat-label>New password</mat-label>
+            <input matInput type="password" formControlName="password" autocomplete="new-password" required />
+            <mat-hint>8 to 128 characters.</mat-hint>
+            @if (form.controls.password.hasError('required')) {
+              <mat-error>Choose a password.</mat-error>
+            } @else if (form.controls.password.hasError('passwordLength')) {
+              <mat-error>{{ form.controls.password.getError('passwordLength') }}</mat-error>
+            }
+          </mat-form-field>
+          <p class="error" role="alert">{{ error() }}</p>
+          <div class="actions">
+            <button mat-flat-button type="submit" [disabled]="busy()">Set password</button>
+          </div>
+        </form>
+      }
+    </em-account-frame>
+  `,
+  styleUrl: './account-form.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class ResetPassword {
+  private readonly http = inject(HttpClient);
+
+  readonly token = input<string>('');
+
+  protected readonly form = inject(FormBuilder).nonNullable.group({ password: ['', [Validators.required, passwordLength]] });
+  protected readonly busy = signal(false);
+  protected readonly error = signal('');
+  protected readonly done = signal('');
+
+  protected async setPassword(): Promise<void> {
+    if (this.form.invalid) {
+      this.form.markAllAsTouched();
+      return;
+    }
+    this.busy.set(true);
+    this.error.set('');
+    try {
+      const body = { token: this.token(), password: this.form.getRawValue().password };
+      const { message } = await firstValueFrom(this.http.post<{ message: string }>('/api/auth/password-reset/confirm', body));
+      this.done.set(message);
+    } catch (err) {
+      this.error.set(apiErrorMessage(err));
+    } finally {
+      this.busy.set(false);
+    }
+  }
+}

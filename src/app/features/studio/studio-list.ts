@@ -1,0 +1,55 @@
+import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { Router, RouterLink } from '@angular/router';
+import { apiErrorMessage } from '../../core/api-error';
+import { AuthStore } from '../../core/auth-store';
+import { StudioApi } from './studio-api';
+
+/** The caller's studios, and a form to start a new one. */
+@Component({
+  selector: 'em-studio-list',
+  imports: [ReactiveFormsModule, RouterLink, MatButtonModule, MatFormFieldModule, MatInputModule, MatIconModule],
+  templateUrl: './studio-list.html',
+  styleUrl: './studio-list.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class StudioList {
+  private readonly api = inject(StudioApi);
+  private readonly router = inject(Router);
+  protected readonly auth = inject(AuthStore);
+
+  protected readonly form = inject(FormBuilder).nonNullable.group({ name: ['', [Validators.required, Validators.maxLength(80)]] });
+  protected readonly busy = signal(false);
+  protected readonly error = signal('');
+
+  constructor() {
+    void this.auth.refreshStudios();
+  }
+
+  protected async createStudio(): Promise<void> {
+    if (this.form.invalid) {
+      this.form.markAllAsTouched();
+      return;
+    }
+    this.busy.set(true);
+    this.error.set('');
+    try {
+      const studio = await this.api.create(this.form.getRawValue().name);
+      await this.auth.refreshStudios();
+      await this.router.navigate(['/studios', studio.id, 'bench']);
+    } catch (err) {
+      this.error.set(apiErrorMessage(err));
+    } finally {
+      this.busy.set(false);
+    }
+  }
+
+  protected async signOut(): Promise<void> {
+    await this.auth.signOut();
+    await this.router.navigateByUrl('/sign-in');
+  }
+}

@@ -1,0 +1,60 @@
+import { BreakpointObserver } from '@angular/cdk/layout';
+import { ChangeDetectionStrategy, Component, effect, inject, input, resource } from '@angular/core';
+import { toSignal } from '@angular/core/rxjs-interop';
+import { MatButtonModule } from '@angular/material/button';
+import { MatDividerModule } from '@angular/material/divider';
+import { MatIconModule } from '@angular/material/icon';
+import { MatListModule } from '@angular/material/list';
+import { MatMenuModule } from '@angular/material/menu';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { MatSidenavModule } from '@angular/material/sidenav';
+import { MatToolbarModule } from '@angular/material/toolbar';
+import { MatTooltipModule } from '@angular/material/tooltip';
+import { Router, RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
+import { map } from 'rxjs';
+import { apiErrorMessage } from '../../core/api-error';
+import { AuthStore } from '../../core/auth-store';
+import { StudioApi } from './studio-api';
+import { StudioContext } from './studio-context';
+
+/** The signed-in layout: top bar with studio switcher and account menu, navigation, page outlet. */
+@Component({
+  selector: 'em-studio-shell',
+  imports: [RouterOutlet, RouterLink, RouterLinkActive, MatToolbarModule, MatSidenavModule, MatListModule, MatIconModule, MatButtonModule, MatMenuModule, MatDividerModule, MatProgressBarModule, MatTooltipModule],
+  templateUrl: './studio-shell.html',
+  styleUrl: './studio-shell.scss',
+  providers: [StudioContext],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class StudioShell {
+  private readonly api = inject(StudioApi);
+  private readonly router = inject(Router);
+  protected readonly auth = inject(AuthStore);
+  protected readonly context = inject(StudioContext);
+
+  readonly studioId = input.required<string>();
+
+  protected readonly narrow = toSignal(inject(BreakpointObserver).observe('(max-width: 840px)').pipe(map((s) => s.matches)), { initialValue: false });
+  protected readonly studio = resource({ params: () => this.studioId(), loader: ({ params }) => this.api.get(params) });
+  protected readonly nav = [
+    { path: 'bench', label: 'Bench', icon: 'blur_on' },
+    { path: 'members', label: 'Members', icon: 'group' },
+  ];
+
+  constructor() {
+    effect(() => {
+      const studio = this.studio.hasValue() ? this.studio.value() : null;
+      this.context.studio.set(studio);
+      if (studio) this.auth.rememberStudio(studio.id);
+    });
+  }
+
+  protected errorText(): string {
+    return apiErrorMessage(this.studio.error());
+  }
+
+  protected async signOut(): Promise<void> {
+    await this.auth.signOut();
+    await this.router.navigateByUrl('/sign-in');
+  }
+}
