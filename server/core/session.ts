@@ -26,7 +26,8 @@ export function sessionMiddleware(pool: Pool, secret: string, production: boolea
 export const absoluteLifetime: RequestHandler = (req, _res, next) => {
   const signedInAt = req.session?.signedInAt;
   if (signedInAt && Date.now() - signedInAt > ABSOLUTE_LIFETIME_MS) {
-    req.logout({ keepSessionInfo: false }, () => req.session.destroy(() => next()));
+    // passport's logout regenerates the session: a fresh anonymous one replaces the old.
+    req.logout((err) => next(err));
     return;
   }
   next();

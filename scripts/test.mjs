@@ -1,0 +1,33 @@
+#!/usr/bin/env node
+// `npm test`: everything, starting what it needs. PostgreSQL (installed from Debian's packages
+// when missing) with a fresh test database, the jest projects, a production build, then the
+// Playwright browser tests in Debian's chromium (installed when missing).
+import { execFileSync, spawnSync } from 'node:child_process';
+import { existsSync } from 'node:fs';
+import { pgPort, start as startDb } from './db.mjs';
+
+const only = process.argv[2]; // optional: "unit" or "e2e"
+const run = (cmd, args, env = {}) => {
+  const r = spawnSync(cmd, args, { stdio: 'inherit', env: { ...process.env, ...env } });
+  if (r.status !== 0) process.exit(r.status ?? 1);
+};
+
+startDb(['postgres']);
+const psql = (sql) => spawnSync('psql', ['-h', '127.0.0.1', '-p', String(pgPort), '-U', 'emberline', '-d', 'postgres', '-qc', sql], { stdio: 'inherit' });
+
+if (only !== 'e2e') {
+  psql('DROP DATABASE IF EXISTS emberline_test WITH (FORCE)');
+  startDb(['emberline_test']);
+  run('npx', ['jest', '--ci'], { DB_NAME: 'emberline_test', NODE_ENV: 'test' });
+}
+
+if (only !== 'unit') {
+  const chromium = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
+  if (!existsSync(chromium)) {
+    console.log('[test] installing Debian\'s chromium package for the browser tests…');
+    execFileSync('apt-get', ['update', '-qq'], { stdio: 'inherit' });
+    execFileSync('apt-get', ['install', '-y', '-qq', '--no-install-recommends', 'chromium'], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
+  }
+  run('npx', ['ng', 'build']);
+  run('npx', ['playwright', 'test']);
+}

@@ -1,0 +1,130 @@
+import { newToken } from './tokens';
+import { POLICY } from './policy';
+import { PasswordReset } from '../features/auth/password-reset.model';
+import { Invite } from '../features/studios/invite.model';
+import { Membership } from '../features/studios/membership.model';
+import { createHarness, TestClient, uniqueEmail, type Harness } from '../testing/harness';
+import { ACTORS, createStudioWorld, createUsers, WORLD_PASSWORD, type Actor, type WorldUsers } from '../testing/world';
+
+/**
+ * Access control as a table (SECURITY.md 8–10; ASVS 5.0 8.2.1, 8.2.2): every /api route ×
+ * {owner, editor, viewer, other studio, anonymous} → the expected status.
+ */
+interface Cell {
+  studioId: string;
+  users: WorldUsers;
+  actor: Actor;
+  inviteId: string;
+  inviteToken: string;
+}
+interface Row {
+  method: 'get' | 'post' | 'patch' | 'delete';
+  path: string;
+  url: (c: Cell) => string;
+  body?: (c: Cell) => Promise<object> | object;
+  expect: [owner: number, editor: number, viewer: number, other: number, anonymous: number];
+}
+
+const S = (c: Cell) => `/api/studios/${c.studioId}`;
+const actorEmail = (c: Cell) => (c.actor === 'anonymous' ? uniqueEmail('anon') : c.users[c.actor].email);
+
+const ROWS: Row[] = [
+  { method: 'get', path: '/api/health', url: () => '/api/health', expect: [200, 200, 200, 200, 200] },
+  { method: 'get', path: '/api/docs', url: () => '/api/docs', expect: [200, 200, 200, 200, 200] },
+  { method: 'post', path: '/api/auth/sign-up', url: () => '/api/auth/sign-up', body: () => ({ email: uniqueEmail('su'), displayName: 'New', password: WORLD_PASSWORD }), expect: [201, 201, 201, 201, 201] },
+  { method: 'post', path: '/api/auth/sign-in', url: () => '/api/auth/sign-in', body: (c) => ({ email: c.users.other.email, password: WORLD_PASSWORD }), expect: [200, 200, 200, 200, 200] },
+  { method: 'post', path: '/api/auth/sign-out', url: () => '/api/auth/sign-out', expect: [204, 204, 204, 204, 204] },
+  { method: 'get', path: '/api/auth/me', url: () => '/api/auth/me', expect: [200, 200, 200, 200, 200] },
+  { method: 'post', path: '/api/auth/password-reset', url: () => '/api/auth/password-reset', body: (c) => ({ email: c.users.target.email }), expect: [202, 202, 202, 202, 202] },
+  {
+    method: 'post',
+    path: '/api/auth/password-reset/confirm',
+    url: () => '/api/auth/password-reset/confirm',
+    body: async (c) => {
+      const { token, hash } = newToken();
+      await PasswordReset.create({ userId: c.users.target.id, tokenHash: hash, expiresAt: new Date(Date.now() + 60_000) });
+      return { token, password: WORLD_PASSWORD };
+    },
+    expect: [200, 200, 200, 200, 200],
+  },
+  { method: 'get', path: '/api/studios', url: () => '/api/studios', expect: [200, 200, 200, 200, 401] },
+  { method: 'post', path: '/api/studios', url: () => '/api/studios', body: () => ({ name: 'Matrix new' }), expect: [201, 201, 201, 201, 401] },
+  { method: 'get', path: '/api/studios/:studioId', url: S, expect: [200, 200, 200, 404, 401] },
+  { method: 'patch', path: '/api/studios/:studioId', url: S, body: () => ({ name: 'Renamed' }), expect: [200, 403, 403, 404, 401] },
+  { method: 'delete', path: '/api/studios/:studioId', url: S, expect: [204, 403, 403, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/members', url: (c) => `${S(c)}/members`, expect: [200, 200, 200, 404, 401] },
+  { method: 'patch', path: '/api/studios/:studioId/members/:userId', url: (c) => `${S(c)}/members/${c.users.target.id}`, body: () => ({ role: 'editor' }), expect: [200, 403, 403, 404, 401] },
+  { method: 'delete', path: '/api/studios/:studioId/members/:userId', url: (c) => `${S(c)}/members/${c.users.target.id}`, expect: [204, 403, 403, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/invites', url: (c) => `${S(c)}/invites`, expect: [200, 403, 403, 404, 401] },
+  { method: 'post', path: '/api/studios/:studioId/invites', url: (c) => `${S(c)}/invites`, body: () => ({ email: uniqueEmail('inv'), role: 'viewer' }), expect: [201, 403, 403, 404, 401] },
+  { method: 'delete', path: '/api/studios/:studioId/invites/:inviteId', url: (c) => `${S(c)}/invites/${c.inviteId}`, expect: [204, 403, 403, 404, 401] },
+  { method: 'get', path: '/api/invites/:token', url: (c) => `/api/invites/${c.inviteToken}`, expect: [200, 200, 200, 200, 200] },
+  {
+    method: 'post',
+    path: '/api/invites/:token/accept',
+    url: (c) => `/api/invites/${c.inviteToken}/accept`,
+    body: async (c) => {
+      await Invite.update({ email: actorEmail(c) }, { where: { id: c.inviteId } });
+      return {};
+    },
+    expect: [200, 200, 200, 200, 401],
+  },
+];
+
+let h: Harness;
+let users: WorldUsers;
+
+beforeAll(async () => {
+  h = await createHarness();
+  users = await createUsers();
+});
+afterAll(() => h.close());
+
+test('the table has exactly one row per registered /api route', () => {
+  const registered = h.app.apiSpecs.map((s) => `${s.method.toUpperCase()} ${s.path}`).sort();
+  const table = ROWS.map((r) => `${r.method.toUpperCase()} ${r.path}`).sort();
+  expect(table).toEqual(registered);
+});
+
+test('deny by default: every route in the Express router starts with a policy middleware', () => {
+  type Layer = { route?: { path: string; stack: { handle: unknown }[] }; handle: { stack?: Layer[] } };
+  const walk = (stack: Layer[], depth: number): { path: string; depth: number; hasPolicy: boolean }[] =>
+    stack.flatMap((layer) =>
+      layer.route
+        ? [{ path: layer.route.path, depth, hasPolicy: POLICY in (layer.route.stack[0].handle as object) }]
+        : layer.handle?.stack
+          ? walk(layer.handle.stack, depth + 1)
+          : [],
+    );
+  // The only top-level routes are the single-page app's index fallbacks; /api routes are mounted routers.
+  const spaPaths = ['/{*splat}', '/'];
+  const routes = walk((h.app as unknown as { router: { stack: Layer[] } }).router.stack, 0).filter((r) => !(r.depth === 0 && spaPaths.includes(r.path)));
+  expect(routes).toHaveLength(h.app.apiSpecs.length);
+  expect(routes.filter((r) => !r.hasPolicy)).toEqual([]);
+});
+
+describe.each(ROWS)('$method $path', (row) => {
+  test.each(ACTORS.map((actor, i) => [actor, row.expect[i]] as const))('%s → %i', async (actor, expected) => {
+    const world = await createStudioWorld(users);
+    const cell: Cell = { studioId: world.studio.id, users, actor, inviteId: world.invite.id, inviteToken: world.inviteToken };
+    const client = new TestClient(h.app);
+    if (actor !== 'anonymous') {
+      const signIn = await client.post('/api/auth/sign-in', { email: users[actor].email, password: WORLD_PASSWORD });
+      expect(signIn.status).toBe(200);
+    }
+    const body = row.body ? await row.body(cell) : undefined;
+    const res = await client.send(row.method, row.url(cell), body);
+    expect({ status: res.status, body: res.status >= 400 ? res.body : undefined }).toMatchObject({ status: expected });
+    if (res.status >= 400) expect(res.body.error.code).toEqual(expect.any(String));
+  });
+});
+
+test('a cross-studio id changes nothing (ASVS 5.0 8.2.2)', async () => {
+  const world = await createStudioWorld(users);
+  const client = new TestClient(h.app);
+  await client.post('/api/auth/sign-in', { email: users.other.email, password: WORLD_PASSWORD });
+  expect((await client.patch(`/api/studios/${world.studio.id}/members/${users.target.id}`, { role: 'owner' })).status).toBe(404);
+  expect((await client.delete(`/api/studios/${world.studio.id}`)).status).toBe(404);
+  const target = await Membership.findOne({ where: { studioId: world.studio.id, userId: users.target.id } });
+  expect(target?.role).toBe('viewer');
+});

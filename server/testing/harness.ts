@@ -1,0 +1,112 @@
+import type { Express } from 'express';
+import { Pool } from 'pg';
+import type { Sequelize } from 'sequelize';
+import request from 'supertest';
+import { createApp } from '../app';
+import { loadConfig, type Config } from '../config';
+import { createSequelize } from '../db/connection';
+import { initModels } from '../db/models';
+import { MailCatcher } from '../mail/catcher';
+import { Mailer } from '../mail/mailer';
+
+/** A real app on the test database with a real SMTP catcher; one per spec file. */
+export interface Harness {
+  app: Express & { apiSpecs: import('../core/api-router').RouteSpec[] };
+  config: Config;
+  sequelize: Sequelize;
+  mail: MailCatcher;
+  /** A second app on the same database, as after a process restart (in-memory state is new). */
+  restartedApp(): Harness['app'];
+  close(): Promise<void>;
+}
+
+export async function createHarness(overrides: Partial<Config> = {}): Promise<Harness> {
+  process.env.DB_NAME ??= 'emberline_test';
+  const mail = new MailCatcher();
+  const { smtpPort } = await mail.start(0, 0);
+  const base = loadConfig();
+  const config: Config = { ...base, env: 'test', appUrl: 'http://app.test', smtp: { ...base.smtp, port: smtpPort }, staticDir: '/nonexistent', ...overrides };
+  const sequelize = createSequelize(config.db);
+  initModels(sequelize);
+  const sessionPool = new Pool({ host: config.db.host, port: config.db.port, database: config.db.database, user: config.db.user, max: 3 });
+  sessionPool.on('error', () => undefined);
+  const mailer = new Mailer(config.smtp);
+  const deps = { config, sequelize, sessionPool, mailer };
+  const app = createApp(deps);
+  return {
+    app,
+    config,
+    sequelize,
+    mail,
+    restartedApp: () => createApp(deps),
+    async close() {
+      mailer.close();
+      await mail.stop();
+      await sessionPool.end();
+      await sequelize.close();
+    },
+  };
+}
+
+/** A unique e-mail for this test run. */
+export function uniqueEmail(tag = 'user'): string {
+  return `${tag}-${Date.now().toString(36)}-${Math.random().toString(36).slice(2, 8)}@test.example`;
+}
+
+/**
+ * A browser-like client: keeps cookies between calls and echoes XSRF-TOKEN in X-XSRF-TOKEN on
+ * mutations, as Angular's HttpClient does.
+ */
+export class TestClient {
+  private cookies = new Map<string, string>();
+  /** Set false to send mutations without the CSRF header. */
+  sendCsrf = true;
+
+  constructor(private readonly app: Express) {}
+
+  get(path: string) {
+    return this.send('get', path);
+  }
+  post(path: string, body: object = {}) {
+    return this.send('post', path, body);
+  }
+  patch(path: string, body: object = {}) {
+    return this.send('patch', path, body);
+  }
+  delete(path: string) {
+    return this.send('delete', path);
+  }
+
+  cookie(name: string): string | undefined {
+    return this.cookies.get(name);
+  }
+
+  setCookie(name: string, value: string): void {
+    this.cookies.set(name, value);
+  }
+
+  /** Signs up a new account (and keeps its session); returns its e-mail and id. */
+  async signUp(password = 'correct horse battery', tag = 'user'): Promise<{ email: string; id: string; password: string }> {
+    const email = uniqueEmail(tag);
+    const res = await this.post('/api/auth/sign-up', { email, displayName: `Test ${tag}`, password });
+    if (res.status !== 201) throw new Error(`sign-up failed: ${res.status} ${JSON.stringify(res.body)}`);
+    return { email, id: res.body.user.id, password };
+  }
+
+  async send(method: 'get' | 'post' | 'patch' | 'delete', path: string, body?: object): Promise<request.Response> {
+    if (method !== 'get' && this.sendCsrf && !this.cookies.has('XSRF-TOKEN')) await this.send('get', '/api/auth/me');
+    let req = request(this.app)[method](path);
+    if (this.cookies.size) req = req.set('Cookie', [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; '));
+    if (method !== 'get' && this.sendCsrf && this.cookies.has('XSRF-TOKEN')) req = req.set('X-XSRF-TOKEN', this.cookies.get('XSRF-TOKEN')!);
+    const res = body === undefined ? await req : await req.send(body);
+    const setCookies = ([] as string[]).concat(res.headers['set-cookie'] ?? []);
+    for (const line of setCookies) {
+      const [pair] = line.split(';');
+      const [name, ...rest] = pair.split('=');
+      const value = rest.join('=');
+      if (!value || /Expires=Thu, 01 Jan 1970/i.test(line)) this.cookies.delete(name);
+      else this.cookies.set(name, value);
+    }
+    return res;
+  }
+}
