@@ -1,0 +1,88 @@
+import { expect, signIn, test, uniqueEmail, waitForMail } from './fixtures';
+
+test('the demo owner signs in and sees the Kiln & Quartz studio', async ({ page, guard }) => {
+  void guard;
+  await signIn(page, 'owner@kilnquartz.example', 'amber-glow-demo');
+  await expect(page).toHaveURL(/\/studios\/[0-9a-f-]+\/bench$/);
+  await expect(page.getByRole('button', { name: 'Switch studio' })).toContainText('Kiln & Quartz');
+  await expect(page.getByLabel('Your role: owner')).toBeVisible();
+  await page.getByRole('link', { name: 'Members' }).click();
+  await expect(page.getByRole('table', { name: 'Studio members' })).toContainText('editor@kilnquartz.example');
+  await page.screenshot({ path: test.info().outputPath('demo-members.png'), fullPage: true });
+});
+
+test('sign up → reset the password by mail → sign in → create a studio → invite → the invitee joins as viewer', async ({ page, browser, guard }, testInfo) => {
+  const founder = uniqueEmail('founder');
+  await page.goto('/sign-up');
+  await page.getByLabel('Your name').fill('Ada Founder');
+  await page.getByLabel('E-mail').fill(founder);
+  await page.getByLabel('Password').fill('short');
+  await page.getByRole('button', { name: 'Create account' }).click();
+  await expect(page.getByText('At least 8 characters (5 so far).')).toBeVisible();
+  await page.getByLabel('Password').fill('first passphrase');
+  await page.getByRole('button', { name: 'Create account' }).click();
+  await expect(page.getByRole('heading', { name: 'Your studios' })).toBeVisible();
+  await expect(page.getByText('You are not in a studio yet.')).toBeVisible();
+  await page.getByRole('button', { name: 'Sign out' }).click();
+  await expect(page).toHaveURL(/\/sign-in$/);
+
+  // Forgotten password: the link arrives over SMTP at the mail catcher.
+  await page.getByRole('link', { name: 'Forgot password?' }).click();
+  await page.getByLabel('E-mail').fill(founder);
+  await page.getByRole('button', { name: 'Send reset link' }).click();
+  await expect(page.getByRole('status')).toContainText('reset link is on its way');
+  const resetLink = await waitForMail(founder, /http:\/\/127\.0\.0\.1:\d+\/reset-password\?token=[A-Za-z0-9_-]+/);
+  await page.goto(resetLink);
+  await page.getByRole('textbox', { name: 'New password' }).fill('second passphrase');
+  await page.getByRole('button', { name: 'Set password' }).click();
+  await expect(page.getByRole('status')).toContainText('Password changed');
+
+  await signIn(page, founder, 'first passphrase');
+  await expect(page.getByRole('alert').filter({ hasText: 'not right' })).toBeVisible();
+  await signIn(page, founder, 'second passphrase');
+  await expect(page.getByRole('heading', { name: 'Your studios' })).toBeVisible();
+
+  await page.getByLabel('Studio name').fill('Lantern Works');
+  await page.getByRole('button', { name: 'Create studio' }).click();
+  await expect(page).toHaveURL(/\/bench$/);
+  await page.getByRole('link', { name: 'Members' }).click();
+  const invitee = uniqueEmail('invitee');
+  await page.getByRole('textbox', { name: 'E-mail' }).fill(invitee);
+  await page.getByRole('button', { name: 'Send invite' }).click();
+  await expect(page.getByRole('list', { name: 'Pending invites' })).toContainText(invitee);
+  await page.screenshot({ path: testInfo.outputPath('owner-members.png'), fullPage: true });
+
+  // The invitee opens the mailed link in their own browser, creates an account and joins.
+  const inviteLink = await waitForMail(invitee, /http:\/\/127\.0\.0\.1:\d+\/invites\/[A-Za-z0-9_-]+/);
+  const context = await browser.newContext();
+  const second = await context.newPage();
+  guard.watch(second);
+  await second.goto(inviteLink);
+  await expect(second.getByText('You are invited to Lantern Works as viewer')).toBeVisible();
+  await second.getByRole('link', { name: 'Create an account' }).click();
+  await second.getByLabel('Your name').fill('Vic Invitee');
+  await second.getByLabel('E-mail').fill(invitee);
+  await second.getByLabel('Password').fill('invitee passphrase');
+  await second.getByRole('button', { name: 'Create account' }).click();
+  await second.getByRole('button', { name: 'Join Lantern Works' }).click();
+  await expect(second).toHaveURL(/\/bench$/);
+  await expect(second.getByLabel('Your role: viewer')).toBeVisible();
+  await second.getByRole('link', { name: 'Members' }).click();
+  await expect(second.getByRole('table', { name: 'Studio members' })).toContainText(founder);
+  await expect(second.getByRole('button', { name: 'Send invite' })).toHaveCount(0);
+  await expect(second.getByRole('combobox', { name: /Role of/ })).toHaveCount(0);
+  await expect(second.getByRole('button', { name: /^Remove / })).toHaveCount(0);
+  await second.screenshot({ path: testInfo.outputPath('viewer-members.png'), fullPage: true });
+  await context.close();
+});
+
+test('keyboard only: sign in with Tab and Enter', async ({ page, guard }) => {
+  void guard;
+  await page.goto('/sign-in');
+  await page.getByLabel('E-mail').focus();
+  await page.keyboard.type('viewer@kilnquartz.example');
+  await page.keyboard.press('Tab');
+  await page.keyboard.type('amber-glow-demo');
+  await page.keyboard.press('Enter');
+  await expect(page.getByLabel('Your role: viewer')).toBeVisible();
+});
