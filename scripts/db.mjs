@@ -89,17 +89,20 @@ function createDatabase(name) {
   }
 }
 
+/** Starts the cluster if needed and creates the databases; returns true when this call started it. */
 export function start(databases = ['emberline']) {
   const bin = ensureBinaries();
   ensureDirs();
   initCluster(bin);
-  if (!isRunning(bin)) {
+  const wasRunning = isRunning(bin);
+  if (!wasRunning) {
     const opts = `-c listen_addresses=127.0.0.1 -p ${pgPort} -k ${socketDir} -c fsync=on`;
     const r = runPg(bin, 'pg_ctl', ['-D', clusterDir, '-l', logFile, '-w', '-t', '30', '-o', opts, 'start']);
     if (r.status !== 0) throw new Error(`pg_ctl start failed (see .data/pg.log):\n${r.stdout}\n${r.stderr}`);
     console.log(`[db] PostgreSQL listening on 127.0.0.1:${pgPort}`);
   }
   for (const name of databases) createDatabase(name);
+  return !wasRunning;
 }
 
 export function stop() {

@@ -4,15 +4,20 @@
 // Playwright browser tests in Debian's chromium (installed when missing).
 import { execFileSync, spawnSync } from 'node:child_process';
 import { existsSync } from 'node:fs';
-import { pgPort, start as startDb } from './db.mjs';
+import { pgPort, start as startDb, stop as stopDb } from './db.mjs';
 
 const only = process.argv[2]; // optional: "unit" or "e2e"
+// Stop the database afterwards only if this run started it.
+const startedDb = startDb(['postgres']);
+const finish = (code) => {
+  if (startedDb) stopDb();
+  process.exit(code);
+};
 const run = (cmd, args, env = {}) => {
   const r = spawnSync(cmd, args, { stdio: 'inherit', env: { ...process.env, ...env } });
-  if (r.status !== 0) process.exit(r.status ?? 1);
+  if (r.status !== 0) finish(r.status ?? 1);
 };
 
-startDb(['postgres']);
 const psql = (sql) => spawnSync('psql', ['-h', '127.0.0.1', '-p', String(pgPort), '-U', 'emberline', '-d', 'postgres', '-qc', sql], { stdio: 'inherit' });
 
 if (only !== 'e2e') {
@@ -31,3 +36,4 @@ if (only !== 'unit') {
   run('npx', ['ng', 'build']);
   run('npx', ['playwright', 'test']);
 }
+finish(0);

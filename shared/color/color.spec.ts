@@ -1,0 +1,111 @@
+import Color from 'colorjs.io';
+import { readFileSync } from 'node:fs';
+import path from 'node:path';
+import { CIE_X, CIE_Y, CIE_Z } from './cie1931';
+import { chromaticityToXyz, cmfAt, emissionColour, gamutMap, spectrumToXyz } from './emission';
+import { encode8, REC601, REC709, srgbDecode, srgbEncode, xyzToLinearSrgb } from './srgb';
+
+describe('sRGB transfer, IEC 61966-2-1 [std]', () => {
+  test.each([
+    ['128/255 decodes to 0.2158605', () => srgbDecode(128 / 255), 0.2158605, 6],
+    ['linear 0.5 encodes to 187.516/255', () => srgbEncode(0.5) * 255, 187.516, 2],
+    ['decode threshold 0.04045 is continuous', () => srgbDecode(0.04045) - ((0.04045 + 0.055) / 1.055) ** 2.4, 0, 6],
+    ['encode threshold 0.0031308 is continuous', () => srgbEncode(0.0031308) - (1.055 * 0.0031308 ** (1 / 2.4) - 0.055), 0, 6],
+  ])('%s', (_name, actual, expected, digits) => {
+    expect(actual()).toBeCloseTo(expected, digits);
+  });
+
+  test('encode8 round-trips every 8-bit code value', () => {
+    for (let c = 0; c < 256; c++) expect(encode8(srgbDecode(c / 255))).toBe(c);
+  });
+
+  test('decode agrees with colorjs.io (independent library) across the range', () => {
+    for (let c = 0; c <= 255; c += 17) {
+      const lin = new Color('srgb', [c / 255, 0, 0]).to('srgb-linear').coords[0]!;
+      expect(srgbDecode(c / 255)).toBeCloseTo(lin, 6);
+    }
+  });
+});
+
+describe('luma weights [std]', () => {
+  test('Rec. 709 0.2126/0.7152/0.0722 and Rec. 601 0.299/0.587/0.114, each summing to 1', () => {
+    expect([...REC709]).toEqual([0.2126, 0.7152, 0.0722]);
+    expect([...REC601]).toEqual([0.299, 0.587, 0.114]);
+    expect(REC709.reduce((a, b) => a + b)).toBeCloseTo(1, 12);
+    expect(REC601.reduce((a, b) => a + b)).toBeCloseTo(1, 12);
+  });
+
+  test('the XYZ → sRGB matrix maps D65 (0.3127, 0.3290) to equal R = G = B = 1', () => {
+    const rgb = xyzToLinearSrgb(chromaticityToXyz(0.3127, 0.329));
+    for (const c of rgb) expect(c).toBeCloseTo(1, 3);
+  });
+});
+
+describe('CIE 1931 2° table [std, CIE 015 / CIE 018]', () => {
+  test('the shipped TypeScript table equals the CSV row by row', () => {
+    const csv = readFileSync(path.join(__dirname, 'data/cie1931-2deg-1nm.csv'), 'utf8').trim().split('\n').slice(1);
+    expect(csv).toHaveLength(401);
+    csv.forEach((line, i) => {
+      const [nm, x, y, z] = line.split(',').map(Number);
+      expect(nm).toBe(380 + i);
+      expect([CIE_X[i], CIE_Y[i], CIE_Z[i]]).toEqual([x, y, z]);
+    });
+  });
+
+  test.each([
+    [580, 0.9163, 0.87, 0.00165],
+    [585, 0.9786, 0.8163, 0.0014],
+    [590, 1.0263, 0.757, 0.0011],
+  ])('%i nm: x̄ %f ȳ %f z̄ %f', (nm, x, y, z) => {
+    const [cx, cy, cz] = cmfAt(nm);
+    expect(cx).toBeCloseTo(x, 6);
+    expect(cy).toBeCloseTo(y, 6);
+    expect(cz).toBeCloseTo(z, 6);
+  });
+
+  test('spectrum-locus chromaticity at 585 nm is x 0.54479, y 0.45443 [calc from the table]', () => {
+    const c = emissionColour(spectrumToXyz([{ peakNm: 585, fwhmNm: 0, weight: 1 }]));
+    expect(c.x).toBeCloseTo(0.54479, 5);
+    expect(c.y).toBeCloseTo(0.45443, 5);
+  });
+});
+
+describe('emission colour', () => {
+  test('monochromatic 585 nm at Y = 1 is out of gamut: linear (2.34688, 0.71425, −0.13542) [calc]', () => {
+    const rgb = xyzToLinearSrgb(spectrumToXyz([{ peakNm: 585, fwhmNm: 0, weight: 1 }]));
+    expect(rgb[0]).toBeCloseTo(2.34688, 3);
+    expect(rgb[1]).toBeCloseTo(0.71425, 3);
+    expect(rgb[2]).toBeCloseTo(-0.13542, 3);
+  });
+
+  test('…and the gamut rule gives #FF9E00 [calc]', () => {
+    expect(emissionColour(spectrumToXyz([{ peakNm: 585, fwhmNm: 0, weight: 1 }])).hex).toBe('#FF9E00');
+  });
+
+  test('ZnS:Mn-like band 585 nm / 50 nm FWHM gives x,y ≈ (0.526, 0.472) [calc; paper for the band shape]', () => {
+    const c = emissionColour(spectrumToXyz([{ peakNm: 585, fwhmNm: 50, weight: 1 }]));
+    expect(c.x).toBeCloseTo(0.526, 3);
+    expect(c.y).toBeCloseTo(0.472, 3);
+  });
+
+  // colorjs.io computes the same gamut rule independently (its own XYZ-D65 → sRGB matrix): ±1 code value.
+  test.each([450, 505, 525, 560, 585, 602, 640])('%i nm hex agrees with colorjs.io within ±1 code value', (nm) => {
+    const ours = emissionColour(spectrumToXyz([{ peakNm: nm, fwhmNm: 0, weight: 1 }]));
+    const [X, Y, Z] = cmfAt(nm);
+    const lin = new Color('xyz-d65', [X / Y, 1, Z / Y]).to('srgb-linear').coords.map(Number) as [number, number, number];
+    const lift = Math.max(0, -Math.min(...lin));
+    const lifted = lin.map((c) => c + lift);
+    const peak = Math.max(...lifted);
+    const ref = new Color('srgb-linear', lifted.map((c) => c / peak) as [number, number, number]).to('srgb').coords.map((c) => Math.round(Number(c) * 255));
+    const oursCodes = [1, 3, 5].map((i) => parseInt(ours.hex.slice(i, i + 2), 16));
+    oursCodes.forEach((c, i) => expect(Math.abs(c - ref[i])).toBeLessThanOrEqual(1));
+  });
+
+  test('the gamut rule leaves in-gamut colours with their ratios and puts the largest channel at 1', () => {
+    expect(gamutMap([0.5, 0.25, 0.125])).toEqual([1, 0.5, 0.25]);
+  });
+
+  test('an emission with no visible light is refused', () => {
+    expect(() => spectrumToXyz([{ peakNm: 900, fwhmNm: 0, weight: 1 }])).toThrow(/no visible light/);
+  });
+});

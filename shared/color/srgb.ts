@@ -1,0 +1,42 @@
+// sRGB, IEC 61966-2-1: transfer functions and the XYZ → linear sRGB matrix (D65 white).
+
+/** Decodes an sRGB-encoded value (0–1) to linear light (IEC 61966-2-1, threshold 0.04045). */
+export function srgbDecode(v: number): number {
+  return v <= 0.04045 ? v / 12.92 : ((v + 0.055) / 1.055) ** 2.4;
+}
+
+/** Encodes linear light (0–1) to an sRGB value (IEC 61966-2-1, threshold 0.0031308). */
+export function srgbEncode(l: number): number {
+  return l <= 0.0031308 ? 12.92 * l : 1.055 * l ** (1 / 2.4) - 0.055;
+}
+
+/** Linear → 8-bit sRGB code value: clamped, rounded half up. */
+export function encode8(l: number): number {
+  const v = srgbEncode(Math.min(1, Math.max(0, l)));
+  return Math.floor(v * 255 + 0.5);
+}
+
+/** 256-entry table: 8-bit sRGB code value → linear light. */
+export const SRGB_TO_LINEAR = Float32Array.from({ length: 256 }, (_, i) => srgbDecode(i / 255));
+
+/** XYZ → linear sRGB (IEC 61966-2-1, rows R, G, B). */
+export const XYZ_TO_SRGB = [
+  [3.2406, -1.5372, -0.4986],
+  [-0.9689, 1.8758, 0.0415],
+  [0.0557, -0.204, 1.057],
+] as const;
+
+/** Multiplies an XYZ triple by XYZ_TO_SRGB. */
+export function xyzToLinearSrgb([x, y, z]: readonly [number, number, number]): [number, number, number] {
+  const m = XYZ_TO_SRGB;
+  return [m[0][0] * x + m[0][1] * y + m[0][2] * z, m[1][0] * x + m[1][1] * y + m[1][2] * z, m[2][0] * x + m[2][1] * y + m[2][2] * z];
+}
+
+/** Luma weights: Rec. 709 (relative luminance of linear sRGB) and Rec. 601 (on encoded values). */
+export const REC709 = [0.2126, 0.7152, 0.0722] as const;
+export const REC601 = [0.299, 0.587, 0.114] as const;
+
+/** Two hex digits per channel, upper case, from 8-bit codes. */
+export function hexOf(codes: readonly number[]): string {
+  return `#${codes.map((c) => c.toString(16).padStart(2, '0')).join('')}`.toUpperCase();
+}
