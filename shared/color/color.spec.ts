@@ -31,8 +31,8 @@ describe('luma weights [std]', () => {
   test('Rec. 709 0.2126/0.7152/0.0722 and Rec. 601 0.299/0.587/0.114, each summing to 1', () => {
     expect([...REC709]).toEqual([0.2126, 0.7152, 0.0722]);
     expect([...REC601]).toEqual([0.299, 0.587, 0.114]);
-    expect(REC709.reduce((a, b) => a + b)).toBeCloseTo(1, 12);
-    expect(REC601.reduce((a, b) => a + b)).toBeCloseTo(1, 12);
+    expect(REC709.reduce((a: number, c) => a + c, 0)).toBeCloseTo(1, 12);
+    expect(REC601.reduce((a: number, c) => a + c, 0)).toBeCloseTo(1, 12);
   });
 
   test('the XYZ → sRGB matrix maps D65 (0.3127, 0.3290) to equal R = G = B = 1', () => {

@@ -1,0 +1,138 @@
+import { z } from 'zod';
+
+/**
+ * Every parameter of the panel model, in physical units, grouped along the path of the light:
+ * Source → Drive → Cell → Emission → Glass → Viewing. The validation schema, the defaults and
+ * (later) the bench controls are all generated from this one table.
+ */
+export const GROUPS = ['source', 'drive', 'cell', 'emission', 'glass', 'viewing'] as const;
+export type Group = (typeof GROUPS)[number];
+
+interface Base {
+  group: Group;
+  key: string;
+  label: string;
+  /** One line: what it means physically. */
+  meaning: string;
+}
+export interface NumberSpec extends Base {
+  kind: 'number' | 'int';
+  min: number;
+  max: number;
+  unit: string;
+  step: number;
+}
+export interface EnumSpec extends Base {
+  kind: 'enum';
+  options: readonly string[];
+}
+export interface BoolSpec extends Base {
+  kind: 'bool';
+}
+export type ParamSpec = NumberSpec | EnumSpec | BoolSpec;
+
+const n = (group: Group, key: string, label: string, min: number, max: number, unit: string, step: number, meaning: string): NumberSpec => ({ group, key, label, kind: 'number', min, max, unit, step, meaning });
+const i = (group: Group, key: string, label: string, min: number, max: number, unit: string, meaning: string): NumberSpec => ({ group, key, label, kind: 'int', min, max, unit, step: 1, meaning });
+const e = (group: Group, key: string, label: string, options: readonly string[], meaning: string): EnumSpec => ({ group, key, label, kind: 'enum', options, meaning });
+const b = (group: Group, key: string, label: string, meaning: string): BoolSpec => ({ group, key, label, kind: 'bool', meaning });
+
+export const FIT_MODES = ['native', 'integer', 'area'] as const;
+export const LUMA_MODES = ['rec709', 'rec601'] as const;
+export const DITHERS = ['none', 'bayer2', 'bayer4', 'bayer8', 'cluster4', 'floyd-steinberg'] as const;
+export const CELL_MODES = ['matrix', 'crt'] as const;
+export const COLOUR_SOURCES = ['spectrum', 'chromaticity'] as const;
+export const FIELDS = ['both', 'odd', 'even'] as const;
+
+export const PARAMS: readonly ParamSpec[] = [
+  e('source', 'fit', 'Fit', FIT_MODES, 'How artwork pixels map onto panel cells: 1:1 centred, whole-number scale, or fit with area averaging'),
+  e('source', 'luma', 'Luma weights', LUMA_MODES, 'Rec. 709 relative luminance of linear light, or Rec. 601 luma of the encoded values'),
+  n('source', 'brightness', 'Brightness', -1, 1, '', 0.01, 'Offset added to the perceptual (sRGB-encoded) tone'),
+  n('source', 'contrast', 'Contrast', 0, 4, '×', 0.01, 'Gain of the perceptual tone about mid-gray 0.5'),
+  n('source', 'gamma', 'Gamma', 0.2, 5, '', 0.01, 'Exponent on the perceptual tone: above 1 darkens mid-tones'),
+  b('source', 'invert', 'Invert', 'Swap lit and dark: the artwork as a negative'),
+  n('source', 'threshold', 'Black clip', 0, 0.95, '', 0.01, 'Tones below this are driven off; the rest are stretched to fill the range'),
+
+  i('drive', 'grayLevels', 'Gray levels', 2, 16, 'levels', 'Distinct drive levels the panel can show (2 = on/off)'),
+  e('drive', 'dither', 'Dither', DITHERS, 'How in-between tones are spread over cells: none, ordered Bayer, clustered dot, or error diffusion'),
+  b('drive', 'serpentine', 'Serpentine scan', 'Error diffusion alternates row direction, which breaks up worm artefacts'),
+  n('drive', 'rowLoading', 'Row loading droop', 0, 0.5, '', 0.005, "A row's emission drops by this × its lit fraction (passive-matrix drive)"),
+  n('drive', 'refreshHz', 'Refresh rate', 20, 240, 'Hz', 0.5, 'Frames (or fields) per second the panel is refreshed at'),
+
+  e('cell', 'mode', 'Cell type', CELL_MODES, 'Matrix of separate cells, or CRT scan lines drawn by a beam'),
+  i('cell', 'cols', 'Columns', 8, 2048, 'cells', 'Cells across the panel'),
+  i('cell', 'rows', 'Rows', 8, 2048, 'cells', 'Cells (or scan lines) down the panel'),
+  n('cell', 'pitchXMm', 'Pitch across', 0.05, 5, 'mm', 0.005, 'Centre-to-centre distance of cells across'),
+  n('cell', 'pitchYMm', 'Pitch down', 0.05, 5, 'mm', 0.005, 'Centre-to-centre distance of cells (lines) down'),
+  n('cell', 'fillX', 'Fill across', 0.05, 1, '', 0.01, 'Share of the pitch the lit aperture covers across'),
+  n('cell', 'fillY', 'Fill down', 0.05, 1, '', 0.01, 'Share of the pitch the lit aperture covers down (matrix cells)'),
+  n('cell', 'spotSigma', 'Spot size', 0.1, 1, 'line pitch', 0.01, 'CRT beam spot: Gaussian σ of the line profile as a share of the line pitch'),
+  e('cell', 'field', 'Interlace field', FIELDS, 'CRT: both fields (progressive) or the moment one field is drawn over the fading other'),
+
+  e('emission', 'colourSource', 'Colour from', COLOUR_SOURCES, 'Emission colour from a spectrum of bands, or from stated CIE 1931 x, y'),
+  n('emission', 'peak1Nm', 'Band 1 peak', 380, 780, 'nm', 0.1, 'Peak wavelength of the main emission band or line'),
+  n('emission', 'fwhm1Nm', 'Band 1 width', 0, 200, 'nm', 0.5, 'Full width at half maximum of band 1 (0 = a spectral line)'),
+  n('emission', 'peak2Nm', 'Band 2 peak', 380, 780, 'nm', 0.1, 'Peak wavelength of a second band or line'),
+  n('emission', 'fwhm2Nm', 'Band 2 width', 0, 200, 'nm', 0.5, 'Full width at half maximum of band 2 (0 = a spectral line)'),
+  n('emission', 'band2Weight', 'Band 2 power', 0, 4, '× band 1', 0.01, 'Radiant power of band 2 relative to band 1 (0 = single band)'),
+  n('emission', 'chromaX', 'Chromaticity x', 0.001, 0.8, '', 0.0001, 'CIE 1931 x of the emission when colour comes from chromaticity'),
+  n('emission', 'chromaY', 'Chromaticity y', 0.001, 0.9, '', 0.0001, 'CIE 1931 y of the emission when colour comes from chromaticity'),
+  n('emission', 'decayMs', 'Decay time', 0, 2000, 'ms', 0.01, 'Time constant τ of the exponential afterglow (phosphor persistence)'),
+
+  n('glass', 'glowRadiusMm', 'Glow radius', 0, 20, 'mm', 0.01, 'Gaussian σ of light scattered in the glass near the cell'),
+  n('glass', 'glowShare', 'Glow share', 0, 0.9, '', 0.005, 'Share of emitted light that leaves as glow'),
+  n('glass', 'haloRadiusMm', 'Halo radius', 0, 40, 'mm', 0.01, 'Gaussian σ of the wide halo (light reflected inside the faceplate)'),
+  n('glass', 'haloShare', 'Halo share', 0, 0.5, '', 0.005, 'Share of emitted light that leaves as halo'),
+  b('glass', 'haloFromGlass', 'Halo from glass', 'Derive the halo radius from glass thickness and index: r = 2·t·tan(asin(1/n))'),
+  n('glass', 'glassThicknessMm', 'Glass thickness', 0.1, 20, 'mm', 0.05, 'Front glass (faceplate) thickness t'),
+  n('glass', 'refractiveIndex', 'Refractive index', 1.3, 2, '', 0.005, 'Refractive index n of the front glass'),
+
+  n('viewing', 'peakCdM2', 'Peak luminance', 1, 2000, 'cd/m²', 1, 'Luminance of a fully lit cell aperture'),
+  n('viewing', 'offCdM2', 'Off-state level', 0, 50, 'cd/m²', 0.05, 'Luminance of an unlit cell in the emission colour (leakage)'),
+  n('viewing', 'ambientCdM2', 'Ambient reflection', 0, 200, 'cd/m²', 0.1, 'Room light reflected by the panel face (neutral)'),
+  n('viewing', 'whiteCdM2', 'Display white', 1, 2000, 'cd/m²', 1, 'Luminance shown at full drive of the screen you are looking at'),
+  n('viewing', 'exposureEv', 'Exposure', -4, 4, 'EV', 0.1, 'Gain in photographic stops before display'),
+  n('viewing', 'knee', 'Soft knee', 0.5, 1, '', 0.01, 'Display level above which highlights roll off softly instead of clipping'),
+];
+
+/** The parameter set of one render: every group filled in. */
+export interface PanelParams {
+  source: { fit: (typeof FIT_MODES)[number]; luma: (typeof LUMA_MODES)[number]; brightness: number; contrast: number; gamma: number; invert: boolean; threshold: number };
+  drive: { grayLevels: number; dither: (typeof DITHERS)[number]; serpentine: boolean; rowLoading: number; refreshHz: number };
+  cell: { mode: (typeof CELL_MODES)[number]; cols: number; rows: number; pitchXMm: number; pitchYMm: number; fillX: number; fillY: number; spotSigma: number; field: (typeof FIELDS)[number] };
+  emission: { colourSource: (typeof COLOUR_SOURCES)[number]; peak1Nm: number; fwhm1Nm: number; peak2Nm: number; fwhm2Nm: number; band2Weight: number; chromaX: number; chromaY: number; decayMs: number };
+  glass: { glowRadiusMm: number; glowShare: number; haloRadiusMm: number; haloShare: number; haloFromGlass: boolean; glassThicknessMm: number; refractiveIndex: number };
+  viewing: { peakCdM2: number; offCdM2: number; ambientCdM2: number; whiteCdM2: number; exposureEv: number; knee: number };
+}
+
+function fieldSchema(spec: ParamSpec): z.ZodType {
+  const where = `${spec.group}.${spec.key}`;
+  if (spec.kind === 'bool') return z.boolean({ message: `${where} must be true or false` });
+  if (spec.kind === 'enum') return z.enum(spec.options as [string, ...string[]], { message: `${where} must be one of ${spec.options.join(', ')}` });
+  const range = `${spec.kind === 'int' ? 'a whole number' : 'a number'} from ${spec.min} to ${spec.max}${spec.unit ? ` ${spec.unit}` : ''}`;
+  const base = z.number({ message: `${where} must be ${range}` }).refine(Number.isFinite, { message: `${where} must be ${range}, got a non-finite value` });
+  return base.superRefine((v, ctx) => {
+    if (v < spec.min || v > spec.max || (spec.kind === 'int' && !Number.isInteger(v))) ctx.addIssue({ code: 'custom', message: `${where} must be ${range}, got ${v}` });
+  });
+}
+
+/** The strict schema of PanelParams: every group and key required, unknown keys refused. */
+export const panelParamsSchema = z.strictObject(
+  Object.fromEntries(
+    GROUPS.map((g) => [g, z.strictObject(Object.fromEntries(PARAMS.filter((p) => p.group === g).map((p) => [p.key, fieldSchema(p)])))]),
+  ),
+) as unknown as z.ZodType<PanelParams>;
+
+/** A partial override of PanelParams (every key optional), validated the same way. */
+export const panelParamsPatchSchema = z.strictObject(
+  Object.fromEntries(
+    GROUPS.map((g) => [g, z.strictObject(Object.fromEntries(PARAMS.filter((p) => p.group === g).map((p) => [p.key, fieldSchema(p).optional()]))).optional()]),
+  ),
+);
+export type PanelParamsPatch = { [G in Group]?: Partial<PanelParams[G]> };
+
+/** Applies a patch to full parameters (a new object; the inputs are not changed). */
+export function mergeParams(base: PanelParams, patch: PanelParamsPatch): PanelParams {
+  const out = structuredClone(base) as unknown as Record<string, Record<string, unknown>>;
+  for (const g of GROUPS) Object.assign(out[g], patch[g] ?? {});
+  return out as unknown as PanelParams;
+}

@@ -1,0 +1,106 @@
+import { SRGB_TO_LINEAR } from '../../color/srgb';
+import type { PanelParams } from '../../model/parameters';
+import type { RgbaImage } from '../types';
+
+/** Linear-light RGB per panel cell (3 floats a cell), transparent pixels composited on black. */
+export interface CellRgb {
+  cols: number;
+  rows: number;
+  data: Float32Array;
+}
+
+/** How artwork pixels land on the grid: scale (cells per pixel, x and y) and offset (cells). */
+export interface Placement {
+  scaleX: number;
+  scaleY: number;
+  offsetX: number;
+  offsetY: number;
+}
+
+/**
+ * Where the artwork goes. native: one pixel per cell, centred (crop or pad). integer: the
+ * largest whole-number enlargement that fits, or the smallest whole-number reduction
+ * (1/k). area: the largest scale that fits, keeping the artwork's physical aspect on cells of
+ * pitch pitchX × pitchY.
+ */
+export function placement(width: number, height: number, cell: PanelParams['cell'], fit: PanelParams['source']['fit']): Placement {
+  const { cols, rows } = cell;
+  let sx = 1;
+  let sy = 1;
+  if (fit === 'integer') {
+    const up = Math.floor(Math.min(cols / width, rows / height));
+    const s = up >= 1 ? up : 1 / Math.ceil(Math.max(width / cols, height / rows));
+    sx = sy = s;
+  } else if (fit === 'area') {
+    // A pixel is square on the artwork; keep that on cells of aspect pitchX : pitchY.
+    const aspect = cell.pitchXMm / cell.pitchYMm;
+    const s = Math.min(cols / width, rows / (height / aspect));
+    sx = s;
+    sy = s / aspect;
+  }
+  return { scaleX: sx, scaleY: sy, offsetX: (cols - width * sx) / 2, offsetY: (rows - height * sy) / 2 };
+}
+
+/** Overlap length of [a0, a1] and [b0, b1]. */
+const overlap = (a0: number, a1: number, b0: number, b1: number) => Math.max(0, Math.min(a1, b1) - Math.max(a0, b0));
+
+/**
+ * Resamples the artwork onto the grid by exact area averaging in linear light: each cell's value
+ * is the mean of the pixels under it, weighted by their overlap (so a 1:1 placement copies and an
+ * integer enlargement repeats pixels exactly). Areas outside the artwork are black.
+ */
+export function fitToGrid(image: RgbaImage, cell: PanelParams['cell'], fit: PanelParams['source']['fit'], out?: CellRgb): CellRgb {
+  const { cols, rows } = cell;
+  const result = out ?? { cols, rows, data: new Float32Array(cols * rows * 3) };
+  result.data.fill(0);
+  const p = placement(image.width, image.height, cell, fit);
+  // Per axis: for each cell, the pixel span and weights it covers (separable box overlap).
+  const spans = (n: number, scale: number, offset: number, size: number) =>
+    Array.from({ length: n }, (_, c) => {
+      const x0 = (c - offset) / scale;
+      const x1 = (c + 1 - offset) / scale;
+      const first = Math.max(0, Math.floor(x0));
+      const last = Math.min(size - 1, Math.ceil(x1) - 1);
+      const idx: number[] = [];
+      const w: number[] = [];
+      for (let px = first; px <= last; px++) {
+        const o = overlap(x0, x1, px, px + 1) * scale;
+        if (o > 1e-9) {
+          idx.push(px);
+          w.push(o);
+        }
+      }
+      return { idx, w };
+    });
+  const xs = spans(cols, p.scaleX, p.offsetX, image.width);
+  const ys = spans(rows, p.scaleY, p.offsetY, image.height);
+  const src = image.data;
+  const dst = result.data;
+  for (let r = 0; r < rows; r++) {
+    const sy = ys[r];
+    if (!sy.idx.length) continue;
+    for (let c = 0; c < cols; c++) {
+      const sx = xs[c];
+      if (!sx.idx.length) continue;
+      let R = 0;
+      let G = 0;
+      let B = 0;
+      for (let j = 0; j < sy.idx.length; j++) {
+        const row = sy.idx[j] * image.width;
+        const wy = sy.w[j];
+        for (let k = 0; k < sx.idx.length; k++) {
+          const o = (row + sx.idx[k]) * 4;
+          const w = wy * sx.w[k] * (src[o + 3] / 255);
+          R += w * SRGB_TO_LINEAR[src[o]];
+          G += w * SRGB_TO_LINEAR[src[o + 1]];
+          B += w * SRGB_TO_LINEAR[src[o + 2]];
+        }
+      }
+      const d = (r * cols + c) * 3;
+      dst[d] = R;
+      dst[d + 1] = G;
+      dst[d + 2] = B;
+    }
+  }
+  return result;
+}

@@ -1,0 +1,75 @@
+import sharp from 'sharp';
+import { extendedBox, extendedBoxVariance, gaussianBlur } from './blur';
+import { fluxField, glowPlan, haloRadiusFromGlass } from './glow';
+import { PANEL_TYPES } from '../../model/panel-types';
+
+describe('extended box cascade', () => {
+  test.each([0.3, 0.8, 1.5, 2.7, 5, 12.5])('three passes at σ = %f have variance exactly σ²', (sigma) => {
+    const { r, alpha } = extendedBox(sigma);
+    expect(3 * extendedBoxVariance(r, alpha)).toBeCloseTo(sigma * sigma, 9);
+    expect(alpha).toBeGreaterThanOrEqual(0);
+    expect(alpha).toBeLessThan(1);
+  });
+
+  test('an impulse blurred far from the edges keeps its energy and its variance is σ² per axis', () => {
+    const w = 101;
+    const data = new Float32Array(w * w);
+    data[50 * w + 50] = 1;
+    const out = gaussianBlur(data, w, w, 4, 2.5);
+    let sum = 0;
+    let vx = 0;
+    let vy = 0;
+    for (let y = 0; y < w; y++) for (let x = 0; x < w; x++) {
+      const v = out[y * w + x];
+      sum += v;
+      vx += v * (x - 50) ** 2;
+      vy += v * (y - 50) ** 2;
+    }
+    expect(sum).toBeCloseTo(1, 5);
+    expect(vx).toBeCloseTo(16, 3);
+    expect(vy).toBeCloseTo(6.25, 3);
+  });
+
+  // Independent reference: libvips' Gaussian via sharp (minAmplitude 0.001, float precision).
+  // Both see an 8-bit pattern far from the edges. Tolerance: worst pixel 6/255 (2.4 % of full
+  // scale: three boxes are a Gaussian of the right variance, not of exactly its shape, plus
+  // sharp's 8-bit rounding) and mean absolute difference 0.75/255.
+  test.each([1.5, 3, 6])('matches sharp/libvips blur(σ = %f) on a bar and square pattern', async (sigma) => {
+    const w = 96;
+    const src = new Uint8Array(w * w);
+    for (let y = 30; y < 66; y++) for (let x = 30; x < 66; x++) if (x < 40 || (x > 50 && x < 53) || (y > 58 && x > 56)) src[y * w + x] = 255;
+    const ref = await sharp(src, { raw: { width: w, height: w, channels: 1 } }).blur({ sigma, minAmplitude: 0.001, precision: 'float' }).toColourspace('b-w').raw().toBuffer();
+    const ours = gaussianBlur(Float32Array.from(src), w, w, sigma, sigma);
+    let worst = 0;
+    let total = 0;
+    for (let i = 0; i < ours.length; i++) {
+      const d = Math.abs(ours[i] - ref[i]);
+      worst = Math.max(worst, d);
+      total += d;
+    }
+    expect(worst).toBeLessThanOrEqual(6);
+    expect(total / ours.length).toBeLessThanOrEqual(0.75);
+  });
+});
+
+describe('glass', () => {
+  test('halation ring radius r = 2·t·tan(asin(1/n)): n = 1.52 → 1.747·t [classical CRT optics, from memory]', () => {
+    expect(haloRadiusFromGlass(1, 1.52)).toBeCloseTo(1.747, 3);
+    expect(haloRadiusFromGlass(10, 1.52)).toBeCloseTo(17.47, 2);
+  });
+
+  test('a glow narrower than 1.5 cells is computed on an oversampled grid', () => {
+    const el = PANEL_TYPES[0].defaults;
+    const plan = glowPlan(el.cell, { ...el.glass, glowRadiusMm: 0.3 * 0.5 });
+    expect(plan.oversample).toBe(3);
+    expect(plan.glow.sigmaX).toBeCloseTo(1.5, 9);
+    expect(glowPlan(el.cell, { ...el.glass, glowRadiusMm: 3, haloRadiusMm: 6 }).oversample).toBe(1);
+  });
+
+  test('the flux field holds each cell’s light times its aperture area', () => {
+    const cell = { ...PANEL_TYPES[0].defaults.cell, cols: 3, rows: 2, fillX: 0.5, fillY: 0.75 };
+    const flux = fluxField(new Float32Array([1, 0, 0.5, 0, 0, 1]), cell, 4);
+    const total = flux.data.reduce((a, b) => a + b, 0) / 16;
+    expect(total).toBeCloseTo((1 + 0.5 + 1) * 0.5 * 0.75, 9);
+  });
+});

@@ -1,0 +1,84 @@
+import type { PanelParams } from '../../model/parameters';
+
+/** Bayer's recursive ordered-dither matrix M₂ₙ = [[4M, 4M+2], [4M+3, 4M+1]] (Bayer, IEEE ICC 1973). */
+export function bayerMatrix(size: 2 | 4 | 8): number[][] {
+  let m = [[0, 2], [3, 1]];
+  while (m.length < size) {
+    const n = m.length;
+    const next = Array.from({ length: 2 * n }, () => new Array<number>(2 * n).fill(0));
+    for (let y = 0; y < n; y++) {
+      for (let x = 0; x < n; x++) {
+        const v = 4 * m[y][x];
+        next[y][x] = v;
+        next[y][x + n] = v + 2;
+        next[y + n][x] = v + 3;
+        next[y + n][x + n] = v + 1;
+      }
+    }
+    m = next;
+  }
+  return m;
+}
+
+/**
+ * A 4 × 4 clustered-dot ordered matrix: dots grow from the centre of each cell of the screen
+ * (the classic clustered-dot ordering of Ulichney, "Digital Halftoning", 1987 — from memory).
+ */
+export const CLUSTER4 = [
+  [12, 5, 6, 13],
+  [4, 0, 1, 7],
+  [11, 3, 2, 8],
+  [15, 10, 9, 14],
+];
+
+/** Floyd–Steinberg error weights, Proc. SID 17(2), 1976: right, below-left, below, below-right. */
+export const FLOYD_STEINBERG = { right: 7 / 16, belowLeft: 3 / 16, below: 5 / 16, belowRight: 1 / 16 } as const;
+
+/**
+ * Quantises drive demand (linear, 0–1) to the panel's gray levels. Ordered dithers add the
+ * threshold (M + 0.5)/N² before flooring; error diffusion carries each cell's error forward
+ * with the Floyd–Steinberg weights (serpentine: alternate row direction).
+ */
+export function quantise(demand: Float32Array, cols: number, rows: number, drive: PanelParams['drive'], out?: Float32Array): Float32Array {
+  const result = out ?? new Float32Array(cols * rows);
+  const steps = drive.grayLevels - 1;
+  const d = drive.dither;
+  if (d === 'floyd-steinberg') return diffuse(demand, cols, rows, steps, drive.serpentine, result);
+  const matrix = d === 'none' ? null : d === 'cluster4' ? CLUSTER4 : bayerMatrix(Number(d.slice(5)) as 2 | 4 | 8);
+  const size = matrix?.length ?? 1;
+  const cells = size * size;
+  for (let y = 0; y < rows; y++) {
+    for (let x = 0; x < cols; x++) {
+      const i = y * cols + x;
+      const t = matrix ? (matrix[y % size][x % size] + 0.5) / cells : 0.5;
+      result[i] = Math.min(steps, Math.floor(demand[i] * steps + t)) / steps;
+    }
+  }
+  return result;
+}
+
+function diffuse(demand: Float32Array, cols: number, rows: number, steps: number, serpentine: boolean, out: Float32Array): Float32Array {
+  // Two rows of carried error (this row and the next), with one guard cell at each end.
+  let cur = new Float64Array(cols + 2);
+  let next = new Float64Array(cols + 2);
+  const w = FLOYD_STEINBERG;
+  for (let y = 0; y < rows; y++) {
+    const reverse = serpentine && y % 2 === 1;
+    const dir = reverse ? -1 : 1;
+    for (let k = 0; k < cols; k++) {
+      const x = reverse ? cols - 1 - k : k;
+      const i = y * cols + x;
+      const want = demand[i] + cur[x + 1];
+      const q = Math.min(steps, Math.max(0, Math.round(want * steps))) / steps;
+      out[i] = q;
+      const err = want - q;
+      cur[x + 1 + dir] += err * w.right;
+      next[x + 1 - dir] += err * w.belowLeft;
+      next[x + 1] += err * w.below;
+      next[x + 1 + dir] += err * w.belowRight;
+    }
+    [cur, next] = [next, cur];
+    next.fill(0);
+  }
+  return out;
+}

@@ -1,0 +1,60 @@
+/**
+ * The output stage's formulas, one pure function each; the shader (bench) writes the same ones
+ * in GLSL.
+ */
+
+/** Overlap length of [a0, a1] and [b0, b1]. */
+export function overlap1d(a0: number, a1: number, b0: number, b1: number): number {
+  return Math.max(0, Math.min(a1, b1) - Math.max(a0, b0));
+}
+
+/** Coverage of output pixel [p, p+1] by the aperture of cell `c` (size s px, fill f), exact. */
+export function apertureCoverage(p: number, c: number, s: number, f: number): number {
+  const centre = (c + 0.5) * s;
+  const half = (f * s) / 2;
+  return overlap1d(p, p + 1, centre - half, centre + half);
+}
+
+/**
+ * erf by Abramowitz & Stegun 7.1.26 (|error| ≤ 1.5·10⁻⁷), the same polynomial in the shader.
+ */
+export function erf(x: number): number {
+  const s = x < 0 ? -1 : 1;
+  const a = Math.abs(x);
+  const t = 1 / (1 + 0.3275911 * a);
+  const y = 1 - ((((1.061405429 * t - 1.453152027) * t + 1.421413741) * t - 0.284496736) * t + 0.254829592) * t * Math.exp(-a * a);
+  return s * y;
+}
+
+/**
+ * A CRT line's light falling on output row [p, p+1]: the line (centre of row `r`, pitch s px)
+ * has a Gaussian profile of σ px whose integral is one line pitch, so a flat field of lines
+ * averages to a fully lit aperture.
+ */
+export function lineCoverage(p: number, r: number, s: number, sigma: number): number {
+  const centre = (r + 0.5) * s;
+  const k = 1 / (Math.SQRT2 * sigma);
+  return (s / 2) * (erf((p + 1 - centre) * k) - erf((p - centre) * k));
+}
+
+/** Soft knee: identity up to k, then k + (1−k)(1 − e^(−(x−k)/(1−k))), approaching 1 smoothly (C¹). */
+export function softKnee(x: number, k: number): number {
+  if (x <= k || k >= 1) return Math.min(x, 1);
+  const span = 1 - k;
+  return k + span * (1 - Math.exp(-(x - k) / span));
+}
+
+/** Bilinear sample of a field at continuous sample coordinates (u, v), clamped at the edges. */
+export function bilinear(data: Float32Array, width: number, height: number, u: number, v: number): number {
+  const x = Math.min(Math.max(u, 0), width - 1);
+  const y = Math.min(Math.max(v, 0), height - 1);
+  const x0 = Math.floor(x);
+  const y0 = Math.floor(y);
+  const x1 = Math.min(x0 + 1, width - 1);
+  const y1 = Math.min(y0 + 1, height - 1);
+  const tx = x - x0;
+  const ty = y - y0;
+  const top = data[y0 * width + x0] * (1 - tx) + data[y0 * width + x1] * tx;
+  const bottom = data[y1 * width + x0] * (1 - tx) + data[y1 * width + x1] * tx;
+  return top * (1 - ty) + bottom * ty;
+}

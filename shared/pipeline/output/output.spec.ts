@@ -1,0 +1,63 @@
+import { apertureCoverage, erf, lineCoverage, softKnee } from './formulas';
+
+describe('cell aperture coverage (exact box overlap)', () => {
+  test('pixels fully inside, outside and across an aperture edge', () => {
+    // Cell 0 at 4 px per cell with fill 0.5 spans [1, 3].
+    expect([0, 1, 2, 3].map((p) => apertureCoverage(p, 0, 4, 0.5))).toEqual([0, 1, 1, 0]);
+    // Fill 0.75 spans [0.5, 3.5]: half pixels at both ends.
+    expect([0, 1, 2, 3].map((p) => apertureCoverage(p, 0, 4, 0.75))).toEqual([0.5, 1, 1, 0.5]);
+  });
+
+  test('coverage of a cell summed over pixels is its aperture width', () => {
+    for (const [s, f] of [[3, 0.72], [2.5, 0.6], [7, 1]] as const) {
+      let sum = 0;
+      for (let p = -2; p < 20; p++) sum += apertureCoverage(p, 1, s, f);
+      expect(sum).toBeCloseTo(s * f, 9);
+    }
+  });
+});
+
+describe('CRT scan lines', () => {
+  test('erf (Abramowitz & Stegun 7.1.26) is within 1.5·10⁻⁷ of tabulated values [std math]', () => {
+    // erf(0.5) = 0.5204998778, erf(1) = 0.8427007929, erf(2) = 0.9953222650 (standard tables).
+    expect(Math.abs(erf(0.5) - 0.5204998778)).toBeLessThan(1.5e-7);
+    expect(Math.abs(erf(1) - 0.8427007929)).toBeLessThan(1.5e-7);
+    expect(Math.abs(erf(-2) + 0.995322265)).toBeLessThan(1.5e-7);
+  });
+
+  test('a line integrates to one line pitch', () => {
+    let sum = 0;
+    for (let p = -40; p < 60; p++) sum += lineCoverage(p, 1, 8, 2.4);
+    expect(sum).toBeCloseTo(8, 5);
+  });
+
+  test.each([
+    [0.3, 40],
+    [0.35, 40],
+    [0.4, 40],
+  ])('raster ripple of a flat field at σ = %f of the pitch follows 2·exp(−2π²σ²/p²) [calc]', (share, pitch) => {
+    const sigma = share * pitch;
+    const profile = Array.from({ length: pitch }, (_, p) => {
+      let v = 0;
+      for (let r = 0; r < 20; r++) v += lineCoverage(p + 10 * pitch, r, pitch, sigma);
+      return v;
+    });
+    const max = Math.max(...profile);
+    const min = Math.min(...profile);
+    const expected = 2 * Math.exp((-2 * Math.PI ** 2 * sigma ** 2) / pitch ** 2);
+    // The formula keeps the fundamental only, and 1/40-pitch pixels average the profile
+    // slightly (box factor sinc(π/40) ≈ 0.999): agreement within 1 % relative.
+    expect(Math.abs((max - min) / (max + min) / expected - 1)).toBeLessThan(0.01);
+  });
+});
+
+describe('soft knee', () => {
+  test('identity below the knee, continuous at it, approaching 1 above', () => {
+    expect(softKnee(0.5, 0.8)).toBe(0.5);
+    expect(softKnee(0.8 + 1e-9, 0.8)).toBeCloseTo(0.8, 8);
+    expect(softKnee(5, 0.8)).toBeLessThan(1);
+    expect(softKnee(5, 0.8)).toBeGreaterThan(0.99);
+    // Slope 1 at the knee (C¹).
+    expect((softKnee(0.8 + 1e-6, 0.8) - softKnee(0.8, 0.8)) / 1e-6).toBeCloseTo(1, 4);
+  });
+});

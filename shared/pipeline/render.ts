@@ -1,0 +1,63 @@
+import type { PanelParams } from '../model/parameters';
+import { fitToGrid } from './fit/fit';
+import { glowField, glowPlan } from './glow/glow';
+import { quantise } from './levels/levels';
+import { compose } from './output/compose';
+import { outputUniforms } from './output/uniforms';
+import { decayFactor, interlaceField, persist } from './persistence/persistence';
+import { rowLoading } from './row-loading/row-loading';
+import { tone } from './tone/tone';
+import type { Field, Frame, RgbaImage } from './types';
+
+/** Bumped whenever a stage's output can change for the same input; part of the render cache key. */
+export const PIPELINE_VERSION = 1;
+
+/** Panel refreshes an animation frame lasts at the panel's refresh rate (at least one). */
+export function refreshesOf(delayMs: number, refreshHz: number): number {
+  return Math.max(1, Math.round((delayMs * refreshHz) / 1000));
+}
+
+/** Stages 1–4 for one image: fit, tone, levels, row loading → emission per cell (0–1). */
+export function driveImage(frame: Frame['image'], p: PanelParams): Float32Array {
+  const rgb = fitToGrid(frame, p.cell, p.source.fit);
+  const demand = tone(rgb, p.source);
+  const levels = quantise(demand, p.cell.cols, p.cell.rows, p.drive);
+  return rowLoading(levels, p.cell.cols, p.cell.rows, p.drive.rowLoading);
+}
+
+/**
+ * Panel-resolution result for frame `index` of an animation (a still is one frame): emission per
+ * cell with persistence from the frames before it (starting from a dark panel) and, on a CRT
+ * showing one field, the other field's afterglow.
+ */
+export function panelEmission(frames: readonly Frame[], p: PanelParams, index = 0): Float32Array {
+  if (index < 0 || index >= frames.length) throw new RangeError(`frame must be from 0 to ${frames.length - 1}, got ${index}`);
+  const periodMs = 1000 / p.drive.refreshHz;
+  const decay = decayFactor(periodMs, p.emission.decayMs);
+  const n = p.cell.cols * p.cell.rows;
+  let emission = driveImage(frames[0].image, p);
+  if (frames.length > 1 && decay > 0) {
+    const state = new Float32Array(n);
+    const shown = new Float32Array(n);
+    for (let k = 0; k <= index; k++) {
+      const drive = k === 0 ? emission : driveImage(frames[k].image, p);
+      persist(state, drive, refreshesOf(frames[k].delayMs, p.drive.refreshHz), decay, shown);
+    }
+    emission = shown;
+  } else if (index > 0) {
+    emission = driveImage(frames[index].image, p);
+  }
+  if (p.cell.mode === 'crt' && p.cell.field !== 'both') interlaceField(emission, p.cell.cols, p.cell.rows, p.cell.field, decay);
+  return emission;
+}
+
+/** The glow field for an emission image (panel or oversampled resolution). */
+export function panelGlow(emission: Float32Array, p: PanelParams): Field {
+  return glowField(emission, p.cell, glowPlan(p.cell, p.glass));
+}
+
+/** The whole pipeline on the CPU: frames + parameters → the output image at `scale` px per pitch. */
+export function renderCpu(frames: readonly Frame[], p: PanelParams, options: { scale: number; frame?: number }): RgbaImage {
+  const emission = panelEmission(frames, p, options.frame ?? 0);
+  return compose(emission, panelGlow(emission, p), outputUniforms(p, options.scale));
+}

@@ -1,0 +1,31 @@
+import { REC601, REC709, srgbDecode, srgbEncode } from '../../color/srgb';
+import type { PanelParams } from '../../model/parameters';
+import type { CellRgb } from '../fit/fit';
+
+/**
+ * Tone: linear RGB per cell → drive demand in linear light (0–1). Luma by Rec. 709 on linear
+ * light (or Rec. 601 on the encoded values), then in the perceptual (sRGB-encoded) domain:
+ * contrast about 0.5, brightness offset, gamma exponent, invert, black clip; finally decoded
+ * back to linear light, where levels and dithering work (so dithering keeps mean luminance).
+ */
+export function tone(rgb: CellRgb, source: PanelParams['source'], out?: Float32Array): Float32Array {
+  const n = rgb.cols * rgb.rows;
+  const result = out ?? new Float32Array(n);
+  const { brightness, contrast, gamma, invert, threshold } = source;
+  const rec601 = source.luma === 'rec601';
+  for (let i = 0; i < n; i++) {
+    const R = rgb.data[i * 3];
+    const G = rgb.data[i * 3 + 1];
+    const B = rgb.data[i * 3 + 2];
+    let p = rec601
+      ? REC601[0] * srgbEncode(R) + REC601[1] * srgbEncode(G) + REC601[2] * srgbEncode(B)
+      : srgbEncode(REC709[0] * R + REC709[1] * G + REC709[2] * B);
+    p = (p - 0.5) * contrast + 0.5 + brightness;
+    p = Math.min(1, Math.max(0, p));
+    p = p ** gamma;
+    if (invert) p = 1 - p;
+    p = p <= threshold ? 0 : (p - threshold) / (1 - threshold);
+    result[i] = srgbDecode(p);
+  }
+  return result;
+}
