@@ -34,9 +34,9 @@ export function placement(width: number, height: number, cell: PanelParams['cell
   } else if (fit === 'area') {
     // A pixel is square on the artwork; keep that on cells of aspect pitchX : pitchY.
     const aspect = cell.pitchXMm / cell.pitchYMm;
-    const s = Math.min(cols / width, rows / (height / aspect));
+    const s = Math.min(cols / width, rows / (height * aspect));
     sx = s;
-    sy = s / aspect;
+    sy = s * aspect;
   }
   return { scaleX: sx, scaleY: sy, offsetX: (cols - width * sx) / 2, offsetY: (rows - height * sy) / 2 };
 }

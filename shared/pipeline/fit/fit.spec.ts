@@ -1,0 +1,49 @@
+import { fitToGrid, placement } from './fit';
+import { PANEL_TYPES } from '../../model/panel-types';
+import { srgbDecode } from '../../color/srgb';
+
+const cell = (cols: number, rows: number, pitchYMm = 0.3) => ({ ...PANEL_TYPES[0].defaults.cell, cols, rows, pitchXMm: 0.3, pitchYMm });
+const gray = (w: number, h: number, f: (x: number, y: number) => number) => {
+  const data = new Uint8Array(w * h * 4);
+  for (let y = 0; y < h; y++) for (let x = 0; x < w; x++) data.set([f(x, y), f(x, y), f(x, y), 255], (y * w + x) * 4);
+  return { width: w, height: h, data };
+};
+
+describe('fit', () => {
+  test('native: 1:1, centred, padding black', () => {
+    const out = fitToGrid(gray(2, 2, () => 255), cell(4, 4), 'native');
+    const lit = Array.from({ length: 16 }, (_, i) => out.data[i * 3]);
+    expect(lit).toEqual([0, 0, 0, 0, 0, 1, 1, 0, 0, 1, 1, 0, 0, 0, 0, 0]);
+  });
+
+  test('integer: the largest whole enlargement, repeating pixels exactly', () => {
+    expect(placement(3, 2, cell(10, 10), 'integer')).toMatchObject({ scaleX: 3, scaleY: 3 });
+    const out = fitToGrid(gray(2, 1, (x) => (x ? 255 : 0)), cell(4, 2), 'integer');
+    expect(Array.from({ length: 8 }, (_, i) => out.data[i * 3])).toEqual([0, 0, 1, 1, 0, 0, 1, 1]);
+  });
+
+  test('integer: larger art is reduced by a whole factor with area averaging', () => {
+    expect(placement(20, 10, cell(8, 8), 'integer')).toMatchObject({ scaleX: 1 / 3 });
+  });
+
+  test('area: a 2 × 2 checker onto one cell averages in linear light', () => {
+    const out = fitToGrid(gray(2, 2, (x, y) => ((x + y) % 2 ? 255 : 0)), cell(8, 8), 'area');
+    // Every cell is covered by a quarter of a pixel pattern… scale 4: each cell is one pixel's value.
+    expect(placement(2, 2, cell(8, 8), 'area').scaleX).toBe(4);
+    const big = fitToGrid(gray(16, 16, (x, y) => ((x + y) % 2 ? 255 : 0)), cell(8, 8), 'area');
+    for (let i = 0; i < 64; i++) expect(big.data[i * 3]).toBeCloseTo(0.5, 6);
+    expect(out.data[0]).toBe(0);
+  });
+
+  test('area: mid-gray 128 averaged stays 0.2158605 linear (IEC 61966-2-1 decode)', () => {
+    const out = fitToGrid(gray(16, 16, () => 128), cell(8, 8), 'area');
+    expect(out.data[0]).toBeCloseTo(srgbDecode(128 / 255), 6);
+  });
+
+  test('area keeps the physical aspect on non-square cells', () => {
+    // Cells twice as tall as wide: a square 16 × 16 artwork covers 16 cells across and 8 down.
+    const p = placement(16, 16, cell(16, 16, 0.6), 'area');
+    expect(p.scaleX).toBe(1);
+    expect(p.scaleY).toBe(0.5);
+  });
+});
