@@ -4,6 +4,7 @@ import { PasswordReset } from '../features/auth/password-reset.model';
 import { Invite } from '../features/studios/invite.model';
 import { Membership } from '../features/studios/membership.model';
 import { createHarness, TestClient, uniqueEmail, type Harness } from '../testing/harness';
+import { pngOf } from '../testing/images';
 import { ACTORS, createStudioWorld, createUsers, WORLD_PASSWORD, type Actor, type WorldUsers } from '../testing/world';
 
 /**
@@ -22,6 +23,8 @@ interface Row {
   path: string;
   url: (c: Cell) => string;
   body?: (c: Cell) => Promise<object> | object;
+  /** Multipart upload instead of JSON: text fields plus a file. */
+  upload?: () => { fields: Record<string, string>; file: { name: string; bytes: Buffer } };
   expect: [owner: number, editor: number, viewer: number, other: number, anonymous: number];
 }
 
@@ -59,6 +62,16 @@ const ROWS: Row[] = [
   { method: 'post', path: '/api/studios/:studioId/invites', url: (c) => `${S(c)}/invites`, body: () => ({ email: uniqueEmail('inv'), role: 'viewer' }), expect: [201, 403, 403, 404, 401] },
   { method: 'delete', path: '/api/studios/:studioId/invites/:inviteId', url: (c) => `${S(c)}/invites/${c.inviteId}`, expect: [204, 403, 403, 404, 401] },
   { method: 'get', path: '/api/invites/:token', url: (c) => `/api/invites/${c.inviteToken}`, expect: [200, 200, 200, 200, 200] },
+  { method: 'get', path: '/api/panel-types', url: () => '/api/panel-types', expect: [200, 200, 200, 200, 200] },
+  {
+    method: 'post',
+    path: '/api/renders',
+    url: () => '/api/renders',
+    // A fresh image each time, so every allowed call renders (201) rather than hitting the cache.
+    upload: () => ({ fields: { presetId: 'el-amber-640x480.standard', patch: JSON.stringify({ cell: { cols: 8, rows: 8 } }), scale: '1' }, file: { name: 'a.png', bytes: pngOf(4, 4, () => [Math.floor(Math.random() * 256), 0, 0, 255]) } }),
+    expect: [201, 201, 201, 201, 401],
+  },
+  { method: 'get', path: '/api/renders/:key', url: () => `/api/renders/${renderKey}`, expect: [200, 200, 200, 200, 401] },
   {
     method: 'post',
     path: '/api/invites/:token/accept',
@@ -73,10 +86,15 @@ const ROWS: Row[] = [
 
 let h: Harness;
 let users: WorldUsers;
+let renderKey: string;
 
 beforeAll(async () => {
   h = await createHarness();
   users = await createUsers();
+  const maker = new TestClient(h.app);
+  await maker.post('/api/auth/sign-in', { email: users.other.email, password: WORLD_PASSWORD });
+  const made = await maker.upload('/api/renders', { presetId: 'el-amber-640x480.standard', patch: JSON.stringify({ cell: { cols: 8, rows: 8 } }), scale: '1' }, { name: 'a.png', bytes: pngOf(4, 4, () => [9, 9, 9, 255]) });
+  renderKey = made.body.render.key;
 });
 afterAll(() => h.close());
 
@@ -113,7 +131,8 @@ describe.each(ROWS)('$method $path', (row) => {
       expect(signIn.status).toBe(200);
     }
     const body = row.body ? await row.body(cell) : undefined;
-    const res = await client.send(row.method, row.url(cell), body);
+    const upload = row.upload?.();
+    const res = upload ? await client.upload(row.url(cell), upload.fields, upload.file) : await client.send(row.method, row.url(cell), body);
     expect({ status: res.status, body: res.status >= 400 ? res.body : undefined }).toMatchObject({ status: expected });
     if (res.status >= 400) expect(res.body.error.code).toEqual(expect.any(String));
   });

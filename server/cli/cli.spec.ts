@@ -1,0 +1,78 @@
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { PNG } from 'pngjs';
+import { main } from './main';
+import { pngOf } from '../testing/images';
+
+/** Runs the CLI in-process and captures what it prints. */
+async function cli(...argv: string[]): Promise<{ code: number; out: string; err: string }> {
+  const out: string[] = [];
+  const err: string[] = [];
+  const log = jest.spyOn(console, 'log').mockImplementation((m: string) => void out.push(m));
+  const error = jest.spyOn(console, 'error').mockImplementation((m: string) => void err.push(m));
+  try {
+    const code = await main(argv);
+    return { code, out: out.join('\n'), err: err.join('\n') };
+  } finally {
+    log.mockRestore();
+    error.mockRestore();
+  }
+}
+
+describe('cli', () => {
+  test('emission --peak 585 --json: the 585 nm locus point and #FF9E00 [calc, REFERENCE.md]', async () => {
+    const r = await cli('emission', '--peak', '585', '--json');
+    expect(r.code).toBe(0);
+    expect(JSON.parse(r.out)).toEqual({ x: 0.54479, y: 0.45443, hex: '#FF9E00' });
+  });
+
+  test('emission with a width gives the band chromaticity', async () => {
+    const r = await cli('emission', '--peak', '585', '--fwhm', '50', '--json');
+    const { x, y } = JSON.parse(r.out);
+    expect(x).toBeCloseTo(0.526, 3);
+    expect(y).toBeCloseTo(0.472, 3);
+  });
+
+  test.each([
+    [['emission', '--peak', '900'], '--peak must be a number from 380 to 780, got "900"'],
+    [['emission'], '--peak must be a number'],
+    [['frobnicate'], 'unknown command "frobnicate"'],
+    [['render', 'x.png', '--preset', 'nope', '--out', 'y.png'], 'neither a built-in preset id nor a .json file'],
+    [['emission', '--bogus'], 'Unknown option'],
+  ])('%j exits 2 with a clear message', async (argv, message) => {
+    const r = await cli(...argv);
+    expect(r.code).toBe(2);
+    expect(r.err).toContain(message);
+    expect(r.err).toContain('usage:');
+  });
+
+  test('presets --json lists every panel type and preset', async () => {
+    const r = await cli('presets', '--json');
+    const doc = JSON.parse(r.out);
+    expect(doc.panelTypes.length).toBeGreaterThanOrEqual(10);
+    expect(doc.presets.length).toBeGreaterThanOrEqual(doc.panelTypes.length);
+  });
+
+  test('render writes a PNG of cols × scale by rows × scale from a preset file', async () => {
+    const dir = mkdtempSync(path.join(os.tmpdir(), 'emberline-cli-'));
+    const input = path.join(dir, 'in.png');
+    writeFileSync(input, pngOf(20, 10, (x) => [x * 12, 0, 0, 255]));
+    const doc = JSON.parse((await cli('presets', '--json')).out);
+    const params = { ...doc.presets[0].parameters, cell: { ...doc.presets[0].parameters.cell, cols: 40, rows: 20 } };
+    writeFileSync(path.join(dir, 'p.json'), JSON.stringify({ parameters: params }));
+    const r = await cli('render', input, '--preset', path.join(dir, 'p.json'), '--scale', '2', '--out', path.join(dir, 'out.png'));
+    expect(r.code).toBe(0);
+    const png = PNG.sync.read(readFileSync(path.join(dir, 'out.png')));
+    expect([png.width, png.height]).toEqual([80, 40]);
+  });
+
+  test('render with an invalid preset file names the bad parameter', async () => {
+    const dir = mkdtempSync(path.join(os.tmpdir(), 'emberline-cli-'));
+    writeFileSync(path.join(dir, 'bad.json'), JSON.stringify({ source: {} }));
+    writeFileSync(path.join(dir, 'in.png'), pngOf(2, 2, () => [0, 0, 0, 255]));
+    const r = await cli('render', path.join(dir, 'in.png'), '--preset', path.join(dir, 'bad.json'), '--out', path.join(dir, 'o.png'));
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/source\.fit/);
+  });
+});

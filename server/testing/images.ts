@@ -1,0 +1,26 @@
+import { crc32, deflateSync } from 'node:zlib';
+import { PNG } from 'pngjs';
+
+/** An RGBA PNG from a pixel function, encoded with pngjs (independent of sharp). */
+export function pngOf(width: number, height: number, pixel: (x: number, y: number) => [number, number, number, number]): Buffer {
+  const png = new PNG({ width, height });
+  for (let y = 0; y < height; y++) for (let x = 0; x < width; x++) png.data.set(pixel(x, y), (y * width + x) * 4);
+  return PNG.sync.write(png);
+}
+
+/** A PNG whose header claims width × height but whose data is tiny: a pixel bomb. */
+export function pngBomb(width: number, height: number): Buffer {
+  const chunk = (type: string, data: Buffer) => {
+    const len = Buffer.alloc(4);
+    len.writeUInt32BE(data.length);
+    const body = Buffer.concat([Buffer.from(type, 'ascii'), data]);
+    const crc = Buffer.alloc(4);
+    crc.writeUInt32BE(crc32(body) >>> 0);
+    return Buffer.concat([len, body, crc]);
+  };
+  const ihdr = Buffer.alloc(13);
+  ihdr.writeUInt32BE(width, 0);
+  ihdr.writeUInt32BE(height, 4);
+  ihdr.set([1, 0, 0, 0, 0], 8); // 1-bit grayscale
+  return Buffer.concat([Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), chunk('IHDR', ihdr), chunk('IDAT', deflateSync(Buffer.alloc(64))), chunk('IEND', Buffer.alloc(0))]);
+}
