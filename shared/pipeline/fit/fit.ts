@@ -54,6 +54,7 @@ export function fitToGrid(image: RgbaImage, cell: PanelParams['cell'], fit: Pane
   const result = out ?? { cols, rows, data: new Float32Array(cols * rows * 3) };
   result.data.fill(0);
   const p = placement(image.width, image.height, cell, fit);
+  if (p.scaleX === 1 && p.scaleY === 1 && Number.isInteger(p.offsetX) && Number.isInteger(p.offsetY)) return copyOneToOne(image, p, result);
   // Per axis: for each cell, the pixel span and weights it covers (separable box overlap).
   const spans = (n: number, scale: number, offset: number, size: number) =>
     Array.from({ length: n }, (_, c) => {
@@ -103,4 +104,24 @@ export function fitToGrid(image: RgbaImage, cell: PanelParams['cell'], fit: Pane
     }
   }
   return result;
+}
+
+/** The 1:1 case of fitToGrid (whole-cell offset): a straight copy through the decode table. */
+function copyOneToOne(image: RgbaImage, p: Placement, out: CellRgb): CellRgb {
+  const x0 = Math.max(0, -p.offsetX);
+  const y0 = Math.max(0, -p.offsetY);
+  const x1 = Math.min(image.width, out.cols - p.offsetX);
+  const y1 = Math.min(image.height, out.rows - p.offsetY);
+  const src = image.data;
+  for (let y = y0; y < y1; y++) {
+    for (let x = x0; x < x1; x++) {
+      const o = (y * image.width + x) * 4;
+      const d = ((y + p.offsetY) * out.cols + x + p.offsetX) * 3;
+      const a = src[o + 3] / 255;
+      out.data[d] = a * SRGB_TO_LINEAR[src[o]];
+      out.data[d + 1] = a * SRGB_TO_LINEAR[src[o + 1]];
+      out.data[d + 2] = a * SRGB_TO_LINEAR[src[o + 2]];
+    }
+  }
+  return out;
 }

@@ -24,26 +24,60 @@ export function extendedBoxVariance(r: number, alpha: number): number {
   return m2 / w;
 }
 
-/** One extended-box pass along each line of `src` (lines of `len` samples), zero outside. */
-function passLines(src: Float32Array, dst: Float32Array, len: number, lines: number, r: number, alpha: number, prefix: Float64Array): void {
+/** One horizontal extended-box pass over every row (zero outside), by a running sum. */
+function passRows(src: Float32Array, dst: Float32Array, width: number, height: number, r: number, alpha: number): void {
   const c = 1 / (2 * r + 1 + 2 * alpha);
-  for (let line = 0; line < lines; line++) {
-    const base = line * len;
-    prefix[0] = 0;
-    for (let k = 0; k < len; k++) prefix[k + 1] = prefix[k] + src[base + k];
-    for (let k = 0; k < len; k++) {
-      const lo = k - r;
-      const hi = k + r + 1;
-      let s = prefix[hi < len ? hi : len] - prefix[lo > 0 ? lo : 0];
-      if (lo - 1 >= 0) s += alpha * src[base + lo - 1];
-      if (hi < len) s += alpha * src[base + hi];
-      dst[base + k] = s * c;
+  const at = (base: number, k: number) => (k >= 0 && k < width ? src[base + k] : 0);
+  // Interior samples, where the window and both end taps are inside the row, need no checks.
+  const first = Math.min(width, r + 1);
+  const last = Math.max(first, width - r - 1);
+  for (let y = 0; y < height; y++) {
+    const base = y * width;
+    let s = 0;
+    for (let k = 0; k <= r && k < width; k++) s += src[base + k];
+    for (let x = 0; x < first; x++) {
+      dst[base + x] = c * (s + alpha * (at(base, x - r - 1) + at(base, x + r + 1)));
+      s += at(base, x + r + 1) - at(base, x - r);
+    }
+    for (let x = first; x < last; x++) {
+      const lo = src[base + x - r - 1];
+      const hi = src[base + x + r + 1];
+      dst[base + x] = c * (s + alpha * (lo + hi));
+      s += hi - src[base + x - r];
+    }
+    for (let x = last; x < width; x++) {
+      dst[base + x] = c * (s + alpha * (at(base, x - r - 1) + at(base, x + r + 1)));
+      s += at(base, x + r + 1) - at(base, x - r);
     }
   }
 }
 
-function transpose(src: Float32Array, dst: Float32Array, width: number, height: number): void {
-  for (let y = 0; y < height; y++) for (let x = 0; x < width; x++) dst[x * height + y] = src[y * width + x];
+/** One vertical extended-box pass: a running sum per column, walked row by row (cache friendly). */
+function passColumns(src: Float32Array, dst: Float32Array, width: number, height: number, r: number, alpha: number, sums: Float64Array): void {
+  const c = 1 / (2 * r + 1 + 2 * alpha);
+  const ca = c * alpha;
+  sums.fill(0);
+  for (let k = 0; k <= r && k < height; k++) {
+    const row = k * width;
+    for (let x = 0; x < width; x++) sums[x] += src[row + x];
+  }
+  for (let y = 0; y < height; y++) {
+    const out = y * width;
+    const lo = y - r - 1;
+    const hi = y + r + 1;
+    const hasLo = lo >= 0;
+    const hasHi = hi < height;
+    const loRow = lo * width;
+    const hiRow = hi * width;
+    if (hasLo && hasHi) for (let x = 0; x < width; x++) dst[out + x] = c * sums[x] + ca * (src[loRow + x] + src[hiRow + x]);
+    else if (hasLo) for (let x = 0; x < width; x++) dst[out + x] = c * sums[x] + ca * src[loRow + x];
+    else if (hasHi) for (let x = 0; x < width; x++) dst[out + x] = c * sums[x] + ca * src[hiRow + x];
+    else for (let x = 0; x < width; x++) dst[out + x] = c * sums[x];
+    const leave = (y - r) * width;
+    if (hasHi && y - r >= 0) for (let x = 0; x < width; x++) sums[x] += src[hiRow + x] - src[leave + x];
+    else if (hasHi) for (let x = 0; x < width; x++) sums[x] += src[hiRow + x];
+    else if (y - r >= 0) for (let x = 0; x < width; x++) sums[x] -= src[leave + x];
+  }
 }
 
 /**
@@ -51,26 +85,22 @@ function transpose(src: Float32Array, dst: Float32Array, width: number, height: 
  * new array. Energy inside the field is conserved up to what spreads past its edges.
  */
 export function gaussianBlur(data: Float32Array, width: number, height: number, sigmaX: number, sigmaY: number): Float32Array {
-  let a = Float32Array.from(data);
-  let b = new Float32Array(a.length);
-  const prefix = new Float64Array(Math.max(width, height) + 1);
+  let a = new Float32Array(data.length);
+  let b = new Float32Array(data.length);
+  let src: Float32Array = data;
+  const step = (run: (from: Float32Array, to: Float32Array) => void) => {
+    run(src, a);
+    src = a;
+    [a, b] = [b, a];
+  };
   if (sigmaX > 0) {
     const { r, alpha } = extendedBox(sigmaX);
-    for (let p = 0; p < BOX_PASSES; p++) {
-      passLines(a, b, width, height, r, alpha, prefix);
-      [a, b] = [b, a];
-    }
+    for (let p = 0; p < BOX_PASSES; p++) step((from, to) => passRows(from, to, width, height, r, alpha));
   }
   if (sigmaY > 0) {
-    transpose(a, b, width, height);
-    [a, b] = [b, a];
     const { r, alpha } = extendedBox(sigmaY);
-    for (let p = 0; p < BOX_PASSES; p++) {
-      passLines(a, b, height, width, r, alpha, prefix);
-      [a, b] = [b, a];
-    }
-    transpose(a, b, height, width);
-    [a, b] = [b, a];
+    const sums = new Float64Array(width);
+    for (let p = 0; p < BOX_PASSES; p++) step((from, to) => passColumns(from, to, width, height, r, alpha, sums));
   }
-  return a;
+  return src === data ? Float32Array.from(data) : src;
 }

@@ -1,6 +1,6 @@
 import { srgbDecode } from '../../color/srgb';
 import type { Field, RgbaImage } from '../types';
-import { apertureCoverage, lineCoverage, softKnee } from './formulas';
+import { apertureCoverage, lineCoverage } from './formulas';
 import type { OutputUniforms } from './uniforms';
 
 /** Per output column or row: which cells (or lines) touch it and with what coverage. */
@@ -60,23 +60,65 @@ function glowTaps(pixels: number, samples: number, cellSize: number, m: number):
   return { index, weight, stride: 2 };
 }
 
-/** Linear thresholds where the 8-bit sRGB code changes: code c for l ≥ T[c] (round half up). */
+/** Display-linear thresholds where the 8-bit sRGB code changes: code c for l ≥ T[c] (round half up). */
 const THRESHOLDS = Float64Array.from({ length: 257 }, (_, c) => (c === 0 ? -Infinity : c === 256 ? Infinity : srgbDecode((c - 0.5) / 255)));
-const LUT_SIZE = 4096;
-const LUT = Uint8Array.from({ length: LUT_SIZE + 1 }, (_, i) => {
-  let c = 0;
-  while (c < 255 && i / LUT_SIZE >= THRESHOLDS[c + 1]) c++;
-  return c;
-});
 
-/** Linear (0–1) → 8-bit sRGB code, exactly as encode8 but by table and threshold correction. */
-function toCode(l: number): number {
-  if (!(l > 0)) return 0;
-  if (l >= 1) return 255;
-  let c = LUT[(l * LUT_SIZE) | 0];
-  while (c < 255 && l >= THRESHOLDS[c + 1]) c++;
-  while (c > 0 && l < THRESHOLDS[c]) c--;
-  return c;
+/** Inverse of the soft knee (formulas.softKnee) for outputs below 1. */
+function softKneeInverse(y: number, k: number): number {
+  if (y <= k || k >= 1) return y;
+  if (y >= 1) return Infinity;
+  return k - (1 - k) * Math.log(1 - (y - k) / (1 - k));
+}
+
+/**
+ * The whole per-channel chain — light, exposure, soft knee, sRGB encode — as thresholds on the
+ * relative luminance v: the channel shows code c exactly when v ≥ V[c]. A coarse table finds the
+ * code and the thresholds correct it, so the result equals evaluating the formulas, per pixel,
+ * without their cost.
+ */
+export class ChannelCoder {
+  private readonly v = new Float64Array(257);
+  private readonly table: Uint8Array;
+  private readonly steps: number;
+  private readonly vMax: number;
+
+  constructor(colour: number, u: OutputUniforms, steps = 16384) {
+    const ambient = u.colourY * u.ambientCdM2;
+    // display = (colour·(v·peak + off) + ambient)·gain  ⇒  v = ((display/gain − ambient)/colour − off)/peak
+    for (let c = 0; c < 257; c++) {
+      const display = softKneeInverse(THRESHOLDS[c], u.knee);
+      this.v[c] = c === 0 ? -Infinity : colour > 0 ? ((display / u.gain - ambient) / colour - u.offCdM2) / u.peakCdM2 : display <= ambient * u.gain ? -Infinity : Infinity;
+    }
+    this.steps = steps;
+    this.vMax = Math.max(2, ...Array.from(this.v).filter((x) => Number.isFinite(x) && x > 0).slice(-1));
+    this.table = Uint8Array.from({ length: steps + 1 }, (_, i) => this.exact((i / steps) * this.vMax));
+  }
+
+  /** The code for relative luminance v, by the thresholds alone. */
+  private exact(v: number): number {
+    let c = 0;
+    while (c < 255 && v >= this.v[c + 1]) c++;
+    return c;
+  }
+
+  code(v: number): number {
+    if (v >= this.vMax) return this.exact(v);
+    let c = this.table[v > 0 ? ((v / this.vMax) * this.steps) | 0 : 0];
+    while (c < 255 && v >= this.v[c + 1]) c++;
+    while (c > 0 && v < this.v[c]) c--;
+    return c;
+  }
+}
+
+/** Light across one panel row at output resolution: Σ_cells wx · e (the horizontal half of the separable direct term). */
+function rowProfile(emission: Float32Array, row: number, cols: number, xs: Taps, out: Float32Array): void {
+  const base = row * cols;
+  const { index, weight, stride } = xs;
+  for (let x = 0; x < out.length; x++) {
+    let s = 0;
+    for (let j = 0; j < stride; j++) s += emission[base + index[x * stride + j]] * weight[x * stride + j];
+    out[x] = s;
+  }
 }
 
 /**
@@ -86,27 +128,37 @@ function toCode(l: number): number {
  */
 export function compose(emission: Float32Array, glow: Field, u: OutputUniforms, out?: RgbaImage): RgbaImage {
   const { width, height, cols, rows } = u;
-  const image = out ?? { width, height, data: new Uint8ClampedArray(width * height * 4) };
+  const image = out ?? { width, height, data: new Uint8Array(width * height * 4) };
   const xs = apertureTaps(width, cols, u.cellW, u.fillX);
   const ys = u.crt ? lineTaps(height, rows, u.cellH, u.spotSigmaPx) : apertureTaps(height, rows, u.cellH, u.fillY);
   const gx = glowTaps(width, glow.width, u.cellW, u.glowOversample);
   const gy = glowTaps(height, glow.height, u.cellH, u.glowOversample);
-  const [cr, cg, cb] = u.colour;
-  const ambient = u.colourY * u.ambientCdM2;
-  const rowSum = new Float32Array(width);
+  // Each panel row's horizontal profile is computed once and reused by every output row it touches.
+  const profiles = new Map<number, Float32Array>();
+  const profileOf = (r: number) => {
+    let p = profiles.get(r);
+    if (!p) {
+      p = new Float32Array(width);
+      rowProfile(emission, r, cols, xs, p);
+      profiles.set(r, p);
+      profiles.delete(r - 2 * ys.stride - 2);
+    }
+    return p;
+  };
+  const [red, green, blue] = u.colour.map((c) => new ChannelCoder(c, u));
+  const directShare = u.directShare;
+  const gIndex = gx.index;
+  const gWeight = gx.weight;
+  const gData = glow.data;
+  const direct = new Float32Array(width);
   const data = image.data;
   for (let y = 0; y < height; y++) {
-    // Direct light, separable: Σ_lines wy · Σ_cells wx · e.
-    rowSum.fill(0);
+    direct.fill(0);
     for (let k = 0; k < ys.stride; k++) {
       const wy = ys.weight[y * ys.stride + k];
       if (wy === 0) continue;
-      const base = ys.index[y * ys.stride + k] * cols;
-      for (let x = 0; x < width; x++) {
-        let s = 0;
-        for (let j = 0; j < xs.stride; j++) s += emission[base + xs.index[x * xs.stride + j]] * xs.weight[x * xs.stride + j];
-        rowSum[x] += wy * s;
-      }
+      const p = profileOf(ys.index[y * ys.stride + k]);
+      for (let x = 0; x < width; x++) direct[x] += wy * p[x];
     }
     const g0 = gy.index[y * 2] * glow.width;
     const g1 = gy.index[y * 2 + 1] * glow.width;
@@ -114,16 +166,15 @@ export function compose(emission: Float32Array, glow: Field, u: OutputUniforms, 
     const ty1 = gy.weight[y * 2 + 1];
     let o = y * width * 4;
     for (let x = 0; x < width; x++) {
-      const a = gx.index[x * 2];
-      const b = gx.index[x * 2 + 1];
-      const tx0 = gx.weight[x * 2];
-      const tx1 = gx.weight[x * 2 + 1];
-      const glowValue = (glow.data[g0 + a] * tx0 + glow.data[g0 + b] * tx1) * ty0 + (glow.data[g1 + a] * tx0 + glow.data[g1 + b] * tx1) * ty1;
-      const v = u.directShare * rowSum[x] + glowValue;
-      const lum = v * u.peakCdM2 + u.offCdM2;
-      data[o] = toCode(softKnee((cr * lum + ambient) * u.gain, u.knee));
-      data[o + 1] = toCode(softKnee((cg * lum + ambient) * u.gain, u.knee));
-      data[o + 2] = toCode(softKnee((cb * lum + ambient) * u.gain, u.knee));
+      const a = gIndex[x * 2];
+      const b = gIndex[x * 2 + 1];
+      const tx0 = gWeight[x * 2];
+      const tx1 = gWeight[x * 2 + 1];
+      const glowValue = (gData[g0 + a] * tx0 + gData[g0 + b] * tx1) * ty0 + (gData[g1 + a] * tx0 + gData[g1 + b] * tx1) * ty1;
+      const v = directShare * direct[x] + glowValue;
+      data[o] = red.code(v);
+      data[o + 1] = green.code(v);
+      data[o + 2] = blue.code(v);
       data[o + 3] = 255;
       o += 4;
     }

@@ -61,3 +61,32 @@ describe('soft knee', () => {
     expect((softKnee(0.8 + 1e-6, 0.8) - softKnee(0.8, 0.8)) / 1e-6).toBeCloseTo(1, 4);
   });
 });
+
+describe('ChannelCoder (light → knee → sRGB as thresholds)', () => {
+  const { ChannelCoder } = jest.requireActual('./compose') as typeof import('./compose');
+  const { outputUniforms } = jest.requireActual('./uniforms') as typeof import('./uniforms');
+  const { PANEL_TYPES } = jest.requireActual('../../model/panel-types') as typeof import('../../model/panel-types');
+  const { mergeParams } = jest.requireActual('../../model/parameters') as typeof import('../../model/parameters');
+  const { encode8 } = jest.requireActual('../../color/srgb') as typeof import('../../color/srgb');
+
+  test.each([
+    ['amber EL defaults', {}],
+    ['exposure +2 EV into the knee', { viewing: { exposureEv: 2, knee: 0.7 } }],
+    ['bright ambient, no knee', { viewing: { ambientCdM2: 40, knee: 1 } }],
+    ['white CRT', { emission: { peak1Nm: 460, fwhm1Nm: 40, peak2Nm: 565, fwhm2Nm: 60, band2Weight: 1.6 } }],
+  ])('%s: equals evaluating the formulas for 20 000 luminances', (_name, patch) => {
+    const u = outputUniforms(mergeParams(PANEL_TYPES[0].defaults, patch), 3);
+    const coders = u.colour.map((c) => new ChannelCoder(c, u));
+    const ambient = u.colourY * u.ambientCdM2;
+    let mismatches = 0;
+    for (let i = 0; i <= 20000; i++) {
+      const v = (i / 20000) * 1.6;
+      const lum = v * u.peakCdM2 + u.offCdM2;
+      u.colour.forEach((c, k) => {
+        const expected = encode8(softKnee((c * lum + ambient) * u.gain, u.knee));
+        if (coders[k].code(v) !== expected) mismatches++;
+      });
+    }
+    expect(mismatches).toBe(0);
+  });
+});

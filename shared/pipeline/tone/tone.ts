@@ -1,4 +1,4 @@
-import { REC601, REC709, srgbDecode, srgbEncode } from '../../color/srgb';
+import { REC601, REC709, srgbDecodeFast as srgbDecode, srgbEncodeFast as srgbEncode } from '../../color/srgb';
 import type { PanelParams } from '../../model/parameters';
 import type { CellRgb } from '../fit/fit';
 
@@ -22,7 +22,7 @@ export function tone(rgb: CellRgb, source: PanelParams['source'], out?: Float32A
       : srgbEncode(REC709[0] * R + REC709[1] * G + REC709[2] * B);
     p = (p - 0.5) * contrast + 0.5 + brightness;
     p = Math.min(1, Math.max(0, p));
-    p = p ** gamma;
+    if (gamma !== 1) p = p ** gamma;
     if (invert) p = 1 - p;
     p = p <= threshold ? 0 : (p - threshold) / (1 - threshold);
     result[i] = srgbDecode(p);

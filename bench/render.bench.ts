@@ -1,0 +1,86 @@
+// `npm run bench:render`: reference render timing (a benchmark, not a test). Prints a table and,
+// as the last line, one JSON object of figures.
+import sharp from 'sharp';
+import { builtInPresetById } from '../shared/model/panel-types';
+import { mergeParams, type PanelParams } from '../shared/model/parameters';
+import { decodeImage } from '../server/render/decode';
+import { encodePng } from '../server/render/encode';
+import { renderReference } from '../server/render/reference-renderer';
+import { panelEmission, panelGlow } from '../shared/pipeline/render';
+import { compose } from '../shared/pipeline/output/compose';
+import { outputUniforms } from '../shared/pipeline/output/uniforms';
+import { pngOf } from '../server/testing/images';
+
+const RUNS = 7;
+const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
+
+async function time(fn: () => Promise<unknown>, runs = RUNS): Promise<number> {
+  await fn(); // warm-up
+  const t: number[] = [];
+  for (let i = 0; i < runs; i++) {
+    const s = performance.now();
+    await fn();
+    t.push(performance.now() - s);
+  }
+  return median(t);
+}
+
+async function main() {
+  // A 640 × 480 test card: gradients, checkers and fine lines, drawn here.
+  const input = pngOf(640, 480, (x, y) => {
+    const v = y < 160 ? Math.round((x / 639) * 255) : y < 320 ? (((x >> 3) + (y >> 3)) % 2 ? 255 : 0) : x % 4 === 0 || y % 6 === 0 ? 255 : 40;
+    return [v, v, v, 255];
+  });
+  const base = builtInPresetById('el-amber-640x480.standard')!.parameters;
+  const withGlow = (mm: number): PanelParams => mergeParams(base, { glass: { glowRadiusMm: mm } });
+  const scale = 3;
+  const renderMs = await time(() => renderReference({ input, parameters: base, scale, frame: 0 }));
+  const small = await time(() => renderReference({ input, parameters: withGlow(0.2), scale, frame: 0 }));
+  const large = await time(() => renderReference({ input, parameters: withGlow(5), scale, frame: 0 }));
+
+  // Stage split of one render.
+  const frames = (await decodeImage(input)).frames;
+  const u = outputUniforms(base, scale);
+  let emission = new Float32Array();
+  let glow = panelGlow(panelEmission(frames, base), base);
+  let image = compose(panelEmission(frames, base), glow, u);
+  const decodeMs = await time(() => decodeImage(input));
+  const panelMs = await time(async () => (emission = panelEmission(frames, base)));
+  const glowMs = await time(async () => (glow = panelGlow(emission, base)));
+  const composeMs = await time(async () => (image = compose(emission, glow, u)));
+  const encodeMs = await time(() => encodePng(image));
+
+  // Baseline: sharp blurring an image of the same output size with the same σ in output pixels, encoded as PNG.
+  const sigmaPx = (base.glass.glowRadiusMm / base.cell.pitchXMm) * scale;
+  const raw = Buffer.from(image.data.buffer);
+  const sharpBaselineMs = await time(() => sharp(raw, { raw: { width: u.width, height: u.height, channels: 4 } }).blur(sigmaPx).png({ compressionLevel: 2, adaptiveFiltering: false }).toBuffer());
+
+  const rows: [string, number][] = [
+    ['full render, 640×480 → 1920×1440 PNG', renderMs],
+    ['  decode input', decodeMs],
+    ['  panel stages (fit, tone, levels, row loading)', panelMs],
+    ['  glow field', glowMs],
+    ['  output stages (cells, glow, colour, light, encode8)', composeMs],
+    ['  PNG encode', encodeMs],
+    ['full render, glow radius 0.2 mm', small],
+    ['full render, glow radius 5 mm', large],
+    [`sharp blur(σ = ${sigmaPx.toFixed(2)} px) + PNG, same size`, sharpBaselineMs],
+  ];
+  console.log(`median of ${RUNS} runs, ${process.version}, ${(await import('node:os')).cpus().length} cores`);
+  console.log('| step | ms |\n| --- | ---: |');
+  for (const [name, ms] of rows) console.log(`| ${name} | ${ms.toFixed(1)} |`);
+  const figures = {
+    renderMs: +renderMs.toFixed(1),
+    radiusRatio: +(large / small).toFixed(3),
+    sharpBaselineMs: +sharpBaselineMs.toFixed(1),
+    ratioToSharp: +(renderMs / sharpBaselineMs).toFixed(3),
+    peakRssMb: Math.round(process.resourceUsage().maxRSS / 1024),
+    stagesMs: { decode: +decodeMs.toFixed(1), panel: +panelMs.toFixed(1), glow: +glowMs.toFixed(1), compose: +composeMs.toFixed(1), encode: +encodeMs.toFixed(1) },
+  };
+  console.log(JSON.stringify(figures));
+}
+
+main().catch((err) => {
+  console.error(err);
+  process.exit(1);
+});
