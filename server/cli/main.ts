@@ -3,6 +3,10 @@ import { parseArgs } from 'node:util';
 import { emissionColour, spectrumToXyz } from '../../shared/color/emission';
 import { BUILT_IN_PRESETS, builtInPresetById, PANEL_TYPES } from '../../shared/model/panel-types';
 import { panelParamsSchema, type PanelParams } from '../../shared/model/parameters';
+import { interfaceFigures, PIXELS_PER_CLOCK, type PanelInterface } from '../../shared/drive/interface';
+import { hex2, vgaRegisters } from '../../shared/drive/registers';
+import { resolveTiming, STANDARDS, type Standard } from '../../shared/drive/resolve';
+import { figures } from '../../shared/drive/timing';
 import { AppError } from '../core/app-error';
 import { issuesOf } from '../core/validate';
 import { renderReference } from '../render/reference-renderer';
@@ -15,7 +19,9 @@ const USAGE = `usage: npm run -s cli -- <command> [options]
 commands:
   render <in.png|gif|jpg|webp> --preset <built-in id | file.json> [--scale N] [--frame K] --out <out.png>
   emission --peak <nm> [--fwhm <nm>] [--json]
-  presets [--json]`;
+  presets [--json]
+  timing --mode 640x480@60 --standard dmt|cvt|cvt-rb|cvt-rb2 [--dual-scan] [--pixels-per-clock 1|4|8|16] [--json]
+  registers --mode 640x480@60 --standard dmt|cvt|cvt-rb|cvt-rb2 [--json]`;
 
 function number(value: string | undefined, name: string, min: number, max: number, integer = false): number {
   const n = Number(value);
@@ -78,6 +84,54 @@ function presets(args: string[]): void {
   }
 }
 
+function timingOf(values: { mode?: string; standard?: string }) {
+  if (!values.mode) throw new UsageError('--mode is required, e.g. --mode 640x480@60');
+  const standard = (values.standard ?? 'dmt') as Standard;
+  if (!STANDARDS.includes(standard)) throw new UsageError(`--standard must be one of ${STANDARDS.join(', ')}, got "${values.standard}"`);
+  try {
+    return resolveTiming(values.mode, standard);
+  } catch (err) {
+    throw new UsageError((err as Error).message);
+  }
+}
+
+function timing(args: string[]): void {
+  const { values } = parseArgs({ args, options: { mode: { type: 'string' }, standard: { type: 'string' }, 'dual-scan': { type: 'boolean', default: false }, 'pixels-per-clock': { type: 'string', default: '1' }, json: { type: 'boolean', default: false } } });
+  const t = timingOf(values);
+  const ppc = Number(values['pixels-per-clock']);
+  if (!(PIXELS_PER_CLOCK as readonly number[]).includes(ppc)) throw new UsageError(`--pixels-per-clock must be one of ${PIXELS_PER_CLOCK.join(', ')}, got "${values['pixels-per-clock']}"`);
+  const iface: PanelInterface = { dualScan: values['dual-scan'] ?? false, pixelsPerClock: ppc as PanelInterface['pixelsPerClock'] };
+  let panel;
+  try {
+    panel = interfaceFigures(t, iface);
+  } catch (err) {
+    throw new UsageError((err as Error).message);
+  }
+  const f = figures(t);
+  const r = (v: number) => Math.round(v * 1e4) / 1e4;
+  const doc = { pixelClockMHz: t.pixelClockMHz, h: t.h, v: t.v, hSyncPositive: t.hSyncPositive, vSyncPositive: t.vSyncPositive, lineRateKHz: r(f.lineRateKHz), refreshHz: r(f.refreshHz), shiftClockMHz: r(panel.shiftClockMHz) };
+  if (values.json) console.log(JSON.stringify(doc));
+  else {
+    console.log(`${t.name} (${t.origin}): ${t.pixelClockMHz} MHz, ${doc.lineRateKHz} kHz, ${doc.refreshHz} Hz`);
+    console.log(`  H ${t.h.active}/${t.h.frontPorch}/${t.h.sync}/${t.h.backPorch} = ${t.h.total} (${t.hSyncPositive ? '+' : '-'}sync)`);
+    console.log(`  V ${t.v.active}/${t.v.frontPorch}/${t.v.sync}/${t.v.backPorch} = ${t.v.total} (${t.vSyncPositive ? '+' : '-'}sync)`);
+    console.log(`  shift clock ${doc.shiftClockMHz} MHz (${iface.dualScan ? 'dual-scan, ' : ''}${iface.pixelsPerClock} px per clock)`);
+  }
+}
+
+function registers(args: string[]): void {
+  const { values } = parseArgs({ args, options: { mode: { type: 'string' }, standard: { type: 'string' }, json: { type: 'boolean', default: false } } });
+  let regs;
+  try {
+    regs = vgaRegisters(timingOf(values));
+  } catch (err) {
+    throw err instanceof UsageError ? err : new UsageError((err as Error).message);
+  }
+  const crtc = regs.crtc.map((f) => hex2(f.value));
+  if (values.json) console.log(JSON.stringify({ crtc, misc: hex2(regs.misc.value) }));
+  else console.log(`CR00–CR18: ${crtc.join(' ')}\nmisc (3C2): ${hex2(regs.misc.value)}`);
+}
+
 /** Runs one CLI command; returns the process exit code. */
 export async function main(argv: string[]): Promise<number> {
   const [command, ...rest] = argv;
@@ -85,6 +139,8 @@ export async function main(argv: string[]): Promise<number> {
     if (command === 'render') await render(rest);
     else if (command === 'emission') emission(rest);
     else if (command === 'presets') presets(rest);
+    else if (command === 'timing') timing(rest);
+    else if (command === 'registers') registers(rest);
     else throw new UsageError(command ? `unknown command "${command}"` : 'no command given');
     return 0;
   } catch (err) {

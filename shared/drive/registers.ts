@@ -1,0 +1,174 @@
+import type { Timing } from './timing';
+
+/** A CRT controller register's value and how its bits are made. */
+export interface RegisterField {
+  index: number;
+  name: string;
+  value: number;
+  /** Bit by bit: which field each bit range holds and its value. */
+  bits: { range: string; meaning: string; value: number }[];
+}
+
+/** The VGA register set for a timing: CR00–CR18 and the miscellaneous output register. */
+export interface VgaRegisters {
+  crtc: RegisterField[];
+  misc: RegisterField;
+  /** Notes on choices made (character width, memory layout, clock select). */
+  notes: string[];
+}
+
+const CHAR = 8;
+const bit = (v: number, n: number) => (v >> n) & 1;
+
+/**
+ * VGA-compatible CRT controller values [ds, widely reproduced BIOS tables] for a timing with an
+ * 8-pixel character clock, in the 16-colour planar memory layout of mode 12h (offset = width/16,
+ * mode control E3). Blanking runs from the end of the active area to one character before the
+ * total unless the timing states its own blanking edges. Counters: horizontal in characters,
+ * vertical in lines; CR00 = total − 5, CR06 = total − 2, display ends are "− 1".
+ */
+export function vgaRegisters(t: Timing): VgaRegisters {
+  for (const [name, px] of [['horizontal total', t.h.total], ['active width', t.h.active], ['sync start', t.h.active + t.h.frontPorch], ['sync width', t.h.sync]] as const) {
+    if (px % CHAR !== 0) throw new RangeError(`${name} ${px} px is not a multiple of the 8-pixel character clock`);
+  }
+  const hTotal = t.h.total / CHAR;
+  const hDisplay = t.h.active / CHAR;
+  const hBlankStart = (t.blanking?.hStart ?? t.h.active) / CHAR;
+  const hBlankEnd = (t.blanking?.hEnd ?? t.h.total - CHAR) / CHAR;
+  const hSyncStart = (t.h.active + t.h.frontPorch) / CHAR;
+  const hSyncEnd = hSyncStart + t.h.sync / CHAR;
+  const vTotal = t.v.total - 2;
+  const vDisplayEnd = t.v.active - 1;
+  const vSyncStart = t.v.active + t.v.frontPorch;
+  const vSyncEnd = vSyncStart + t.v.sync;
+  const vBlankStart = t.blanking?.vStart ?? t.v.active;
+  const vBlankEnd = t.blanking?.vEnd ?? t.v.total - 1;
+  const lineCompare = 0x3ff;
+  if (hTotal - 5 > 255) throw new RangeError(`horizontal total of ${hTotal} characters is more than the VGA's 260`);
+  if (vTotal > 1023) throw new RangeError(`vertical total of ${t.v.total} lines is more than the VGA's 1025`);
+  const reg = (index: number, name: string, bits: RegisterField['bits']): RegisterField => ({
+    index,
+    name,
+    bits,
+    value: bits.reduce((v, b) => {
+      const [hi, lo] = b.range.split(':').map(Number);
+      const low = lo ?? hi;
+      return v | ((b.value & ((1 << (hi - low + 1)) - 1)) << low);
+    }, 0),
+  });
+  const crtc = [
+    reg(0x00, 'Horizontal total', [{ range: '7:0', meaning: `characters per line − 5 (${hTotal} − 5)`, value: hTotal - 5 }]),
+    reg(0x01, 'Horizontal display end', [{ range: '7:0', meaning: `displayed characters − 1 (${hDisplay} − 1)`, value: hDisplay - 1 }]),
+    reg(0x02, 'Start horizontal blanking', [{ range: '7:0', meaning: `character where blanking starts (${hBlankStart})`, value: hBlankStart }]),
+    reg(0x03, 'End horizontal blanking', [
+      { range: '7', meaning: 'compatibility read (always 1)', value: 1 },
+      { range: '6:5', meaning: 'display enable skew', value: 0 },
+      { range: '4:0', meaning: `blanking end, bits 4–0 (${hBlankEnd} mod 64)`, value: hBlankEnd & 0x1f },
+    ]),
+    reg(0x04, 'Start horizontal retrace', [{ range: '7:0', meaning: `character where sync starts (${hSyncStart})`, value: hSyncStart }]),
+    reg(0x05, 'End horizontal retrace', [
+      { range: '7', meaning: 'blanking end, bit 5', value: bit(hBlankEnd, 5) },
+      { range: '6:5', meaning: 'retrace skew', value: 0 },
+      { range: '4:0', meaning: `sync end, bits 4–0 (${hSyncEnd} mod 32)`, value: hSyncEnd & 0x1f },
+    ]),
+    reg(0x06, 'Vertical total', [{ range: '7:0', meaning: `lines − 2, bits 7–0 (${t.v.total} − 2 = ${vTotal})`, value: vTotal & 0xff }]),
+    reg(0x07, 'Overflow', [
+      { range: '7', meaning: 'vertical retrace start, bit 9', value: bit(vSyncStart, 9) },
+      { range: '6', meaning: 'vertical display end, bit 9', value: bit(vDisplayEnd, 9) },
+      { range: '5', meaning: 'vertical total, bit 9', value: bit(vTotal, 9) },
+      { range: '4', meaning: 'line compare, bit 8', value: bit(lineCompare, 8) },
+      { range: '3', meaning: 'start vertical blanking, bit 8', value: bit(vBlankStart, 8) },
+      { range: '2', meaning: 'vertical retrace start, bit 8', value: bit(vSyncStart, 8) },
+      { range: '1', meaning: 'vertical display end, bit 8', value: bit(vDisplayEnd, 8) },
+      { range: '0', meaning: 'vertical total, bit 8', value: bit(vTotal, 8) },
+    ]),
+    reg(0x08, 'Preset row scan', [{ range: '7:0', meaning: 'no preset scan or byte pan', value: 0 }]),
+    reg(0x09, 'Maximum scan line', [
+      { range: '7', meaning: 'double scan off', value: 0 },
+      { range: '6', meaning: 'line compare, bit 9', value: bit(lineCompare, 9) },
+      { range: '5', meaning: 'start vertical blanking, bit 9', value: bit(vBlankStart, 9) },
+      { range: '4:0', meaning: 'scan lines per character row − 1 (graphics: 0)', value: 0 },
+    ]),
+    ...[0x0a, 0x0b, 0x0c, 0x0d, 0x0e, 0x0f].map((i) => reg(i, ['Cursor start', 'Cursor end', 'Start address high', 'Start address low', 'Cursor location high', 'Cursor location low'][i - 0x0a], [{ range: '7:0', meaning: 'not used for this mode (0)', value: 0 }])),
+    reg(0x10, 'Vertical retrace start', [{ range: '7:0', meaning: `line where sync starts, bits 7–0 (${vSyncStart})`, value: vSyncStart & 0xff }]),
+    reg(0x11, 'Vertical retrace end', [
+      { range: '7', meaning: 'protect CR00–CR07', value: 1 },
+      { range: '6', meaning: 'memory refresh bandwidth', value: 0 },
+      { range: '5:4', meaning: 'vertical interrupt enabled, cleared', value: 0 },
+      { range: '3:0', meaning: `sync end, bits 3–0 (${vSyncEnd} mod 16)`, value: vSyncEnd & 0x0f },
+    ]),
+    reg(0x12, 'Vertical display end', [{ range: '7:0', meaning: `last displayed line, bits 7–0 (${vDisplayEnd})`, value: vDisplayEnd & 0xff }]),
+    reg(0x13, 'Offset', [{ range: '7:0', meaning: `words per line of one plane (${t.h.active} / 16)`, value: (t.h.active / 16) & 0xff }]),
+    reg(0x14, 'Underline location', [{ range: '7:0', meaning: 'byte addressing, no underline', value: 0 }]),
+    reg(0x15, 'Start vertical blanking', [{ range: '7:0', meaning: `line where blanking starts, bits 7–0 (${vBlankStart})`, value: vBlankStart & 0xff }]),
+    reg(0x16, 'End vertical blanking', [{ range: '7:0', meaning: `blanking end, bits 7–0 (${vBlankEnd} mod 256)`, value: vBlankEnd & 0xff }]),
+    reg(0x17, 'Mode control', [{ range: '7:0', meaning: 'sync on, byte mode, wrap, CGA/Hercules compatibility off (as mode 12h)', value: 0xe3 }]),
+    reg(0x18, 'Line compare', [{ range: '7:0', meaning: 'split screen off (0x3FF), bits 7–0', value: lineCompare & 0xff }]),
+  ];
+  const clockSelect = Math.abs(t.pixelClockMHz - 25.175) < 0.01 ? 0 : Math.abs(t.pixelClockMHz - 28.322) < 0.01 ? 1 : 2;
+  const misc = reg(0x3c2, 'Miscellaneous output', [
+    { range: '7', meaning: `vertical sync polarity (${t.vSyncPositive ? '0 = positive' : '1 = negative'})`, value: t.vSyncPositive ? 0 : 1 },
+    { range: '6', meaning: `horizontal sync polarity (${t.hSyncPositive ? '0 = positive' : '1 = negative'})`, value: t.hSyncPositive ? 0 : 1 },
+    { range: '5', meaning: 'odd/even page select', value: 1 },
+    { range: '3:2', meaning: clockSelect === 0 ? 'clock 0: 25.175 MHz' : clockSelect === 1 ? 'clock 1: 28.322 MHz' : `clock 2: external/programmable (${t.pixelClockMHz} MHz)`, value: clockSelect },
+    { range: '1', meaning: 'video RAM enabled', value: 1 },
+    { range: '0', meaning: 'CRTC at 3Dx (colour I/O addresses)', value: 1 },
+  ]);
+  const notes = ['8-pixel character clock; 16-colour planar memory layout (offset = width / 16, mode control E3).'];
+  if (clockSelect === 2) notes.push(`${t.pixelClockMHz} MHz is neither standard VGA crystal: program it in the card's clock synthesiser (chip-specific).`);
+  return { crtc, misc, notes };
+}
+
+/** Two upper-case hex digits. */
+export const hex2 = (v: number) => v.toString(16).toUpperCase().padStart(2, '0');
+
+/**
+ * The VBE 3.0 CRTCInfoBlock for a timing [ds, VBE 3.0 core functions, from memory]: words
+ * HorizontalTotal, HorizontalSyncStart, HorizontalSyncEnd, VerticalTotal, VerticalSyncStart,
+ * VerticalSyncEnd; byte Flags (bit 2 = hsync negative, bit 3 = vsync negative); dword
+ * PixelClock in Hz; word RefreshRate in 0.01 Hz; 40 reserved bytes. Little-endian.
+ */
+export function vbeCrtcInfoBlock(t: Timing): { fields: Record<string, number>; bytes: number[] } {
+  const pixelClock = Math.round(t.pixelClockMHz * 1e6);
+  const refresh = Math.round((pixelClock / (t.h.total * t.v.total)) * 100);
+  const fields = {
+    HorizontalTotal: t.h.total,
+    HorizontalSyncStart: t.h.active + t.h.frontPorch,
+    HorizontalSyncEnd: t.h.active + t.h.frontPorch + t.h.sync,
+    VerticalTotal: t.v.total,
+    VerticalSyncStart: t.v.active + t.v.frontPorch,
+    VerticalSyncEnd: t.v.active + t.v.frontPorch + t.v.sync,
+    Flags: (t.hSyncPositive ? 0 : 4) | (t.vSyncPositive ? 0 : 8),
+    PixelClock: pixelClock,
+    RefreshRate: refresh,
+  };
+  const le = (v: number, n: number) => Array.from({ length: n }, (_, i) => (v >>> (8 * i)) & 0xff);
+  const bytes = [
+    ...le(fields.HorizontalTotal, 2),
+    ...le(fields.HorizontalSyncStart, 2),
+    ...le(fields.HorizontalSyncEnd, 2),
+    ...le(fields.VerticalTotal, 2),
+    ...le(fields.VerticalSyncStart, 2),
+    ...le(fields.VerticalSyncEnd, 2),
+    fields.Flags,
+    ...le(fields.PixelClock, 4),
+    ...le(fields.RefreshRate, 2),
+    ...new Array(40).fill(0),
+  ];
+  return { fields, bytes };
+}
+
+/** Reads a timing back from CR00–CR18 (8-pixel characters): what the registers encode. */
+export function decodeVgaRegisters(crtc: number[]): { hTotal: number; hActive: number; hSyncStart: number; vTotal: number; vActive: number; vSyncStart: number; vSyncEndLow4: number } {
+  const o = crtc[0x07];
+  const b = (v: number, n: number) => (v >> n) & 1;
+  return {
+    hTotal: (crtc[0x00] + 5) * CHAR,
+    hActive: (crtc[0x01] + 1) * CHAR,
+    hSyncStart: crtc[0x04] * CHAR,
+    vTotal: (crtc[0x06] | (b(o, 0) << 8) | (b(o, 5) << 9)) + 2,
+    vActive: (crtc[0x12] | (b(o, 1) << 8) | (b(o, 6) << 9)) + 1,
+    vSyncStart: crtc[0x10] | (b(o, 2) << 8) | (b(o, 7) << 9),
+    vSyncEndLow4: crtc[0x11] & 0x0f,
+  };
+}
