@@ -76,3 +76,43 @@ describe('cli', () => {
     expect(r.err).toMatch(/source\.fit/);
   });
 });
+
+describe('cli drive timing', () => {
+  test('timing --mode 640x480@60 --standard dmt --dual-scan --pixels-per-clock 4 --json [std DMT row; calc shift clock]', async () => {
+    const r = await cli('timing', '--mode', '640x480@60', '--standard', 'dmt', '--dual-scan', '--pixels-per-clock', '4', '--json');
+    expect(r.code).toBe(0);
+    const doc = JSON.parse(r.out);
+    expect(doc).toMatchObject({ pixelClockMHz: 25.175, h: { active: 640, frontPorch: 16, sync: 96, backPorch: 48, total: 800 }, v: { active: 480, frontPorch: 10, sync: 2, backPorch: 33, total: 525 }, hSyncPositive: false, vSyncPositive: false });
+    expect(doc.lineRateKHz).toBeCloseTo(31.469, 3);
+    expect(doc.refreshHz).toBeCloseTo(59.94, 2);
+    expect(doc.shiftClockMHz).toBeCloseTo(25.175 / 8, 3);
+  });
+
+  test('timing with CVT reduced blanking v2 [std worked result]', async () => {
+    const doc = JSON.parse((await cli('timing', '--mode', '640x480@60', '--standard', 'cvt-rb2', '--json')).out);
+    expect(doc.pixelClockMHz).toBe(21.384);
+    expect([doc.h.total, doc.v.total]).toEqual([720, 495]);
+  });
+
+  test('registers --mode 640x480@60 --standard dmt --json: 25 two-digit hex values and misc E3', async () => {
+    const doc = JSON.parse((await cli('registers', '--mode', '640x480@60', '--standard', 'dmt', '--json')).out);
+    expect(doc.crtc).toHaveLength(25);
+    for (const v of doc.crtc) expect(v).toMatch(/^[0-9A-F]{2}$/);
+    expect([doc.crtc[0], doc.crtc[1], doc.crtc[6], doc.crtc[0x10], doc.crtc[0x12]]).toEqual(['5F', '4F', '0B', 'EA', 'DF']);
+    expect(doc.misc).toBe('E3');
+  });
+
+  test.each([
+    [['timing', '--mode', '123x45@60', '--standard', 'dmt', '--json'], 'not among the fixed'],
+    [['timing', '--mode', '640x480', '--standard', 'cvt'], 'mode must look like 640x480@60'],
+    [['timing', '--mode', '640x480@60', '--standard', 'gtf'], '--standard must be one of dmt, cvt, cvt-rb, cvt-rb2'],
+    [['timing', '--mode', '640x480@2', '--standard', 'cvt'], 'refresh rate must be from 20 to 480 Hz'],
+    [['timing', '--mode', '640x480@60', '--standard', 'dmt', '--pixels-per-clock', '3'], '--pixels-per-clock must be one of 1, 4, 8, 16'],
+    [['registers', '--mode', '1004x480@60', '--standard', 'cvt-rb2'], '8-pixel character clock'],
+    [['registers'], '--mode is required'],
+  ])('%j exits 2 with a clear message', async (argv, message) => {
+    const r = await cli(...argv);
+    expect(r.code).toBe(2);
+    expect(r.err).toContain(message);
+  });
+});

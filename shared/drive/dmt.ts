@@ -54,6 +54,6 @@ export function fixedTiming(name: string): Timing | undefined {
 
 /** Parses "640x480@60" into its parts, or null. */
 export function parseMode(text: string): { width: number; height: number; refreshHz: number } | null {
-  const m = /^(\d{2,5})x(\d{2,5})@(\d{2,3}(?:\.\d+)?)$/.exec(text.trim());
+  const m = /^(\d{2,5})x(\d{2,5})@(\d{1,3}(?:\.\d+)?)$/.exec(text.trim());
   return m ? { width: Number(m[1]), height: Number(m[2]), refreshHz: Number(m[3]) } : null;
 }
