@@ -19,6 +19,8 @@ import { healthRoutes } from './features/health/health.routes';
 import { panelTypesRoutes } from './features/panel-types/panel-types.routes';
 import { rendersRoutes } from './features/renders/renders.routes';
 import { RenderStore } from './render/reference-renderer';
+import { timingsRoutes } from './features/timings/timings.routes';
+import { TimingsService } from './features/timings/timings.service';
 import { inviteLinkRoutes, studiosRoutes } from './features/studios/studios.routes';
 import { StudiosService } from './features/studios/studios.service';
 import type { Mailer } from './mail/mailer';
@@ -54,7 +56,7 @@ export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[] } {
   const auth = new AuthService(mailer, config.appUrl);
   const studios = new StudiosService(mailer, config.appUrl);
   const renderStore = new RenderStore(config.storageDir);
-  const routers: ApiRouter[] = [health, authRoutes(auth, sequelize), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renderStore)];
+  const routers: ApiRouter[] = [health, authRoutes(auth, sequelize), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renderStore), timingsRoutes(new TimingsService())];
   const docs = new ApiRouter('/docs', 'Service');
   const specs = routers.flatMap((r) => r.specs);
   docs.route('get', '/', { policy: publicAccess, summary: 'This OpenAPI document' }, (_req, res) => {

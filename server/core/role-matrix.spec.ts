@@ -5,7 +5,7 @@ import { Invite } from '../features/studios/invite.model';
 import { Membership } from '../features/studios/membership.model';
 import { createHarness, TestClient, uniqueEmail, type Harness } from '../testing/harness';
 import { pngOf } from '../testing/images';
-import { ACTORS, createStudioWorld, createUsers, WORLD_PASSWORD, type Actor, type WorldUsers } from '../testing/world';
+import { ACTORS, createStudioWorld, createUsers, TIMING_BODY, WORLD_PASSWORD, type Actor, type WorldUsers } from '../testing/world';
 
 /**
  * Access control as a table (SECURITY.md 8–10; ASVS 5.0 8.2.1, 8.2.2): every /api route ×
@@ -17,6 +17,7 @@ interface Cell {
   actor: Actor;
   inviteId: string;
   inviteToken: string;
+  timingId: string;
 }
 interface Row {
   method: 'get' | 'post' | 'patch' | 'delete';
@@ -62,6 +63,11 @@ const ROWS: Row[] = [
   { method: 'post', path: '/api/studios/:studioId/invites', url: (c) => `${S(c)}/invites`, body: () => ({ email: uniqueEmail('inv'), role: 'viewer' }), expect: [201, 403, 403, 404, 401] },
   { method: 'delete', path: '/api/studios/:studioId/invites/:inviteId', url: (c) => `${S(c)}/invites/${c.inviteId}`, expect: [204, 403, 403, 404, 401] },
   { method: 'get', path: '/api/invites/:token', url: (c) => `/api/invites/${c.inviteToken}`, expect: [200, 200, 200, 200, 200] },
+  { method: 'get', path: '/api/studios/:studioId/timings', url: (c) => `${S(c)}/timings`, expect: [200, 200, 200, 404, 401] },
+  { method: 'post', path: '/api/studios/:studioId/timings', url: (c) => `${S(c)}/timings`, body: () => TIMING_BODY, expect: [201, 201, 403, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/timings/:timingId', url: (c) => `${S(c)}/timings/${c.timingId}`, expect: [200, 200, 200, 404, 401] },
+  { method: 'patch', path: '/api/studios/:studioId/timings/:timingId', url: (c) => `${S(c)}/timings/${c.timingId}`, body: () => ({ name: 'Renamed timing' }), expect: [200, 200, 403, 404, 401] },
+  { method: 'delete', path: '/api/studios/:studioId/timings/:timingId', url: (c) => `${S(c)}/timings/${c.timingId}`, expect: [204, 204, 403, 404, 401] },
   { method: 'get', path: '/api/panel-types', url: () => '/api/panel-types', expect: [200, 200, 200, 200, 200] },
   {
     method: 'post',
@@ -124,7 +130,7 @@ test('deny by default: every route in the Express router starts with a policy mi
 describe.each(ROWS)('$method $path', (row) => {
   test.each(ACTORS.map((actor, i) => [actor, row.expect[i]] as const))('%s → %i', async (actor, expected) => {
     const world = await createStudioWorld(users);
-    const cell: Cell = { studioId: world.studio.id, users, actor, inviteId: world.invite.id, inviteToken: world.inviteToken };
+    const cell: Cell = { studioId: world.studio.id, users, actor, inviteId: world.invite.id, inviteToken: world.inviteToken, timingId: world.timing.id };
     const client = new TestClient(h.app);
     if (actor !== 'anonymous') {
       const signIn = await client.post('/api/auth/sign-in', { email: users[actor].email, password: WORLD_PASSWORD });

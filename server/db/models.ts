@@ -2,6 +2,7 @@ import type { Sequelize } from 'sequelize';
 import { initPasswordReset, PasswordReset } from '../features/auth/password-reset.model';
 import { initUser, User } from '../features/auth/user.model';
 import { initRender } from '../features/renders/render.model';
+import { initSavedTiming } from '../features/timings/timing.model';
 import { initInvite, Invite } from '../features/studios/invite.model';
 import { initMembership, Membership } from '../features/studios/membership.model';
 import { initStudio, Studio } from '../features/studios/studio.model';
@@ -14,6 +15,7 @@ export function initModels(sequelize: Sequelize): void {
   initMembership(sequelize);
   initInvite(sequelize);
   initRender(sequelize);
+  initSavedTiming(sequelize);
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
   Membership.belongsTo(Studio, { foreignKey: 'studioId', as: 'studio' });
   Invite.belongsTo(Studio, { foreignKey: 'studioId', as: 'studio' });

@@ -5,6 +5,7 @@ import { User } from '../features/auth/user.model';
 import { Invite } from '../features/studios/invite.model';
 import { Membership } from '../features/studios/membership.model';
 import { Studio } from '../features/studios/studio.model';
+import { SavedTiming } from '../features/timings/timing.model';
 import { uniqueEmail } from './harness';
 
 export const WORLD_PASSWORD = 'a long test passphrase';
@@ -33,7 +34,15 @@ export async function createUsers(): Promise<WorldUsers> {
 }
 
 /** A fresh studio where owner/editor/viewer have those roles and `target` is a viewer, plus one pending invite. */
-export async function createStudioWorld(users: WorldUsers): Promise<{ studio: Studio; invite: Invite; inviteToken: string }> {
+/** A valid saved-timing body (DMT 640×480@60, dual-scan, 4 px per clock, amber EL 640×480). */
+export const TIMING_BODY = {
+  name: 'Handheld EL, 60 Hz',
+  panelTypeId: 'el-amber-640x480',
+  source: { kind: 'standard' as const, standard: 'dmt' as const, mode: '640x480@60' },
+  interface: { dualScan: true, pixelsPerClock: 4 as const },
+};
+
+export async function createStudioWorld(users: WorldUsers): Promise<{ studio: Studio; invite: Invite; inviteToken: string; timing: SavedTiming }> {
   const studio = await Studio.create({ name: `Matrix ${Math.random().toString(36).slice(2, 7)}` });
   const roles: [User, Role][] = [
     [users.owner, 'owner'],
@@ -44,5 +53,6 @@ export async function createStudioWorld(users: WorldUsers): Promise<{ studio: St
   await Membership.bulkCreate(roles.map(([u, role]) => ({ studioId: studio.id, userId: u.id, role })));
   const { token, hash } = newToken();
   const invite = await Invite.create({ studioId: studio.id, email: uniqueEmail('invitee'), role: 'viewer', tokenHash: hash, invitedById: users.owner.id, expiresAt: new Date(Date.now() + 86_400_000) });
-  return { studio, invite, inviteToken: token };
+  const timing = await SavedTiming.create({ studioId: studio.id, ...TIMING_BODY, createdById: users.owner.id, updatedById: users.owner.id });
+  return { studio, invite, inviteToken: token, timing };
 }

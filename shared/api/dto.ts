@@ -44,3 +44,17 @@ export interface InvitePreviewDto {
 export interface ApiErrorBody {
   error: { code: string; message: string; details?: unknown };
 }
+
+/** A saved drive timing with what follows from it. */
+export interface SavedTimingDto {
+  id: string;
+  name: string;
+  panelTypeId: string;
+  source: import('./timing.schema').TimingSource;
+  interface: import('../drive/interface').PanelInterface;
+  timing: import('../drive/timing').Timing;
+  figures: import('../drive/timing').TimingFigures;
+  panel: import('../drive/interface').InterfaceFigures;
+  warnings: string[];
+  updatedAt: string;
+}
