@@ -1,3 +1,4 @@
+import '../model/zod-config';
 import { z } from 'zod';
 import { ROLES } from '../model/roles';
 

@@ -1,3 +1,4 @@
+import '../model/zod-config';
 import { z } from 'zod';
 import { PIXELS_PER_CLOCK } from '../drive/interface';
 import { STANDARDS } from '../drive/resolve';

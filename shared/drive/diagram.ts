@@ -54,9 +54,10 @@ function panel(title: string, a: Axis, unit: string, duration: string, list: Tra
     [`sync ${a.sync}`, a.active + a.frontPorch, a.active + a.frontPorch + a.sync],
     [`back ${a.backPorch}`, a.active + a.frontPorch + a.sync, a.total],
   ];
+  // Each measurement on its own row under its span, kept inside the plot at the right edge.
   spans.forEach(([text, s, e], i) => {
-    const mid = (x(s) + x(e)) / 2;
-    out += `<text x="${mid}" y="${bottom + 16 + (i % 2) * 14}" class="measure">${esc(text)}</text>`;
+    const mid = Math.min((x(s) + x(e)) / 2, width - 20 - text.length * 3.4);
+    out += `<text x="${mid}" y="${bottom + 16 + i * 14}" class="measure">${esc(text)}</text>`;
   });
   return out;
 }
@@ -72,8 +73,8 @@ export function timingDiagramSvg(t: Timing, iface?: PanelInterface): string {
   const shift = iface ? `Shift clock ÷${iface.pixelsPerClock * (iface.dualScan ? 2 : 1)}` : undefined;
   const line = tracks(t.h, t.hSyncPositive, `HSYNC (${t.hSyncPositive ? '+' : '−'})`, 'H blanking', shift);
   const frame = tracks(t.v, t.vSyncPositive, `VSYNC (${t.vSyncPositive ? '+' : '−'})`, 'V blanking');
-  const lineH = 30 + line.length * 34 + 40;
-  const height = 40 + lineH + 30 + frame.length * 34 + 60;
+  const lineH = 30 + line.length * 34 + 76;
+  const height = 40 + lineH + 30 + frame.length * 34 + 76;
   const header = `${t.name} · ${fmt(t.pixelClockMHz, 3)} MHz pixel clock · ${fmt(f.lineRateKHz, 3)} kHz line rate · ${fmt(f.refreshHz, 3)} Hz refresh`;
   return [
     `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height}" width="${width}" height="${height}" role="img" aria-label="${esc(`Timing diagram for ${header}`)}">`,

@@ -1,29 +1,20 @@
 import type { SavedTimingDto } from '../../../shared/api/dto';
 import type { CreateTimingBody } from '../../../shared/api/timing.schema';
-import { timingFromSource } from '../../../shared/drive/from-source';
-import { interfaceFigures, interfaceWarnings } from '../../../shared/drive/interface';
-import { figures, timingProblems } from '../../../shared/drive/timing';
+import { evaluateTiming } from '../../../shared/drive/evaluate';
 import { panelTypeById } from '../../../shared/model/panel-types';
 import { AppError, notFound } from '../../core/app-error';
 import { SavedTiming } from './timing.model';
 
-/** Checks a timing request fully (mode exists, figures possible, interface fits) and computes its figures. */
+/** The saved fields plus what follows from them; an impossible request is a 400 with the reason. */
 export function evaluate(body: Pick<CreateTimingBody, 'name' | 'panelTypeId' | 'source' | 'interface'>): Omit<SavedTimingDto, 'id' | 'updatedAt'> {
-  const panelType = panelTypeById(body.panelTypeId);
-  if (!panelType) throw new AppError(400, 'invalid_input', `panelTypeId "${body.panelTypeId}" is not a built-in panel type; GET /api/panel-types lists them.`, { issues: [{ path: 'panelTypeId', message: 'unknown panel type' }] });
-  let timing;
-  let panel;
+  if (!panelTypeById(body.panelTypeId)) {
+    throw new AppError(400, 'invalid_input', `panelTypeId "${body.panelTypeId}" is not a built-in panel type; GET /api/panel-types lists them.`, { issues: [{ path: 'panelTypeId', message: 'unknown panel type' }] });
+  }
   try {
-    timing = timingFromSource(body.source, body.name);
-    const problems = timingProblems(timing);
-    if (problems.length) throw new RangeError(problems.join('; '));
-    panel = interfaceFigures(timing, body.interface);
+    return { name: body.name, panelTypeId: body.panelTypeId, source: body.source, interface: body.interface, ...evaluateTiming(body) };
   } catch (err) {
-    if (err instanceof AppError) throw err;
     throw new AppError(400, 'impossible_timing', `This timing cannot be used: ${(err as Error).message}.`);
   }
-  const warnings = interfaceWarnings(timing, body.interface, { family: panelType.family, cols: panelType.defaults.cell.cols, rows: panelType.defaults.cell.rows });
-  return { name: body.name, panelTypeId: body.panelTypeId, source: body.source, interface: body.interface, timing, figures: figures(timing), panel, warnings };
 }
 
 const dto = (row: SavedTiming): SavedTimingDto => ({ id: row.id, ...evaluate(row), updatedAt: row.updatedAt.toISOString() });
