@@ -11,6 +11,8 @@ import { publicAccess } from './core/policy';
 import { securityHeaders } from './core/security-headers';
 import { absoluteLifetime, csrfProtection, sessionMiddleware } from './core/session';
 import './core/request-context';
+import { artworksRoutes } from './features/artworks/artworks.routes';
+import { ArtworksService } from './features/artworks/artworks.service';
 import { authRoutes } from './features/auth/auth.routes';
 import { AuthService } from './features/auth/auth.service';
 import { configurePassport } from './features/auth/passport';
@@ -24,6 +26,7 @@ import { TimingsService } from './features/timings/timings.service';
 import { inviteLinkRoutes, studiosRoutes } from './features/studios/studios.routes';
 import { StudiosService } from './features/studios/studios.service';
 import type { Mailer } from './mail/mailer';
+import { FileStore } from './storage/file-store';
 
 /** What the app needs from outside: configuration and live connections. */
 export interface AppDeps {
@@ -35,7 +38,7 @@ export interface AppDeps {
 }
 
 /** The Express app with every route; `listen` is the caller's business (server/main.ts, tests). */
-export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[] } {
+export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; artworks: ArtworksService } {
   const { config, sequelize, mailer } = deps;
   const app = express();
   app.disable('x-powered-by');
@@ -54,9 +57,10 @@ export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[] } {
   app.use(csrfProtection);
 
   const auth = new AuthService(mailer, config.appUrl);
-  const studios = new StudiosService(mailer, config.appUrl);
   const renderStore = new RenderStore(config.storageDir);
-  const routers: ApiRouter[] = [health, authRoutes(auth, sequelize), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renderStore), timingsRoutes(new TimingsService())];
+  const artworks = new ArtworksService(new FileStore(config.storageDir));
+  const studios = new StudiosService(mailer, config.appUrl, (_studioId, artworkIds) => artworks.removeFiles(artworkIds));
+  const routers: ApiRouter[] = [health, authRoutes(auth, sequelize), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renderStore), timingsRoutes(new TimingsService()), artworksRoutes(artworks, renderStore)];
   const docs = new ApiRouter('/docs', 'Service');
   const specs = routers.flatMap((r) => r.specs);
   docs.route('get', '/', { policy: publicAccess, summary: 'This OpenAPI document' }, (_req, res) => {
@@ -68,7 +72,7 @@ export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[] } {
 
   serveSpa(app, config.staticDir);
   app.use(errorHandler);
-  return Object.assign(app, { apiSpecs: routers.flatMap((r) => r.specs) });
+  return Object.assign(app, { apiSpecs: routers.flatMap((r) => r.specs), artworks });
 }
 
 /** Serves the built Angular app with a per-request CSP nonce in index.html. */

@@ -34,6 +34,8 @@ export async function start(config: Config = loadConfig()): Promise<Running> {
   sessionPool.on('error', (err) => console.error(`[db] idle session-pool client failed: ${err.message}`));
   const mailer = new Mailer(config.smtp);
   const app = createApp({ config, sequelize, sessionPool, mailer });
+  const orphans = await app.artworks.reconcile();
+  if (orphans) console.log(`[storage] removed ${orphans} artwork folder(s) left without a database row`);
   const host = process.env.HOST ?? '127.0.0.1';
   const server = await new Promise<Server>((resolve) => {
     const s = app.listen(config.port, host, () => resolve(s));

@@ -18,6 +18,7 @@ interface Cell {
   inviteId: string;
   inviteToken: string;
   timingId: string;
+  artworkId: string;
 }
 interface Row {
   method: 'get' | 'post' | 'patch' | 'delete';
@@ -68,6 +69,27 @@ const ROWS: Row[] = [
   { method: 'get', path: '/api/studios/:studioId/timings/:timingId', url: (c) => `${S(c)}/timings/${c.timingId}`, expect: [200, 200, 200, 404, 401] },
   { method: 'patch', path: '/api/studios/:studioId/timings/:timingId', url: (c) => `${S(c)}/timings/${c.timingId}`, body: () => ({ name: 'Renamed timing' }), expect: [200, 200, 403, 404, 401] },
   { method: 'delete', path: '/api/studios/:studioId/timings/:timingId', url: (c) => `${S(c)}/timings/${c.timingId}`, expect: [204, 204, 403, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/artworks', url: (c) => `${S(c)}/artworks`, expect: [200, 200, 200, 404, 401] },
+  {
+    method: 'post',
+    path: '/api/studios/:studioId/artworks',
+    url: (c) => `${S(c)}/artworks`,
+    upload: () => ({ fields: { name: 'Matrix upload' }, file: { name: 'a.png', bytes: pngOf(4, 4, () => [200, 100, 0, 255]) } }),
+    expect: [201, 201, 403, 404, 401],
+  },
+  { method: 'get', path: '/api/studios/:studioId/artworks/:artworkId', url: (c) => `${S(c)}/artworks/${c.artworkId}`, expect: [200, 200, 200, 404, 401] },
+  { method: 'patch', path: '/api/studios/:studioId/artworks/:artworkId', url: (c) => `${S(c)}/artworks/${c.artworkId}`, body: () => ({ name: 'Renamed' }), expect: [200, 200, 403, 404, 401] },
+  { method: 'delete', path: '/api/studios/:studioId/artworks/:artworkId', url: (c) => `${S(c)}/artworks/${c.artworkId}`, expect: [204, 204, 403, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/artworks/:artworkId/original', url: (c) => `${S(c)}/artworks/${c.artworkId}/original`, expect: [200, 200, 200, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/artworks/:artworkId/thumbnail', url: (c) => `${S(c)}/artworks/${c.artworkId}/thumbnail`, expect: [200, 200, 200, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/artworks/:artworkId/frames', url: (c) => `${S(c)}/artworks/${c.artworkId}/frames`, expect: [200, 200, 200, 404, 401] },
+  {
+    method: 'post',
+    path: '/api/studios/:studioId/renders',
+    url: (c) => `${S(c)}/renders`,
+    body: (c) => ({ artworkId: c.artworkId, presetId: 'el-amber-640x480.standard', patch: { cell: { cols: 8, rows: 8 }, viewing: { exposureEv: Math.random() * 3 } }, scale: 1 }),
+    expect: [201, 201, 201, 404, 401],
+  },
   { method: 'get', path: '/api/panel-types', url: () => '/api/panel-types', expect: [200, 200, 200, 200, 200] },
   {
     method: 'post',
@@ -129,8 +151,8 @@ test('deny by default: every route in the Express router starts with a policy mi
 
 describe.each(ROWS)('$method $path', (row) => {
   test.each(ACTORS.map((actor, i) => [actor, row.expect[i]] as const))('%s → %i', async (actor, expected) => {
-    const world = await createStudioWorld(users);
-    const cell: Cell = { studioId: world.studio.id, users, actor, inviteId: world.invite.id, inviteToken: world.inviteToken, timingId: world.timing.id };
+    const world = await createStudioWorld(users, h.app.artworks);
+    const cell: Cell = { studioId: world.studio.id, users, actor, inviteId: world.invite.id, inviteToken: world.inviteToken, timingId: world.timing.id, artworkId: world.artworkId };
     const client = new TestClient(h.app);
     if (actor !== 'anonymous') {
       const signIn = await client.post('/api/auth/sign-in', { email: users[actor].email, password: WORLD_PASSWORD });

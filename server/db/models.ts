@@ -1,6 +1,7 @@
 import type { Sequelize } from 'sequelize';
 import { initPasswordReset, PasswordReset } from '../features/auth/password-reset.model';
 import { initUser, User } from '../features/auth/user.model';
+import { initArtwork } from '../features/artworks/artwork.model';
 import { initRender } from '../features/renders/render.model';
 import { initSavedTiming } from '../features/timings/timing.model';
 import { initInvite, Invite } from '../features/studios/invite.model';
@@ -15,6 +16,7 @@ export function initModels(sequelize: Sequelize): void {
   initMembership(sequelize);
   initInvite(sequelize);
   initRender(sequelize);
+  initArtwork(sequelize);
   initSavedTiming(sequelize);
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
   Membership.belongsTo(Studio, { foreignKey: 'studioId', as: 'studio' });

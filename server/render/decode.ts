@@ -1,4 +1,5 @@
 import sharp, { type Metadata, type OutputInfo } from 'sharp';
+import { sliceSpriteSheet, type SpriteSheet } from '../../shared/pipeline/sprite-sheet';
 import type { Frame } from '../../shared/pipeline/types';
 import { AppError } from '../core/app-error';
 
@@ -77,4 +78,15 @@ export async function decodeImage(bytes: Buffer, limits = IMAGE_LIMITS): Promise
     delayMs: pages > 1 ? (delays[k] && delays[k] >= 20 ? delays[k] : 100) : 0,
   }));
   return { type, width, height, frames };
+}
+
+/** The frames an image shows: its own, or — for a sprite sheet — its grid cells in reading order. */
+export function framesOf(decoded: DecodedImage, sheet: SpriteSheet | null | undefined): Frame[] {
+  if (!sheet) return decoded.frames;
+  if (decoded.frames.length > 1) throw refuse('sheet_is_animated', 'A sprite sheet must be a still image; this file is already an animation.');
+  try {
+    return sliceSpriteSheet(decoded.frames[0].image, sheet);
+  } catch (err) {
+    throw refuse('sheet_does_not_fit', `${(err as Error).message}. Check the frame width and height.`);
+  }
 }

@@ -5,7 +5,8 @@ import type { PanelParams } from '../../shared/model/parameters';
 import { outputUniforms } from '../../shared/pipeline/output/uniforms';
 import { PIPELINE_VERSION, renderCpu } from '../../shared/pipeline/render';
 import { AppError } from '../core/app-error';
-import { decodeImage } from './decode';
+import type { SpriteSheet } from '../../shared/pipeline/sprite-sheet';
+import { decodeImage, framesOf } from './decode';
 import { encodePng } from './encode';
 
 /** Largest output image a reference render may produce. */
@@ -14,6 +15,8 @@ export const MAX_OUTPUT_PIXELS = 24_000_000;
 /** What a reference render is asked for. */
 export interface RenderRequest {
   input: Buffer;
+  /** When the input is a sprite sheet: how to cut it into frames. */
+  sheet?: SpriteSheet | null;
   parameters: PanelParams;
   scale: number;
   frame: number;
@@ -25,7 +28,7 @@ export function renderKey(req: RenderRequest): string {
   h.update(`emberline-render/${PIPELINE_VERSION}\n`);
   h.update(createHash('sha256').update(req.input).digest());
   h.update(JSON.stringify(canonical(req.parameters)));
-  h.update(`\n${req.scale}\n${req.frame}`);
+  h.update(`\n${req.scale}\n${req.frame}\n${JSON.stringify(req.sheet ?? null)}`);
   return h.digest('hex');
 }
 
@@ -42,9 +45,9 @@ export async function renderReference(req: RenderRequest): Promise<{ png: Buffer
   if (u.width * u.height > MAX_OUTPUT_PIXELS) {
     throw new AppError(400, 'output_too_large', `The render would be ${u.width} × ${u.height} pixels; the limit is ${MAX_OUTPUT_PIXELS}. Lower the scale.`);
   }
-  const decoded = await decodeImage(req.input);
-  if (req.frame >= decoded.frames.length) throw new AppError(400, 'invalid_input', `frame must be from 0 to ${decoded.frames.length - 1} for this image, got ${req.frame}.`);
-  const image = renderCpu(decoded.frames, req.parameters, { scale: req.scale, frame: req.frame });
+  const frames = framesOf(await decodeImage(req.input), req.sheet);
+  if (req.frame >= frames.length) throw new AppError(400, 'invalid_input', `frame must be from 0 to ${frames.length - 1} for this image, got ${req.frame}.`);
+  const image = renderCpu(frames, req.parameters, { scale: req.scale, frame: req.frame });
   return { png: await encodePng(image), width: image.width, height: image.height };
 }
 

@@ -13,7 +13,7 @@ import { Mailer } from '../mail/mailer';
 
 /** A real app on the test database with a real SMTP catcher; one per spec file. */
 export interface Harness {
-  app: Express & { apiSpecs: import('../core/api-router').RouteSpec[] };
+  app: ReturnType<typeof createApp>;
   config: Config;
   sequelize: Sequelize;
   mail: MailCatcher;

@@ -6,7 +6,9 @@ import { Invite } from '../features/studios/invite.model';
 import { Membership } from '../features/studios/membership.model';
 import { Studio } from '../features/studios/studio.model';
 import { SavedTiming } from '../features/timings/timing.model';
+import type { ArtworksService } from '../features/artworks/artworks.service';
 import { uniqueEmail } from './harness';
+import { pngOf } from './images';
 
 export const WORLD_PASSWORD = 'a long test passphrase';
 
@@ -42,7 +44,7 @@ export const TIMING_BODY = {
   interface: { dualScan: true, pixelsPerClock: 4 as const },
 };
 
-export async function createStudioWorld(users: WorldUsers): Promise<{ studio: Studio; invite: Invite; inviteToken: string; timing: SavedTiming }> {
+export async function createStudioWorld(users: WorldUsers, artworks?: ArtworksService): Promise<{ studio: Studio; invite: Invite; inviteToken: string; timing: SavedTiming; artworkId: string }> {
   const studio = await Studio.create({ name: `Matrix ${Math.random().toString(36).slice(2, 7)}` });
   const roles: [User, Role][] = [
     [users.owner, 'owner'],
@@ -54,5 +56,6 @@ export async function createStudioWorld(users: WorldUsers): Promise<{ studio: St
   const { token, hash } = newToken();
   const invite = await Invite.create({ studioId: studio.id, email: uniqueEmail('invitee'), role: 'viewer', tokenHash: hash, invitedById: users.owner.id, expiresAt: new Date(Date.now() + 86_400_000) });
   const timing = await SavedTiming.create({ studioId: studio.id, ...TIMING_BODY, createdById: users.owner.id, updatedById: users.owner.id });
-  return { studio, invite, inviteToken: token, timing };
+  const artworkId = artworks ? (await artworks.upload(studio.id, users.owner.id, pngOf(8, 8, (x, y) => [x * 30, y * 30, 0, 255]), 'tile.png', {})).id : '';
+  return { studio, invite, inviteToken: token, timing, artworkId };
 }

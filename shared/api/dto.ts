@@ -58,3 +58,21 @@ export interface SavedTimingDto {
   warnings: string[];
   updatedAt: string;
 }
+
+/** An artwork in a studio's library. */
+export interface ArtworkDto {
+  id: string;
+  name: string;
+  type: 'png' | 'gif' | 'jpeg' | 'webp';
+  width: number;
+  height: number;
+  frameCount: number;
+  delaysMs: number[];
+  bytes: number;
+  sheet: import('../pipeline/sprite-sheet').SpriteSheet | null;
+  createdAt: string;
+  updatedAt: string;
+  originalUrl: string;
+  thumbnailUrl: string;
+  framesUrl: string;
+}

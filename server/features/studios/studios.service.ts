@@ -4,6 +4,7 @@ import type { Role } from '../../../shared/model/roles';
 import { AppError, conflict, notFound } from '../../core/app-error';
 import { hashToken, newToken } from '../../core/tokens';
 import type { Mailer } from '../../mail/mailer';
+import { Artwork } from '../artworks/artwork.model';
 import { User } from '../auth/user.model';
 import { Invite } from './invite.model';
 import { Membership } from './membership.model';
@@ -32,6 +33,8 @@ export class StudiosService {
   constructor(
     private readonly mailer: Mailer,
     private readonly appUrl: string,
+    /** Called after a studio is deleted, with what to clean up outside the database. */
+    private readonly afterDelete: (studioId: string, artworkIds: string[]) => Promise<void> = async () => undefined,
   ) {}
 
   async listForUser(userId: string): Promise<StudioDto[]> {
@@ -63,7 +66,9 @@ export class StudiosService {
   }
 
   async remove(studioId: string): Promise<void> {
+    const artworks = await Artwork.findAll({ attributes: ['id'], where: { studioId } });
     await Studio.destroy({ where: { id: studioId } });
+    await this.afterDelete(studioId, artworks.map((a) => a.id));
   }
 
   async members(studioId: string): Promise<MemberDto[]> {

@@ -1,0 +1,64 @@
+import type { RequestHandler } from 'express';
+import { ARTWORK_SORTS, renameArtworkSchema, studioRenderSchema, uploadFieldsSchema } from '../../../shared/api/artwork.schema';
+import { ApiRouter } from '../../core/api-router';
+import { AppError } from '../../core/app-error';
+import { idParam, studioRole } from '../../core/policy';
+import { parseOrThrow } from '../../core/validate';
+import type { RenderStore } from '../../render/reference-renderer';
+import { uploadOne } from '../../core/upload';
+import { cachedRender, resolveParameters } from '../renders/renders.service';
+import { artworkDto, type ArtworksService } from './artworks.service';
+
+const png = { 'Content-Type': 'image/png', 'X-Content-Type-Options': 'nosniff' };
+const MIME = { png: 'image/png', gif: 'image/gif', jpeg: 'image/jpeg', webp: 'image/webp' } as const;
+
+/** /api/studios/:studioId/artworks and studio renders. */
+export function artworksRoutes(artworks: ArtworksService, renders: RenderStore): ApiRouter {
+  const api = new ApiRouter('/studios/:studioId', 'Artworks');
+  const artworkId = (req: Parameters<RequestHandler>[0]) => idParam(req, 'artworkId', 'The artwork');
+
+  api.route('get', '/artworks', { policy: studioRole('viewer'), summary: 'The library (?q= search by name, ?sort=newest|oldest|name)' }, async (req, res) => {
+    const q = typeof req.query.q === 'string' ? req.query.q.slice(0, 120) : undefined;
+    const sort = ARTWORK_SORTS.find((s) => s === req.query.sort) ?? 'newest';
+    res.json({ artworks: await artworks.list(req.membership!.studioId, q, sort) });
+  });
+  api.route('post', '/artworks', { policy: studioRole('editor'), summary: 'Upload an image (multipart field "file"; optional name, frameWidth/frameHeight/frameDelayMs for a sprite sheet)', status: 201 }, uploadOne, async (req, res) => {
+    const fields = parseOrThrow(uploadFieldsSchema, req.body ?? {}, 'upload fields');
+    if (!req.file) throw new AppError(400, 'invalid_input', 'Attach the image as the multipart field "file".');
+    res.status(201).json({ artwork: await artworks.upload(req.membership!.studioId, req.user!.id, req.file.buffer, req.file.originalname, fields) });
+  });
+  api.route('get', '/artworks/:artworkId', { policy: studioRole('viewer'), summary: 'One artwork' }, async (req, res) => {
+    res.json({ artwork: artworkDto(await artworks.get(req.membership!.studioId, artworkId(req))) });
+  });
+  api.route('patch', '/artworks/:artworkId', { policy: studioRole('editor'), summary: 'Rename an artwork', body: renameArtworkSchema }, async (req, res) => {
+    res.json({ artwork: await artworks.rename(req.membership!.studioId, artworkId(req), req.body.name) });
+  });
+  api.route('delete', '/artworks/:artworkId', { policy: studioRole('editor'), summary: 'Delete an artwork and its files', status: 204 }, async (req, res) => {
+    await artworks.remove(req.membership!.studioId, artworkId(req));
+    res.status(204).end();
+  });
+  api.route('get', '/artworks/:artworkId/original', { policy: studioRole('viewer'), summary: 'The uploaded file as it was' }, async (req, res) => {
+    const a = await artworks.get(req.membership!.studioId, artworkId(req));
+    const safeName = a.name.replace(/[^\w .-]/g, '_');
+    res.set({ 'Content-Type': MIME[a.type], 'X-Content-Type-Options': 'nosniff', 'Content-Disposition': `attachment; filename="${safeName}.${a.type === 'jpeg' ? 'jpg' : a.type}"` });
+    res.send(await artworks.original(a.id));
+  });
+  api.route('get', '/artworks/:artworkId/thumbnail', { policy: studioRole('viewer'), summary: 'A PNG thumbnail (at most 256 px)' }, async (req, res) => {
+    const a = await artworks.get(req.membership!.studioId, artworkId(req));
+    res.set({ ...png, 'Content-Disposition': 'inline; filename="thumbnail.png"', 'Cache-Control': 'private, max-age=3600' });
+    res.send(await artworks.thumbnail(a.id));
+  });
+  api.route('get', '/artworks/:artworkId/frames', { policy: studioRole('viewer'), summary: 'The decoded frames as raw RGBA, one after another (what the reference renderer sees)' }, async (req, res) => {
+    const a = await artworks.get(req.membership!.studioId, artworkId(req));
+    const frames = await artworks.frames(a);
+    res.set({ 'Content-Type': 'application/octet-stream', 'X-Content-Type-Options': 'nosniff', 'Content-Disposition': 'attachment; filename="frames.rgba"', 'Cache-Control': 'private, max-age=3600' });
+    res.send(Buffer.concat(frames.map((f) => Buffer.from(f.image.data.buffer, f.image.data.byteOffset, f.image.data.byteLength))));
+  });
+  api.route('post', '/renders', { policy: studioRole('viewer'), summary: 'Reference render of a studio artwork with a preset (and patch) or parameters', body: studioRenderSchema }, async (req, res) => {
+    const a = await artworks.get(req.membership!.studioId, req.body.artworkId);
+    const parameters = resolveParameters(req.body);
+    const render = await cachedRender(renders, { input: await artworks.original(a.id), sheet: a.sheet, parameters, scale: req.body.scale, frame: req.body.frame }, req.user!.id);
+    res.status(render.cached ? 200 : 201).json({ render });
+  });
+  return api;
+}

@@ -1,0 +1,114 @@
+import { randomUUID } from 'node:crypto';
+import sharp from 'sharp';
+import { Op, type Order } from 'sequelize';
+import type { ArtworkDto } from '../../../shared/api/dto';
+import type { SpriteSheet } from '../../../shared/pipeline/sprite-sheet';
+import type { Frame } from '../../../shared/pipeline/types';
+import { notFound } from '../../core/app-error';
+import { decodeImage, framesOf } from '../../render/decode';
+import type { FileStore } from '../../storage/file-store';
+import { Artwork } from './artwork.model';
+
+const FOLDER = 'artworks';
+const THUMB_PX = 256;
+
+export const artworkDto = (a: Artwork): ArtworkDto => {
+  const base = `/api/studios/${a.studioId}/artworks/${a.id}`;
+  return {
+    id: a.id,
+    name: a.name,
+    type: a.type,
+    width: a.width,
+    height: a.height,
+    frameCount: a.frameCount,
+    delaysMs: a.delaysMs,
+    bytes: a.bytes,
+    sheet: a.sheet,
+    createdAt: a.createdAt.toISOString(),
+    updatedAt: a.updatedAt.toISOString(),
+    originalUrl: `${base}/original`,
+    thumbnailUrl: `${base}/thumbnail`,
+    framesUrl: `${base}/frames`,
+  };
+};
+
+/** A studio's artwork library: uploads, thumbnails, decoded frames. */
+export class ArtworksService {
+  constructor(private readonly files: FileStore) {}
+
+  async list(studioId: string, q: string | undefined, sort: 'newest' | 'oldest' | 'name'): Promise<ArtworkDto[]> {
+    const order: Order = sort === 'name' ? [['name', 'ASC']] : [['createdAt', sort === 'oldest' ? 'ASC' : 'DESC']];
+    const where = q ? { studioId, name: { [Op.iLike]: `%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%` } } : { studioId };
+    return (await Artwork.findAll({ where, order, limit: 500 })).map(artworkDto);
+  }
+
+  async get(studioId: string, id: string): Promise<Artwork> {
+    const a = await Artwork.findOne({ where: { id, studioId } });
+    if (!a) throw notFound('The artwork');
+    return a;
+  }
+
+  /** Decodes (type by content, limits first), writes original and thumbnail, then the row. */
+  async upload(studioId: string, userId: string, bytes: Buffer, fileName: string, fields: { name?: string; frameWidth?: number; frameHeight?: number; frameDelayMs?: number }): Promise<ArtworkDto> {
+    const decoded = await decodeImage(bytes);
+    const sheet: SpriteSheet | null = fields.frameWidth && fields.frameHeight ? { frameWidth: fields.frameWidth, frameHeight: fields.frameHeight, frameDelayMs: fields.frameDelayMs ?? 100 } : null;
+    const frames = framesOf(decoded, sheet);
+    const first = frames[0].image;
+    const thumbnail = await sharp(Buffer.from(first.data.buffer, first.data.byteOffset, first.data.byteLength), { raw: { width: first.width, height: first.height, channels: 4 } })
+      .resize(THUMB_PX, THUMB_PX, { fit: 'inside', kernel: first.width < THUMB_PX ? 'nearest' : 'lanczos3', withoutEnlargement: false })
+      .png()
+      .toBuffer();
+    const id = randomUUID();
+    // Files first, then the row: a crash between leaves an orphan folder that start-up removes.
+    await this.files.write(FOLDER, id, 'original', bytes);
+    await this.files.write(FOLDER, id, 'thumbnail.png', thumbnail);
+    try {
+      const name = (fields.name ?? fileName.replace(/\.[^.]+$/, '')).slice(0, 120) || 'Untitled';
+      const row = await Artwork.create({ id, studioId, name, type: decoded.type, width: first.width, height: first.height, frameCount: frames.length, delaysMs: frames.map((f) => f.delayMs), bytes: bytes.length, sheet, createdById: userId });
+      return artworkDto(row);
+    } catch (err) {
+      await this.files.remove(FOLDER, id);
+      throw err;
+    }
+  }
+
+  async rename(studioId: string, id: string, name: string): Promise<ArtworkDto> {
+    const a = await this.get(studioId, id);
+    await a.update({ name });
+    return artworkDto(a);
+  }
+
+  async remove(studioId: string, id: string): Promise<void> {
+    const a = await this.get(studioId, id);
+    await a.destroy();
+    await this.files.remove(FOLDER, id);
+  }
+
+  original(id: string): Promise<Buffer> {
+    return this.files.read(FOLDER, id, 'original');
+  }
+
+  thumbnail(id: string): Promise<Buffer> {
+    return this.files.read(FOLDER, id, 'thumbnail.png');
+  }
+
+  /** The frames exactly as the reference renderer sees them. */
+  async frames(a: Artwork): Promise<Frame[]> {
+    return framesOf(await decodeImage(await this.original(a.id)), a.sheet);
+  }
+
+  /** Removes the files of artworks whose rows are already gone (a deleted studio's). */
+  async removeFiles(ids: string[]): Promise<void> {
+    for (const id of ids) await this.files.remove(FOLDER, id);
+  }
+
+  /** Removes storage folders without a row (left by a crash between file write and commit). */
+  async reconcile(): Promise<number> {
+    const ids = await this.files.ids(FOLDER);
+    if (!ids.length) return 0;
+    const known = new Set((await Artwork.findAll({ attributes: ['id'], where: { id: ids.filter((i) => /^[0-9a-f-]{36}$/.test(i)) } })).map((a) => a.id));
+    const orphans = ids.filter((i) => !known.has(i));
+    for (const id of orphans) await this.files.remove(FOLDER, id).catch(() => undefined);
+    return orphans.length;
+  }
+}

@@ -1,0 +1,90 @@
+import sharp from 'sharp';
+import { PNG } from 'pngjs';
+import { createHarness, TestClient, type Harness } from '../../testing/harness';
+import { pngBomb, pngOf } from '../../testing/images';
+import { Artwork } from './artwork.model';
+
+let h: Harness;
+let editor: TestClient;
+let studioId: string;
+beforeAll(async () => {
+  h = await createHarness();
+  editor = new TestClient(h.app);
+  await editor.signUp();
+  studioId = (await editor.post('/api/studios', { name: 'Artwork Bench' })).body.studio.id;
+});
+afterAll(() => h.close());
+
+const url = (rest = '') => `/api/studios/${studioId}/artworks${rest}`;
+const art = pngOf(12, 8, (x, y) => [x * 20, y * 30, 90, 255]);
+
+test('upload → listed, thumbnail, original unchanged, frames exactly as the decoder sees them', async () => {
+  const res = await editor.upload(url(), { name: 'Title screen' }, { name: 'title.png', bytes: art });
+  expect(res.status).toBe(201);
+  const a = res.body.artwork;
+  expect(a).toMatchObject({ name: 'Title screen', type: 'png', width: 12, height: 8, frameCount: 1, bytes: art.length });
+  const list = await editor.get(url('?q=title&sort=name'));
+  expect(list.body.artworks.map((x: { id: string }) => x.id)).toContain(a.id);
+  expect((await editor.get(url('?q=nothing-like-it'))).body.artworks).toEqual([]);
+  const original = await editor.get(a.originalUrl);
+  expect(Buffer.compare(original.body, art)).toBe(0);
+  expect(original.headers['content-disposition']).toMatch(/^attachment/);
+  const thumb = await editor.get(a.thumbnailUrl);
+  expect(thumb.headers['content-type']).toBe('image/png');
+  const meta = await sharp(thumb.body).metadata();
+  expect(Math.max(meta.width!, meta.height!)).toBe(256);
+  const frames = await editor.get(a.framesUrl);
+  expect(frames.body.length).toBe(12 * 8 * 4);
+  expect(Buffer.compare(frames.body, PNG.sync.read(art).data)).toBe(0);
+});
+
+test('a sprite sheet is cut into frames with its delay', async () => {
+  const sheet = pngOf(32, 16, (x, y) => [Math.floor(x / 8) * 60, y < 8 ? 0 : 200, 0, 255]);
+  const res = await editor.upload(url(), { frameWidth: '8', frameHeight: '8', frameDelayMs: '120' }, { name: 'walk.png', bytes: sheet });
+  expect(res.status).toBe(201);
+  expect(res.body.artwork).toMatchObject({ width: 8, height: 8, frameCount: 8, delaysMs: Array(8).fill(120), name: 'walk', sheet: { frameWidth: 8, frameHeight: 8, frameDelayMs: 120 } });
+  const frames = (await editor.get(res.body.artwork.framesUrl)).body as Buffer;
+  expect(frames.length).toBe(8 * 8 * 4 * 8);
+  // Frame 1 (second cell of the top row) has red 60.
+  expect(frames[8 * 8 * 4]).toBe(60);
+  const bad = await editor.upload(url(), { frameWidth: '7', frameHeight: '8' }, { name: 'walk.png', bytes: sheet });
+  expect(bad.status).toBe(422);
+  expect(bad.body.error.message).toContain('does not divide into 7 × 8 frames');
+});
+
+test.each([
+  ['an SVG named .png', Buffer.from('<svg xmlns="http://www.w3.org/2000/svg"/>'), 422, 'unsupported_type'],
+  ['a truncated PNG', art.subarray(0, 50), 422, 'unreadable_image'],
+  ['a pixel bomb', pngBomb(20000, 20000), 422, 'too_many_pixels'],
+  ['an oversize file', Buffer.concat([art, Buffer.alloc(21 * 1024 * 1024)]), 413, 'file_too_large'],
+])('refuses %s, storing nothing', async (_name, bytes, status, code) => {
+  const before = await Artwork.count();
+  const res = await editor.upload(url(), {}, { name: 'x.png', bytes });
+  expect(res.status).toBe(status);
+  expect(res.body.error.code).toBe(code);
+  expect(await Artwork.count()).toBe(before);
+});
+
+test('rename and delete; a deleted artwork and its files are gone', async () => {
+  const a = (await editor.upload(url(), {}, { name: 'temp.png', bytes: art })).body.artwork;
+  expect((await editor.patch(url(`/${a.id}`), { name: 'Renamed' })).body.artwork.name).toBe('Renamed');
+  expect((await editor.patch(url(`/${a.id}`), { name: '' })).status).toBe(400);
+  expect((await editor.delete(url(`/${a.id}`))).status).toBe(204);
+  expect((await editor.get(a.originalUrl)).status).toBe(404);
+  expect(await h.app.artworks.reconcile()).toBe(0);
+});
+
+test('studio render of an artwork equals the upload render of the same file and parameters', async () => {
+  const a = (await editor.upload(url(), {}, { name: 'same.png', bytes: art })).body.artwork;
+  const patch = { cell: { cols: 24, rows: 16 } };
+  const viaStudio = await editor.post(`/api/studios/${studioId}/renders`, { artworkId: a.id, presetId: 'crt-amber-p3.standard', patch, scale: 2 });
+  expect([200, 201]).toContain(viaStudio.status);
+  const viaUpload = await editor.upload('/api/renders', { presetId: 'crt-amber-p3.standard', patch: JSON.stringify(patch), scale: '2' }, { name: 'same.png', bytes: art });
+  expect(viaUpload.body.render.key).toBe(viaStudio.body.render.key);
+});
+
+test('storage folders without a row are removed at reconcile', async () => {
+  const files = (h.app.artworks as unknown as { files: { write(f: string, id: string, n: string, b: Buffer): Promise<void> } }).files;
+  await files.write('artworks', '00000000-0000-4000-8000-00000000abcd', 'original', Buffer.from('x'));
+  expect(await h.app.artworks.reconcile()).toBe(1);
+});
