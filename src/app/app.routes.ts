@@ -16,6 +16,7 @@ export const routes: Routes = [
     children: [
       { path: '', pathMatch: 'full', redirectTo: 'bench' },
       { path: 'bench', title: 'Bench · Emberline', loadComponent: () => import('./features/bench/bench').then((m) => m.Bench) },
+      { path: 'artworks', title: 'Artworks · Emberline', loadComponent: () => import('./features/artworks/artwork-library').then((m) => m.ArtworkLibrary) },
       { path: 'drive', title: 'Drive timing · Emberline', loadComponent: () => import('./features/drive/drive-timing').then((m) => m.DriveTiming) },
       { path: 'members', title: 'Members · Emberline', loadComponent: () => import('./features/studio/members').then((m) => m.Members) },
     ],

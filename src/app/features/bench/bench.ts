@@ -1,21 +1,279 @@
-import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
+import { DecimalPipe } from '@angular/common';
+import { HttpClient } from '@angular/common/http';
+import { ChangeDetectionStrategy, Component, computed, DestroyRef, effect, ElementRef, inject, input, linkedSignal, resource, signal, untracked, viewChild } from '@angular/core';
+import { FormsModule } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatButtonToggleModule } from '@angular/material/button-toggle';
+import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { MatSelectModule } from '@angular/material/select';
+import { MatSliderModule } from '@angular/material/slider';
+import { MatTooltipModule } from '@angular/material/tooltip';
+import { RouterLink } from '@angular/router';
+import pixelmatch from 'pixelmatch';
+import { firstValueFrom } from 'rxjs';
+import { flashReport } from '../../../../shared/analysis/flash';
+import type { RenderDto } from '../../../../shared/api/render.schema';
+import { SRGB_TO_LINEAR } from '../../../../shared/color/srgb';
+import { BUILT_IN_PRESETS, PANEL_TYPES } from '../../../../shared/model/panel-types';
+import type { PanelParams } from '../../../../shared/model/parameters';
+import { outputUniforms } from '../../../../shared/pipeline/output/uniforms';
+import type { Frame } from '../../../../shared/pipeline/types';
+import { apiErrorMessage } from '../../core/api-error';
+import { PanelRenderer } from '../../render/panel-renderer';
+import { ArtworkApi } from '../artworks/artwork-api';
+import { TimingApi } from '../drive/timing-api';
 import { StudioContext } from '../studio/studio-context';
+import { BenchEngine, type PanelResult } from './bench-engine';
+import { ParamControls } from './param-controls';
 
-/** The bench: where artwork is previewed on a simulated panel. */
+/** ID-1 card width in mm (ISO/IEC 7810), the on-screen ruler for real size. */
+const CARD_MM = { width: 85.6, height: 53.98 };
+const CSS_PX_PER_MM = 96 / 25.4;
+
+/** The bench: artwork live on a simulated panel, tuned by hand, checked against the server. */
 @Component({
   selector: 'em-bench',
-  imports: [MatIconModule],
+  imports: [FormsModule, DecimalPipe, RouterLink, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatSelectModule, MatSliderModule, MatIconModule, MatProgressBarModule, MatTooltipModule, ParamControls],
   templateUrl: './bench.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class Bench {
+  private readonly api = inject(ArtworkApi);
+  private readonly timingsApi = inject(TimingApi);
+  private readonly http = inject(HttpClient);
   protected readonly context = inject(StudioContext);
-  /** A 12 × 8 cell pattern (an ember glyph) for the empty state's panel illustration. */
-  protected readonly cells = Array.from({ length: 96 }, (_, i) => {
-    const x = i % 12;
-    const y = Math.floor(i / 12);
-    return (y === 1 || y === 6) ? x > 2 && x < 9 : (x === 3 && y > 1 && y < 6) || (y === 3 && x > 2 && x < 8);
+
+  /** ?artwork= from the library. */
+  readonly artwork = input<string | undefined>();
+  /** ?renderer=cpu forces the CPU path (as without WebGL2). */
+  readonly renderer = input<string | undefined>();
+
+  private readonly glCanvas = viewChild<ElementRef<HTMLCanvasElement>>('glCanvas');
+  private readonly cpuCanvas = viewChild<ElementRef<HTMLCanvasElement>>('cpuCanvas');
+  private readonly bCanvas = viewChild<ElementRef<HTMLCanvasElement>>('bCanvas');
+  private readonly diffCanvas = viewChild<ElementRef<HTMLCanvasElement>>('diffCanvas');
+  private readonly engine = new BenchEngine();
+  private readonly engineB = new BenchEngine();
+  private gl: PanelRenderer | null | undefined;
+
+  protected readonly panelTypes = PANEL_TYPES;
+  protected readonly artworks = resource({ params: () => this.context.studioId(), loader: ({ params }) => this.api.list(params) });
+  protected readonly artworkId = linkedSignal(() => this.artwork() ?? (this.artworks.hasValue() ? this.artworks.value()[0]?.id : undefined));
+  protected readonly selected = computed(() => (this.artworks.hasValue() ? this.artworks.value().find((a) => a.id === this.artworkId()) : undefined));
+  protected readonly frames = resource({ params: () => this.selected(), loader: ({ params }) => this.api.frames(params) });
+  protected readonly panelTypeId = signal('el-amber-640x480');
+  protected readonly presets = computed(() => BUILT_IN_PRESETS.filter((p) => p.panelTypeId === this.panelTypeId()));
+  protected readonly presetId = linkedSignal(() => this.presets()[0].id);
+  protected readonly defaults = computed(() => BUILT_IN_PRESETS.find((p) => p.id === this.presetId())!.parameters);
+  protected readonly params = linkedSignal<PanelParams>(() => structuredClone(this.defaults()));
+  protected readonly timings = resource({ params: () => ({ studioId: this.context.studioId(), panelTypeId: this.panelTypeId() }), loader: ({ params }) => this.timingsApi.list(params.studioId).then((t) => t.filter((x) => x.panelTypeId === params.panelTypeId)) });
+  protected readonly timingId = linkedSignal<string, string>({ source: this.panelTypeId, computation: () => '' });
+  protected readonly scale = signal(2);
+  protected readonly zoom = signal<'fit' | 'pixels' | 'real'>('fit');
+  protected readonly compare = signal<'off' | 'original' | 'preset'>('off');
+  protected readonly comparePresetId = linkedSignal(() => this.presets()[1]?.id ?? this.presets()[0].id);
+  protected readonly split = signal(50);
+  protected readonly frame = linkedSignal({ source: this.selected, computation: () => 0 });
+  protected readonly playing = signal(false);
+  protected readonly flashAccepted = signal(false);
+  protected readonly pxPerMm = signal(Number(localStorage.getItem('emberline.pxPerMm')) || CSS_PX_PER_MM);
+  protected readonly calibrating = signal(false);
+  protected readonly status = signal('');
+  protected readonly lastMs = signal(0);
+  protected readonly usingCpu = signal(false);
+  protected readonly inspect = signal<{ c: number; r: number; level: number; cd: number } | null>(null);
+  protected readonly drift = signal<{ busy: boolean; share?: number; pixels?: number; error?: string }>({ busy: false });
+  protected readonly reducedMotion = matchMedia('(prefers-reduced-motion: reduce)').matches;
+  protected readonly card = CARD_MM;
+
+  protected readonly uniforms = computed(() => outputUniforms(this.params(), this.scale()));
+  protected readonly displaySize = computed(() => {
+    const u = this.uniforms();
+    if (this.zoom() === 'pixels') return { width: `${u.width}px`, height: `${u.height}px` };
+    if (this.zoom() === 'real') {
+      const p = this.params().cell;
+      return { width: `${p.cols * p.pitchXMm * this.pxPerMm()}px`, height: `${p.rows * p.pitchYMm * this.pxPerMm()}px` };
+    }
+    return { width: '100%', height: 'auto' };
   });
+  protected readonly flash = computed(() => (this.frames.hasValue() && this.frames.value().length > 1 ? flashReport(this.frames.value().map(lumaOf), this.frames.value().map((f) => f.delayMs)) : null));
+  protected readonly linkedTiming = computed(() => (this.timings.hasValue() ? this.timings.value().find((t) => t.id === this.timingId()) : undefined));
+  protected readonly frcFlickerHz = computed(() => {
+    const d = this.params().drive;
+    return d.grayLevels > 2 ? d.refreshHz / (d.grayLevels - 1) : null;
+  });
+
+  constructor() {
+    const destroy = inject(DestroyRef);
+    destroy.onDestroy(() => {
+      this.engine.dispose();
+      this.engineB.dispose();
+      this.playing.set(false);
+    });
+    // A linked saved timing drives the panel's refresh rate (persistence and flicker).
+    effect(() => {
+      const t = this.linkedTiming();
+      if (t) untracked(() => this.params.update((p) => ({ ...p, drive: { ...p.drive, refreshHz: Math.round(t.figures.refreshHz * 1000) / 1000 } })));
+    });
+    effect(() => void this.redraw(this.params(), this.frame(), this.scale()));
+    effect(() => void this.redrawB(this.compare(), this.comparePresetId(), this.frame(), this.scale()));
+    effect(() => this.drawOriginal(this.compare(), this.frame()));
+  }
+
+  protected choosePanelType(id: string): void {
+    this.panelTypeId.set(id);
+  }
+
+  protected async redraw(params: PanelParams, frame: number, scale: number): Promise<void> {
+    if (!this.frames.hasValue() || !this.glCanvas()) return;
+    this.sendFrames(this.engine, this.frames.value());
+    this.gl ??= this.renderer() === 'cpu' ? null : PanelRenderer.create(this.glCanvas()!.nativeElement);
+    this.usingCpu.set(this.gl === null);
+    const started = performance.now();
+    let result: PanelResult | null;
+    try {
+      result = await this.engine.render(params, frame, scale, this.gl === null);
+    } catch (err) {
+      this.status.set((err as Error).message);
+      return;
+    }
+    if (!result) return;
+    this.status.set('');
+    this.lastResult = result;
+    const u = outputUniforms(params, scale);
+    if (this.gl) {
+      this.gl.upload(result.emission, params.cell.cols, params.cell.rows, result.glow);
+      this.gl.draw(u);
+    } else if (result.image) {
+      putImage(this.cpuCanvas()!.nativeElement, result.image.data, result.image.width, result.image.height);
+    }
+    this.lastMs.set(performance.now() - started);
+  }
+  private lastResult?: PanelResult;
+  private readonly sent = new WeakMap<BenchEngine, Frame[]>();
+
+  /** Gives an engine the current frames once per artwork. */
+  private sendFrames(engine: BenchEngine, frames: Frame[]): void {
+    if (this.sent.get(engine) === frames) return;
+    engine.setFrames(frames);
+    this.sent.set(engine, frames);
+  }
+
+  private async redrawB(mode: string, presetId: string, frame: number, scale: number): Promise<void> {
+    if (mode !== 'preset' || !this.frames.hasValue() || !this.bCanvas()) return;
+    this.sendFrames(this.engineB, this.frames.value());
+    const preset = BUILT_IN_PRESETS.find((p) => p.id === presetId)!;
+    const result = await this.engineB.render(preset.parameters, frame, scale, true).catch(() => null);
+    if (result?.image) putImage(this.bCanvas()!.nativeElement, result.image.data, result.image.width, result.image.height);
+  }
+
+  private drawOriginal(mode: string, frame: number): void {
+    if (mode !== 'original' || !this.frames.hasValue() || !this.bCanvas()) return;
+    const f = this.frames.value()[frame];
+    if (f) putImage(this.bCanvas()!.nativeElement, f.image.data, f.image.width, f.image.height);
+  }
+
+  protected inspectAt(e: PointerEvent): void {
+    const el = e.currentTarget as HTMLElement;
+    const rect = el.getBoundingClientRect();
+    const p = this.params().cell;
+    const c = Math.floor(((e.clientX - rect.left) / rect.width) * p.cols);
+    const r = Math.floor(((e.clientY - rect.top) / rect.height) * p.rows);
+    const emission = this.lastResult?.emission;
+    if (!emission || c < 0 || r < 0 || c >= p.cols || r >= p.rows) return this.inspect.set(null);
+    const level = emission[r * p.cols + c];
+    this.inspect.set({ c, r, level, cd: level * this.params().viewing.peakCdM2 + this.params().viewing.offCdM2 });
+  }
+
+  protected moveSplit(e: PointerEvent): void {
+    if (!(e.buttons & 1)) return;
+    const rect = (e.currentTarget as HTMLElement).getBoundingClientRect();
+    this.split.set(Math.round(Math.min(100, Math.max(0, ((e.clientX - rect.left) / rect.width) * 100))));
+  }
+
+  protected nudgeSplit(e: KeyboardEvent): void {
+    const step = e.key === 'ArrowLeft' ? -2 : e.key === 'ArrowRight' ? 2 : 0;
+    if (!step) return;
+    e.preventDefault();
+    this.split.update((v) => Math.min(100, Math.max(0, v + step)));
+  }
+
+  protected step(delta: number): void {
+    const n = this.frames.hasValue() ? this.frames.value().length : 1;
+    this.frame.update((f) => (f + delta + n) % n);
+  }
+
+  protected togglePlay(): void {
+    if (this.playing()) return this.playing.set(false);
+    if (this.flash()?.exceeds && !this.flashAccepted()) return;
+    this.playing.set(true);
+    const delay = () => (this.frames.hasValue() ? this.frames.value()[this.frame()]?.delayMs : 0) || 100;
+    const tick = () => {
+      if (!this.playing() || !this.frames.hasValue()) return;
+      this.step(1);
+      setTimeout(tick, delay());
+    };
+    setTimeout(tick, delay());
+  }
+
+  protected saveCalibration(): void {
+    localStorage.setItem('emberline.pxPerMm', String(this.pxPerMm()));
+    this.calibrating.set(false);
+  }
+
+  /** Asks the server for the reference render of this view and diffs it with the live canvas. */
+  protected async checkDrift(): Promise<void> {
+    const artwork = this.selected();
+    if (!artwork) return;
+    this.drift.set({ busy: true });
+    try {
+      const body = { artworkId: artwork.id, parameters: this.params(), scale: this.scale(), frame: this.frame() };
+      const { render } = await firstValueFrom(this.http.post<{ render: RenderDto }>(`/api/studios/${this.context.studioId()}/renders`, body));
+      const blob = await firstValueFrom(this.http.get(render.url, { responseType: 'blob' }));
+      const reference = await decodePng(blob);
+      const live = this.livePixels();
+      const { width, height } = render;
+      if (live.length !== reference.length) throw new Error(`the live view is ${this.uniforms().width} × ${this.uniforms().height} but the reference is ${width} × ${height}`);
+      const diff = new Uint8Array(width * height * 4);
+      const pixels = pixelmatch(live, reference, diff, width, height, { threshold: 0.1 });
+      putImage(this.diffCanvas()!.nativeElement, diff, width, height);
+      this.drift.set({ busy: false, share: pixels / (width * height), pixels });
+    } catch (err) {
+      this.drift.set({ busy: false, error: apiErrorMessage(err) });
+    }
+  }
+
+  /** The live view's pixels, top-down RGBA. */
+  livePixels(): Uint8Array {
+    if (this.gl) return this.gl.readPixels();
+    const canvas = this.cpuCanvas()!.nativeElement;
+    return new Uint8Array(canvas.getContext('2d')!.getImageData(0, 0, canvas.width, canvas.height).data.buffer);
+  }
 }
+
+function putImage(canvas: HTMLCanvasElement, data: Uint8Array | Uint8ClampedArray, width: number, height: number): void {
+  canvas.width = width;
+  canvas.height = height;
+  canvas.getContext('2d')!.putImageData(new ImageData(new Uint8ClampedArray(data.buffer as ArrayBuffer, data.byteOffset, data.byteLength), width, height), 0, 0);
+}
+
+/** Decodes a PNG without colour management, as stored. */
+async function decodePng(blob: Blob): Promise<Uint8Array> {
+  const bitmap = await createImageBitmap(blob, { colorSpaceConversion: 'none', premultiplyAlpha: 'none' });
+  const canvas = new OffscreenCanvas(bitmap.width, bitmap.height);
+  const ctx = canvas.getContext('2d')!;
+  ctx.drawImage(bitmap, 0, 0);
+  return new Uint8Array(ctx.getImageData(0, 0, bitmap.width, bitmap.height).data.buffer);
+}
+
+/** Relative luminance per pixel of a frame (Rec. 709 on linear light), for the flash check. */
+function lumaOf(f: Frame): Float32Array {
+  const { data, width, height } = f.image;
+  const out = new Float32Array(width * height);
+  for (let i = 0; i < out.length; i++) out[i] = 0.2126 * SRGB_TO_LINEAR[data[i * 4]] + 0.7152 * SRGB_TO_LINEAR[data[i * 4 + 1]] + 0.0722 * SRGB_TO_LINEAR[data[i * 4 + 2]];
+  return out;
+}
+
