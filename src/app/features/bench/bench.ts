@@ -83,6 +83,8 @@ export class Bench {
   protected readonly calibrating = signal(false);
   protected readonly status = signal('');
   protected readonly lastMs = signal(0);
+  /** Finished draws, for tests and the benchmark to wait on. */
+  protected readonly draws = signal(0);
   protected readonly usingCpu = signal(false);
   protected readonly inspect = signal<{ c: number; r: number; level: number; cd: number } | null>(null);
   protected readonly drift = signal<{ busy: boolean; share?: number; pixels?: number; error?: string }>({ busy: false });
@@ -119,6 +121,13 @@ export class Bench {
       if (t) untracked(() => this.params.update((p) => ({ ...p, drive: { ...p.drive, refreshHz: Math.round(t.figures.refreshHz * 1000) / 1000 } })));
     });
     effect(() => void this.redraw(this.params(), this.frame(), this.scale()));
+    // A drift result belongs to the view it was taken of.
+    effect(() => {
+      this.params();
+      this.frame();
+      this.scale();
+      untracked(() => this.drift.set({ busy: false }));
+    });
     effect(() => void this.redrawB(this.compare(), this.comparePresetId(), this.frame(), this.scale()));
     effect(() => this.drawOriginal(this.compare(), this.frame()));
   }
@@ -151,6 +160,7 @@ export class Bench {
       putImage(this.cpuCanvas()!.nativeElement, result.image.data, result.image.width, result.image.height);
     }
     this.lastMs.set(performance.now() - started);
+    this.draws.update((n) => n + 1);
   }
   private lastResult?: PanelResult;
   private readonly sent = new WeakMap<BenchEngine, Frame[]>();

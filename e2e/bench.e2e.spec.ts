@@ -1,0 +1,78 @@
+import { PANEL_TYPES } from '../shared/model/panel-types';
+import { choose, draws, driftShare, studioIdOf, thirdPartyArtworks, uploadArtwork, waitForDraw } from './bench-helpers';
+import { expect, signIn, test } from './fixtures';
+
+test.describe.configure({ timeout: 600_000 });
+
+test('for every built-in panel type, on third-party artworks, the WebGL canvas equals the server reference (≤ 0.1 % of pixels at pixelmatch 0.1)', async ({ page, guard }, testInfo) => {
+  void guard;
+  await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
+  await expect(page).toHaveURL(/\/bench/);
+  const studioId = studioIdOf(page.url());
+  const artworks = await thirdPartyArtworks(page);
+  const results: string[] = [];
+  for (const art of artworks) {
+    const id = await uploadArtwork(page, studioId, `${art.name}-${Date.now().toString(36)}`, art.bytes);
+    await page.goto(`/studios/${studioId}/bench?artwork=${id}`);
+    await waitForDraw(page, 0);
+    // A freshly opened bench shows the first panel type.
+    let current = PANEL_TYPES[0].id;
+    for (const type of PANEL_TYPES) {
+      if (type.id !== current) {
+        const before = await draws(page);
+        await choose(page, 'Panel type', type.name);
+        await waitForDraw(page, before);
+        current = type.id;
+      }
+      await expect(page.getByTestId('cpu-canvas')).toBeHidden();
+      const share = await driftShare(page);
+      results.push(`${art.name} on ${type.id}: ${(share * 100).toFixed(4)} %`);
+      expect(share, `${art.name} on ${type.id}`).toBeLessThanOrEqual(0.001);
+    }
+    await page.screenshot({ path: testInfo.outputPath(`bench-${art.name}.png`) });
+  }
+  await testInfo.attach('drift.txt', { body: results.join('\n'), contentType: 'text/plain' });
+  console.log(results.join('\n'));
+});
+
+test('upload through the library → open on the bench → change the glow → the canvas changes; the controls work by keyboard', async ({ page, guard }, testInfo) => {
+  void guard;
+  await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
+  await expect(page).toHaveURL(/\/bench/);
+  const studioId = studioIdOf(page.url());
+  await page.goto(`/studios/${studioId}/artworks`);
+  const [heart] = await thirdPartyArtworks(page);
+  await page.locator('input[type=file]').setInputFiles({ name: 'library-heart.png', mimeType: 'image/png', buffer: heart.bytes });
+  await page.getByRole('link', { name: 'Open library-heart on the bench' }).first().click();
+  const first = await waitForDraw(page, 0);
+  const snapshot = () => page.getByTestId('live-canvas').evaluate((c: HTMLCanvasElement) => c.toDataURL());
+  const before = await snapshot();
+  const glow = page.getByRole('spinbutton', { name: 'Glow radius' });
+  await glow.fill('1.5');
+  await glow.press('Enter');
+  const second = await waitForDraw(page, first);
+  expect(await snapshot()).not.toEqual(before);
+
+  // Keyboard: Tab to the glow share slider and nudge it with the arrow keys.
+  const slider = page.getByRole('slider', { name: 'Glow share' });
+  await slider.focus();
+  const value = Number(await slider.inputValue());
+  await page.keyboard.press('ArrowRight');
+  await page.keyboard.press('ArrowRight');
+  await waitForDraw(page, second);
+  expect(Number(await slider.inputValue())).toBeGreaterThan(value);
+  await page.screenshot({ path: testInfo.outputPath('bench-glow.png') });
+});
+
+test('a bad file is refused with the reason, nothing is stored, and the page stays usable', async ({ page, guard }) => {
+  void guard;
+  await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
+  await expect(page).toHaveURL(/\/bench/);
+  const studioId = studioIdOf(page.url());
+  await page.goto(`/studios/${studioId}/artworks`);
+  await page.locator('input[type=file]').setInputFiles({ name: 'not-really.png', mimeType: 'image/png', buffer: Buffer.from('<svg xmlns="http://www.w3.org/2000/svg"/>') });
+  await expect(page.getByRole('alert').filter({ hasText: 'not a PNG, GIF, JPEG or WebP' })).toBeVisible();
+  await expect(page.getByRole('link', { name: /Open not-really/ })).toHaveCount(0);
+  await page.getByRole('button', { name: 'Dismiss the failed upload of not-really.png' }).click();
+  await expect(page.getByRole('textbox', { name: 'Search by name' })).toBeEnabled();
+});
