@@ -59,8 +59,17 @@ test('upload through the library → open on the bench → change the glow → t
   const value = Number(await slider.inputValue());
   await page.keyboard.press('ArrowRight');
   await page.keyboard.press('ArrowRight');
-  await waitForDraw(page, second);
+  const third = await waitForDraw(page, second);
   expect(Number(await slider.inputValue())).toBeGreaterThan(value);
+  expect(await driftShare(page)).toBeLessThanOrEqual(0.001);
+
+  // A light edit redraws only the output stages from the cached panel result: still the reference.
+  await page.getByRole('button', { name: 'Viewing' }).click();
+  const exposure = page.getByRole('spinbutton', { name: 'Exposure' });
+  await exposure.fill('1.5');
+  await exposure.press('Enter');
+  await waitForDraw(page, third);
+  expect(await driftShare(page)).toBeLessThanOrEqual(0.001);
   await page.screenshot({ path: testInfo.outputPath('bench-glow.png') });
 });
 

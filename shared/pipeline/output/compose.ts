@@ -4,14 +4,15 @@ import { apertureCoverage, lineCoverage } from './formulas';
 import type { OutputUniforms } from './uniforms';
 
 /** Per output column or row: which cells (or lines) touch it and with what coverage. */
-interface Taps {
+export interface Taps {
   index: Int32Array;
   weight: Float32Array;
   /** Taps per pixel (fixed stride). */
   stride: number;
 }
 
-function apertureTaps(pixels: number, cells: number, size: number, fill: number): Taps {
+/** Exact aperture coverage of each output pixel along one axis (≤ 2 cells a pixel when cells are ≥ 1 px). */
+export function apertureTaps(pixels: number, cells: number, size: number, fill: number): Taps {
   const stride = Math.ceil(1 / size) + 1;
   const index = new Int32Array(pixels * stride);
   const weight = new Float32Array(pixels * stride);
@@ -26,7 +27,8 @@ function apertureTaps(pixels: number, cells: number, size: number, fill: number)
   return { index, weight, stride };
 }
 
-function lineTaps(pixels: number, rows: number, size: number, sigma: number): Taps {
+/** CRT line-profile weights of each output row (lines within 4σ). */
+export function lineTaps(pixels: number, rows: number, size: number, sigma: number): Taps {
   // Lines within 4σ of the pixel contribute (erf beyond 4σ is below 2·10⁻⁸).
   const reach = Math.ceil((4 * sigma + 1) / size) + 1;
   const stride = 2 * reach + 1;
@@ -45,7 +47,7 @@ function lineTaps(pixels: number, rows: number, size: number, sigma: number): Ta
 }
 
 /** Bilinear taps into the glow grid for each output column or row (texel fetches by hand). */
-function glowTaps(pixels: number, samples: number, cellSize: number, m: number): Taps {
+export function glowTaps(pixels: number, samples: number, cellSize: number, m: number): Taps {
   const index = new Int32Array(pixels * 2);
   const weight = new Float32Array(pixels * 2);
   for (let p = 0; p < pixels; p++) {

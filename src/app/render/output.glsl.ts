@@ -1,120 +1,118 @@
 /**
- * The output-resolution stages in GLSL ES 3.00, formula for formula as in
- * shared/pipeline/output/formulas.ts and compose.ts: exact aperture overlap (or the CRT line
- * integral by the same erf polynomial), glow by four texel fetches and bilinear weights written
- * out by hand (no hardware filtering), then light, soft knee and sRGB encode. Every constant
- * comes from outputUniforms().
+ * The output-resolution stages in GLSL ES 3.00. The separable coverage weights — exact aperture
+ * overlap, or the CRT line integral — and the glow sample coordinates come precomputed per
+ * output column and row from the same functions the CPU composer uses (compose.ts: apertureTaps,
+ * lineTaps, glowTaps), uploaded as small float textures. The shader fetches them by hand (no
+ * hardware filtering) and forms v = direct + bilinear glow; light, exposure, soft knee and sRGB
+ * encode (formulas.ts) are a smooth function of v per channel, tabulated finely by
+ * encode-table.ts and interpolated here. Every constant comes from outputUniforms().
  */
+import { ENCODE_STEPS, ENCODE_WIDTH } from './encode-table';
+
 export const FULLSCREEN_VERTEX = /* glsl */ `#version 300 es
 in vec2 position;
 void main() { gl_Position = vec4(position, 0.0, 1.0); }
 `;
 
-const FORMULAS = /* glsl */ `
-float overlap1d(float a0, float a1, float b0, float b1) { return max(0.0, min(a1, b1) - max(a0, b0)); }
-float apertureCoverage(float p, float c, float s, float f) {
-  float centre = (c + 0.5) * s;
-  float half_ = f * s * 0.5;
-  return overlap1d(p, p + 1.0, centre - half_, centre + half_);
-}
-// Abramowitz & Stegun 7.1.26.
-float erfApprox(float x) {
-  float s = sign(x);
-  float a = abs(x);
-  float t = 1.0 / (1.0 + 0.3275911 * a);
-  float y = 1.0 - ((((1.061405429 * t - 1.453152027) * t + 1.421413741) * t - 0.284496736) * t + 0.254829592) * t * exp(-a * a);
-  return s * y;
-}
-float lineCoverage(float p, float r, float s, float sigma) {
-  float centre = (r + 0.5) * s;
-  float k = 1.0 / (1.41421356237 * sigma);
-  return s * 0.5 * (erfApprox((p + 1.0 - centre) * k) - erfApprox((p - centre) * k));
-}
-float softKnee(float x, float k) {
-  if (x <= k || k >= 1.0) return min(x, 1.0);
-  float span = 1.0 - k;
-  return k + span * (1.0 - exp(-(x - k) / span));
-}
-float srgbEncode(float l) {
-  l = clamp(l, 0.0, 1.0);
-  return l <= 0.0031308 ? 12.92 * l : 1.055 * pow(l, 1.0 / 2.4) - 0.055;
-}
-`;
 
-export const PANEL_FRAGMENT = /* glsl */ `#version 300 es
+const HEADER = /* glsl */ `#version 300 es
 precision highp float;
 precision highp int;
+#define ENCODE_STEPS ${ENCODE_STEPS}
+#define ENCODE_WIDTH ${ENCODE_WIDTH}
 uniform highp sampler2D emission;
 uniform highp sampler2D glow;
+// Per output column: (first cell, its coverage, next cell's coverage, glow sample u).
+uniform highp sampler2D columnTaps;
+// Per output row: matrix (first row, coverage, next row's coverage, glow sample v);
+// CRT: lineTaps holds (line index, weight) pairs, lineStride per row, and rowTaps.w is v.
+uniform highp sampler2D rowTaps;
+uniform highp sampler2D lineTaps;
 uniform ivec2 grid;
 uniform ivec2 glowSize;
 uniform vec2 outputSize;
-uniform vec2 cellSize;
-uniform vec2 fill;
 uniform int crt;
-uniform float spotSigma;
-uniform int lineReach;
+uniform int lineStride;
 uniform float directShare;
-uniform float glowOversample;
-uniform vec3 colour;
-uniform float ambient;
-uniform float peak;
-uniform float offLevel;
-uniform float gain;
-uniform float knee;
+// Light, exposure, soft knee and sRGB encode of v, tabulated per channel (encodeTable.ts).
+uniform highp sampler2D encodeTable;
+uniform float tableScale;
 out vec4 outColor;
-${FORMULAS}
+`;
+
+/** v = direct light × direct share + bilinear glow, for the output pixel being shaded. */
+const COMPUTE_V = /* glsl */ `
 float cellAt(int c, int r) { return texelFetch(emission, ivec2(c, r), 0).r; }
 float glowAt(int x, int y) { return texelFetch(glow, ivec2(x, y), 0).r; }
-float glowTap(float p, float cell, int samples, out int i0, out int i1) {
-  float u = clamp((p + 0.5) / cell * glowOversample - 0.5, 0.0, float(samples - 1));
-  i0 = int(floor(u));
-  i1 = min(i0 + 1, samples - 1);
-  return u - float(i0);
-}
-void main() {
-  float X = floor(gl_FragCoord.x);
-  float Y = outputSize.y - 1.0 - floor(gl_FragCoord.y);
-  int c0 = int(floor(X / cellSize.x));
+float computeV() {
+  int X = int(gl_FragCoord.x);
+  int Y = int(outputSize.y) - 1 - int(gl_FragCoord.y);
+  vec4 cx = texelFetch(columnTaps, ivec2(X, 0), 0);
+  vec4 ry = texelFetch(rowTaps, ivec2(Y, 0), 0);
+  int c0 = int(cx.x);
+  int c1 = min(c0 + 1, grid.x - 1);
   float direct = 0.0;
   if (crt == 0) {
-    int r0 = int(floor(Y / cellSize.y));
-    for (int dy = 0; dy <= 1; dy++) {
-      int r = r0 + dy;
-      if (r >= grid.y) break;
-      float wy = apertureCoverage(Y, float(r), cellSize.y, fill.y);
-      if (wy == 0.0) continue;
-      for (int dx = 0; dx <= 1; dx++) {
-        int c = c0 + dx;
-        if (c >= grid.x) break;
-        direct += wy * cellAt(c, r) * apertureCoverage(X, float(c), cellSize.x, fill.x);
-      }
-    }
+    int r0 = int(ry.x);
+    int r1 = min(r0 + 1, grid.y - 1);
+    // Fetch only the cells that cover this pixel (most pixels lie inside one aperture).
+    if (ry.y > 0.0) direct += ry.y * (cellAt(c0, r0) * cx.y + (cx.z > 0.0 ? cellAt(c1, r0) * cx.z : 0.0));
+    if (ry.z > 0.0) direct += ry.z * (cellAt(c0, r1) * cx.y + (cx.z > 0.0 ? cellAt(c1, r1) * cx.z : 0.0));
   } else {
-    int centre = int(floor((Y + 0.5) / cellSize.y));
-    for (int k = -16; k <= 16; k++) {
-      if (k < -lineReach || k > lineReach) continue;
-      int r = centre + k;
-      if (r < 0 || r >= grid.y) continue;
-      float wy = lineCoverage(Y, float(r), cellSize.y, spotSigma);
-      float row = 0.0;
-      for (int dx = 0; dx <= 1; dx++) {
-        int c = c0 + dx;
-        if (c >= grid.x) break;
-        row += cellAt(c, r) * apertureCoverage(X, float(c), cellSize.x, fill.x);
-      }
-      direct += wy * row;
+    for (int k = 0; k < 64; k++) {
+      if (k >= lineStride) break;
+      vec2 tap = texelFetch(lineTaps, ivec2(k, Y), 0).rg;
+      if (tap.y == 0.0) continue;
+      int r = int(tap.x);
+      direct += tap.y * (cellAt(c0, r) * cx.y + (cx.z > 0.0 ? cellAt(c1, r) * cx.z : 0.0));
     }
   }
-  int gx0; int gx1; int gy0; int gy1;
-  float tx = glowTap(X, cellSize.x, glowSize.x, gx0, gx1);
-  float ty = glowTap(Y, cellSize.y, glowSize.y, gy0, gy1);
-  float g = (glowAt(gx0, gy0) * (1.0 - tx) + glowAt(gx1, gy0) * tx) * (1.0 - ty) + (glowAt(gx0, gy1) * (1.0 - tx) + glowAt(gx1, gy1) * tx) * ty;
-  float v = directShare * direct + g;
-  float lum = v * peak + offLevel;
-  vec3 display = (colour * lum + ambient) * gain;
-  outColor = vec4(srgbEncode(softKnee(display.r, knee)), srgbEncode(softKnee(display.g, knee)), srgbEncode(softKnee(display.b, knee)), 1.0);
+  // Bilinear glow by hand: four texel fetches at the precomputed sample coordinates.
+  int gx0 = int(floor(cx.w));
+  int gy0 = int(floor(ry.w));
+  float tx = cx.w - float(gx0);
+  float ty = ry.w - float(gy0);
+  int gx1 = min(gx0 + 1, glowSize.x - 1);
+  int gy1 = min(gy0 + 1, glowSize.y - 1);
+  // Skip the taps whose weight is zero (the glow grid often lines up with the pixels).
+  float top = tx > 0.0 ? glowAt(gx0, gy0) * (1.0 - tx) + glowAt(gx1, gy0) * tx : glowAt(gx0, gy0);
+  float g = top;
+  if (ty > 0.0) {
+    float bottom = tx > 0.0 ? glowAt(gx0, gy1) * (1.0 - tx) + glowAt(gx1, gy1) * tx : glowAt(gx0, gy1);
+    g = top * (1.0 - ty) + bottom * ty;
+  }
+  return directShare * direct + g;
 }
+`;
+
+/** Light, exposure, soft knee and sRGB encode of v, from the table. */
+const ENCODE_V = /* glsl */ `
+vec4 encodeV(float v) {
+  // Linear interpolation between table entries, written out (the texture is not filtered).
+  float f = clamp(v * tableScale, 0.0, float(ENCODE_STEPS - 1) - 0.0001);
+  int i = int(f);
+  float t = f - float(i);
+  vec3 a = texelFetch(encodeTable, ivec2(i % ENCODE_WIDTH, i / ENCODE_WIDTH), 0).rgb;
+  vec3 b = texelFetch(encodeTable, ivec2((i + 1) % ENCODE_WIDTH, (i + 1) / ENCODE_WIDTH), 0).rgb;
+  return vec4(mix(a, b, t), 1.0);
+}
+`;
+
+/** One pass: v and its encoding (used when float render targets are not available). */
+export const PANEL_FRAGMENT = `${HEADER}${COMPUTE_V}${ENCODE_V}
+void main() { outColor = encodeV(computeV()); }
+`;
+
+/** First pass: v into a float texture (redone only when the panel stages or geometry change). */
+export const V_FRAGMENT = `${HEADER.replace('out vec4 outColor;', 'out float outV;')}${COMPUTE_V}
+void main() { outV = computeV(); }
+`;
+
+/** Second pass: the cached v encoded for display (every light or colour edit). */
+export const ENCODE_FRAGMENT = `${HEADER}uniform highp sampler2D vField;
+${ENCODE_V}
+// The first pass wrote each pixel's v at this same fragment position.
+void main() { outColor = encodeV(texelFetch(vField, ivec2(gl_FragCoord.xy), 0).r); }
 `;
 
 /** A plain textured draw of an RGBA8 image of the output size: the benchmark's baseline. */

@@ -1,6 +1,8 @@
+import { apertureTaps, glowTaps, lineTaps } from '../../../shared/pipeline/output/compose';
 import type { OutputUniforms } from '../../../shared/pipeline/output/uniforms';
 import type { Field } from '../../../shared/pipeline/types';
-import { FULLSCREEN_VERTEX, PANEL_FRAGMENT, PASSTHROUGH_FRAGMENT } from './output.glsl';
+import { ENCODE_STEPS, ENCODE_V_MAX, ENCODE_WIDTH, encodeTable } from './encode-table';
+import { ENCODE_FRAGMENT, FULLSCREEN_VERTEX, PANEL_FRAGMENT, PASSTHROUGH_FRAGMENT, V_FRAGMENT } from './output.glsl';
 
 function compile(gl: WebGL2RenderingContext, vertex: string, fragment: string): WebGLProgram {
   const program = gl.createProgram()!;
@@ -19,16 +21,31 @@ function compile(gl: WebGL2RenderingContext, vertex: string, fragment: string): 
 
 /**
  * WebGL2 glue for the output stages: the emission and glow fields as R32F textures read with
- * texelFetch, one full-screen pass of the panel shader into the canvas.
+ * texelFetch. With float render targets, a first pass writes v (direct + glow) into an R32F
+ * texture and a second encodes it for display, so light and colour edits redo only the second;
+ * without them, one combined pass.
  */
 export class PanelRenderer {
   private readonly program: WebGLProgram;
+  private readonly vProgram?: WebGLProgram;
+  private readonly encodeProgram?: WebGLProgram;
+  private readonly vTex?: WebGLTexture;
+  private readonly vFbo?: WebGLFramebuffer;
+  private vKey = '';
+  private uploads = 0;
   private passthrough?: WebGLProgram;
   private readonly emissionTex: WebGLTexture;
   private readonly glowTex: WebGLTexture;
   private imageTex?: WebGLTexture;
+  private readonly columnTex: WebGLTexture;
+  private readonly rowTex: WebGLTexture;
+  private readonly lineTex: WebGLTexture;
+  private readonly encodeTex: WebGLTexture;
+  private encodeKey = '';
   private grid = [0, 0];
   private glowSize = [0, 0];
+  private tapsKey = '';
+  private lineStride = 0;
 
   /** A renderer, or null when the browser has no WebGL2 (the caller falls back to the CPU). */
   static create(canvas: HTMLCanvasElement | OffscreenCanvas): PanelRenderer | null {
@@ -38,6 +55,12 @@ export class PanelRenderer {
 
   private constructor(readonly gl: WebGL2RenderingContext) {
     this.program = compile(gl, FULLSCREEN_VERTEX, PANEL_FRAGMENT);
+    if (gl.getExtension('EXT_color_buffer_float')) {
+      this.vProgram = compile(gl, FULLSCREEN_VERTEX, V_FRAGMENT);
+      this.encodeProgram = compile(gl, FULLSCREEN_VERTEX, ENCODE_FRAGMENT);
+      this.vTex = gl.createTexture()!;
+      this.vFbo = gl.createFramebuffer()!;
+    }
     const buffer = gl.createBuffer();
     gl.bindBuffer(gl.ARRAY_BUFFER, buffer);
     gl.bufferData(gl.ARRAY_BUFFER, new Float32Array([-1, -1, 3, -1, -1, 3]), gl.STATIC_DRAW);
@@ -45,6 +68,54 @@ export class PanelRenderer {
     gl.vertexAttribPointer(0, 2, gl.FLOAT, false, 0, 0);
     this.emissionTex = this.floatTexture();
     this.glowTex = this.floatTexture();
+    this.columnTex = this.floatTexture();
+    this.rowTex = this.floatTexture();
+    this.lineTex = this.floatTexture();
+    this.encodeTex = this.floatTexture();
+  }
+
+  /** The light → encode table, rebuilt when the light or colour uniforms change. */
+  private uploadEncodeTable(u: OutputUniforms): void {
+    const key = JSON.stringify([u.colour, u.colourY, u.ambientCdM2, u.peakCdM2, u.offCdM2, u.gain, u.knee]);
+    if (key === this.encodeKey) return;
+    this.encodeKey = key;
+    const gl = this.gl;
+    gl.bindTexture(gl.TEXTURE_2D, this.encodeTex);
+    gl.texImage2D(gl.TEXTURE_2D, 0, gl.RGBA32F, ENCODE_WIDTH, ENCODE_WIDTH, 0, gl.RGBA, gl.FLOAT, encodeTable(u));
+  }
+
+  /** Per-column and per-row taps (coverage and glow coordinates), rebuilt when the geometry changes. */
+  private uploadTaps(u: OutputUniforms): void {
+    const key = JSON.stringify([u.width, u.height, u.cellW, u.cellH, u.fillX, u.fillY, u.crt, u.spotSigmaPx, u.glowOversample, this.glowSize, this.grid]);
+    if (key === this.tapsKey) return;
+    this.tapsKey = key;
+    const gl = this.gl;
+    const pack = (pixels: number, taps: ReturnType<typeof apertureTaps>, glowAxis: ReturnType<typeof glowTaps>) => {
+      const out = new Float32Array(pixels * 4);
+      for (let p = 0; p < pixels; p++) {
+        out[p * 4] = taps.index[p * taps.stride];
+        out[p * 4 + 1] = taps.weight[p * taps.stride];
+        out[p * 4 + 2] = taps.stride > 1 ? taps.weight[p * taps.stride + 1] : 0;
+        out[p * 4 + 3] = glowAxis.index[p * 2] + glowAxis.weight[p * 2 + 1];
+      }
+      return out;
+    };
+    const columns = pack(u.width, apertureTaps(u.width, u.cols, u.cellW, u.fillX), glowTaps(u.width, this.glowSize[0], u.cellW, u.glowOversample));
+    const rowGlow = glowTaps(u.height, this.glowSize[1], u.cellH, u.glowOversample);
+    const rows = pack(u.height, u.crt ? { index: new Int32Array(u.height), weight: new Float32Array(u.height), stride: 1 } : apertureTaps(u.height, u.rows, u.cellH, u.fillY), rowGlow);
+    gl.bindTexture(gl.TEXTURE_2D, this.columnTex);
+    gl.texImage2D(gl.TEXTURE_2D, 0, gl.RGBA32F, u.width, 1, 0, gl.RGBA, gl.FLOAT, columns);
+    gl.bindTexture(gl.TEXTURE_2D, this.rowTex);
+    gl.texImage2D(gl.TEXTURE_2D, 0, gl.RGBA32F, u.height, 1, 0, gl.RGBA, gl.FLOAT, rows);
+    const lines = u.crt ? lineTaps(u.height, u.rows, u.cellH, u.spotSigmaPx) : { index: new Int32Array(u.height), weight: new Float32Array(u.height), stride: 1 };
+    const pairs = new Float32Array(u.height * lines.stride * 2);
+    for (let i = 0; i < u.height * lines.stride; i++) {
+      pairs[i * 2] = lines.index[i];
+      pairs[i * 2 + 1] = lines.weight[i];
+    }
+    gl.bindTexture(gl.TEXTURE_2D, this.lineTex);
+    gl.texImage2D(gl.TEXTURE_2D, 0, gl.RG32F, lines.stride, u.height, 0, gl.RG, gl.FLOAT, pairs);
+    this.lineStride = lines.stride;
   }
 
   private floatTexture(): WebGLTexture {
@@ -68,6 +139,7 @@ export class PanelRenderer {
     gl.texImage2D(gl.TEXTURE_2D, 0, gl.R32F, glow.width, glow.height, 0, gl.RED, gl.FLOAT, glow.data);
     this.grid = [cols, rows];
     this.glowSize = [glow.width, glow.height];
+    this.uploads++;
   }
 
   /** Draws the output stages with these uniforms (the canvas is resized to the output). */
@@ -79,32 +151,55 @@ export class PanelRenderer {
       canvas.height = u.height;
     }
     gl.viewport(0, 0, u.width, u.height);
-    gl.useProgram(this.program);
-    const p = this.program;
-    const loc = (name: string) => gl.getUniformLocation(p, name);
-    gl.activeTexture(gl.TEXTURE0);
-    gl.bindTexture(gl.TEXTURE_2D, this.emissionTex);
-    gl.uniform1i(loc('emission'), 0);
-    gl.activeTexture(gl.TEXTURE1);
-    gl.bindTexture(gl.TEXTURE_2D, this.glowTex);
-    gl.uniform1i(loc('glow'), 1);
+    this.uploadTaps(u);
+    this.uploadEncodeTable(u);
+    if (!this.vProgram || !this.encodeProgram) {
+      this.pass(this.program, u);
+      return;
+    }
+    const key = `${this.uploads}|${this.tapsKey}|${u.directShare}`;
+    if (key !== this.vKey) {
+      this.vKey = key;
+      gl.bindTexture(gl.TEXTURE_2D, this.vTex!);
+      gl.texImage2D(gl.TEXTURE_2D, 0, gl.R32F, u.width, u.height, 0, gl.RED, gl.FLOAT, null);
+      gl.texParameteri(gl.TEXTURE_2D, gl.TEXTURE_MIN_FILTER, gl.NEAREST);
+      gl.texParameteri(gl.TEXTURE_2D, gl.TEXTURE_MAG_FILTER, gl.NEAREST);
+      gl.bindFramebuffer(gl.FRAMEBUFFER, this.vFbo!);
+      gl.framebufferTexture2D(gl.FRAMEBUFFER, gl.COLOR_ATTACHMENT0, gl.TEXTURE_2D, this.vTex!, 0);
+      this.pass(this.vProgram, u);
+      gl.bindFramebuffer(gl.FRAMEBUFFER, null);
+    }
+    this.pass(this.encodeProgram, u, this.vTex);
+  }
+
+  /** One full-screen pass of `program` with every texture and uniform it may read. */
+  private pass(program: WebGLProgram, u: OutputUniforms, vField?: WebGLTexture): void {
+    const gl = this.gl;
+    gl.useProgram(program);
+    const loc = (name: string) => this.location(program, name);
+    const textures: [string, WebGLTexture | undefined][] = [['emission', this.emissionTex], ['glow', this.glowTex], ['columnTaps', this.columnTex], ['rowTaps', this.rowTex], ['lineTaps', this.lineTex], ['encodeTable', this.encodeTex], ['vField', vField]];
+    textures.forEach(([name, tex], unit) => {
+      if (!tex) return;
+      gl.activeTexture(gl.TEXTURE0 + unit);
+      gl.bindTexture(gl.TEXTURE_2D, tex);
+      gl.uniform1i(loc(name), unit);
+    });
     gl.uniform2i(loc('grid'), this.grid[0], this.grid[1]);
     gl.uniform2i(loc('glowSize'), this.glowSize[0], this.glowSize[1]);
     gl.uniform2f(loc('outputSize'), u.width, u.height);
-    gl.uniform2f(loc('cellSize'), u.cellW, u.cellH);
-    gl.uniform2f(loc('fill'), u.fillX, u.fillY);
     gl.uniform1i(loc('crt'), u.crt ? 1 : 0);
-    gl.uniform1f(loc('spotSigma'), u.spotSigmaPx);
-    gl.uniform1i(loc('lineReach'), Math.min(16, Math.ceil((4 * u.spotSigmaPx + 1) / u.cellH) + 1));
+    gl.uniform1i(loc('lineStride'), this.lineStride);
     gl.uniform1f(loc('directShare'), u.directShare);
-    gl.uniform1f(loc('glowOversample'), u.glowOversample);
-    gl.uniform3f(loc('colour'), u.colour[0], u.colour[1], u.colour[2]);
-    gl.uniform1f(loc('ambient'), u.colourY * u.ambientCdM2);
-    gl.uniform1f(loc('peak'), u.peakCdM2);
-    gl.uniform1f(loc('offLevel'), u.offCdM2);
-    gl.uniform1f(loc('gain'), u.gain);
-    gl.uniform1f(loc('knee'), u.knee);
+    gl.uniform1f(loc('tableScale'), (ENCODE_STEPS - 1) / ENCODE_V_MAX);
     gl.drawArrays(gl.TRIANGLES, 0, 3);
+  }
+
+  private readonly locations = new Map<WebGLProgram, Map<string, WebGLUniformLocation | null>>();
+  private location(program: WebGLProgram, name: string): WebGLUniformLocation | null {
+    let map = this.locations.get(program);
+    if (!map) this.locations.set(program, (map = new Map()));
+    if (!map.has(name)) map.set(name, this.gl.getUniformLocation(program, name));
+    return map.get(name)!;
   }
 
   /** A plain textured draw of an RGBA image of this size (benchmark baseline). */

@@ -138,10 +138,17 @@ export class Bench {
 
   protected async redraw(params: PanelParams, frame: number, scale: number): Promise<void> {
     if (!this.frames.hasValue() || !this.glCanvas()) return;
-    this.sendFrames(this.engine, this.frames.value());
+    const frames = this.frames.value();
+    this.sendFrames(this.engine, frames);
     this.gl ??= this.renderer() === 'cpu' ? null : PanelRenderer.create(this.glCanvas()!.nativeElement);
     this.usingCpu.set(this.gl === null);
     const started = performance.now();
+    const key = panelStageKey(params, frame, frames);
+    // Output-stage edits (light, colour, spot) reuse the panel fields: one GPU pass.
+    if (this.gl && this.lastResult && key === this.lastKey) {
+      this.gl.draw(outputUniforms(params, scale));
+      return this.finishDraw(started);
+    }
     let result: PanelResult | null;
     try {
       result = await this.engine.render(params, frame, scale, this.gl === null);
@@ -152,16 +159,24 @@ export class Bench {
     if (!result) return;
     this.status.set('');
     this.lastResult = result;
-    const u = outputUniforms(params, scale);
+    this.lastKey = key;
     if (this.gl) {
       this.gl.upload(result.emission, params.cell.cols, params.cell.rows, result.glow);
-      this.gl.draw(u);
+      this.gl.draw(outputUniforms(params, scale));
     } else if (result.image) {
       putImage(this.cpuCanvas()!.nativeElement, result.image.data, result.image.width, result.image.height);
     }
+    this.finishDraw(started);
+  }
+
+  /** Waits for the GPU, then records the redraw (User Timing "emberline-redraw", from edit to finished frame). */
+  private finishDraw(started: number): void {
+    this.gl?.finish();
+    performance.measure('emberline-redraw', { start: started, end: performance.now() });
     this.lastMs.set(performance.now() - started);
     this.draws.update((n) => n + 1);
   }
+  private lastKey = '';
   private lastResult?: PanelResult;
   private readonly sent = new WeakMap<BenchEngine, Frame[]>();
 
@@ -262,6 +277,22 @@ export class Bench {
     const canvas = this.cpuCanvas()!.nativeElement;
     return new Uint8Array(canvas.getContext('2d')!.getImageData(0, 0, canvas.width, canvas.height).data.buffer);
   }
+}
+
+/** Everything the panel-resolution stages and the glow field depend on (not the output stages). */
+function panelStageKey(p: PanelParams, frame: number, frames: Frame[]): string {
+  const { viewing: _viewing, ...rest } = p;
+  const { decayMs, ...colour } = p.emission;
+  void colour;
+  const cell = { ...p.cell, spotSigma: 0 };
+  return JSON.stringify({ ...rest, emission: { decayMs }, cell, frame, frames: frames.length, id: framesId(frames) });
+}
+
+const frameIds = new WeakMap<Frame[], number>();
+let nextFramesId = 1;
+function framesId(frames: Frame[]): number {
+  if (!frameIds.has(frames)) frameIds.set(frames, nextFramesId++);
+  return frameIds.get(frames)!;
 }
 
 function putImage(canvas: HTMLCanvasElement, data: Uint8Array | Uint8ClampedArray, width: number, height: number): void {
