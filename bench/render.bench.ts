@@ -41,7 +41,7 @@ async function main() {
   // Stage split of one render.
   const frames = (await decodeImage(input)).frames;
   const u = outputUniforms(base, scale);
-  let emission = new Float32Array();
+  let emission: Float32Array = new Float32Array();
   let glow = panelGlow(panelEmission(frames, base), base);
   let image = compose(panelEmission(frames, base), glow, u);
   const decodeMs = await time(() => decodeImage(input));

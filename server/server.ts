@@ -21,7 +21,7 @@ export async function start(config: Config = loadConfig()): Promise<Running> {
   await sequelize.authenticate();
   const applied = await migrate(sequelize);
   if (applied.length) console.log(`[db] applied migrations: ${applied.join(', ')}`);
-  if (process.env.SEED_DEMO === '1') await seedDemo();
+
   const sessionPool = new Pool({
     host: config.db.host,
     port: config.db.port,
@@ -34,6 +34,7 @@ export async function start(config: Config = loadConfig()): Promise<Running> {
   sessionPool.on('error', (err) => console.error(`[db] idle session-pool client failed: ${err.message}`));
   const mailer = new Mailer(config.smtp);
   const app = createApp({ config, sequelize, sessionPool, mailer });
+  if (process.env.SEED_DEMO === '1') await seedDemo(app.artworks);
   const orphans = await app.artworks.reconcile();
   if (orphans) console.log(`[storage] removed ${orphans} artwork folder(s) left without a database row`);
   const host = process.env.HOST ?? '127.0.0.1';
