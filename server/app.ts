@@ -11,7 +11,10 @@ import { publicAccess } from './core/policy';
 import { securityHeaders } from './core/security-headers';
 import { absoluteLifetime, csrfProtection, sessionMiddleware } from './core/session';
 import './core/request-context';
+import { activityRoutes } from './features/activity/activity.routes';
 import { artworksRoutes } from './features/artworks/artworks.routes';
+import { presetsRoutes, shareRoutes } from './features/presets/presets.routes';
+import { PresetsService } from './features/presets/presets.service';
 import { ArtworksService } from './features/artworks/artworks.service';
 import { authRoutes } from './features/auth/auth.routes';
 import { AuthService } from './features/auth/auth.service';
@@ -59,8 +62,9 @@ export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; art
   const auth = new AuthService(mailer, config.appUrl);
   const renderStore = new RenderStore(config.storageDir);
   const artworks = new ArtworksService(new FileStore(config.storageDir));
+  const presets = new PresetsService();
   const studios = new StudiosService(mailer, config.appUrl, (_studioId, artworkIds) => artworks.removeFiles(artworkIds));
-  const routers: ApiRouter[] = [health, authRoutes(auth, sequelize), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renderStore), timingsRoutes(new TimingsService()), artworksRoutes(artworks, renderStore)];
+  const routers: ApiRouter[] = [health, authRoutes(auth, sequelize), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renderStore), timingsRoutes(new TimingsService()), artworksRoutes(artworks, renderStore), presetsRoutes(presets, config.appUrl), shareRoutes(presets, artworks), activityRoutes()];
   const docs = new ApiRouter('/docs', 'Service');
   const specs = routers.flatMap((r) => r.specs);
   docs.route('get', '/', { policy: publicAccess, summary: 'This OpenAPI document' }, (_req, res) => {

@@ -1,5 +1,6 @@
 import { newToken } from './tokens';
 import { POLICY } from './policy';
+import { BUILT_IN_PRESETS } from '../../shared/model/panel-types';
 import { PasswordReset } from '../features/auth/password-reset.model';
 import { Invite } from '../features/studios/invite.model';
 import { Membership } from '../features/studios/membership.model';
@@ -19,6 +20,10 @@ interface Cell {
   inviteToken: string;
   timingId: string;
   artworkId: string;
+  presetId: string;
+  linkId: string;
+  shareToken: string;
+  otherStudioId: string;
 }
 interface Row {
   method: 'get' | 'post' | 'patch' | 'delete';
@@ -90,6 +95,24 @@ const ROWS: Row[] = [
     body: (c) => ({ artworkId: c.artworkId, presetId: 'el-amber-640x480.standard', patch: { cell: { cols: 8, rows: 8 }, viewing: { exposureEv: Math.random() * 3 } }, scale: 1 }),
     expect: [201, 201, 201, 404, 401],
   },
+  { method: 'get', path: '/api/studios/:studioId/presets', url: (c) => `${S(c)}/presets`, expect: [200, 200, 200, 404, 401] },
+  { method: 'post', path: '/api/studios/:studioId/presets', url: (c) => `${S(c)}/presets`, body: () => ({ name: 'New look', panelTypeId: 'crt-green-p1' }), expect: [201, 201, 403, 404, 401] },
+  { method: 'post', path: '/api/studios/:studioId/presets/import', url: (c) => `${S(c)}/presets/import`, body: () => ({ format: 'emberline.preset', version: 1, name: 'Imported', panelTypeId: 'el-amber-640x480', parameters: BUILT_IN_PRESETS[0].parameters }), expect: [201, 201, 403, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/presets/:presetId', url: (c) => `${S(c)}/presets/${c.presetId}`, expect: [200, 200, 200, 404, 401] },
+  { method: 'patch', path: '/api/studios/:studioId/presets/:presetId', url: (c) => `${S(c)}/presets/${c.presetId}`, body: () => ({ baseRevision: 1, name: 'Renamed look' }), expect: [200, 200, 403, 404, 401] },
+  { method: 'delete', path: '/api/studios/:studioId/presets/:presetId', url: (c) => `${S(c)}/presets/${c.presetId}`, expect: [204, 204, 403, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/presets/:presetId/revisions', url: (c) => `${S(c)}/presets/${c.presetId}/revisions`, expect: [200, 200, 200, 404, 401] },
+  { method: 'post', path: '/api/studios/:studioId/presets/:presetId/revisions/:n/restore', url: (c) => `${S(c)}/presets/${c.presetId}/revisions/1/restore`, expect: [200, 200, 403, 404, 401] },
+  // Duplicating into the same studio: editors and owners may; a viewer is refused by the target's role.
+  { method: 'post', path: '/api/studios/:studioId/presets/:presetId/duplicate', url: (c) => `${S(c)}/presets/${c.presetId}/duplicate`, body: (c) => ({ studioId: c.studioId }), expect: [201, 201, 403, 404, 401] },
+  { method: 'post', path: '/api/studios/:studioId/presets/:presetId/reference', url: (c) => `${S(c)}/presets/${c.presetId}/reference`, body: () => ({ isReference: true }), expect: [200, 403, 403, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/presets/:presetId/export', url: (c) => `${S(c)}/presets/${c.presetId}/export`, expect: [200, 200, 200, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/presets/:presetId/links', url: (c) => `${S(c)}/presets/${c.presetId}/links`, expect: [200, 403, 403, 404, 401] },
+  { method: 'post', path: '/api/studios/:studioId/presets/:presetId/links', url: (c) => `${S(c)}/presets/${c.presetId}/links`, body: () => ({ expiresInDays: 7 }), expect: [201, 403, 403, 404, 401] },
+  { method: 'delete', path: '/api/studios/:studioId/presets/:presetId/links/:linkId', url: (c) => `${S(c)}/presets/${c.presetId}/links/${c.linkId}`, expect: [204, 403, 403, 404, 401] },
+  { method: 'get', path: '/api/share/:token', url: (c) => `/api/share/${c.shareToken}`, expect: [200, 200, 200, 200, 200] },
+  { method: 'get', path: '/api/share/:token/frames', url: (c) => `/api/share/${c.shareToken}/frames`, expect: [200, 200, 200, 200, 200] },
+  { method: 'get', path: '/api/studios/:studioId/activity', url: (c) => `${S(c)}/activity`, expect: [200, 200, 200, 404, 401] },
   { method: 'get', path: '/api/panel-types', url: () => '/api/panel-types', expect: [200, 200, 200, 200, 200] },
   {
     method: 'post',
@@ -152,7 +175,7 @@ test('deny by default: every route in the Express router starts with a policy mi
 describe.each(ROWS)('$method $path', (row) => {
   test.each(ACTORS.map((actor, i) => [actor, row.expect[i]] as const))('%s → %i', async (actor, expected) => {
     const world = await createStudioWorld(users, h.app.artworks);
-    const cell: Cell = { studioId: world.studio.id, users, actor, inviteId: world.invite.id, inviteToken: world.inviteToken, timingId: world.timing.id, artworkId: world.artworkId };
+    const cell: Cell = { studioId: world.studio.id, users, actor, inviteId: world.invite.id, inviteToken: world.inviteToken, timingId: world.timing.id, artworkId: world.artworkId, presetId: world.presetId, linkId: world.linkId, shareToken: world.shareToken, otherStudioId: world.studio.id };
     const client = new TestClient(h.app);
     if (actor !== 'anonymous') {
       const signIn = await client.post('/api/auth/sign-in', { email: users[actor].email, password: WORLD_PASSWORD });

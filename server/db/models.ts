@@ -1,7 +1,9 @@
 import type { Sequelize } from 'sequelize';
 import { initPasswordReset, PasswordReset } from '../features/auth/password-reset.model';
 import { initUser, User } from '../features/auth/user.model';
+import { initActivity } from '../features/activity/activity.model';
 import { initArtwork } from '../features/artworks/artwork.model';
+import { initPresets } from '../features/presets/preset.model';
 import { initRender } from '../features/renders/render.model';
 import { initSavedTiming } from '../features/timings/timing.model';
 import { initInvite, Invite } from '../features/studios/invite.model';
@@ -17,6 +19,8 @@ export function initModels(sequelize: Sequelize): void {
   initInvite(sequelize);
   initRender(sequelize);
   initArtwork(sequelize);
+  initPresets(sequelize);
+  initActivity(sequelize);
   initSavedTiming(sequelize);
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
   Membership.belongsTo(Studio, { foreignKey: 'studioId', as: 'studio' });

@@ -6,6 +6,7 @@ import { Invite } from '../features/studios/invite.model';
 import { Membership } from '../features/studios/membership.model';
 import { Studio } from '../features/studios/studio.model';
 import { SavedTiming } from '../features/timings/timing.model';
+import { PresetsService } from '../features/presets/presets.service';
 import type { ArtworksService } from '../features/artworks/artworks.service';
 import { uniqueEmail } from './harness';
 import { pngOf } from './images';
@@ -44,7 +45,7 @@ export const TIMING_BODY = {
   interface: { dualScan: true, pixelsPerClock: 4 as const },
 };
 
-export async function createStudioWorld(users: WorldUsers, artworks?: ArtworksService): Promise<{ studio: Studio; invite: Invite; inviteToken: string; timing: SavedTiming; artworkId: string }> {
+export async function createStudioWorld(users: WorldUsers, artworks?: ArtworksService): Promise<{ studio: Studio; invite: Invite; inviteToken: string; timing: SavedTiming; artworkId: string; presetId: string; linkId: string; shareToken: string }> {
   const studio = await Studio.create({ name: `Matrix ${Math.random().toString(36).slice(2, 7)}` });
   const roles: [User, Role][] = [
     [users.owner, 'owner'],
@@ -57,5 +58,10 @@ export async function createStudioWorld(users: WorldUsers, artworks?: ArtworksSe
   const invite = await Invite.create({ studioId: studio.id, email: uniqueEmail('invitee'), role: 'viewer', tokenHash: hash, invitedById: users.owner.id, expiresAt: new Date(Date.now() + 86_400_000) });
   const timing = await SavedTiming.create({ studioId: studio.id, ...TIMING_BODY, createdById: users.owner.id, updatedById: users.owner.id });
   const artworkId = artworks ? (await artworks.upload(studio.id, users.owner.id, pngOf(8, 8, (x, y) => [x * 30, y * 30, 0, 255]), 'tile.png', {})).id : '';
-  return { studio, invite, inviteToken: token, timing, artworkId };
+  const presets = new PresetsService();
+  const actor = { studioId: studio.id, userId: users.owner.id, role: 'owner' as const };
+  const preset = await presets.create(actor, { name: 'World look', panelTypeId: 'el-amber-640x480' });
+  const link = await presets.createLink(actor, preset.id, artworkId ? { artworkId } : {}, 'http://app.test');
+  const shareToken = link.url!.split('/share/')[1];
+  return { studio, invite, inviteToken: token, timing, artworkId, presetId: preset.id, linkId: link.id, shareToken };
 }

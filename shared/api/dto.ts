@@ -76,3 +76,53 @@ export interface ArtworkDto {
   thumbnailUrl: string;
   framesUrl: string;
 }
+
+/** A studio preset at its current revision. */
+export interface PresetDto {
+  id: string;
+  studioId: string;
+  panelTypeId: string;
+  name: string;
+  parameters: import('../model/parameters').PanelParams;
+  revision: number;
+  isReference: boolean;
+  updatedAt: string;
+  updatedBy: string | null;
+}
+
+/** One saved revision of a preset. */
+export interface PresetRevisionDto {
+  revision: number;
+  name: string;
+  parameters: import('../model/parameters').PanelParams;
+  changes: import('../model/param-diff').ParamChange[];
+  message: string | null;
+  author: string | null;
+  createdAt: string;
+}
+
+/** A share link as its owners see it (the token only once, at creation). */
+export interface ShareLinkDto {
+  id: string;
+  url?: string;
+  artworkId: string | null;
+  expiresAt: string | null;
+  revokedAt: string | null;
+  createdAt: string;
+}
+
+/** What a share link opens: the preset and its artwork, read-only. */
+export interface SharedViewDto {
+  preset: Pick<PresetDto, 'name' | 'panelTypeId' | 'parameters' | 'revision'>;
+  studioName: string;
+  artwork: Pick<import('./dto').ArtworkDto, 'name' | 'width' | 'height' | 'frameCount' | 'delaysMs'> | null;
+  framesUrl: string | null;
+}
+
+export interface ActivityDto {
+  id: number;
+  kind: string;
+  summary: string;
+  actor: string | null;
+  createdAt: string;
+}

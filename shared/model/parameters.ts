@@ -110,10 +110,11 @@ function fieldSchema(spec: ParamSpec): z.ZodType {
   if (spec.kind === 'bool') return z.boolean({ message: `${where} must be true or false` });
   if (spec.kind === 'enum') return z.enum(spec.options as [string, ...string[]], { message: `${where} must be one of ${spec.options.join(', ')}` });
   const range = `${spec.kind === 'int' ? 'a whole number' : 'a number'} from ${spec.min} to ${spec.max}${spec.unit ? ` ${spec.unit}` : ''}`;
-  const base = z.number({ message: `${where} must be ${range}` }).refine(Number.isFinite, { message: `${where} must be ${range}, got a non-finite value` });
-  return base.superRefine((v, ctx) => {
-    if (v < spec.min || v > spec.max || (spec.kind === 'int' && !Number.isInteger(v))) ctx.addIssue({ code: 'custom', message: `${where} must be ${range}, got ${v}` });
-  });
+  // One message for every failure, naming the parameter, its range and the value given.
+  const error = (issue: { input?: unknown }) => `${where} must be ${range}, got ${typeof issue.input === 'string' ? `"${issue.input}"` : String(issue.input)}`;
+  let schema = z.number({ error });
+  if (spec.kind === 'int') schema = schema.int({ error });
+  return schema.min(spec.min, { error }).max(spec.max, { error }).meta({ description: `${spec.meaning}${spec.unit ? ` (${spec.unit})` : ''}` });
 }
 
 /** The strict schema of PanelParams: every group and key required, unknown keys refused. */

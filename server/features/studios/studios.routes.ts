@@ -29,12 +29,12 @@ export function studiosRoutes(studios: StudiosService): ApiRouter {
     res.json({ members: await studios.members(req.membership!.studioId) });
   });
   api.route('patch', '/:studioId/members/:userId', { policy: studioRole('owner'), summary: "Change a member's role", body: changeRoleSchema }, async (req, res) => {
-    res.json({ member: await studios.changeRole(req.membership!.studioId, idParam(req, 'userId', 'The member'), req.body.role) });
+    res.json({ member: await studios.changeRole(req.membership!.studioId, idParam(req, 'userId', 'The member'), req.body.role, req.user!.id) });
   });
   api.route('delete', '/:studioId/members/:userId', { policy: studioRole('viewer'), summary: 'Remove a member (owners), or leave (yourself)', status: 204 }, async (req, res) => {
     const { studioId, userId, role } = req.membership!;
     if (idParam(req, 'userId', 'The member') !== userId && role !== 'owner') throw forbidden('Only owners remove other members.');
-    await studios.removeMember(studioId, idParam(req, 'userId', 'The member'));
+    await studios.removeMember(studioId, idParam(req, 'userId', 'The member'), userId);
     res.status(204).end();
   });
 

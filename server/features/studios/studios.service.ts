@@ -4,6 +4,7 @@ import type { Role } from '../../../shared/model/roles';
 import { AppError, conflict, notFound } from '../../core/app-error';
 import { hashToken, newToken } from '../../core/tokens';
 import type { Mailer } from '../../mail/mailer';
+import { record } from '../activity/activity.model';
 import { Artwork } from '../artworks/artwork.model';
 import { User } from '../auth/user.model';
 import { Invite } from './invite.model';
@@ -83,21 +84,26 @@ export class StudiosService {
   }
 
   /** Changes a member's role; the studio always keeps at least one owner. */
-  async changeRole(studioId: string, userId: string, role: Role): Promise<MemberDto> {
+  async changeRole(studioId: string, userId: string, role: Role, actorId?: string): Promise<MemberDto> {
     await Membership.sequelize!.transaction(async (transaction) => {
       const member = await this.lockedMember(studioId, userId, transaction);
       if (member.role === 'owner' && role !== 'owner') await this.assertAnotherOwner(studioId, userId, transaction);
+      const user = await User.findByPk(userId, { transaction });
       await member.update({ role }, { transaction });
+      await record(studioId, actorId ?? null, 'member.role', `changed ${user?.displayName ?? 'a member'}'s role to ${role}`, transaction);
     });
     return (await this.members(studioId)).find((m) => m.userId === userId)!;
   }
 
   /** Removes a member (an owner removing someone, or anyone leaving); never the last owner. */
-  async removeMember(studioId: string, userId: string): Promise<void> {
+  async removeMember(studioId: string, userId: string, actorId?: string): Promise<void> {
     await Membership.sequelize!.transaction(async (transaction) => {
       const member = await this.lockedMember(studioId, userId, transaction);
       if (member.role === 'owner') await this.assertAnotherOwner(studioId, userId, transaction);
+      const user = await User.findByPk(userId, { transaction });
       await member.destroy({ transaction });
+      const self = actorId === userId;
+      await record(studioId, actorId ?? null, self ? 'member.left' : 'member.removed', self ? 'left the studio' : `removed ${user?.displayName ?? 'a member'}`, transaction);
     });
   }
 
@@ -155,7 +161,10 @@ export class StudiosService {
         throw new AppError(403, 'invite_other_email', `This invite is for ${invite.email}. Sign in with that e-mail to accept it.`);
       }
       const existing = await Membership.findOne({ where: { studioId: invite.studioId, userId: user.id }, transaction });
-      if (!existing) await Membership.create({ studioId: invite.studioId, userId: user.id, role: invite.role }, { transaction });
+      if (!existing) {
+        await Membership.create({ studioId: invite.studioId, userId: user.id, role: invite.role }, { transaction });
+        await record(invite.studioId, user.id, 'member.joined', `joined as ${invite.role}`, transaction);
+      }
       await invite.update({ acceptedAt: new Date() }, { transaction });
       const studio = await Studio.findByPk(invite.studioId, { transaction });
       return studioDto(studio!, existing?.role ?? invite.role);

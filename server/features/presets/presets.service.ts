@@ -1,0 +1,190 @@
+import { Op, type Order, type Transaction } from 'sequelize';
+import type { PresetDto, PresetRevisionDto, SharedViewDto, ShareLinkDto } from '../../../shared/api/dto';
+import type { PresetDocument } from '../../../shared/api/preset.schema';
+import { PRESET_FORMAT } from '../../../shared/api/preset.schema';
+import { paramDiff } from '../../../shared/model/param-diff';
+import { panelTypeById } from '../../../shared/model/panel-types';
+import type { PanelParams } from '../../../shared/model/parameters';
+import { roleAtLeast, type Role } from '../../../shared/model/roles';
+import { AppError, conflict, forbidden, notFound } from '../../core/app-error';
+import { hashToken, newToken } from '../../core/tokens';
+import { record } from '../activity/activity.model';
+import { Artwork } from '../artworks/artwork.model';
+import { User } from '../auth/user.model';
+import { Membership } from '../studios/membership.model';
+import { Studio } from '../studios/studio.model';
+import { Preset, PresetRevision, ShareLink } from './preset.model';
+
+/** Who is acting, in which studio, with which role. */
+export interface Actor {
+  studioId: string;
+  userId: string;
+  role: Role;
+}
+
+const names = async (ids: (string | null)[]): Promise<Map<string, string>> => {
+  const list = [...new Set(ids.filter((i): i is string => !!i))];
+  const users = list.length ? await User.findAll({ where: { id: list }, attributes: ['id', 'displayName'] }) : [];
+  return new Map(users.map((u) => [u.id, u.displayName]));
+};
+
+/** Studio presets: revisions on every save, optimistic concurrency, reference lock, share links. */
+export class PresetsService {
+  async list(studioId: string, q: { panelTypeId?: string; search?: string; sort: string; page: number; pageSize: number }): Promise<{ presets: PresetDto[]; total: number }> {
+    const where: Record<string, unknown> = { studioId };
+    if (q.panelTypeId) where.panelTypeId = q.panelTypeId;
+    if (q.search) where.name = { [Op.iLike]: `%${q.search.replace(/[\\%_]/g, (c) => `\\${c}`)}%` };
+    const dir = q.sort.startsWith('-') ? 'DESC' : 'ASC';
+    const order: Order = q.sort.endsWith('name') ? [['name', dir]] : [['updatedAt', dir]];
+    const { rows, count } = await Preset.findAndCountAll({ where, order, limit: q.pageSize, offset: q.page * q.pageSize });
+    const who = await names(rows.map((r) => r.updatedById));
+    return { presets: rows.map((r) => this.dto(r, who)), total: count };
+  }
+
+  async get(studioId: string, id: string): Promise<PresetDto> {
+    const row = await this.row(studioId, id);
+    return this.dto(row, await names([row.updatedById]));
+  }
+
+  async create(actor: Actor, body: { name: string; panelTypeId: string; parameters?: PanelParams }, message = 'Created'): Promise<PresetDto> {
+    const type = panelTypeById(body.panelTypeId);
+    if (!type) throw new AppError(400, 'invalid_input', `panelTypeId "${body.panelTypeId}" is not a built-in panel type.`, { issues: [{ path: 'panelTypeId', message: 'unknown panel type' }] });
+    const parameters = body.parameters ?? structuredClone(type.defaults);
+    return Preset.sequelize!.transaction(async (transaction) => {
+      const row = await Preset.create({ studioId: actor.studioId, panelTypeId: type.id, name: body.name, parameters, revision: 1, updatedById: actor.userId }, { transaction });
+      await PresetRevision.create({ presetId: row.id, revision: 1, name: row.name, parameters, changes: [], message, authorId: actor.userId }, { transaction });
+      await record(actor.studioId, actor.userId, 'preset.created', `created preset “${row.name}”`, transaction);
+      return this.dto(row, await names([actor.userId]));
+    });
+  }
+
+  /** Saves a new revision; the caller must have edited the current one (else 409 with it). */
+  async update(actor: Actor, id: string, body: { baseRevision: number; name?: string; parameters?: PanelParams; message?: string }): Promise<PresetDto> {
+    return Preset.sequelize!.transaction(async (transaction) => {
+      const row = await this.row(actor.studioId, id, transaction);
+      this.assertMayChange(row, actor);
+      if (body.baseRevision !== row.revision) {
+        throw conflict('stale_revision', `Someone saved revision ${row.revision} since you opened revision ${body.baseRevision}. Merge your changes into it and save again.`, { current: this.dto(row, await names([row.updatedById])) });
+      }
+      return this.saveRevision(row, actor, body.name ?? row.name, body.parameters ?? row.parameters, body.message ?? null, 'preset.changed', transaction);
+    });
+  }
+
+  async restore(actor: Actor, id: string, revision: number, message?: string): Promise<PresetDto> {
+    return Preset.sequelize!.transaction(async (transaction) => {
+      const row = await this.row(actor.studioId, id, transaction);
+      this.assertMayChange(row, actor);
+      const old = await PresetRevision.findOne({ where: { presetId: id, revision }, transaction });
+      if (!old) throw notFound(`Revision ${revision}`);
+      return this.saveRevision(row, actor, old.name, old.parameters, message ?? `Restored revision ${revision}`, 'preset.restored', transaction);
+    });
+  }
+
+  async remove(actor: Actor, id: string): Promise<void> {
+    await Preset.sequelize!.transaction(async (transaction) => {
+      const row = await this.row(actor.studioId, id, transaction);
+      this.assertMayChange(row, actor);
+      await row.destroy({ transaction });
+      await record(actor.studioId, actor.userId, 'preset.deleted', `deleted preset “${row.name}”`, transaction);
+    });
+  }
+
+  async setReference(actor: Actor, id: string, isReference: boolean): Promise<PresetDto> {
+    if (actor.role !== 'owner') throw forbidden('Only owners mark or unmark the studio’s reference look.');
+    const row = await this.row(actor.studioId, id);
+    await row.update({ isReference });
+    await record(actor.studioId, actor.userId, 'preset.reference', `${isReference ? 'locked' : 'unlocked'} preset “${row.name}” as the reference look`);
+    return this.dto(row, await names([row.updatedById]));
+  }
+
+  /** Copies a preset into another studio where the caller is an editor or owner. */
+  async duplicate(actor: Actor, id: string, targetStudioId: string, name?: string): Promise<PresetDto> {
+    const row = await this.row(actor.studioId, id);
+    const membership = await Membership.findOne({ where: { studioId: targetStudioId, userId: actor.userId } });
+    if (!membership) throw notFound('The target studio');
+    if (!roleAtLeast(membership.role, 'editor')) throw forbidden('You need to be an editor in the target studio.');
+    return this.create({ studioId: targetStudioId, userId: actor.userId, role: membership.role }, { name: name ?? `${row.name} (copy)`, panelTypeId: row.panelTypeId, parameters: row.parameters }, 'Duplicated');
+  }
+
+  async revisions(studioId: string, id: string): Promise<PresetRevisionDto[]> {
+    await this.row(studioId, id);
+    const rows = await PresetRevision.findAll({ where: { presetId: id }, order: [['revision', 'DESC']] });
+    const who = await names(rows.map((r) => r.authorId));
+    return rows.map((r) => ({ revision: r.revision, name: r.name, parameters: r.parameters, changes: r.changes, message: r.message, author: r.authorId ? (who.get(r.authorId) ?? null) : null, createdAt: r.createdAt.toISOString() }));
+  }
+
+  exportDocument(p: PresetDto): PresetDocument {
+    return { format: PRESET_FORMAT, version: 1, name: p.name, panelTypeId: p.panelTypeId, parameters: p.parameters };
+  }
+
+  async links(studioId: string, id: string): Promise<ShareLinkDto[]> {
+    await this.row(studioId, id);
+    const rows = await ShareLink.findAll({ where: { presetId: id }, order: [['createdAt', 'DESC']] });
+    return rows.map((l) => this.linkDto(l));
+  }
+
+  async createLink(actor: Actor, id: string, body: { artworkId?: string; expiresInDays?: number }, appUrl: string): Promise<ShareLinkDto> {
+    const row = await this.row(actor.studioId, id);
+    if (body.artworkId && !(await Artwork.findOne({ where: { id: body.artworkId, studioId: actor.studioId } }))) throw notFound('The artwork');
+    const { token, hash } = newToken();
+    const link = await ShareLink.create({ presetId: row.id, artworkId: body.artworkId ?? null, tokenHash: hash, createdById: actor.userId, expiresAt: body.expiresInDays ? new Date(Date.now() + body.expiresInDays * 86_400_000) : null });
+    await record(actor.studioId, actor.userId, 'link.created', `created a share link to “${row.name}”`);
+    return { ...this.linkDto(link), url: `${appUrl}/share/${token}` };
+  }
+
+  async revokeLink(actor: Actor, id: string, linkId: string): Promise<void> {
+    const row = await this.row(actor.studioId, id);
+    const link = await ShareLink.findOne({ where: { id: linkId, presetId: row.id } });
+    if (!link) throw notFound('The link');
+    await link.update({ revokedAt: new Date() });
+    await record(actor.studioId, actor.userId, 'link.revoked', `revoked a share link to “${row.name}”`);
+  }
+
+  /** What a share token opens, or 404 for unknown, revoked or expired tokens alike. */
+  async shared(token: string): Promise<{ view: SharedViewDto; artwork: Artwork | null }> {
+    const link = /^[A-Za-z0-9_-]{20,100}$/.test(token) ? await ShareLink.findOne({ where: { tokenHash: hashToken(token) } }) : null;
+    if (!link || link.revokedAt || (link.expiresAt && link.expiresAt.getTime() < Date.now())) throw notFound('The shared look');
+    const preset = await Preset.findByPk(link.presetId);
+    if (!preset) throw notFound('The shared look');
+    const studio = await Studio.findByPk(preset.studioId);
+    const artwork = link.artworkId ? await Artwork.findByPk(link.artworkId) : null;
+    return {
+      artwork,
+      view: {
+        preset: { name: preset.name, panelTypeId: preset.panelTypeId, parameters: preset.parameters, revision: preset.revision },
+        studioName: studio?.name ?? '',
+        artwork: artwork ? { name: artwork.name, width: artwork.width, height: artwork.height, frameCount: artwork.frameCount, delaysMs: artwork.delaysMs } : null,
+        framesUrl: artwork ? `/api/share/${token}/frames` : null,
+      },
+    };
+  }
+
+  private async saveRevision(row: Preset, actor: Actor, name: string, parameters: PanelParams, message: string | null, kind: string, transaction: Transaction): Promise<PresetDto> {
+    const changes = paramDiff(row.parameters, parameters);
+    if (name !== row.name) changes.unshift({ path: 'name', from: row.name, to: name });
+    const revision = row.revision + 1;
+    await PresetRevision.create({ presetId: row.id, revision, name, parameters, changes, message, authorId: actor.userId }, { transaction });
+    await row.update({ name, parameters, revision, updatedById: actor.userId }, { transaction });
+    const verb = kind === 'preset.restored' ? 'restored' : 'changed';
+    await record(actor.studioId, actor.userId, kind, `${verb} preset “${name}” (revision ${revision}${changes.length ? `: ${changes.map((c) => c.path).slice(0, 4).join(', ')}${changes.length > 4 ? '…' : ''}` : ''})`, transaction);
+    return this.dto(row, await names([actor.userId]));
+  }
+
+  private assertMayChange(row: Preset, actor: Actor): void {
+    if (row.isReference && actor.role !== 'owner') throw forbidden('This preset is the studio’s reference look; only owners change it.');
+  }
+
+  private async row(studioId: string, id: string, transaction?: Transaction): Promise<Preset> {
+    const row = await Preset.findOne({ where: { id, studioId }, transaction, lock: transaction ? transaction.LOCK.UPDATE : undefined });
+    if (!row) throw notFound('The preset');
+    return row;
+  }
+
+  private dto(r: Preset, who: Map<string, string>): PresetDto {
+    return { id: r.id, studioId: r.studioId, panelTypeId: r.panelTypeId, name: r.name, parameters: r.parameters, revision: r.revision, isReference: r.isReference, updatedAt: r.updatedAt.toISOString(), updatedBy: r.updatedById ? (who.get(r.updatedById) ?? null) : null };
+  }
+
+  private linkDto(l: ShareLink): ShareLinkDto {
+    return { id: l.id, artworkId: l.artworkId, expiresAt: l.expiresAt?.toISOString() ?? null, revokedAt: l.revokedAt?.toISOString() ?? null, createdAt: l.createdAt.toISOString() };
+  }
+}

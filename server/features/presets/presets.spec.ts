@@ -1,0 +1,139 @@
+import { readFileSync } from 'node:fs';
+import path from 'node:path';
+import { presetDocumentJsonSchema } from '../../../shared/api/preset-json-schema';
+import { BUILT_IN_PRESETS } from '../../../shared/model/panel-types';
+import { mergeParams } from '../../../shared/model/parameters';
+import { createHarness, TestClient, type Harness } from '../../testing/harness';
+import { pngOf } from '../../testing/images';
+import { Preset, ShareLink } from './preset.model';
+
+let h: Harness;
+let owner: TestClient;
+let editor: TestClient;
+let studioId: string;
+beforeAll(async () => {
+  h = await createHarness();
+  owner = new TestClient(h.app);
+  await owner.signUp('owner passphrase', 'owner');
+  studioId = (await owner.post('/api/studios', { name: 'Preset Lab' })).body.studio.id;
+  editor = new TestClient(h.app);
+  const ed = await editor.signUp('editor passphrase', 'editor');
+  const { Membership } = await import('../studios/membership.model');
+  await Membership.create({ studioId, userId: ed.id, role: 'editor' });
+});
+afterAll(() => h.close());
+
+const url = (rest = '') => `/api/studios/${studioId}/presets${rest}`;
+const base = BUILT_IN_PRESETS.find((p) => p.id === 'el-amber-640x480.standard')!.parameters;
+
+test('create → edit (a revision with a parameter diff) → history → restore → the old look is back as a new revision', async () => {
+  const created = (await editor.post(url(), { name: 'Warm glow', panelTypeId: 'el-amber-640x480' })).body.preset;
+  expect(created).toMatchObject({ revision: 1, parameters: base });
+  const edited = await editor.patch(url(`/${created.id}`), { baseRevision: 1, parameters: mergeParams(base, { glass: { glowRadiusMm: 0.6 }, drive: { grayLevels: 4 } }), message: 'softer' });
+  expect(edited.status).toBe(200);
+  expect(edited.body.preset.revision).toBe(2);
+  const history = (await owner.get(url(`/${created.id}/revisions`))).body.revisions;
+  expect(history.map((r: { revision: number }) => r.revision)).toEqual([2, 1]);
+  expect(history[0].changes).toEqual([
+    { path: 'drive.grayLevels', from: 2, to: 4 },
+    { path: 'glass.glowRadiusMm', from: 0.25, to: 0.6 },
+  ]);
+  expect(history[0].message).toBe('softer');
+  const restored = await owner.post(url(`/${created.id}/revisions/1/restore`));
+  expect(restored.body.preset).toMatchObject({ revision: 3, parameters: base });
+  const after = (await owner.get(url(`/${created.id}/revisions`))).body.revisions;
+  expect(after[0]).toMatchObject({ revision: 3, message: 'Restored revision 1' });
+  expect(after).toHaveLength(3);
+});
+
+test('concurrent edits never lose a revision: the second writer gets 409 with the newer revision', async () => {
+  const p = (await editor.post(url(), { name: 'Race', panelTypeId: 'el-amber-640x480' })).body.preset;
+  const [a, b] = await Promise.all([
+    editor.patch(url(`/${p.id}`), { baseRevision: 1, name: 'Race A' }),
+    owner.patch(url(`/${p.id}`), { baseRevision: 1, name: 'Race B' }),
+  ]);
+  const statuses = [a.status, b.status].sort();
+  expect(statuses).toEqual([200, 409]);
+  const loser = a.status === 409 ? a : b;
+  expect(loser.body.error.code).toBe('stale_revision');
+  expect(loser.body.error.details.current.revision).toBe(2);
+  expect((await owner.get(url(`/${p.id}/revisions`))).body.revisions).toHaveLength(2);
+});
+
+test('bad parameters are refused with their path, and nothing is saved', async () => {
+  const p = (await editor.post(url(), { name: 'Strict', panelTypeId: 'el-amber-640x480' })).body.preset;
+  const bad = await editor.patch(url(`/${p.id}`), { baseRevision: 1, parameters: { ...base, glass: { ...base.glass, glowRadiusMm: -3 } } });
+  expect(bad.status).toBe(400);
+  expect(bad.body.error.details.issues[0].path).toBe('parameters.glass.glowRadiusMm');
+  expect((await Preset.findByPk(p.id))!.revision).toBe(1);
+});
+
+test('the reference look is locked to owners; built-in presets are not editable at all', async () => {
+  const p = (await editor.post(url(), { name: 'House look', panelTypeId: 'el-amber-640x480' })).body.preset;
+  expect((await owner.post(url(`/${p.id}/reference`), { isReference: true })).body.preset.isReference).toBe(true);
+  const refused = await editor.patch(url(`/${p.id}`), { baseRevision: 1, name: 'Mine now' });
+  expect(refused.status).toBe(403);
+  expect((await editor.delete(url(`/${p.id}`))).status).toBe(403);
+  expect((await owner.patch(url(`/${p.id}`), { baseRevision: 1, name: 'House look v2' })).status).toBe(200);
+  expect((await editor.patch(url('/el-amber-640x480.standard'), { baseRevision: 1 })).status).toBe(404);
+});
+
+test('share links: ≥ 128-bit tokens, optional expiry, revocable, no-referrer, read-only view with the artwork', async () => {
+  const art = (await owner.upload(`/api/studios/${studioId}/artworks`, {}, { name: 'a.png', bytes: pngOf(8, 6, () => [9, 90, 200, 255]) })).body.artwork;
+  const p = (await owner.post(url(), { name: 'For the client', panelTypeId: 'crt-amber-p3' })).body.preset;
+  const link = (await owner.post(url(`/${p.id}/links`), { artworkId: art.id, expiresInDays: 3 })).body.link;
+  const token = link.url.split('/share/')[1];
+  expect(Buffer.from(token, 'base64url').length * 8).toBeGreaterThanOrEqual(128);
+  const anon = new TestClient(h.app);
+  const view = await anon.get(`/api/share/${token}`);
+  expect(view.status).toBe(200);
+  expect(view.headers['referrer-policy']).toBe('no-referrer');
+  expect(view.body.shared).toMatchObject({ studioName: 'Preset Lab', preset: { name: 'For the client', panelTypeId: 'crt-amber-p3' }, artwork: { width: 8, height: 6 } });
+  expect((await anon.get(view.body.shared.framesUrl)).body.length).toBe(8 * 6 * 4);
+  expect((await owner.get(url(`/${p.id}/links`))).body.links[0]).not.toHaveProperty('url');
+  await ShareLink.update({ expiresAt: new Date(Date.now() - 1000) }, { where: { id: link.id } });
+  expect((await anon.get(`/api/share/${token}`)).status).toBe(404);
+  await ShareLink.update({ expiresAt: null }, { where: { id: link.id } });
+  expect((await anon.get(`/api/share/${token}`)).status).toBe(200);
+  expect((await owner.delete(url(`/${p.id}/links/${link.id}`))).status).toBe(204);
+  expect((await anon.get(`/api/share/${token}`)).status).toBe(404);
+  expect((await anon.get('/api/share/not-a-real-token-at-all-xyz')).status).toBe(404);
+});
+
+test('import reports every error with its JSON path and stores nothing; export → import round-trips', async () => {
+  const before = await Preset.count();
+  const doc = { format: 'emberline.preset', version: 2, name: '', panelTypeId: 'el-amber-640x480', parameters: { ...base, glass: { ...base.glass, glowRadiusMm: 'wide' }, drive: { ...base.drive, sparkle: 1 } } };
+  const res = await editor.post(url('/import'), doc);
+  expect(res.status).toBe(400);
+  const paths = res.body.error.details.issues.map((i: { path: string }) => i.path);
+  expect(paths).toEqual(expect.arrayContaining(['$.version', '$.name', '$.parameters.glass.glowRadiusMm', '$.parameters.drive']));
+  expect(await Preset.count()).toBe(before);
+
+  const p = (await editor.post(url(), { name: 'Round trip', panelTypeId: 'vfd-bluegreen-256x64' })).body.preset;
+  const exported = await editor.get(url(`/${p.id}/export`));
+  expect(exported.headers['content-disposition']).toMatch(/attachment/);
+  const imported = await editor.post(url('/import'), exported.body);
+  expect(imported.status).toBe(201);
+  expect(imported.body.preset).toMatchObject({ name: 'Round trip', panelTypeId: 'vfd-bluegreen-256x64', parameters: p.parameters });
+});
+
+test('the committed JSON Schema equals the one generated from the shared schema (npx tsx scripts/gen-preset-schema.ts)', () => {
+  const committed = JSON.parse(readFileSync(path.join(__dirname, '../../../shared/model/preset-document.schema.json'), 'utf8'));
+  expect(committed).toEqual(presetDocumentJsonSchema());
+});
+
+test('list: filter by panel type, search, sort and pages with a total', async () => {
+  for (const n of ['Zeta', 'Alpha', 'Mid']) await editor.post(url(), { name: `List ${n}`, panelTypeId: 'plasma-neon-640x400' });
+  const page = await editor.get(url('?panelTypeId=plasma-neon-640x400&q=list&sort=name&page=0&pageSize=2'));
+  expect(page.body.total).toBe(3);
+  expect(page.body.presets.map((p: { name: string }) => p.name)).toEqual(['List Alpha', 'List Mid']);
+  const next = await editor.get(url('?panelTypeId=plasma-neon-640x400&q=list&sort=name&page=1&pageSize=2'));
+  expect(next.body.presets.map((p: { name: string }) => p.name)).toEqual(['List Zeta']);
+});
+
+test('the activity feed tells who did what', async () => {
+  const feed = (await editor.get(`/api/studios/${studioId}/activity`)).body.activity;
+  const kinds = feed.map((a: { kind: string }) => a.kind);
+  expect(kinds).toEqual(expect.arrayContaining(['preset.created', 'preset.changed', 'preset.restored', 'preset.reference', 'link.created', 'link.revoked']));
+  expect(feed[0].actor).toEqual(expect.any(String));
+});

@@ -1,0 +1,40 @@
+import '../model/zod-config';
+import { z } from 'zod';
+import { panelParamsSchema } from '../model/parameters';
+
+const name = z.string().trim().min(1, { message: 'is required' }).max(80, { message: 'must be at most 80 characters' });
+
+export const createPresetSchema = z.strictObject({
+  name,
+  panelTypeId: z.string().max(100),
+  parameters: panelParamsSchema.optional(),
+});
+
+export const updatePresetSchema = z.strictObject({
+  baseRevision: z.number({ message: 'baseRevision must be the revision you edited' }).int().min(1),
+  name: name.optional(),
+  parameters: panelParamsSchema.optional(),
+  message: z.string().trim().max(500, { message: 'must be at most 500 characters' }).optional(),
+});
+
+export const duplicatePresetSchema = z.strictObject({ studioId: z.uuid({ message: 'studioId must be a studio id' }), name: name.optional() });
+export const referenceSchema = z.strictObject({ isReference: z.boolean() });
+export const restoreSchema = z.strictObject({ message: z.string().trim().max(500).optional() });
+
+export const shareLinkSchema = z.strictObject({
+  artworkId: z.uuid({ message: 'artworkId must be an artwork id' }).optional(),
+  expiresInDays: z.number().int({ message: 'expiresInDays must be a whole number from 1 to 365' }).min(1, { message: 'expiresInDays must be a whole number from 1 to 365' }).max(365, { message: 'expiresInDays must be a whole number from 1 to 365' }).optional(),
+});
+
+/** Emberline's own preset document format, for export and import. */
+export const PRESET_FORMAT = 'emberline.preset';
+export const presetDocumentSchema = z.strictObject({
+  format: z.literal(PRESET_FORMAT, { message: `format must be "${PRESET_FORMAT}"` }),
+  version: z.literal(1, { message: 'version must be 1' }),
+  name,
+  panelTypeId: z.string().max(100),
+  parameters: panelParamsSchema,
+});
+export type PresetDocument = z.infer<typeof presetDocumentSchema>;
+
+export const PRESET_SORTS = ['name', '-name', 'updated', '-updated'] as const;
