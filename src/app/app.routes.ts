@@ -7,6 +7,7 @@ export const routes: Routes = [
   { path: 'sign-up', canActivate: [signedOutGuard], title: 'Create account · Emberline', loadComponent: () => import('./features/account/sign-up').then((m) => m.SignUp) },
   { path: 'forgot-password', title: 'Reset password · Emberline', loadComponent: () => import('./features/account/forgot-password').then((m) => m.ForgotPassword) },
   { path: 'reset-password', title: 'Choose a new password · Emberline', loadComponent: () => import('./features/account/reset-password').then((m) => m.ResetPassword) },
+  { path: 'share/:token', title: 'Shared look · Emberline', loadComponent: () => import('./features/share/shared-view').then((m) => m.SharedView) },
   { path: 'invites/:token', title: 'Studio invite · Emberline', loadComponent: () => import('./features/studio/invite-accept').then((m) => m.InviteAccept) },
   { path: 'studios', canActivate: [signedInGuard], title: 'Your studios · Emberline', loadComponent: () => import('./features/studio/studio-list').then((m) => m.StudioList) },
   {
@@ -16,6 +17,9 @@ export const routes: Routes = [
     children: [
       { path: '', pathMatch: 'full', redirectTo: 'bench' },
       { path: 'bench', title: 'Bench · Emberline', loadComponent: () => import('./features/bench/bench').then((m) => m.Bench) },
+      { path: 'presets', title: 'Presets · Emberline', loadComponent: () => import('./features/presets/preset-list').then((m) => m.PresetList) },
+      { path: 'presets/:presetId', title: 'Preset · Emberline', loadComponent: () => import('./features/presets/preset-detail').then((m) => m.PresetDetail) },
+      { path: 'activity', title: 'Activity · Emberline', loadComponent: () => import('./features/studio/activity').then((m) => m.Activity) },
       { path: 'artworks', title: 'Artworks · Emberline', loadComponent: () => import('./features/artworks/artwork-library').then((m) => m.ArtworkLibrary) },
       { path: 'drive', title: 'Drive timing · Emberline', loadComponent: () => import('./features/drive/drive-timing').then((m) => m.DriveTiming) },
       { path: 'members', title: 'Members · Emberline', loadComponent: () => import('./features/studio/members').then((m) => m.Members) },

@@ -5,6 +5,7 @@ import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
@@ -20,7 +21,9 @@ import { BUILT_IN_PRESETS, PANEL_TYPES } from '../../../../shared/model/panel-ty
 import type { PanelParams } from '../../../../shared/model/parameters';
 import { outputUniforms } from '../../../../shared/pipeline/output/uniforms';
 import type { Frame } from '../../../../shared/pipeline/types';
-import { apiErrorMessage } from '../../core/api-error';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { apiErrorCode, apiErrorMessage } from '../../core/api-error';
+import { PresetApi } from '../presets/preset-api';
 import { PanelRenderer } from '../../render/panel-renderer';
 import { ArtworkApi } from '../artworks/artwork-api';
 import { TimingApi } from '../drive/timing-api';
@@ -35,7 +38,7 @@ const CSS_PX_PER_MM = 96 / 25.4;
 /** The bench: artwork live on a simulated panel, tuned by hand, checked against the server. */
 @Component({
   selector: 'em-bench',
-  imports: [FormsModule, DecimalPipe, RouterLink, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatSelectModule, MatSliderModule, MatIconModule, MatProgressBarModule, MatTooltipModule, ParamControls],
+  imports: [FormsModule, DecimalPipe, RouterLink, MatInputModule, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatSelectModule, MatSliderModule, MatIconModule, MatProgressBarModule, MatTooltipModule, ParamControls],
   templateUrl: './bench.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -43,6 +46,8 @@ const CSS_PX_PER_MM = 96 / 25.4;
 export class Bench {
   private readonly api = inject(ArtworkApi);
   private readonly timingsApi = inject(TimingApi);
+  private readonly presetApi = inject(PresetApi);
+  private readonly snackBar = inject(MatSnackBar);
   private readonly http = inject(HttpClient);
   protected readonly context = inject(StudioContext);
 
@@ -50,6 +55,8 @@ export class Bench {
   readonly artwork = input<string | undefined>();
   /** ?renderer=cpu forces the CPU path (as without WebGL2). */
   readonly renderer = input<string | undefined>();
+  /** ?preset= a studio preset to open. */
+  readonly preset = input<string | undefined>();
 
   private readonly glCanvas = viewChild<ElementRef<HTMLCanvasElement>>('glCanvas');
   private readonly cpuCanvas = viewChild<ElementRef<HTMLCanvasElement>>('cpuCanvas');
@@ -65,9 +72,17 @@ export class Bench {
   protected readonly selected = computed(() => (this.artworks.hasValue() ? this.artworks.value().find((a) => a.id === this.artworkId()) : undefined));
   protected readonly frames = resource({ params: () => this.selected(), loader: ({ params }) => this.api.frames(params) });
   protected readonly panelTypeId = signal('el-amber-640x480');
+  protected readonly studioPresets = resource({ params: () => this.context.studioId(), loader: ({ params }) => this.presetApi.list(params, { pageSize: 100, sort: 'name' }).then((r) => r.presets) });
   protected readonly presets = computed(() => BUILT_IN_PRESETS.filter((p) => p.panelTypeId === this.panelTypeId()));
+  protected readonly ownPresets = computed(() => (this.studioPresets.hasValue() ? this.studioPresets.value().filter((p) => p.panelTypeId === this.panelTypeId()) : []));
+  /** A built-in preset id, or "studio:<id>" for a studio preset. */
   protected readonly presetId = linkedSignal(() => this.presets()[0].id);
-  protected readonly defaults = computed(() => BUILT_IN_PRESETS.find((p) => p.id === this.presetId())!.parameters);
+  protected readonly studioPreset = computed(() => (this.presetId().startsWith('studio:') ? this.ownPresets().find((p) => `studio:${p.id}` === this.presetId()) : undefined));
+  protected readonly defaults = computed(() => this.studioPreset()?.parameters ?? BUILT_IN_PRESETS.find((p) => p.id === this.presetId())?.parameters ?? this.presets()[0].parameters);
+  protected readonly mayChangePreset = computed(() => this.context.canEdit() && !!this.studioPreset() && (!this.studioPreset()!.isReference || this.context.canManage()));
+  protected readonly dirty = computed(() => JSON.stringify(this.params()) !== JSON.stringify(this.defaults()));
+  protected readonly newPresetName = signal('');
+  protected readonly saving = signal(false);
   protected readonly params = linkedSignal<PanelParams>(() => structuredClone(this.defaults()));
   protected readonly timings = resource({ params: () => ({ studioId: this.context.studioId(), panelTypeId: this.panelTypeId() }), loader: ({ params }) => this.timingsApi.list(params.studioId).then((t) => t.filter((x) => x.panelTypeId === params.panelTypeId)) });
   protected readonly timingId = linkedSignal<string, string>({ source: this.panelTypeId, computation: () => '' });
@@ -120,6 +135,16 @@ export class Bench {
       const t = this.linkedTiming();
       if (t) untracked(() => this.params.update((p) => ({ ...p, drive: { ...p.drive, refreshHz: Math.round(t.figures.refreshHz * 1000) / 1000 } })));
     });
+    // ?preset= opens a studio preset on its panel type.
+    effect(() => {
+      const id = this.preset();
+      const found = id && this.studioPresets.hasValue() ? this.studioPresets.value().find((p) => p.id === id) : undefined;
+      if (!found) return;
+      untracked(() => {
+        this.panelTypeId.set(found.panelTypeId);
+        this.presetId.set(`studio:${found.id}`);
+      });
+    });
     effect(() => void this.redraw(this.params(), this.frame(), this.scale()));
     // A drift result belongs to the view it was taken of.
     effect(() => {
@@ -134,6 +159,40 @@ export class Bench {
 
   protected choosePanelType(id: string): void {
     this.panelTypeId.set(id);
+  }
+
+  /** Saves the current parameters as the studio preset's next revision (409: someone was faster). */
+  protected async saveRevision(): Promise<void> {
+    const p = this.studioPreset();
+    if (!p) return;
+    this.saving.set(true);
+    try {
+      const saved = await this.presetApi.save(this.context.studioId(), p.id, { baseRevision: p.revision, parameters: this.params() });
+      this.studioPresets.update((list) => list?.map((x) => (x.id === saved.id ? saved : x)));
+      this.snackBar.open(`Saved “${saved.name}” as revision ${saved.revision}.`, undefined, { duration: 3000 });
+    } catch (err) {
+      if (apiErrorCode(err) === 'stale_revision') this.studioPresets.reload();
+      this.snackBar.open(apiErrorMessage(err), 'Dismiss', { duration: 10000 });
+    } finally {
+      this.saving.set(false);
+    }
+  }
+
+  protected async saveAsNewPreset(): Promise<void> {
+    const name = this.newPresetName().trim();
+    if (!name) return;
+    this.saving.set(true);
+    try {
+      const created = await this.presetApi.create(this.context.studioId(), { name, panelTypeId: this.panelTypeId(), parameters: this.params() });
+      this.studioPresets.update((list) => [...(list ?? []), created]);
+      this.presetId.set(`studio:${created.id}`);
+      this.newPresetName.set('');
+      this.snackBar.open(`Created preset “${created.name}”.`, undefined, { duration: 3000 });
+    } catch (err) {
+      this.snackBar.open(apiErrorMessage(err), 'Dismiss', { duration: 8000 });
+    } finally {
+      this.saving.set(false);
+    }
   }
 
   protected async redraw(params: PanelParams, frame: number, scale: number): Promise<void> {

@@ -38,9 +38,11 @@ export class StudioShell {
   protected readonly studio = resource({ params: () => this.studioId(), loader: ({ params }) => this.api.get(params) });
   protected readonly nav = [
     { path: 'bench', label: 'Bench', icon: 'blur_on' },
+    { path: 'presets', label: 'Presets', icon: 'tune' },
     { path: 'artworks', label: 'Artworks', icon: 'photo_library' },
     { path: 'drive', label: 'Drive timing', icon: 'timeline' },
     { path: 'members', label: 'Members', icon: 'group' },
+    { path: 'activity', label: 'Activity', icon: 'history' },
   ];
 
   constructor() {

@@ -1,0 +1,65 @@
+import { waitForDraw } from './bench-helpers';
+import { expect, signIn, test } from './fixtures';
+
+test('an editor changes a preset → the viewer sees the new revision → the owner restores the old one → the share link shows the restored look', async ({ page, browser, guard }, testInfo) => {
+  const name = `E2E look ${Date.now().toString(36)}`;
+  await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
+  await expect(page).toHaveURL(/\/bench/);
+  await page.getByRole('link', { name: 'Presets', exact: true }).click();
+  await page.getByRole('textbox', { name: 'New preset name' }).fill(name);
+  await page.getByRole('button', { name: 'Create preset' }).click();
+  await expect(page.getByTestId('current-revision')).toHaveText('1');
+  await page.getByRole('link', { name: 'Open on the bench' }).click();
+  const first = await waitForDraw(page, 0);
+  const glow = page.getByRole('spinbutton', { name: 'Glow radius' });
+  await glow.fill('1.2');
+  await glow.press('Enter');
+  await waitForDraw(page, first);
+  await page.getByRole('button', { name: 'Save as revision 2' }).click();
+  await expect(page.getByText(`Saved “${name}” as revision 2.`)).toBeVisible();
+
+  const viewerContext = await browser.newContext();
+  const viewer = await viewerContext.newPage();
+  guard.watch(viewer);
+  await signIn(viewer, 'viewer@kilnquartz.example', 'amber-glow-demo');
+  await expect(viewer).toHaveURL(/\/bench/);
+  await viewer.getByRole('link', { name: 'Presets', exact: true }).click();
+  await viewer.getByRole('textbox', { name: 'Search presets' }).fill(name);
+  await viewer.getByRole('link', { name }).click();
+  await expect(viewer.getByTestId('current-revision')).toHaveText('2');
+  await expect(viewer.getByRole('list', { name: 'Revisions' })).toContainText('glass.glowRadiusMm: 0.25 → 1.2');
+  await expect(viewer.getByRole('button', { name: /^Restore/ })).toHaveCount(0);
+  await viewerContext.close();
+
+  const ownerContext = await browser.newContext();
+  const owner = await ownerContext.newPage();
+  guard.watch(owner);
+  await signIn(owner, 'owner@kilnquartz.example', 'amber-glow-demo');
+  await expect(owner).toHaveURL(/\/bench/);
+  await owner.getByRole('link', { name: 'Presets', exact: true }).click();
+  await owner.getByRole('textbox', { name: 'Search presets' }).fill(name);
+  await owner.getByRole('link', { name }).click();
+  await owner.getByRole('button', { name: 'Restore revision 1' }).click();
+  await expect(owner.getByTestId('current-revision')).toHaveText('3');
+  await owner.getByRole('button', { name: 'Compare revision 3' }).click();
+  await owner.getByRole('button', { name: 'Compare revision 2' }).click();
+  await expect(owner.getByRole('table').filter({ hasText: 'glass.glowRadiusMm' })).toBeVisible();
+  await owner.getByRole('combobox', { name: 'Show it on' }).click();
+  await owner.getByRole('option', { name: 'Title screen' }).click();
+  await owner.getByRole('button', { name: 'Create link' }).click();
+  const url = (await owner.getByTestId('new-link').textContent())!.trim();
+  expect(url).toMatch(/\/share\/[A-Za-z0-9_-]{43}$/);
+  await owner.screenshot({ path: testInfo.outputPath('preset-owner.png'), fullPage: true });
+  await ownerContext.close();
+
+  const clientContext = await browser.newContext();
+  const client = await clientContext.newPage();
+  guard.watch(client);
+  await client.goto(url);
+  await expect(client.getByRole('heading', { name })).toBeVisible();
+  await expect(client.getByTestId('shared-revision')).toHaveText('3');
+  await expect(client.getByRole('table', { name: 'Parameters' })).toContainText('0.25 mm');
+  await expect(client.locator('[data-drawn="true"]')).toBeVisible({ timeout: 30_000 });
+  await client.screenshot({ path: testInfo.outputPath('shared-view.png'), fullPage: true });
+  await clientContext.close();
+});

@@ -1,0 +1,141 @@
+import { DatePipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, computed, inject, input, resource, signal } from '@angular/core';
+import { FormsModule } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { MatSelectModule } from '@angular/material/select';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { Router, RouterLink } from '@angular/router';
+import type { PresetRevisionDto } from '../../../../shared/api/dto';
+import { paramDiff } from '../../../../shared/model/param-diff';
+import { panelTypeById } from '../../../../shared/model/panel-types';
+import { apiErrorMessage } from '../../core/api-error';
+import { AuthStore } from '../../core/auth-store';
+import { ArtworkApi } from '../artworks/artwork-api';
+import { downloadText } from '../drive/download';
+import { StudioContext } from '../studio/studio-context';
+import { PresetApi } from './preset-api';
+import { RenderThumb } from './render-thumb';
+
+/** One preset: its history (compare two revisions, restore one), sharing and housekeeping. */
+@Component({
+  selector: 'em-preset-detail',
+  imports: [FormsModule, RouterLink, DatePipe, MatButtonModule, MatIconModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatProgressBarModule, RenderThumb],
+  templateUrl: './preset-detail.html',
+  styleUrl: './preset-detail.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class PresetDetail {
+  private readonly api = inject(PresetApi);
+  private readonly artworksApi = inject(ArtworkApi);
+  private readonly snackBar = inject(MatSnackBar);
+  private readonly router = inject(Router);
+  protected readonly auth = inject(AuthStore);
+  protected readonly context = inject(StudioContext);
+
+  readonly presetId = input.required<string>();
+
+  protected readonly preset = resource({ params: () => ({ s: this.context.studioId(), id: this.presetId() }), loader: ({ params }) => this.api.get(params.s, params.id) });
+  protected readonly revisions = resource({ params: () => ({ s: this.context.studioId(), id: this.presetId(), rev: this.preset.hasValue() ? this.preset.value().revision : 0 }), loader: ({ params }) => this.api.revisions(params.s, params.id) });
+  protected readonly links = resource({ params: () => (this.context.canManage() ? { s: this.context.studioId(), id: this.presetId() } : undefined), loader: ({ params }) => this.api.links(params.s, params.id) });
+  protected readonly artworks = resource({ params: () => this.context.studioId(), loader: ({ params }) => this.artworksApi.list(params) });
+  protected readonly compareA = signal<number | null>(null);
+  protected readonly compareB = signal<number | null>(null);
+  protected readonly linkArtwork = signal<string>('');
+  protected readonly linkDays = signal<number | null>(14);
+  protected readonly newLinkUrl = signal('');
+  protected readonly duplicateTo = signal('');
+  protected readonly typeName = computed(() => (this.preset.hasValue() ? (panelTypeById(this.preset.value().panelTypeId)?.name ?? '') : ''));
+  protected readonly mayChange = computed(() => this.context.canEdit() && (!this.preset.hasValue() || !this.preset.value().isReference || this.context.canManage()));
+  protected readonly thumbArtwork = computed(() => (this.artworks.hasValue() ? this.artworks.value()[0]?.id : undefined));
+  protected readonly editableStudios = computed(() => this.auth.studios().filter((s) => s.role !== 'viewer'));
+  protected readonly comparison = computed(() => {
+    const list = this.revisions.hasValue() ? this.revisions.value() : [];
+    const a = list.find((r) => r.revision === this.compareA());
+    const b = list.find((r) => r.revision === this.compareB());
+    return a && b ? { a, b, changes: paramDiff(a.parameters, b.parameters) } : null;
+  });
+
+  protected pick(r: PresetRevisionDto): void {
+    if (this.compareA() === null || this.compareB() !== null) {
+      this.compareA.set(r.revision);
+      this.compareB.set(null);
+    } else if (r.revision !== this.compareA()) {
+      this.compareB.set(r.revision);
+    }
+  }
+
+  protected async restore(r: PresetRevisionDto): Promise<void> {
+    await this.act(async () => {
+      const p = await this.api.restore(this.context.studioId(), this.presetId(), r.revision);
+      this.preset.set(p);
+      return `Revision ${r.revision} restored as revision ${p.revision}.`;
+    });
+  }
+
+  protected async toggleReference(): Promise<void> {
+    const p = this.preset.value()!;
+    await this.act(async () => {
+      this.preset.set(await this.api.setReference(this.context.studioId(), p.id, !p.isReference));
+      return p.isReference ? 'No longer the reference look.' : 'Now the studio’s reference look: only owners change it.';
+    });
+  }
+
+  protected async exportPreset(): Promise<void> {
+    const doc = await this.api.exportDocument(this.context.studioId(), this.presetId());
+    downloadText(`${doc.name.replace(/[^\w .-]/g, '_')}.emberline-preset.json`, JSON.stringify(doc, null, 2), 'application/json');
+  }
+
+  protected async duplicate(): Promise<void> {
+    const target = this.duplicateTo();
+    if (!target) return;
+    await this.act(async () => {
+      const copy = await this.api.duplicate(this.context.studioId(), this.presetId(), target);
+      await this.router.navigate(['/studios', target, 'presets', copy.id]);
+      return `Copied as “${copy.name}”.`;
+    });
+  }
+
+  protected async deletePreset(): Promise<void> {
+    await this.act(async () => {
+      await this.api.remove(this.context.studioId(), this.presetId());
+      await this.router.navigate(['/studios', this.context.studioId(), 'presets']);
+      return 'Preset deleted.';
+    });
+  }
+
+  protected async createLink(): Promise<void> {
+    await this.act(async () => {
+      const link = await this.api.createLink(this.context.studioId(), this.presetId(), { artworkId: this.linkArtwork() || undefined, expiresInDays: this.linkDays() || undefined });
+      this.newLinkUrl.set(link.url ?? '');
+      this.links.reload();
+      return 'Share link created. Copy it now: it is shown only once.';
+    });
+  }
+
+  protected async revokeLink(id: string): Promise<void> {
+    await this.act(async () => {
+      await this.api.revokeLink(this.context.studioId(), this.presetId(), id);
+      this.links.reload();
+      return 'Link revoked.';
+    });
+  }
+
+  protected async copyLink(): Promise<void> {
+    await navigator.clipboard.writeText(this.newLinkUrl()).then(
+      () => this.snackBar.open('Link copied.', undefined, { duration: 2000 }),
+      () => this.snackBar.open('Select the link and copy it.', undefined, { duration: 4000 }),
+    );
+  }
+
+  private async act(run: () => Promise<string>): Promise<void> {
+    try {
+      this.snackBar.open(await run(), undefined, { duration: 4000 });
+    } catch (err) {
+      this.snackBar.open(apiErrorMessage(err), 'Dismiss', { duration: 8000 });
+    }
+  }
+}
