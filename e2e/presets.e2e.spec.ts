@@ -50,14 +50,20 @@ test('an editor changes a preset → the viewer sees the new revision → the ow
   const url = (await owner.getByTestId('new-link').textContent())!.trim();
   expect(url).toMatch(/\/share\/[A-Za-z0-9_-]{43}$/);
   await owner.screenshot({ path: testInfo.outputPath('preset-owner.png'), fullPage: true });
+  // Renaming is a revision too.
+  await owner.getByRole('button', { name: 'Rename the preset' }).click();
+  await owner.getByRole('textbox', { name: 'Preset name' }).fill(`${name} (client)`);
+  await owner.getByRole('button', { name: 'Save name' }).click();
+  await expect(owner.getByTestId('current-revision')).toHaveText('4');
   await ownerContext.close();
 
   const clientContext = await browser.newContext();
   const client = await clientContext.newPage();
   guard.watch(client);
-  await client.goto(url);
-  await expect(client.getByRole('heading', { name })).toBeVisible();
-  await expect(client.getByTestId('shared-revision')).toHaveText('3');
+  const response = await client.goto(url);
+  expect(response!.headers()['referrer-policy']).toBe('no-referrer');
+  await expect(client.getByRole('heading', { name: `${name} (client)` })).toBeVisible();
+  await expect(client.getByTestId('shared-revision')).toHaveText('4');
   await expect(client.getByRole('table', { name: 'Parameters' })).toContainText('0.25 mm');
   await expect(client.locator('[data-drawn="true"]')).toBeVisible({ timeout: 30_000 });
   await client.screenshot({ path: testInfo.outputPath('shared-view.png'), fullPage: true });

@@ -90,8 +90,10 @@ function serveSpa(app: Express, staticDir: string): void {
   }
   const indexHtml = readFileSync(indexFile, 'utf8');
   app.use(express.static(path.resolve(staticDir), { index: false, maxAge: '1h', setHeaders: noCacheForHtml }));
-  app.get('/{*splat}', (_req, res) => {
+  app.get('/{*splat}', (req, res) => {
     res.set('Cache-Control', 'no-store');
+    // A share link's token must not leak to other sites through the Referer header.
+    if (req.path.startsWith('/share/')) res.set('Referrer-Policy', 'no-referrer');
     res.type('html').send(indexHtml.replaceAll('__CSP_NONCE__', res.locals.cspNonce as string));
   });
 }

@@ -48,6 +48,7 @@ export class PresetDetail {
   protected readonly linkDays = signal<number | null>(14);
   protected readonly newLinkUrl = signal('');
   protected readonly duplicateTo = signal('');
+  protected readonly renaming = signal(false);
   protected readonly typeName = computed(() => (this.preset.hasValue() ? (panelTypeById(this.preset.value().panelTypeId)?.name ?? '') : ''));
   protected readonly mayChange = computed(() => this.context.canEdit() && (!this.preset.hasValue() || !this.preset.value().isReference || this.context.canManage()));
   protected readonly thumbArtwork = computed(() => (this.artworks.hasValue() ? this.artworks.value()[0]?.id : undefined));
@@ -73,6 +74,16 @@ export class PresetDetail {
       const p = await this.api.restore(this.context.studioId(), this.presetId(), r.revision);
       this.preset.set(p);
       return `Revision ${r.revision} restored as revision ${p.revision}.`;
+    });
+  }
+
+  protected async rename(name: string): Promise<void> {
+    const p = this.preset.value()!;
+    this.renaming.set(false);
+    if (!name.trim() || name.trim() === p.name) return;
+    await this.act(async () => {
+      this.preset.set(await this.api.save(this.context.studioId(), p.id, { baseRevision: p.revision, name: name.trim(), message: `Renamed from “${p.name}”` }));
+      return 'Renamed.';
     });
   }
 
