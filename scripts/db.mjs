@@ -6,7 +6,7 @@
 // Uses Debian's server binaries (installs the `postgresql` package when they are missing).
 // PostgreSQL refuses to run as root, so as root every server command runs as `postgres`.
 import { execFileSync, spawnSync } from 'node:child_process';
-import { existsSync, mkdirSync, readdirSync, chownSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, readFileSync, chownSync, writeFileSync } from 'node:fs';
 import { userInfo } from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -16,7 +16,7 @@ const dataRoot = path.join(root, '.data');
 const clusterDir = path.join(dataRoot, 'pg');
 const socketDir = path.join(dataRoot, 'pg-socket');
 const logFile = path.join(dataRoot, 'pg.log');
-export const pgPort = Number(process.env.PGPORT_EMBERLINE ?? process.env.DB_PORT ?? 54329);
+export const pgPort = Number(process.env.DB_PORT ?? 54329);
 export const pgUser = 'emberline';
 const isRoot = userInfo().uid === 0;
 
@@ -98,7 +98,11 @@ export function start(databases = ['emberline']) {
   if (!wasRunning) {
     const opts = `-c listen_addresses=127.0.0.1 -p ${pgPort} -k ${socketDir} -c fsync=on`;
     const r = runPg(bin, 'pg_ctl', ['-D', clusterDir, '-l', logFile, '-w', '-t', '30', '-o', opts, 'start']);
-    if (r.status !== 0) throw new Error(`pg_ctl start failed (see .data/pg.log):\n${r.stdout}\n${r.stderr}`);
+    if (r.status !== 0) {
+      const log = existsSync(logFile) ? readFileSync(logFile, 'utf8') : '';
+      const taken = /Address already in use/.test(log.slice(-4000));
+      throw new Error(taken ? `port ${pgPort} on 127.0.0.1 is already taken (another PostgreSQL, perhaps from another checkout): stop it, or set DB_PORT to a free port.` : `pg_ctl start failed (see .data/pg.log):\n${r.stdout}\n${r.stderr}`);
+    }
     console.log(`[db] PostgreSQL listening on 127.0.0.1:${pgPort}`);
   }
   for (const name of databases) createDatabase(name);
