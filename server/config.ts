@@ -9,7 +9,7 @@ export interface Config {
   sessionSecret: string;
   /** Where the built Angular app lives (served as static files when present). */
   staticDir: string;
-  /** Folder for uploaded originals, thumbnails and renders (outside the web root). */
+  /** Folder for uploaded originals, thumbnails and renders (outside the web root), one per database. */
   storageDir: string;
 }
 
@@ -25,6 +25,7 @@ function num(name: string, fallback: number): number {
 export function loadConfig(): Config {
   const env = (process.env.NODE_ENV ?? 'development') as Config['env'];
   const port = num('PORT', 4300);
+  const database = process.env.DB_NAME ?? 'emberline';
   const sessionSecret = process.env.SESSION_SECRET ?? (env === 'production' ? '' : 'emberline-dev-secret-not-for-production');
   if (!sessionSecret) throw new Error('SESSION_SECRET must be set in production');
   return {
@@ -34,7 +35,7 @@ export function loadConfig(): Config {
     db: {
       host: process.env.DB_HOST ?? '127.0.0.1',
       port: num('DB_PORT', 54329),
-      database: process.env.DB_NAME ?? 'emberline',
+      database,
       user: process.env.DB_USER ?? 'emberline',
       password: process.env.DB_PASSWORD,
       poolMax: num('DB_POOL_MAX', 10),
@@ -46,6 +47,7 @@ export function loadConfig(): Config {
     },
     sessionSecret,
     staticDir: process.env.STATIC_DIR ?? 'dist/emberline/browser',
-    storageDir: process.env.STORAGE_DIR ?? '.data/storage',
+    // One storage folder per database: start-up reconciliation must never see another database's files.
+    storageDir: process.env.STORAGE_DIR ?? `.data/storage/${database}`,
   };
 }

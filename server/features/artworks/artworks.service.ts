@@ -4,7 +4,7 @@ import { Op, type Order } from 'sequelize';
 import type { ArtworkDto } from '../../../shared/api/dto';
 import type { SpriteSheet } from '../../../shared/pipeline/sprite-sheet';
 import type { Frame } from '../../../shared/pipeline/types';
-import { notFound } from '../../core/app-error';
+import { AppError, notFound } from '../../core/app-error';
 import { decodeImage, framesOf } from '../../render/decode';
 import type { FileStore } from '../../storage/file-store';
 import { Artwork } from './artwork.model';
@@ -85,11 +85,18 @@ export class ArtworksService {
   }
 
   original(id: string): Promise<Buffer> {
-    return this.files.read(FOLDER, id, 'original');
+    return this.readFile(id, 'original');
   }
 
   thumbnail(id: string): Promise<Buffer> {
-    return this.files.read(FOLDER, id, 'thumbnail.png');
+    return this.readFile(id, 'thumbnail.png');
+  }
+
+  private readFile(id: string, name: string): Promise<Buffer> {
+    return this.files.read(FOLDER, id, name).catch((err: NodeJS.ErrnoException) => {
+      if (err.code === 'ENOENT') throw new AppError(404, 'file_missing', "The artwork's stored file is missing. Delete the artwork and upload it again.");
+      throw err;
+    });
   }
 
   /** The frames exactly as the reference renderer sees them. */

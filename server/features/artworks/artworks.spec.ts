@@ -88,3 +88,12 @@ test('storage folders without a row are removed at reconcile', async () => {
   await files.write('artworks', '00000000-0000-4000-8000-00000000abcd', 'original', Buffer.from('x'));
   expect(await h.app.artworks.reconcile()).toBe(1);
 });
+
+test('a row whose stored file went missing answers 404 with the reason, not 500', async () => {
+  const a = (await editor.upload(url(), {}, { name: 'gone.png', bytes: art })).body.artwork;
+  const { rm } = await import('node:fs/promises');
+  await rm(`${h.config.storageDir}/artworks/${a.id}`, { recursive: true, force: true });
+  const res = await editor.get(a.framesUrl);
+  expect(res.status).toBe(404);
+  expect(res.body.error.code).toBe('file_missing');
+});
