@@ -57,39 +57,31 @@ const crtSources = (phosphor: string, note: string): PanelType['sources'] => [
 /** τ from a time to 10 %: exp(−t/τ) = 0.1 ⇒ τ = t / ln 10. */
 const tauFromTenPercent = (ms: number) => Math.round((ms / Math.LN10) * 100) / 100;
 
+/** What every monochrome CRT here shares: a 640 × 480 raster at 0.36 mm, 16 gray levels, a thick faceplate. */
+const CRT: PanelParamsPatch = {
+  cell: { mode: 'crt', pitchXMm: 0.36, pitchYMm: 0.36, fillX: 1, fillY: 1, spotSigma: 0.36 },
+  drive: { grayLevels: 16, dither: 'none', rowLoading: 0 },
+  glass: { glowRadiusMm: 0.3, glowShare: 0.1, haloFromGlass: true, glassThicknessMm: 10, haloShare: 0.02 },
+  viewing: { peakCdM2: 100, offCdM2: 0.2, ambientCdM2: 3, whiteCdM2: 100 },
+};
+/** A CRT patch on top of CRT, group by group. */
+const crt = (patch: PanelParamsPatch): PanelParamsPatch =>
+  Object.fromEntries(Object.keys({ ...CRT, ...patch }).map((g) => [g, { ...CRT[g as keyof PanelParamsPatch], ...patch[g as keyof PanelParamsPatch] }]));
+
 export const PANEL_TYPES: readonly PanelType[] = [
   panel('el-amber-640x480', 'Amber EL 640 × 480, 0.30 mm', 'el', 'VGA-class thin-film EL, 192 × 144 mm active area.', EL_SOURCES, {}),
   panel('el-amber-640x400', 'Amber EL 640 × 400, 0.30 mm', 'el', 'Thin-film EL in the 640 × 400 format, 192 × 120 mm active area.', EL_SOURCES, { cell: { rows: 400 } }),
   panel('el-amber-320x240', 'Amber EL 320 × 240, 0.36 mm', 'el', 'Quarter-VGA thin-film EL, 115.2 × 86.4 mm active area.', EL_SOURCES, { cell: { cols: 320, rows: 240, pitchXMm: 0.36, pitchYMm: 0.36, fillX: 0.7, fillY: 0.7 } }),
   panel('el-amber-512x256', 'Amber EL 512 × 256, 0.35 mm', 'el', 'Wide thin-film EL in the 512 × 256 format (pitch from memory).', EL_SOURCES, { cell: { cols: 512, rows: 256, pitchXMm: 0.35, pitchYMm: 0.35 } }),
-  panel('crt-amber-p3', 'Monochrome CRT, amber (P3-like)', 'crt', 'A 640 × 480 amber monochrome tube, peak ≈ 602 nm, medium persistence.', crtSources('P3', 'amber, peak ≈ 602 nm, medium persistence'), {
-    cell: { mode: 'crt', pitchXMm: 0.36, pitchYMm: 0.36, fillX: 1, fillY: 1, spotSigma: 0.36 },
-    drive: { grayLevels: 16, dither: 'none', rowLoading: 0 },
-    emission: { peak1Nm: 602, fwhm1Nm: 40, decayMs: tauFromTenPercent(20) },
-    glass: { glowRadiusMm: 0.3, glowShare: 0.1, haloFromGlass: true, glassThicknessMm: 10, haloShare: 0.02 },
-    viewing: { peakCdM2: 100, offCdM2: 0.2, ambientCdM2: 3, whiteCdM2: 100 },
-  }),
-  panel('crt-green-p1', 'Monochrome CRT, green (P1-like)', 'crt', 'A 640 × 480 green tube, peak ≈ 525 nm, ≈ 20 ms to 10 %.', crtSources('P1', 'green, peak ≈ 525 nm, medium persistence ≈ 20 ms to 10 %'), {
-    cell: { mode: 'crt', pitchXMm: 0.36, pitchYMm: 0.36, fillX: 1, fillY: 1, spotSigma: 0.36 },
-    drive: { grayLevels: 16, dither: 'none', rowLoading: 0 },
-    emission: { peak1Nm: 525, fwhm1Nm: 40, decayMs: tauFromTenPercent(20) },
-    glass: { glowRadiusMm: 0.3, glowShare: 0.1, haloFromGlass: true, glassThicknessMm: 10, haloShare: 0.02 },
-    viewing: { peakCdM2: 100, offCdM2: 0.2, ambientCdM2: 3, whiteCdM2: 100 },
-  }),
-  panel('crt-green-p39', 'Monochrome CRT, long-persistence green (P39-like)', 'crt', 'A green tube with long afterglow, ≈ 150 ms to 10 %.', crtSources('P39', 'green, peak ≈ 525 nm, long persistence ≈ 150 ms to 10 %'), {
-    cell: { mode: 'crt', pitchXMm: 0.36, pitchYMm: 0.36, fillX: 1, fillY: 1, spotSigma: 0.38 },
-    drive: { grayLevels: 16, dither: 'none', rowLoading: 0 },
+  panel('crt-amber-p3', 'Monochrome CRT, amber (P3-like)', 'crt', 'A 640 × 480 amber monochrome tube, peak ≈ 602 nm, medium persistence.', crtSources('P3', 'amber, peak ≈ 602 nm, medium persistence'), crt({ emission: { peak1Nm: 602, fwhm1Nm: 40, decayMs: tauFromTenPercent(20) } })),
+  panel('crt-green-p1', 'Monochrome CRT, green (P1-like)', 'crt', 'A 640 × 480 green tube, peak ≈ 525 nm, ≈ 20 ms to 10 %.', crtSources('P1', 'green, peak ≈ 525 nm, medium persistence ≈ 20 ms to 10 %'), crt({ emission: { peak1Nm: 525, fwhm1Nm: 40, decayMs: tauFromTenPercent(20) } })),
+  panel('crt-green-p39', 'Monochrome CRT, long-persistence green (P39-like)', 'crt', 'A green tube with long afterglow, ≈ 150 ms to 10 %.', crtSources('P39', 'green, peak ≈ 525 nm, long persistence ≈ 150 ms to 10 %'), crt({
+    cell: { spotSigma: 0.38 },
     emission: { peak1Nm: 525, fwhm1Nm: 35, decayMs: tauFromTenPercent(150) },
-    glass: { glowRadiusMm: 0.35, glowShare: 0.12, haloFromGlass: true, glassThicknessMm: 10, haloShare: 0.02 },
-    viewing: { peakCdM2: 90, offCdM2: 0.2, ambientCdM2: 3, whiteCdM2: 90 },
-  }),
-  panel('crt-white-p4', 'Monochrome CRT, white (P4-like)', 'crt', 'A white tube of two bands near 460 and 565 nm, medium-short persistence.', crtSources('P4', 'white of two bands ≈ 460 + 565 nm, medium-short persistence'), {
-    cell: { mode: 'crt', pitchXMm: 0.36, pitchYMm: 0.36, fillX: 1, fillY: 1, spotSigma: 0.36 },
-    drive: { grayLevels: 16, dither: 'none', rowLoading: 0 },
-    emission: { peak1Nm: 460, fwhm1Nm: 40, peak2Nm: 565, fwhm2Nm: 60, band2Weight: 1.6, decayMs: 0.1 },
-    glass: { glowRadiusMm: 0.3, glowShare: 0.1, haloFromGlass: true, glassThicknessMm: 10, haloShare: 0.02 },
-    viewing: { peakCdM2: 110, offCdM2: 0.2, ambientCdM2: 3, whiteCdM2: 110 },
-  }),
+    glass: { glowRadiusMm: 0.35, glowShare: 0.12 },
+    viewing: { peakCdM2: 90, whiteCdM2: 90 },
+  })),
+  panel('crt-white-p4', 'Monochrome CRT, white (P4-like)', 'crt', 'A white tube of two bands near 460 and 565 nm, medium-short persistence.', crtSources('P4', 'white of two bands ≈ 460 + 565 nm, medium-short persistence'), crt({ emission: { peak1Nm: 460, fwhm1Nm: 40, peak2Nm: 565, fwhm2Nm: 60, band2Weight: 1.6, decayMs: 0.1 }, viewing: { peakCdM2: 110, whiteCdM2: 110 } })),
   panel('plasma-neon-640x400', 'Gas plasma, neon orange 640 × 400', 'plasma', 'A DC/AC gas-plasma panel; neon lines at 585.2 and 640.2 nm.', [
     { tag: 'std', note: 'neon emission lines 585.2 nm and 640.2 nm (atomic line tables)' },
     { tag: 'mem', note: 'grid, pitch, line ratio and fill from memory of plasma panel families' },

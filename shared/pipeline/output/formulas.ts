@@ -43,18 +43,3 @@ export function softKnee(x: number, k: number): number {
   const span = 1 - k;
   return k + span * (1 - Math.exp(-(x - k) / span));
 }
-
-/** Bilinear sample of a field at continuous sample coordinates (u, v), clamped at the edges. */
-export function bilinear(data: Float32Array, width: number, height: number, u: number, v: number): number {
-  const x = Math.min(Math.max(u, 0), width - 1);
-  const y = Math.min(Math.max(v, 0), height - 1);
-  const x0 = Math.floor(x);
-  const y0 = Math.floor(y);
-  const x1 = Math.min(x0 + 1, width - 1);
-  const y1 = Math.min(y0 + 1, height - 1);
-  const tx = x - x0;
-  const ty = y - y0;
-  const top = data[y0 * width + x0] * (1 - tx) + data[y0 * width + x1] * tx;
-  const bottom = data[y1 * width + x0] * (1 - tx) + data[y1 * width + x1] * tx;
-  return top * (1 - ty) + bottom * ty;
-}

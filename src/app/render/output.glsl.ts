@@ -114,15 +114,3 @@ ${ENCODE_V}
 // The first pass wrote each pixel's v at this same fragment position.
 void main() { outColor = encodeV(texelFetch(vField, ivec2(gl_FragCoord.xy), 0).r); }
 `;
-
-/** A plain textured draw of an RGBA8 image of the output size: the benchmark's baseline. */
-export const PASSTHROUGH_FRAGMENT = /* glsl */ `#version 300 es
-precision highp float;
-uniform highp sampler2D image;
-uniform vec2 outputSize;
-out vec4 outColor;
-void main() {
-  ivec2 p = ivec2(int(gl_FragCoord.x), int(outputSize.y - 1.0 - floor(gl_FragCoord.y)));
-  outColor = texelFetch(image, p, 0);
-}
-`;

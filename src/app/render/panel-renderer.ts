@@ -2,7 +2,7 @@ import { apertureTaps, glowTaps, lineTaps } from '../../../shared/pipeline/outpu
 import type { OutputUniforms } from '../../../shared/pipeline/output/uniforms';
 import type { Field } from '../../../shared/pipeline/types';
 import { ENCODE_STEPS, ENCODE_V_MAX, ENCODE_WIDTH, encodeTable } from './encode-table';
-import { ENCODE_FRAGMENT, FULLSCREEN_VERTEX, PANEL_FRAGMENT, PASSTHROUGH_FRAGMENT, V_FRAGMENT } from './output.glsl';
+import { ENCODE_FRAGMENT, FULLSCREEN_VERTEX, PANEL_FRAGMENT, V_FRAGMENT } from './output.glsl';
 
 function compile(gl: WebGL2RenderingContext, vertex: string, fragment: string): WebGLProgram {
   const program = gl.createProgram()!;
@@ -33,10 +33,8 @@ export class PanelRenderer {
   private readonly vFbo?: WebGLFramebuffer;
   private vKey = '';
   private uploads = 0;
-  private passthrough?: WebGLProgram;
   private readonly emissionTex: WebGLTexture;
   private readonly glowTex: WebGLTexture;
-  private imageTex?: WebGLTexture;
   private readonly columnTex: WebGLTexture;
   private readonly rowTex: WebGLTexture;
   private readonly lineTex: WebGLTexture;
@@ -200,23 +198,6 @@ export class PanelRenderer {
     if (!map) this.locations.set(program, (map = new Map()));
     if (!map.has(name)) map.set(name, this.gl.getUniformLocation(program, name));
     return map.get(name)!;
-  }
-
-  /** A plain textured draw of an RGBA image of this size (benchmark baseline). */
-  drawImage(data: Uint8Array, width: number, height: number): void {
-    const gl = this.gl;
-    this.passthrough ??= compile(gl, FULLSCREEN_VERTEX, PASSTHROUGH_FRAGMENT);
-    this.imageTex ??= this.floatTexture();
-    gl.canvas.width = width;
-    gl.canvas.height = height;
-    gl.viewport(0, 0, width, height);
-    gl.useProgram(this.passthrough);
-    gl.activeTexture(gl.TEXTURE0);
-    gl.bindTexture(gl.TEXTURE_2D, this.imageTex);
-    gl.texImage2D(gl.TEXTURE_2D, 0, gl.RGBA8, width, height, 0, gl.RGBA, gl.UNSIGNED_BYTE, data);
-    gl.uniform1i(gl.getUniformLocation(this.passthrough, 'image'), 0);
-    gl.uniform2f(gl.getUniformLocation(this.passthrough, 'outputSize'), width, height);
-    gl.drawArrays(gl.TRIANGLES, 0, 3);
   }
 
   /** Waits until the GPU has finished the last draw (for timing). */

@@ -6,7 +6,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
 import { firstValueFrom } from 'rxjs';
-import { apiErrorMessage } from '../../core/api-error';
+import { FormAction } from '../../core/form-action';
 import { AccountFrame } from './account-frame';
 
 /** Ask for a password reset link by e-mail. */
@@ -25,10 +25,10 @@ import { AccountFrame } from './account-frame';
             <mat-error>That is not an e-mail address.</mat-error>
           }
         </mat-form-field>
-        <p class="error" role="alert">{{ error() }}</p>
+        <p class="error" role="alert">{{ submit.error() }}</p>
         <p class="ok" role="status">{{ sent() }}</p>
         <div class="actions">
-          <button mat-flat-button type="submit" [disabled]="busy()">Send reset link</button>
+          <button mat-flat-button type="submit" [disabled]="submit.busy()">Send reset link</button>
         </div>
       </form>
       <p class="links"><a routerLink="/sign-in">Back to sign in</a></p>
@@ -41,24 +41,13 @@ export class ForgotPassword {
   private readonly http = inject(HttpClient);
 
   protected readonly form = inject(FormBuilder).nonNullable.group({ email: ['', [Validators.required, Validators.email]] });
-  protected readonly busy = signal(false);
-  protected readonly error = signal('');
+  protected readonly submit = new FormAction();
   protected readonly sent = signal('');
 
-  protected async sendLink(): Promise<void> {
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    this.busy.set(true);
-    this.error.set('');
-    try {
+  protected sendLink(): Promise<void> {
+    return this.submit.run(this.form, async () => {
       const { message } = await firstValueFrom(this.http.post<{ message: string }>('/api/auth/password-reset', this.form.getRawValue()));
       this.sent.set(message);
-    } catch (err) {
-      this.error.set(apiErrorMessage(err));
-    } finally {
-      this.busy.set(false);
-    }
+    });
   }
 }

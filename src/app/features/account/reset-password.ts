@@ -6,7 +6,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
 import { firstValueFrom } from 'rxjs';
-import { apiErrorMessage } from '../../core/api-error';
+import { FormAction } from '../../core/form-action';
 import { AccountFrame } from './account-frame';
 import { passwordLength } from './password-length';
 
@@ -33,9 +33,9 @@ import { passwordLength } from './password-length';
               <mat-error>{{ form.controls.password.getError('passwordLength') }}</mat-error>
             }
           </mat-form-field>
-          <p class="error" role="alert">{{ error() }}</p>
+          <p class="error" role="alert">{{ submit.error() }}</p>
           <div class="actions">
-            <button mat-flat-button type="submit" [disabled]="busy()">Set password</button>
+            <button mat-flat-button type="submit" [disabled]="submit.busy()">Set password</button>
           </div>
         </form>
       }
@@ -50,25 +50,14 @@ export class ResetPassword {
   readonly token = input<string>('');
 
   protected readonly form = inject(FormBuilder).nonNullable.group({ password: ['', [Validators.required, passwordLength]] });
-  protected readonly busy = signal(false);
-  protected readonly error = signal('');
+  protected readonly submit = new FormAction();
   protected readonly done = signal('');
 
-  protected async setPassword(): Promise<void> {
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    this.busy.set(true);
-    this.error.set('');
-    try {
+  protected setPassword(): Promise<void> {
+    return this.submit.run(this.form, async () => {
       const body = { token: this.token(), password: this.form.getRawValue().password };
       const { message } = await firstValueFrom(this.http.post<{ message: string }>('/api/auth/password-reset/confirm', body));
       this.done.set(message);
-    } catch (err) {
-      this.error.set(apiErrorMessage(err));
-    } finally {
-      this.busy.set(false);
-    }
+    });
   }
 }

@@ -1,11 +1,11 @@
-import { ChangeDetectionStrategy, Component, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject, input } from '@angular/core';
 import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressSpinnerModule } from '@angular/material/progress-spinner';
 import { Router, RouterLink } from '@angular/router';
-import { apiErrorMessage } from '../../core/api-error';
+import { FormAction } from '../../core/form-action';
 import { AuthStore } from '../../core/auth-store';
 import { AccountFrame } from './account-frame';
 import { safeNext } from './safe-next';
@@ -29,24 +29,13 @@ export class SignIn {
     email: ['', [Validators.required, Validators.email]],
     password: ['', Validators.required],
   });
-  protected readonly busy = signal(false);
-  protected readonly error = signal('');
+  protected readonly submit = new FormAction();
 
-  protected async signIn(): Promise<void> {
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    this.busy.set(true);
-    this.error.set('');
-    try {
+  protected signIn(): Promise<void> {
+    return this.submit.run(this.form, async () => {
       const { email, password } = this.form.getRawValue();
       await this.auth.signIn(email, password);
       await this.router.navigateByUrl(safeNext(this.next(), '/'));
-    } catch (err) {
-      this.error.set(apiErrorMessage(err));
-    } finally {
-      this.busy.set(false);
-    }
+    });
   }
 }

@@ -1,10 +1,10 @@
-import { ChangeDetectionStrategy, Component, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject, input } from '@angular/core';
 import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { Router, RouterLink } from '@angular/router';
-import { apiErrorMessage } from '../../core/api-error';
+import { FormAction } from '../../core/form-action';
 import { AuthStore } from '../../core/auth-store';
 import { AccountFrame } from './account-frame';
 import { safeNext } from './safe-next';
@@ -30,24 +30,13 @@ export class SignUp {
     email: ['', [Validators.required, Validators.email]],
     password: ['', [Validators.required, passwordLength]],
   });
-  protected readonly busy = signal(false);
-  protected readonly error = signal('');
+  protected readonly submit = new FormAction();
 
-  protected async createAccount(): Promise<void> {
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    this.busy.set(true);
-    this.error.set('');
-    try {
+  protected createAccount(): Promise<void> {
+    return this.submit.run(this.form, async () => {
       const { displayName, email, password } = this.form.getRawValue();
       await this.auth.signUp(displayName, email, password);
       await this.router.navigateByUrl(safeNext(this.next(), '/studios'));
-    } catch (err) {
-      this.error.set(apiErrorMessage(err));
-    } finally {
-      this.busy.set(false);
-    }
+    });
   }
 }

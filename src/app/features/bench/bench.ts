@@ -340,11 +340,9 @@ export class Bench {
 
 /** Everything the panel-resolution stages and the glow field depend on (not the output stages). */
 function panelStageKey(p: PanelParams, frame: number, frames: Frame[]): string {
-  const { viewing: _viewing, ...rest } = p;
-  const { decayMs, ...colour } = p.emission;
-  void colour;
-  const cell = { ...p.cell, spotSigma: 0 };
-  return JSON.stringify({ ...rest, emission: { decayMs }, cell, frame, frames: frames.length, id: framesId(frames) });
+  // Viewing, the emission colour and the CRT spot act only in the output stages.
+  const stages = { source: p.source, drive: p.drive, glass: p.glass, cell: { ...p.cell, spotSigma: 0 }, decayMs: p.emission.decayMs };
+  return JSON.stringify({ stages, frame, frames: framesId(frames) });
 }
 
 const frameIds = new WeakMap<Frame[], number>();

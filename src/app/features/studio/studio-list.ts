@@ -1,11 +1,11 @@
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { Router, RouterLink } from '@angular/router';
-import { apiErrorMessage } from '../../core/api-error';
+import { FormAction } from '../../core/form-action';
 import { AuthStore } from '../../core/auth-store';
 import { StudioApi } from './studio-api';
 
@@ -23,29 +23,18 @@ export class StudioList {
   protected readonly auth = inject(AuthStore);
 
   protected readonly form = inject(FormBuilder).nonNullable.group({ name: ['', [Validators.required, Validators.maxLength(80)]] });
-  protected readonly busy = signal(false);
-  protected readonly error = signal('');
+  protected readonly submit = new FormAction();
 
   constructor() {
     void this.auth.refreshStudios();
   }
 
-  protected async createStudio(): Promise<void> {
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    this.busy.set(true);
-    this.error.set('');
-    try {
+  protected createStudio(): Promise<void> {
+    return this.submit.run(this.form, async () => {
       const studio = await this.api.create(this.form.getRawValue().name);
       await this.auth.refreshStudios();
       await this.router.navigate(['/studios', studio.id, 'bench']);
-    } catch (err) {
-      this.error.set(apiErrorMessage(err));
-    } finally {
-      this.busy.set(false);
-    }
+    });
   }
 
   protected async signOut(): Promise<void> {
