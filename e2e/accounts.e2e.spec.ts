@@ -28,6 +28,8 @@ test('sign up → reset the password by mail → sign in → create a studio →
 
   // Forgotten password: the link arrives over SMTP at the mail catcher.
   await page.getByRole('link', { name: 'Forgot password?' }).click();
+  // Wait for the new page: the sign-in page has an "E-mail" field too.
+  await expect(page).toHaveURL(/\/forgot-password$/);
   await page.getByLabel('E-mail').fill(founder);
   await page.getByRole('button', { name: 'Send reset link' }).click();
   await expect(page.getByRole('status')).toContainText('reset link is on its way');

@@ -6,6 +6,8 @@ test('an editor changes a preset → the viewer sees the new revision → the ow
   await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
   await expect(page).toHaveURL(/\/bench/);
   await page.getByRole('link', { name: 'Presets', exact: true }).click();
+  // Wait for the new page: the bench has a "New preset name" field too.
+  await expect(page).toHaveURL(/\/presets$/);
   await page.getByRole('textbox', { name: 'New preset name' }).fill(name);
   await page.getByRole('button', { name: 'Create preset' }).click();
   await expect(page.getByTestId('current-revision')).toHaveText('1');
