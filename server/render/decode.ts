@@ -1,5 +1,5 @@
 import sharp, { type Metadata, type OutputInfo } from 'sharp';
-import { sliceSpriteSheet, type SpriteSheet } from '../../shared/pipeline/sprite-sheet';
+import { checkSpriteSheet, SHEET_LIMITS, sliceSpriteSheet, type SpriteSheet } from '../../shared/pipeline/sprite-sheet';
 import type { Frame } from '../../shared/pipeline/types';
 import { AppError } from '../core/app-error';
 
@@ -8,7 +8,7 @@ export const IMAGE_LIMITS = {
   maxBytes: 20 * 1024 * 1024,
   /** Pixels of one frame. */
   maxPixels: 16_000_000,
-  maxFrames: 240,
+  maxFrames: SHEET_LIMITS.maxFrames,
   /** Pixels over all frames. */
   maxTotalPixels: 64_000_000,
 };
@@ -41,9 +41,10 @@ const refuse = (code: string, message: string, details?: unknown) => new AppErro
 /**
  * Decodes PNG (APNG), GIF, JPEG or WebP to RGBA frames with sharp. The type, size, frame count
  * and pixel count are checked from the header before decoding, and libvips is also told the
- * pixel limit, so a pixel bomb is refused without allocating its pixels.
+ * pixel limit, so a pixel bomb is refused without allocating its pixels. A sprite-sheet grid, when
+ * given, is checked against the header's size too (frame count and minimum frame size).
  */
-export async function decodeImage(bytes: Buffer, limits = IMAGE_LIMITS): Promise<DecodedImage> {
+export async function decodeImage(bytes: Buffer, limits = IMAGE_LIMITS, sheet?: SpriteSheet | null): Promise<DecodedImage> {
   if (bytes.length > limits.maxBytes) throw new AppError(413, 'file_too_large', `The file is ${bytes.length} bytes; the limit is ${limits.maxBytes} bytes.`);
   const type = sniffImageType(bytes);
   if (!type) throw refuse('unsupported_type', 'The file is not a PNG, GIF, JPEG or WebP image (checked by its content, not its name).');
@@ -64,6 +65,7 @@ export async function decodeImage(bytes: Buffer, limits = IMAGE_LIMITS): Promise
   if (width * height * pages > limits.maxTotalPixels) {
     throw refuse('too_many_pixels', `The animation has ${width * height * pages} pixels over all frames; the limit is ${limits.maxTotalPixels}.`);
   }
+  if (sheet) checkSheet(width, height, pages, sheet);
   let raw: { data: Buffer; info: OutputInfo };
   try {
     raw = await sharp(bytes, { animated: true, limitInputPixels: limits.maxPixels, failOn: 'error' }).ensureAlpha().raw().toBuffer({ resolveWithObject: true });
@@ -83,10 +85,18 @@ export async function decodeImage(bytes: Buffer, limits = IMAGE_LIMITS): Promise
 /** The frames an image shows: its own, or — for a sprite sheet — its grid cells in reading order. */
 export function framesOf(decoded: DecodedImage, sheet: SpriteSheet | null | undefined): Frame[] {
   if (!sheet) return decoded.frames;
-  if (decoded.frames.length > 1) throw refuse('sheet_is_animated', 'A sprite sheet must be a still image; this file is already an animation.');
+  checkSheet(decoded.width, decoded.height, decoded.frames.length, sheet);
+  return sliceSpriteSheet(decoded.frames[0].image, sheet);
+}
+
+/** A sheet must be a still whose grid fits the image and the frame limits (422 naming the limit). */
+function checkSheet(width: number, height: number, pages: number, sheet: SpriteSheet): void {
+  if (pages > 1) throw refuse('sheet_is_animated', 'A sprite sheet must be a still image; this file is already an animation.');
   try {
-    return sliceSpriteSheet(decoded.frames[0].image, sheet);
+    checkSpriteSheet(width, height, sheet);
   } catch (err) {
-    throw refuse('sheet_does_not_fit', `${(err as Error).message}. Check the frame width and height.`);
+    const tooMany = /limit/.test((err as Error).message);
+    const fix = tooMany ? 'Use larger frames' : 'Check the frame width and height';
+    throw refuse(tooMany ? 'sheet_too_many_frames' : 'sheet_does_not_fit', `${(err as Error).message}. ${fix}.`, { ...SHEET_LIMITS });
   }
 }

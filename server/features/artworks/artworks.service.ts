@@ -50,8 +50,8 @@ export class ArtworksService {
 
   /** Decodes (type by content, limits first), writes original and thumbnail, then the row. */
   async upload(studioId: string, userId: string, bytes: Buffer, fileName: string, fields: { name?: string; frameWidth?: number; frameHeight?: number; frameDelayMs?: number }): Promise<ArtworkDto> {
-    const decoded = await decodeImage(bytes);
     const sheet: SpriteSheet | null = fields.frameWidth && fields.frameHeight ? { frameWidth: fields.frameWidth, frameHeight: fields.frameHeight, frameDelayMs: fields.frameDelayMs ?? 100 } : null;
+    const decoded = await decodeImage(bytes, undefined, sheet);
     const frames = framesOf(decoded, sheet);
     const first = frames[0].image;
     const thumbnail = await sharp(Buffer.from(first.data.buffer, first.data.byteOffset, first.data.byteLength), { raw: { width: first.width, height: first.height, channels: 4 } })

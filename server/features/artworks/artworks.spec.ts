@@ -52,6 +52,33 @@ test('a sprite sheet is cut into frames with its delay', async () => {
   expect(bad.body.error.message).toContain('does not divide into 7 × 8 frames');
 });
 
+describe('sprite-sheet bombs are refused from the header, before any frame is cut (SECURITY.md 19, 32)', () => {
+  const flat = (side: number) => sharp({ create: { width: side, height: side, channels: 4, background: '#ffb000' } }).png({ compressionLevel: 9 }).toBuffer();
+  test.each([
+    ['4000 × 4000 cut into 1 × 1 frames (16 million)', 4000, 1, 'sheet_does_not_fit', /smaller than the minimum of 4 × 4/],
+    ['2000 × 2000 cut into 4 × 4 frames (250 000)', 2000, 4, 'sheet_too_many_frames', /makes 250000 frames; the limit is 240/],
+    ['64 × 64 cut into 2 × 2 frames', 64, 2, 'sheet_does_not_fit', /minimum of 4 × 4/],
+  ])('%s → 422 naming the limit, nothing stored, the process keeps serving', async (_name, side, frame, code, message) => {
+    const bytes = await flat(side);
+    const before = await Artwork.count();
+    const heapBefore = process.memoryUsage().heapUsed;
+    const res = await editor.upload(url(), { frameWidth: String(frame), frameHeight: String(frame) }, { name: 'bomb.png', bytes });
+    expect(res.status).toBe(422);
+    expect(res.body.error.code).toBe(code);
+    expect(res.body.error.message).toMatch(message);
+    expect(await Artwork.count()).toBe(before);
+    // 16 million frame objects would need gigabytes; the refusal keeps the heap within 200 MB of where it was.
+    expect(process.memoryUsage().heapUsed - heapBefore).toBeLessThan(200 * 1024 * 1024);
+    expect((await editor.get(url())).status).toBe(200);
+  });
+  test('240 frames of 4 × 4 (the limits exactly) are accepted', async () => {
+    const sheet = pngOf(16 * 4, 15 * 4, (x, y) => [x * 4, y * 4, 0, 255]);
+    const res = await editor.upload(url(), { frameWidth: '4', frameHeight: '4' }, { name: 'tiny-glyphs.png', bytes: sheet });
+    expect(res.status).toBe(201);
+    expect(res.body.artwork.frameCount).toBe(240);
+  });
+});
+
 test.each([
   ['an SVG named .png', Buffer.from('<svg xmlns="http://www.w3.org/2000/svg"/>'), 422, 'unsupported_type'],
   ['a truncated PNG', art.subarray(0, 50), 422, 'unreadable_image'],
