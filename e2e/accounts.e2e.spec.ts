@@ -11,7 +11,7 @@ test('the demo owner signs in and sees the Kiln & Quartz studio', async ({ page,
   await page.screenshot({ path: test.info().outputPath('demo-members.png'), fullPage: true });
 });
 
-test('sign up → reset the password by mail → sign in → create a studio → invite → the invitee joins as viewer', async ({ page, browser, guard }, testInfo) => {
+test('sign up → confirm by mail → reset the password by mail → sign in → create a studio → invite → the invitee joins as viewer', async ({ page, browser, guard }, testInfo) => {
   const founder = uniqueEmail('founder');
   await page.goto('/sign-up');
   await page.getByLabel('Your name').fill('Ada Founder');
@@ -21,6 +21,10 @@ test('sign up → reset the password by mail → sign in → create a studio →
   await expect(page.getByText('At least 8 characters (5 so far).')).toBeVisible();
   await page.getByLabel('Password').fill('first passphrase');
   await page.getByRole('button', { name: 'Create account' }).click();
+  // No account until the mailed link is opened.
+  await expect(page.getByRole('status')).toContainText('Check your inbox');
+  const verifyLink = await waitForMail(founder, /http:\/\/127\.0\.0\.1:\d+\/verify-email\?token=[A-Za-z0-9_-]+/);
+  await page.goto(verifyLink);
   await expect(page.getByRole('heading', { name: 'Your studios' })).toBeVisible();
   await expect(page.getByText('You are not in a studio yet.')).toBeVisible();
   await page.getByRole('button', { name: 'Sign out' }).click();
@@ -66,6 +70,7 @@ test('sign up → reset the password by mail → sign in → create a studio →
   await second.getByLabel('E-mail').fill(invitee);
   await second.getByLabel('Password').fill('invitee passphrase');
   await second.getByRole('button', { name: 'Create account' }).click();
+  // The invite's mailed link proved the address: no second mail, the account is made at once.
   await second.getByRole('button', { name: 'Join Lantern Works' }).click();
   await expect(second).toHaveURL(/\/bench$/);
   await expect(second.getByLabel('Your role: viewer')).toBeVisible();
@@ -75,6 +80,10 @@ test('sign up → reset the password by mail → sign in → create a studio →
   await expect(second.getByRole('combobox', { name: /Role of/ })).toHaveCount(0);
   await expect(second.getByRole('button', { name: /^Remove / })).toHaveCount(0);
   await second.screenshot({ path: testInfo.outputPath('viewer-members.png'), fullPage: true });
+  // The used invite link shows nothing of the studio or the address any more.
+  await second.goto(inviteLink);
+  await expect(second.getByRole('alert')).toContainText('already used');
+  await expect(second.getByText(invitee)).toHaveCount(0);
   await context.close();
 });
 

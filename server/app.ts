@@ -8,6 +8,7 @@ import type { Config } from './config';
 import { ApiRouter, type RouteSpec } from './core/api-router';
 import { apiNotFound, errorHandler } from './core/error-handler';
 import { publicAccess } from './core/policy';
+import { refuseNul } from './core/refuse-nul';
 import { securityHeaders } from './core/security-headers';
 import { absoluteLifetime, csrfProtection, sessionMiddleware } from './core/session';
 import './core/request-context';
@@ -19,6 +20,7 @@ import { ArtworksService } from './features/artworks/artworks.service';
 import { authRoutes } from './features/auth/auth.routes';
 import { AuthService } from './features/auth/auth.service';
 import { configurePassport } from './features/auth/passport';
+import { SignInThrottle } from './features/auth/sign-in-throttle';
 import { openApiDocument } from './features/docs/openapi';
 import { healthRoutes } from './features/health/health.routes';
 import { panelTypesRoutes } from './features/panel-types/panel-types.routes';
@@ -29,6 +31,7 @@ import { TimingsService } from './features/timings/timings.service';
 import { inviteLinkRoutes, studiosRoutes } from './features/studios/studios.routes';
 import { StudiosService } from './features/studios/studios.service';
 import type { Mailer } from './mail/mailer';
+import { MailOutbox } from './mail/outbox';
 import { FileStore } from './storage/file-store';
 
 /** What the app needs from outside: configuration and live connections. */
@@ -52,19 +55,22 @@ export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; art
   app.use('/api/health', health.router);
 
   app.use(express.json({ limit: '256kb' }));
+  app.use(refuseNul);
   app.use(cookieParser());
   app.use(sessionMiddleware(deps.sessionPool, config.sessionSecret, config.env === 'production'));
-  const passport = configurePassport();
+  const outbox = new MailOutbox(mailer, sequelize);
+  const throttle = new SignInThrottle(sequelize);
+  const auth = new AuthService(outbox, config.appUrl, sequelize, throttle);
+  const passport = configurePassport(auth, throttle);
   app.use(passport.session());
   app.use(absoluteLifetime);
   app.use(csrfProtection);
 
-  const auth = new AuthService(mailer, config.appUrl);
   const renderStore = new RenderStore(config.storageDir);
   const artworks = new ArtworksService(new FileStore(config.storageDir));
   const presets = new PresetsService();
-  const studios = new StudiosService(mailer, config.appUrl, (_studioId, artworkIds) => artworks.removeFiles(artworkIds));
-  const routers: ApiRouter[] = [health, authRoutes(auth, sequelize), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renderStore), timingsRoutes(new TimingsService()), artworksRoutes(artworks, renderStore), presetsRoutes(presets, config.appUrl), shareRoutes(presets, artworks), activityRoutes()];
+  const studios = new StudiosService(outbox, config.appUrl, (_studioId, artworkIds) => artworks.removeFiles(artworkIds));
+  const routers: ApiRouter[] = [health, authRoutes(auth, passport), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renderStore), timingsRoutes(new TimingsService()), artworksRoutes(artworks, renderStore), presetsRoutes(presets, config.appUrl), shareRoutes(presets, artworks), activityRoutes()];
   const docs = new ApiRouter('/docs', 'Service');
   const specs = routers.flatMap((r) => r.specs);
   docs.route('get', '/', { policy: publicAccess, summary: 'This OpenAPI document' }, (_req, res) => {

@@ -34,7 +34,7 @@ export async function start(config: Config = loadConfig()): Promise<Running> {
   sessionPool.on('error', (err) => console.error(`[db] idle session-pool client failed: ${err.message}`));
   const mailer = new Mailer(config.smtp);
   const app = createApp({ config, sequelize, sessionPool, mailer });
-  if (process.env.SEED_DEMO === '1') await seedDemo(app.artworks);
+  if (process.env.SEED_DEMO === '1' && (await seedDemo(sequelize, app.artworks))) console.log('[seed] demo studio Kiln & Quartz created');
   const orphans = await app.artworks.reconcile();
   if (orphans) console.log(`[storage] removed ${orphans} artwork folder(s) left without a database row`);
   const host = process.env.HOST ?? '127.0.0.1';

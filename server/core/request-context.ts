@@ -7,6 +7,7 @@ declare global {
       id: string;
       email: string;
       displayName: string;
+      emailVerified: boolean;
     }
     interface Request {
       /** Set by a studio policy: the caller's membership in req.params.studioId. */

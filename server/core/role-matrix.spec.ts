@@ -1,6 +1,7 @@
 import { newToken } from './tokens';
 import { POLICY } from './policy';
 import { BUILT_IN_PRESETS } from '../../shared/model/panel-types';
+import { EmailVerification } from '../features/auth/email-verification.model';
 import { PasswordReset } from '../features/auth/password-reset.model';
 import { Invite } from '../features/studios/invite.model';
 import { Membership } from '../features/studios/membership.model';
@@ -41,7 +42,21 @@ const actorEmail = (c: Cell) => (c.actor === 'anonymous' ? uniqueEmail('anon') :
 const ROWS: Row[] = [
   { method: 'get', path: '/api/health', url: () => '/api/health', expect: [200, 200, 200, 200, 200] },
   { method: 'get', path: '/api/docs', url: () => '/api/docs', expect: [200, 200, 200, 200, 200] },
-  { method: 'post', path: '/api/auth/sign-up', url: () => '/api/auth/sign-up', body: () => ({ email: uniqueEmail('su'), displayName: 'New', password: WORLD_PASSWORD }), expect: [201, 201, 201, 201, 201] },
+  { method: 'get', path: '/api/auth/csrf', url: () => '/api/auth/csrf', expect: [200, 200, 200, 200, 200] },
+  { method: 'post', path: '/api/auth/sign-up', url: () => '/api/auth/sign-up', body: () => ({ email: uniqueEmail('su'), displayName: 'New', password: WORLD_PASSWORD }), expect: [202, 202, 202, 202, 202] },
+  {
+    method: 'post',
+    path: '/api/auth/verify-email',
+    url: () => '/api/auth/verify-email',
+    body: async () => {
+      const { token, hash } = newToken();
+      await EmailVerification.create({ email: uniqueEmail('verify'), displayName: 'Pending', passwordHash: 'x', tokenHash: hash, expiresAt: new Date(Date.now() + 60_000) });
+      return { token };
+    },
+    expect: [200, 200, 200, 200, 200],
+  },
+  { method: 'post', path: '/api/auth/verify-email/resend', url: () => '/api/auth/verify-email/resend', expect: [202, 202, 202, 202, 401] },
+  { method: 'post', path: '/api/auth/password', url: () => '/api/auth/password', body: () => ({ currentPassword: WORLD_PASSWORD, newPassword: WORLD_PASSWORD }), expect: [200, 200, 200, 200, 401] },
   { method: 'post', path: '/api/auth/sign-in', url: () => '/api/auth/sign-in', body: (c) => ({ email: c.users.other.email, password: WORLD_PASSWORD }), expect: [200, 200, 200, 200, 200] },
   { method: 'post', path: '/api/auth/sign-out', url: () => '/api/auth/sign-out', expect: [204, 204, 204, 204, 204] },
   { method: 'get', path: '/api/auth/me', url: () => '/api/auth/me', expect: [200, 200, 200, 200, 200] },

@@ -10,16 +10,21 @@ export const ABSOLUTE_LIFETIME_MS = 12 * 60 * 60 * 1000;
 
 /** Sessions in PostgreSQL; the cookie is HttpOnly, SameSite=Lax and Secure in production. */
 export function sessionMiddleware(pool: Pool, secret: string, production: boolean): RequestHandler {
-  const PgStore = connectPgSimple(session);
   return session({
     name: 'emberline.sid',
-    store: new PgStore({ pool, tableName: 'sessions', createTableIfMissing: false, pruneSessionInterval: 15 * 60 }),
+    store: sessionStore(pool),
     secret,
     resave: false,
     saveUninitialized: false,
     rolling: true,
     cookie: { httpOnly: true, sameSite: 'lax', secure: production, maxAge: IDLE_TIMEOUT_MS, path: '/' },
   });
+}
+
+/** connect-pg-simple's store on the sessions table; it prunes expired rows every 15 minutes (SECURITY.md 35). */
+export function sessionStore(pool: Pool, prune = true): InstanceType<ReturnType<typeof connectPgSimple>> {
+  const PgStore = connectPgSimple(session);
+  return new PgStore({ pool, tableName: 'sessions', createTableIfMissing: false, pruneSessionInterval: prune ? 15 * 60 : false });
 }
 
 /** Ends sessions older than the absolute lifetime, whatever their activity. */
@@ -43,17 +48,18 @@ export const CSRF_COOKIE = 'XSRF-TOKEN';
 /** Puts the session's CSRF token in the XSRF-TOKEN cookie Angular reads (rotating it if asked). */
 export function issueCsrfCookie(req: Request, res: Response, rotate = false): void {
   const token = csrf.generateToken(req, rotate);
+  res.locals.csrfToken = token;
   if (rotate || req.cookies?.[CSRF_COOKIE] !== token) {
     res.cookie(CSRF_COOKIE, token, { httpOnly: false, sameSite: 'lax', secure: req.secure, path: '/' });
   }
 }
 
-/** Every response carries the token cookie; mutations must echo it in X-XSRF-TOKEN (ASVS 5.0 3.5). */
+/**
+ * Mutations must echo the session's token in X-XSRF-TOKEN (ASVS 5.0 3.5). The token (and so a
+ * session row) is made only when asked for — GET /api/auth/csrf before a first form, or at
+ * sign-in — never for a plain read (SECURITY.md 35).
+ */
 export const csrfProtection: RequestHandler[] = [
-  (req, res, next) => {
-    if (req.method === 'GET' || req.method === 'HEAD') issueCsrfCookie(req, res);
-    next();
-  },
   (req, res, next) =>
     csrf.csrfSynchronisedProtection(req, res, (err?: unknown) => {
       if (err) {

@@ -1,4 +1,5 @@
 import type { Sequelize } from 'sequelize';
+import { initEmailVerification } from '../features/auth/email-verification.model';
 import { initPasswordReset, PasswordReset } from '../features/auth/password-reset.model';
 import { initUser, User } from '../features/auth/user.model';
 import { initActivity } from '../features/activity/activity.model';
@@ -14,6 +15,7 @@ import { initStudio, Studio } from '../features/studios/studio.model';
 export function initModels(sequelize: Sequelize): void {
   initUser(sequelize);
   initPasswordReset(sequelize);
+  initEmailVerification(sequelize);
   initStudio(sequelize);
   initMembership(sequelize);
   initInvite(sequelize);

@@ -1,44 +1,73 @@
+import type { Sequelize, Transaction } from 'sequelize';
 import type { Role } from '../../shared/model/roles';
 import { hashPassword } from '../features/auth/password';
 import { User } from '../features/auth/user.model';
 import { Membership } from '../features/studios/membership.model';
 import { Studio } from '../features/studios/studio.model';
-import { Artwork } from '../features/artworks/artwork.model';
 import type { ArtworksService } from '../features/artworks/artworks.service';
 import { SavedTiming } from '../features/timings/timing.model';
 import { demoArtworks } from './demo-art';
 
+type DemoArt = Awaited<ReturnType<typeof demoArtworks>>[number];
+
 /** The fictional demo studio and its accounts (README lists them). One password for all. */
 export const DEMO_PASSWORD = 'amber-glow-demo';
 export const DEMO_STUDIO = 'Kiln & Quartz';
-export const DEMO_ACCOUNTS: { email: string; displayName: string; role: Role }[] = [
-  { email: 'owner@kilnquartz.example', displayName: 'Ottilie Brand', role: 'owner' },
-  { email: 'editor@kilnquartz.example', displayName: 'Emeric Vale', role: 'editor' },
-  { email: 'viewer@kilnquartz.example', displayName: 'Vesna Roe', role: 'viewer' },
+/** Stable ids: the seed never looks anything up by a name a user could also type. */
+export const DEMO_STUDIO_ID = 'e0b1a5e5-0000-4000-8000-00000000d301';
+export const DEMO_ACCOUNTS: { id: string; email: string; displayName: string; role: Role }[] = [
+  { id: 'e0b1a5e5-0000-4000-8000-00000000a001', email: 'owner@kilnquartz.example', displayName: 'Ottilie Brand', role: 'owner' },
+  { id: 'e0b1a5e5-0000-4000-8000-00000000a002', email: 'editor@kilnquartz.example', displayName: 'Emeric Vale', role: 'editor' },
+  { id: 'e0b1a5e5-0000-4000-8000-00000000a003', email: 'viewer@kilnquartz.example', displayName: 'Vesna Roe', role: 'viewer' },
 ];
+/** The marker row that says the demo scenario was seeded (SECURITY.md 34). */
+export const DEMO_MARKER = 'demo-kiln-and-quartz-v1';
 
-/** Creates what is missing of the demo scenario; running it twice changes nothing. */
-export async function seedDemo(artworks?: ArtworksService): Promise<void> {
-  const [studio] = await Studio.findOrCreate({ where: { name: DEMO_STUDIO }, defaults: { name: DEMO_STUDIO } });
+/**
+ * Seeds the demo scenario once: when the marker row exists nothing is touched, so a member the
+ * owner removed stays removed and no other studio is ever changed. All rows and the marker are
+ * written in one transaction (the artworks' files just before it; start-up reconciliation
+ * removes them should the transaction fail).
+ */
+export async function seedDemo(sequelize: Sequelize, artworks?: ArtworksService): Promise<boolean> {
+  const [[done]] = (await sequelize.query('SELECT 1 AS seeded FROM seed_markers WHERE name = $1', { bind: [DEMO_MARKER] })) as [unknown[], unknown];
+  if (done) return false;
+  const passwordHash = await hashPassword(DEMO_PASSWORD);
+  const art = artworks ? await demoArtworks() : [];
+  await sequelize.transaction(async (transaction) => {
+    await sequelize.query('SELECT pg_advisory_xact_lock(424243)', { transaction });
+    const [[again]] = (await sequelize.query('SELECT 1 AS seeded FROM seed_markers WHERE name = $1', { bind: [DEMO_MARKER], transaction })) as [unknown[], unknown];
+    if (again) return;
+    // A database from before the marker existed already has its demo rows: record it and touch nothing.
+    const earlier = (await Studio.findByPk(DEMO_STUDIO_ID, { transaction })) ?? (await User.findOne({ where: { email: DEMO_ACCOUNTS.map((a) => a.email) }, transaction }));
+    if (earlier) {
+      console.log('[seed] demo accounts exist from an earlier version; leaving them as they are');
+    } else {
+      await seedRows(transaction, passwordHash, art, artworks);
+    }
+    await sequelize.query('INSERT INTO seed_markers (name) VALUES ($1)', { bind: [DEMO_MARKER], transaction });
+  });
+  return true;
+}
+
+async function seedRows(transaction: Transaction, passwordHash: string, art: DemoArt[], artworks?: ArtworksService): Promise<void> {
+  await Studio.create({ id: DEMO_STUDIO_ID, name: DEMO_STUDIO }, { transaction });
   for (const account of DEMO_ACCOUNTS) {
-    let user = await User.findOne({ where: { email: account.email } });
-    user ??= await User.create({ email: account.email, displayName: account.displayName, passwordHash: await hashPassword(DEMO_PASSWORD) });
-    await Membership.findOrCreate({ where: { studioId: studio.id, userId: user.id }, defaults: { studioId: studio.id, userId: user.id, role: account.role } });
+    await User.create({ id: account.id, email: account.email, displayName: account.displayName, passwordHash, emailVerifiedAt: new Date() }, { transaction });
+    await Membership.create({ studioId: DEMO_STUDIO_ID, userId: account.id, role: account.role }, { transaction });
   }
-  const owner = (await User.findOne({ where: { email: DEMO_ACCOUNTS[0].email } }))!;
-  if (artworks && (await Artwork.count({ where: { studioId: studio.id } })) === 0) {
-    for (const art of await demoArtworks()) await artworks.upload(studio.id, owner.id, art.bytes, art.file, { name: art.name, ...art.sheet });
-  }
-  await SavedTiming.findOrCreate({
-    where: { studioId: studio.id, name: 'Handheld EL, 60 Hz' },
-    defaults: {
-      studioId: studio.id,
+  const ownerId = DEMO_ACCOUNTS[0].id;
+  for (const a of art) await artworks!.upload(DEMO_STUDIO_ID, ownerId, a.bytes, a.file, { name: a.name, ...a.sheet }, transaction);
+  await SavedTiming.create(
+    {
+      studioId: DEMO_STUDIO_ID,
       name: 'Handheld EL, 60 Hz',
       panelTypeId: 'el-amber-640x480',
       source: { kind: 'standard', standard: 'dmt', mode: '640x480@60' },
       interface: { dualScan: true, pixelsPerClock: 4 },
-      createdById: owner.id,
-      updatedById: owner.id,
+      createdById: ownerId,
+      updatedById: ownerId,
     },
-  });
+    { transaction },
+  );
 }

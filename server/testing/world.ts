@@ -29,7 +29,7 @@ export interface WorldUsers {
 /** Creates the five accounts once (one argon2 hash for all). */
 export async function createUsers(): Promise<WorldUsers> {
   const passwordHash = await hashPassword(WORLD_PASSWORD);
-  const make = (tag: string) => User.create({ email: uniqueEmail(tag), displayName: `World ${tag}`, passwordHash });
+  const make = (tag: string) => User.create({ email: uniqueEmail(tag), displayName: `World ${tag}`, passwordHash, emailVerifiedAt: new Date() });
   const [owner, editor, viewer, other, target] = await Promise.all(['owner', 'editor', 'viewer', 'other', 'target'].map(make));
   const otherStudio = await Studio.create({ name: 'Elsewhere' });
   await Membership.create({ studioId: otherStudio.id, userId: other.id, role: 'owner' });

@@ -1,5 +1,6 @@
 import '../model/zod-config';
 import { z } from 'zod';
+import { nameSchema } from './text.schema';
 
 const whole = (name: string, min: number, max: number) =>
   z.coerce.number({ message: `${name} must be a whole number from ${min} to ${max}` }).int({ message: `${name} must be a whole number from ${min} to ${max}` }).min(min, { message: `${name} must be a whole number from ${min} to ${max}` }).max(max, { message: `${name} must be a whole number from ${min} to ${max}` });
@@ -7,14 +8,14 @@ const whole = (name: string, min: number, max: number) =>
 /** Multipart text fields of an upload: an optional name and, for a sprite sheet, its grid. */
 export const uploadFieldsSchema = z
   .strictObject({
-    name: z.string().trim().min(1).max(120).optional(),
+    name: nameSchema(120).optional(),
     frameWidth: whole('frameWidth', 1, 4096).optional(),
     frameHeight: whole('frameHeight', 1, 4096).optional(),
     frameDelayMs: whole('frameDelayMs', 20, 10000).optional(),
   })
   .refine((f) => (f.frameWidth === undefined) === (f.frameHeight === undefined), { message: 'give both frameWidth and frameHeight for a sprite sheet, or neither', path: ['frameWidth'] });
 
-export const renameArtworkSchema = z.strictObject({ name: z.string().trim().min(1, { message: 'is required' }).max(120, { message: 'must be at most 120 characters' }) });
+export const renameArtworkSchema = z.strictObject({ name: nameSchema(120) });
 
 export const ARTWORK_SORTS = ['newest', 'oldest', 'name'] as const;
 

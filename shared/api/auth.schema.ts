@@ -1,6 +1,7 @@
 import '../model/zod-config';
 import { z } from 'zod';
 import { ROLES } from '../model/roles';
+import { mailedNameSchema } from './text.schema';
 
 /** Passwords: 8–128 characters of any Unicode, counted as code points (ASVS 5.0 6.2). */
 export const passwordSchema = z
@@ -15,10 +16,14 @@ export const emailSchema = z
   .max(254, { message: 'must be at most 254 characters' })
   .pipe(z.email({ message: 'must be an e-mail address such as name@example.com' }));
 
+const linkToken = (what: string) => z.string().regex(/^[A-Za-z0-9_-]{20,100}$/, { message: `is not ${what}` });
+
 export const signUpSchema = z.strictObject({
   email: emailSchema,
-  displayName: z.string().trim().min(1, { message: 'is required' }).max(80, { message: 'must be at most 80 characters' }),
+  displayName: mailedNameSchema(80),
   password: passwordSchema,
+  /** The token of the invite whose mailed link led here: it proves the address, so no second mail is needed. */
+  inviteToken: linkToken('an invite token').optional(),
 });
 export type SignUpBody = z.infer<typeof signUpSchema>;
 
@@ -30,11 +35,19 @@ export const signInSchema = z.strictObject({
 export const passwordResetSchema = z.strictObject({ email: emailSchema });
 
 export const passwordResetConfirmSchema = z.strictObject({
-  token: z.string().regex(/^[A-Za-z0-9_-]{20,100}$/, { message: 'is not a reset token' }),
+  token: linkToken('a reset token'),
   password: passwordSchema,
 });
 
-export const studioNameSchema = z.string().trim().min(1, { message: 'is required' }).max(80, { message: 'must be at most 80 characters' });
+export const verifyEmailSchema = z.strictObject({ token: linkToken('a verification token') });
+
+export const changePasswordSchema = z.strictObject({
+  currentPassword: z.string().max(1024),
+  newPassword: passwordSchema,
+});
+
+/** Studio names appear in invitation mails: one line, no web addresses (SECURITY.md 31). */
+export const studioNameSchema = mailedNameSchema(80);
 
 export const createStudioSchema = z.strictObject({ name: studioNameSchema });
 export const updateStudioSchema = z.strictObject({ name: studioNameSchema });

@@ -5,6 +5,8 @@ export interface UserDto {
   id: string;
   email: string;
   displayName: string;
+  /** The account proved it owns its address; needed to create or join a studio. */
+  emailVerified: boolean;
 }
 
 /** A studio with the caller's role in it. */
@@ -32,13 +34,10 @@ export interface InviteDto {
 }
 
 /** What an invite link shows before it is accepted. */
-export interface InvitePreviewDto {
-  studioName: string;
-  role: Role;
-  email: string;
-  expired: boolean;
-  accepted: boolean;
-}
+/** What an invite link shows; once accepted it shows nothing but that fact. */
+export type InvitePreviewDto =
+  | { accepted: true }
+  | { accepted: false; studioName: string; role: Role; email: string; expired: boolean };
 
 /** The error body every failing /api call answers with. */
 export interface ApiErrorBody {

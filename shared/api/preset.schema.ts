@@ -1,8 +1,9 @@
 import '../model/zod-config';
 import { z } from 'zod';
 import { panelParamsSchema } from '../model/parameters';
+import { nameSchema, noteSchema } from './text.schema';
 
-const name = z.string().trim().min(1, { message: 'is required' }).max(80, { message: 'must be at most 80 characters' });
+const name = nameSchema(80);
 
 export const createPresetSchema = z.strictObject({
   name,
@@ -14,12 +15,12 @@ export const updatePresetSchema = z.strictObject({
   baseRevision: z.number({ message: 'baseRevision must be the revision you edited' }).int().min(1),
   name: name.optional(),
   parameters: panelParamsSchema.optional(),
-  message: z.string().trim().max(500, { message: 'must be at most 500 characters' }).optional(),
+  message: noteSchema(500).optional(),
 });
 
 export const duplicatePresetSchema = z.strictObject({ studioId: z.uuid({ message: 'studioId must be a studio id' }), name: name.optional() });
 export const referenceSchema = z.strictObject({ isReference: z.boolean() });
-export const restoreSchema = z.strictObject({ message: z.string().trim().max(500).optional() });
+export const restoreSchema = z.strictObject({ message: noteSchema(500).optional() });
 
 export const shareLinkSchema = z.strictObject({
   artworkId: z.uuid({ message: 'artworkId must be an artwork id' }).optional(),

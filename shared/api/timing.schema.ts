@@ -2,6 +2,7 @@ import '../model/zod-config';
 import { z } from 'zod';
 import { PIXELS_PER_CLOCK } from '../drive/interface';
 import { STANDARDS } from '../drive/resolve';
+import { nameSchema } from './text.schema';
 
 const whole = (name: string, min: number, max: number) =>
   z.number({ message: `${name} must be a whole number from ${min} to ${max}` }).int({ message: `${name} must be a whole number from ${min} to ${max}` }).min(min, { message: `${name} must be a whole number from ${min} to ${max}` }).max(max, { message: `${name} must be a whole number from ${min} to ${max}` });
@@ -38,7 +39,7 @@ export const interfaceSchema = z.strictObject({
 });
 
 export const createTimingSchema = z.strictObject({
-  name: z.string().trim().min(1, { message: 'is required' }).max(80, { message: 'must be at most 80 characters' }),
+  name: nameSchema(80),
   panelTypeId: z.string().max(100),
   source: timingSourceSchema,
   interface: interfaceSchema,

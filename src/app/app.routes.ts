@@ -5,6 +5,7 @@ export const routes: Routes = [
   { path: '', pathMatch: 'full', canActivate: [homeRedirectGuard], children: [] },
   { path: 'sign-in', canActivate: [signedOutGuard], title: 'Sign in · Emberline', loadComponent: () => import('./features/account/sign-in').then((m) => m.SignIn) },
   { path: 'sign-up', canActivate: [signedOutGuard], title: 'Create account · Emberline', loadComponent: () => import('./features/account/sign-up').then((m) => m.SignUp) },
+  { path: 'verify-email', title: 'Confirm your address · Emberline', loadComponent: () => import('./features/account/verify-email').then((m) => m.VerifyEmail) },
   { path: 'forgot-password', title: 'Reset password · Emberline', loadComponent: () => import('./features/account/forgot-password').then((m) => m.ForgotPassword) },
   { path: 'reset-password', title: 'Choose a new password · Emberline', loadComponent: () => import('./features/account/reset-password').then((m) => m.ResetPassword) },
   { path: 'share/:token', title: 'Shared look · Emberline', loadComponent: () => import('./features/share/shared-view').then((m) => m.SharedView) },

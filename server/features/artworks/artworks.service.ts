@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import sharp from 'sharp';
-import { Op, type Order } from 'sequelize';
+import { Op, type Order, type Transaction } from 'sequelize';
 import type { ArtworkDto } from '../../../shared/api/dto';
 import type { SpriteSheet } from '../../../shared/pipeline/sprite-sheet';
 import type { Frame } from '../../../shared/pipeline/types';
@@ -49,7 +49,7 @@ export class ArtworksService {
   }
 
   /** Decodes (type by content, limits first), writes original and thumbnail, then the row. */
-  async upload(studioId: string, userId: string, bytes: Buffer, fileName: string, fields: { name?: string; frameWidth?: number; frameHeight?: number; frameDelayMs?: number }): Promise<ArtworkDto> {
+  async upload(studioId: string, userId: string, bytes: Buffer, fileName: string, fields: { name?: string; frameWidth?: number; frameHeight?: number; frameDelayMs?: number }, transaction?: Transaction): Promise<ArtworkDto> {
     const sheet: SpriteSheet | null = fields.frameWidth && fields.frameHeight ? { frameWidth: fields.frameWidth, frameHeight: fields.frameHeight, frameDelayMs: fields.frameDelayMs ?? 100 } : null;
     const decoded = await decodeImage(bytes, undefined, sheet);
     const frames = framesOf(decoded, sheet);
@@ -63,8 +63,9 @@ export class ArtworksService {
     await this.files.write(FOLDER, id, 'original', bytes);
     await this.files.write(FOLDER, id, 'thumbnail.png', thumbnail);
     try {
-      const name = (fields.name ?? fileName.replace(/\.[^.]+$/, '')).slice(0, 120) || 'Untitled';
-      const row = await Artwork.create({ id, studioId, name, type: decoded.type, width: first.width, height: first.height, frameCount: frames.length, delaysMs: frames.map((f) => f.delayMs), bytes: bytes.length, sheet, createdById: userId });
+      const fromFile = fileName.replace(/\.[^.]+$/, '').replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029]/g, ' ').trim();
+      const name = (fields.name ?? fromFile).slice(0, 120) || 'Untitled';
+      const row = await Artwork.create({ id, studioId, name, type: decoded.type, width: first.width, height: first.height, frameCount: frames.length, delaysMs: frames.map((f) => f.delayMs), bytes: bytes.length, sheet, createdById: userId }, { transaction });
       return artworkDto(row);
     } catch (err) {
       await this.files.remove(FOLDER, id);

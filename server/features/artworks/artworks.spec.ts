@@ -124,3 +124,32 @@ test('a row whose stored file went missing answers 404 with the reason, not 500'
   expect(res.status).toBe(404);
   expect(res.body.error.code).toBe('file_missing');
 });
+
+describe('bad input answers 4xx with a message, never 500 (issue "Hardening", items 10, 11)', () => {
+  test('a non-ASCII file name is stored as the person typed it', async () => {
+    const res = await editor.upload(url(), {}, { name: 'Zündschlüssel 燃える.png', bytes: art });
+    expect(res.status).toBe(201);
+    expect(res.body.artwork.name).toBe('Zündschlüssel 燃える');
+  });
+
+  test('a NUL character in a name is refused, in JSON and in multipart fields', async () => {
+    const a = (await editor.upload(url(), {}, { name: 'nul.png', bytes: art })).body.artwork;
+    const json = await editor.patch(url(`/${a.id}`), { name: 'bad\u0000name' });
+    expect(json.status).toBe(400);
+    expect(json.body.error.message).toMatch(/NUL/);
+    const multipart = await editor.upload(url(), { name: 'bad\u0000name' }, { name: 'x.png', bytes: art });
+    expect(multipart.status).toBe(400);
+  });
+
+  test('an unterminated multipart body is a 400, and the server keeps serving', async () => {
+    const request = (await import('supertest')).default;
+    if (!editor.cookie('XSRF-TOKEN')) await editor.get('/api/auth/csrf');
+    const cookies = ['emberline.sid', 'XSRF-TOKEN'].map((n) => `${n}=${editor.cookie(n)}`).join('; ');
+    const boundary = '----emberline-test';
+    const body = `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="cut.png"\r\nContent-Type: image/png\r\n\r\n${art.subarray(0, 40).toString('latin1')}`;
+    const res = await request(h.app).post(url()).set('Cookie', cookies).set('X-XSRF-TOKEN', editor.cookie('XSRF-TOKEN')!).set('Content-Type', `multipart/form-data; boundary=${boundary}`).send(body);
+    expect(res.status).toBe(400);
+    expect(res.body.error.code).toBe('bad_upload');
+    expect((await editor.get(url())).status).toBe(200);
+  });
+});

@@ -1,21 +1,17 @@
-import type { Request } from 'express';
-import { RateLimiterPostgres, RateLimiterRes } from 'rate-limiter-flexible';
-import type { Sequelize } from 'sequelize';
-import { passwordResetConfirmSchema, passwordResetSchema, signInSchema, signUpSchema } from '../../../shared/api/auth.schema';
+import type { NextFunction, Request, Response } from 'express';
+import type { PassportStatic } from 'passport';
+import { changePasswordSchema, passwordResetConfirmSchema, passwordResetSchema, signInSchema, signUpSchema, verifyEmailSchema } from '../../../shared/api/auth.schema';
 import { ApiRouter } from '../../core/api-router';
 import { AppError } from '../../core/app-error';
-import { publicAccess } from '../../core/policy';
+import { publicAccess, signedIn } from '../../core/policy';
 import { issueCsrfCookie } from '../../core/session';
-import type { AuthService } from './auth.service';
-import type { User } from './user.model';
+import { SIGN_UP_SENT, type AuthService } from './auth.service';
+import { BAD_CREDENTIALS } from './passport';
 
-/** At most 100 failed sign-ins per account per hour (ASVS 4 2.2.1); counted in PostgreSQL. */
-export const MAX_FAILED_SIGN_INS = 100;
-
-function logIn(req: Request, user: User): Promise<void> {
+function logIn(req: Request, user: Express.User): Promise<void> {
   // passport ≥ 0.6 regenerates the session id in req.login (ASVS 5.0 7.2.4).
   return new Promise((resolve, reject) =>
-    req.login(user.toDto(), (err) => {
+    req.login(user, (err) => {
       if (err) return reject(err);
       req.session.signedInAt = Date.now();
       resolve();
@@ -23,65 +19,72 @@ function logIn(req: Request, user: User): Promise<void> {
   );
 }
 
-export function authRoutes(auth: AuthService, sequelize: Sequelize): ApiRouter {
-  const limiter = new RateLimiterPostgres({
-    storeClient: sequelize,
-    storeType: 'sequelize',
-    tableName: 'sign_in_limits',
-    tableCreated: true,
-    keyPrefix: 'sign-in',
-    points: MAX_FAILED_SIGN_INS,
-    duration: 60 * 60,
+/** Runs passport-local and resolves with the user, or throws 401 / 429. */
+function authenticate(passport: PassportStatic, req: Request, res: Response): Promise<Express.User> {
+  return new Promise((resolve, reject) => {
+    const next: NextFunction = (err?: unknown) => reject(err);
+    passport.authenticate('local', { session: false }, (err: unknown, user: Express.User | false) => {
+      if (err) return reject(err);
+      if (!user) return reject(new AppError(401, 'bad_credentials', BAD_CREDENTIALS));
+      resolve(user);
+    })(req, res, next);
   });
-  const api = new ApiRouter('/auth', 'Accounts');
+}
 
-  api.route('post', '/sign-up', { policy: publicAccess, summary: 'Create an account and sign in', body: signUpSchema, status: 201 }, async (req, res) => {
+/** /api/auth: sign-up with a mailed link, sign-in, sign-out, password reset and change. */
+export function authRoutes(auth: AuthService, passport: PassportStatic): ApiRouter {
+  const api = new ApiRouter('/auth', 'Accounts');
+  api.route('get', '/csrf', { policy: publicAccess, summary: 'Start a session with a CSRF token (the XSRF-TOKEN cookie and the body), needed before the first mutation' }, (req, res) => {
+    issueCsrfCookie(req, res);
+    res.json({ token: res.locals.csrfToken });
+  });
+  api.route('post', '/sign-up', { policy: publicAccess, summary: 'Start a sign-up: mails a link that creates the account (or, with a matching invite token, creates it at once)', body: signUpSchema, status: 202 }, async (req, res) => {
     const user = await auth.signUp(req.body);
-    await logIn(req, user);
+    if (!user) {
+      res.status(202).json({ message: SIGN_UP_SENT });
+      return;
+    }
+    await logIn(req, user.toDto());
     issueCsrfCookie(req, res, true);
     res.status(201).json({ user: user.toDto() });
   });
-
-  api.route('post', '/sign-in', { policy: publicAccess, summary: 'Sign in with e-mail and password', body: signInSchema }, async (req, res) => {
-    const key = req.body.email as string;
-    const used = await limiter.get(key);
-    if (used && used.consumedPoints >= MAX_FAILED_SIGN_INS) {
-      res.set('Retry-After', String(Math.ceil(used.msBeforeNext / 1000)));
-      throw new AppError(429, 'too_many_attempts', 'Too many failed sign-ins for this account. Wait an hour or reset the password.');
-    }
-    const user = await auth.checkCredentials(req.body.email, req.body.password);
-    if (!user) {
-      await limiter.consume(key).catch((e) => {
-        if (!(e instanceof RateLimiterRes)) throw e;
-      });
-      // The same answer for an unknown e-mail and a wrong password (ASVS 5.0 6.3.8).
-      throw new AppError(401, 'bad_credentials', 'The e-mail or password is not right.');
-    }
-    await logIn(req, user);
+  api.route('post', '/verify-email', { policy: publicAccess, summary: 'Open a mailed verification link: creates (or confirms) the account and signs it in', body: verifyEmailSchema }, async (req, res) => {
+    const user = await auth.verifyEmail(req.body.token);
+    await logIn(req, user.toDto());
     issueCsrfCookie(req, res, true);
     res.json({ user: user.toDto() });
   });
-
+  api.route('post', '/verify-email/resend', { policy: signedIn, summary: 'Mail a new verification link to the signed-in account', status: 202 }, async (req, res) => {
+    await auth.resendVerification(req.user!.id);
+    res.status(202).json({ message: 'If this address still needs confirming, a link is on its way.' });
+  });
+  api.route('post', '/sign-in', { policy: publicAccess, summary: 'Sign in with e-mail and password (back-off per account and per address)', body: signInSchema }, async (req, res) => {
+    const user = await authenticate(passport, req, res);
+    await logIn(req, user);
+    issueCsrfCookie(req, res, true);
+    res.json({ user });
+  });
   api.route('post', '/sign-out', { policy: publicAccess, summary: 'Sign out and end the session' }, async (req, res) => {
     await new Promise<void>((resolve, reject) => req.logout((err) => (err ? reject(err) : resolve())));
     await new Promise<void>((resolve, reject) => req.session.destroy((err) => (err ? reject(err) : resolve())));
     res.clearCookie('emberline.sid', { path: '/' });
+    res.clearCookie('XSRF-TOKEN', { path: '/' });
     res.status(204).end();
   });
-
   api.route('get', '/me', { policy: publicAccess, summary: 'The signed-in user, or null when signed out' }, (req, res) => {
     res.json({ user: req.user ?? null });
   });
-
+  api.route('post', '/password', { policy: signedIn, summary: "Change the signed-in account's password; ends its other sessions", body: changePasswordSchema }, async (req, res) => {
+    await auth.changePassword(req.user!.id, req.body.currentPassword, req.body.newPassword, req.sessionID);
+    res.json({ message: 'Password changed. Your other sessions are signed out.' });
+  });
   api.route('post', '/password-reset', { policy: publicAccess, summary: 'E-mail a password reset link', body: passwordResetSchema, status: 202 }, async (req, res) => {
     await auth.requestReset(req.body.email);
     res.status(202).json({ message: 'If an account uses this e-mail, a reset link is on its way.' });
   });
-
-  api.route('post', '/password-reset/confirm', { policy: publicAccess, summary: 'Set a new password with a reset token', body: passwordResetConfirmSchema }, async (req, res) => {
+  api.route('post', '/password-reset/confirm', { policy: publicAccess, summary: 'Set a new password with a reset token; ends every session of the account', body: passwordResetConfirmSchema }, async (req, res) => {
     await auth.confirmReset(req.body.token, req.body.password);
     res.json({ message: 'Password changed. Sign in with the new password.' });
   });
-
   return api;
 }

@@ -7,11 +7,13 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare email: string;
   declare displayName: string;
   declare passwordHash: string;
+  /** When the account proved it owns its address (a mailed link); null for accounts from before verification existed. */
+  declare emailVerifiedAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
   toDto(): UserDto {
-    return { id: this.id, email: this.email, displayName: this.displayName };
+    return { id: this.id, email: this.email, displayName: this.displayName, emailVerified: this.emailVerifiedAt != null };
   }
 }
 
@@ -22,6 +24,7 @@ export function initUser(sequelize: Sequelize): void {
       email: { type: DataTypes.STRING(254), allowNull: false, unique: true },
       displayName: { type: DataTypes.STRING(80), allowNull: false },
       passwordHash: { type: DataTypes.TEXT, allowNull: false },
+      emailVerifiedAt: { type: DataTypes.DATE, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

@@ -1,5 +1,6 @@
 import type { Sequelize } from 'sequelize';
 import { ApiRouter } from '../../core/api-router';
+import { databaseUnavailable } from '../../core/error-handler';
 import { publicAccess } from '../../core/policy';
 
 /** /api/health: the process is up and the database answers (503 when it does not). */
@@ -11,7 +12,7 @@ export function healthRoutes(sequelize: Sequelize): ApiRouter {
       await sequelize.query('SELECT 1');
       res.json({ status: 'ok', database: 'up', databaseMs: Date.now() - started });
     } catch {
-      res.status(503).json({ status: 'degraded', database: 'down', error: { code: 'unavailable', message: 'The database does not answer.' } });
+      databaseUnavailable(res);
     }
   });
   return api;

@@ -22,9 +22,10 @@ export interface Actor {
   role: Role;
 }
 
-const names = async (ids: (string | null)[]): Promise<Map<string, string>> => {
+/** Display names by user id; inside a transaction it must be given, so a request holds one connection at most. */
+const names = async (ids: (string | null)[], transaction?: Transaction): Promise<Map<string, string>> => {
   const list = [...new Set(ids.filter((i): i is string => !!i))];
-  const users = list.length ? await User.findAll({ where: { id: list }, attributes: ['id', 'displayName'] }) : [];
+  const users = list.length ? await User.findAll({ where: { id: list }, attributes: ['id', 'displayName'], transaction }) : [];
   return new Map(users.map((u) => [u.id, u.displayName]));
 };
 
@@ -54,18 +55,19 @@ export class PresetsService {
       const row = await Preset.create({ studioId: actor.studioId, panelTypeId: type.id, name: body.name, parameters, revision: 1, updatedById: actor.userId }, { transaction });
       await PresetRevision.create({ presetId: row.id, revision: 1, name: row.name, parameters, changes: [], message, authorId: actor.userId }, { transaction });
       await record(actor.studioId, actor.userId, 'preset.created', `created preset “${row.name}”`, transaction);
-      return this.dto(row, await names([actor.userId]));
+      return this.dto(row, await names([actor.userId], transaction));
     });
   }
 
   /** Saves a new revision; the caller must have edited the current one (else 409 with it). */
   async update(actor: Actor, id: string, body: { baseRevision: number; name?: string; parameters?: PanelParams; message?: string }): Promise<PresetDto> {
+    // A stale base is answered without taking a lock or a transaction (most losers of a race stop here).
+    const current = await this.row(actor.studioId, id);
+    if (body.baseRevision !== current.revision) throw await this.stale(current, body.baseRevision);
     return Preset.sequelize!.transaction(async (transaction) => {
       const row = await this.row(actor.studioId, id, transaction);
       this.assertMayChange(row, actor);
-      if (body.baseRevision !== row.revision) {
-        throw conflict('stale_revision', `Someone saved revision ${row.revision} since you opened revision ${body.baseRevision}. Merge your changes into it and save again.`, { current: this.dto(row, await names([row.updatedById])) });
-      }
+      if (body.baseRevision !== row.revision) throw await this.stale(row, body.baseRevision, transaction);
       return this.saveRevision(row, actor, body.name ?? row.name, body.parameters ?? row.parameters, body.message ?? null, 'preset.changed', transaction);
     });
   }
@@ -167,7 +169,12 @@ export class PresetsService {
     await row.update({ name, parameters, revision, updatedById: actor.userId }, { transaction });
     const verb = kind === 'preset.restored' ? 'restored' : 'changed';
     await record(actor.studioId, actor.userId, kind, `${verb} preset “${name}” (revision ${revision}${changes.length ? `: ${changes.map((c) => c.path).slice(0, 4).join(', ')}${changes.length > 4 ? '…' : ''}` : ''})`, transaction);
-    return this.dto(row, await names([actor.userId]));
+    return this.dto(row, await names([actor.userId], transaction));
+  }
+
+  private async stale(row: Preset, base: number, transaction?: Transaction): Promise<Error> {
+    const message = `Someone saved revision ${row.revision} since you opened revision ${base}. Merge your changes into it and save again.`;
+    return conflict('stale_revision', message, { current: this.dto(row, await names([row.updatedById], transaction)) });
   }
 
   private assertMayChange(row: Preset, actor: Actor): void {

@@ -137,3 +137,17 @@ test('the activity feed tells who did what', async () => {
   expect(kinds).toEqual(expect.arrayContaining(['preset.created', 'preset.changed', 'preset.restored', 'preset.reference', 'link.created', 'link.revoked']));
   expect(feed[0].actor).toEqual(expect.any(String));
 });
+
+test('30 parallel saves of one revision: exactly one 200, the rest 409, no 5xx, and other readers are served meanwhile (issue "Hardening", item 3)', async () => {
+  const created = (await editor.post(url(), { name: 'Contended', panelTypeId: 'el-amber-640x480' })).body.preset;
+  const saves = Array.from({ length: 30 }, (_, i) => editor.patch(url(`/${created.id}`), { baseRevision: 1, parameters: mergeParams(base, { glass: { glowRadiusMm: 0.3 + i / 100 } }) }));
+  const reads = Array.from({ length: 10 }, () => owner.get(url()));
+  const [saved, read] = await Promise.all([Promise.all(saves), Promise.all(reads)]);
+  const statuses = saved.map((r) => r.status);
+  expect(statuses.filter((s) => s === 200)).toHaveLength(1);
+  expect(statuses.filter((s) => s === 409)).toHaveLength(29);
+  expect(read.map((r) => r.status)).toEqual(Array(10).fill(200));
+  const loser = saved.find((r) => r.status === 409)!;
+  expect(loser.body.error.details.current.revision).toBe(2);
+  expect((await Preset.findByPk(created.id))!.revision).toBe(2);
+});

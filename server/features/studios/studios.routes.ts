@@ -12,7 +12,7 @@ export function studiosRoutes(studios: StudiosService): ApiRouter {
     res.json({ studios: await studios.listForUser(req.user!.id) });
   });
   api.route('post', '/', { policy: signedIn, summary: 'Create a studio; the caller becomes its owner', body: createStudioSchema, status: 201 }, async (req, res) => {
-    res.status(201).json({ studio: await studios.create(req.user!.id, req.body.name) });
+    res.status(201).json({ studio: await studios.create(req.user!, req.body.name) });
   });
   api.route('get', '/:studioId', { policy: studioRole('viewer'), summary: 'One studio' }, async (req, res) => {
     res.json({ studio: await studios.get(req.membership!.studioId, req.membership!.role) });

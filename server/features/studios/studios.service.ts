@@ -3,13 +3,20 @@ import type { InviteDto, InvitePreviewDto, MemberDto, StudioDto } from '../../..
 import type { Role } from '../../../shared/model/roles';
 import { AppError, conflict, notFound } from '../../core/app-error';
 import { hashToken, newToken } from '../../core/tokens';
-import type { Mailer } from '../../mail/mailer';
+import type { MailOutbox } from '../../mail/outbox';
 import { record } from '../activity/activity.model';
 import { Artwork } from '../artworks/artwork.model';
 import { User } from '../auth/user.model';
 import { Invite } from './invite.model';
 import { Membership } from './membership.model';
 import { Studio } from './studio.model';
+
+/** Refuses studio work to an account that has not proven its address (SECURITY.md 27). */
+function assertVerified(user: Express.User, what: string): void {
+  if (!user.emailVerified) {
+    throw new AppError(403, 'email_unverified', `Confirm your e-mail address before you ${what}: open the link we mailed you, or ask for a new one.`);
+  }
+}
 
 /** How long an invite link works. */
 export const INVITE_TTL_MS = 7 * 24 * 60 * 60 * 1000;
@@ -32,7 +39,7 @@ const inviteDto = (i: Invite): InviteDto => ({
 /** Studios, their members and invitations. */
 export class StudiosService {
   constructor(
-    private readonly mailer: Mailer,
+    private readonly outbox: MailOutbox,
     private readonly appUrl: string,
     /** Called after a studio is deleted, with what to clean up outside the database. */
     private readonly afterDelete: (studioId: string, artworkIds: string[]) => Promise<void> = async () => undefined,
@@ -45,7 +52,9 @@ export class StudiosService {
       .sort((a, b) => a.name.localeCompare(b.name));
   }
 
-  async create(userId: string, name: string): Promise<StudioDto> {
+  async create(user: Express.User, name: string): Promise<StudioDto> {
+    assertVerified(user, 'create a studio');
+    const userId = user.id;
     return Studio.sequelize!.transaction(async (transaction) => {
       const studio = await Studio.create({ name }, { transaction });
       await Membership.create({ studioId: studio.id, userId, role: 'owner' }, { transaction });
@@ -125,11 +134,18 @@ export class StudiosService {
     const { token, hash } = newToken();
     const invite = await Invite.create({ studioId, email, role, tokenHash: hash, invitedById: invitedBy.id, expiresAt: new Date(Date.now() + INVITE_TTL_MS) });
     const link = `${this.appUrl}/invites/${token}`;
-    await this.mailer.send({
-      to: email,
-      subject: `${invitedBy.displayName} invites you to ${studio.name} on Emberline`,
-      text: `Hello,\n\n${invitedBy.displayName} invites you to join the studio "${studio.name}" on Emberline as ${role}.\n\nOpen this link within 7 days to accept (sign in or create an account with ${email}):\n\n${link}\n`,
-    });
+    // Names typed by users are quoted as data, never in the subject (SECURITY.md 31).
+    const queued = await this.outbox.post(
+      'invite',
+      {
+        to: email,
+        subject: 'An invitation to a studio on Emberline',
+        text: `Hello,\n\nan Emberline user invites you to join a studio as ${role}.\n\n  Studio name (as written by its owner): «${studio.name}»\n  Invited by (as written by that user): «${invitedBy.displayName}»\n\nOpen this link within 7 days to accept (sign in or create an account with ${email}):\n\n${link}\n\nIf you do not know this studio, ignore this message.\n`,
+      },
+      invitedBy.id,
+    );
+    if (!queued) throw new AppError(429, 'mail_throttled', `${email} has received as many mails from Emberline as we send in an hour. Try again later.`);
+    await record(studioId, invitedBy.id, 'invite.sent', `invited ${email} as ${role}`);
     return inviteDto(invite);
   }
 
@@ -141,12 +157,14 @@ export class StudiosService {
   async previewInvite(token: string): Promise<InvitePreviewDto> {
     const invite = await Invite.findOne({ where: { tokenHash: hashToken(token) }, include: [{ model: Studio, as: 'studio' }] });
     if (!invite) throw notFound('The invite');
+    // Once accepted, the link shows nothing of the studio or the invitee.
+    if (invite.acceptedAt) return { accepted: true };
     return {
       studioName: invite.studio!.name,
       role: invite.role,
       email: invite.email,
       expired: invite.expiresAt.getTime() < Date.now(),
-      accepted: invite.acceptedAt != null,
+      accepted: false,
     };
   }
 
@@ -160,6 +178,8 @@ export class StudiosService {
       if (invite.email !== user.email) {
         throw new AppError(403, 'invite_other_email', `This invite is for ${invite.email}. Sign in with that e-mail to accept it.`);
       }
+      // The invite's link was mailed to this address: opening it proves the mailbox (SECURITY.md 27).
+      if (!user.emailVerified) await User.update({ emailVerifiedAt: new Date() }, { where: { id: user.id }, transaction });
       const existing = await Membership.findOne({ where: { studioId: invite.studioId, userId: user.id }, transaction });
       if (!existing) {
         await Membership.create({ studioId: invite.studioId, userId: user.id, role: invite.role }, { transaction });

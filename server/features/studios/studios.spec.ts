@@ -24,7 +24,7 @@ test('invite by e-mail → the invitee accepts from the mailed link and joins wi
   const sent = await owner.post(`/api/studios/${studioId}/invites`, { email, role: 'editor' });
   expect(sent.status).toBe(201);
   const mail = await h.mail.waitFor(email, 5000, since);
-  expect(mail.subject).toContain('Test Foundry');
+  expect(mail.text).toContain('«Test Foundry»');
   const token = mail.text.match(/\/invites\/([A-Za-z0-9_-]+)/)![1];
   const preview = await new TestClient(h.app).get(`/api/invites/${token}`);
   expect(preview.body.invite).toMatchObject({ studioName: 'Test Foundry', role: 'editor', email, expired: false, accepted: false });
@@ -34,6 +34,8 @@ test('invite by e-mail → the invitee accepts from the mailed link and joins wi
   expect(accepted.body.studio).toMatchObject({ id: studioId, role: 'editor' });
   expect((await Membership.findOne({ where: { studioId, userId: id } }))?.role).toBe('editor');
   expect((await invitee.post(`/api/invites/${token}/accept`)).status).toBe(410);
+  // Once accepted, the link shows nothing of the studio or the invitee (issue "Hardening", item 14).
+  expect((await new TestClient(h.app).get(`/api/invites/${token}`)).body.invite).toEqual({ accepted: true });
   const pending = await owner.get(`/api/studios/${studioId}/invites`);
   expect(pending.body.invites).toEqual([]);
 });

@@ -29,18 +29,35 @@ export class AuthStore {
     await this.refreshStudios();
   }
 
-  async signUp(displayName: string, email: string, password: string): Promise<void> {
-    const { user } = await firstValueFrom(this.http.post<{ user: UserDto }>('/api/auth/sign-up', { displayName, email, password }));
-    this.user.set(user);
+  /**
+   * Starts a sign-up. Returns the server's "check your inbox" message, or null when an invite
+   * token for this address let the account be created (and signed in) at once.
+   */
+  async signUp(displayName: string, email: string, password: string, inviteToken?: string): Promise<string | null> {
+    const body = { displayName, email, password, ...(inviteToken ? { inviteToken } : {}) };
+    const res = await firstValueFrom(this.http.post<{ user?: UserDto; message?: string }>('/api/auth/sign-up', body));
+    if (!res.user) return res.message ?? '';
+    this.user.set(res.user);
     this.studios.set([]);
+    return null;
+  }
+
+  /** Opens a mailed verification link: the account is created (or confirmed) and signed in. */
+  async verifyEmail(token: string): Promise<void> {
+    const { user } = await firstValueFrom(this.http.post<{ user: UserDto }>('/api/auth/verify-email', { token }));
+    this.user.set(user);
+    await this.refreshStudios();
+  }
+
+  /** Mails a new confirmation link to the signed-in account. */
+  async resendVerification(): Promise<string> {
+    return (await firstValueFrom(this.http.post<{ message: string }>('/api/auth/verify-email/resend', {}))).message;
   }
 
   async signOut(): Promise<void> {
     await firstValueFrom(this.http.post('/api/auth/sign-out', {}));
     this.user.set(null);
     this.studios.set([]);
-    // A fresh anonymous session gets a new XSRF cookie on the next GET.
-    await firstValueFrom(this.http.get('/api/health'));
   }
 
   async refreshStudios(): Promise<StudioDto[]> {

@@ -1,7 +1,8 @@
-import { ChangeDetectionStrategy, Component, inject, input } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { Router, RouterLink } from '@angular/router';
 import { FormAction } from '../../core/form-action';
@@ -10,10 +11,13 @@ import { AccountFrame } from './account-frame';
 import { safeNext } from './safe-next';
 import { passwordLength } from './password-length';
 
-/** Create an account; the new user is signed in and lands on the studio list. */
+/**
+ * Create an account. The address is proven by a mailed link before the account exists; arriving
+ * from an invite link (next=/invites/<token>) proves it already, so the account is made at once.
+ */
 @Component({
   selector: 'em-sign-up',
-  imports: [AccountFrame, ReactiveFormsModule, RouterLink, MatButtonModule, MatFormFieldModule, MatInputModule],
+  imports: [AccountFrame, ReactiveFormsModule, RouterLink, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule],
   templateUrl: './sign-up.html',
   styleUrl: './account-form.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -31,12 +35,26 @@ export class SignUp {
     password: ['', [Validators.required, passwordLength]],
   });
   protected readonly submit = new FormAction();
+  /** The "check your inbox" message once the sign-up is sent. */
+  protected readonly sent = signal('');
+  protected readonly sentTo = signal('');
+  private readonly inviteToken = computed(() => this.next()?.match(/^\/invites\/([A-Za-z0-9_-]{20,100})$/)?.[1]);
 
   protected createAccount(): Promise<void> {
     return this.submit.run(this.form, async () => {
       const { displayName, email, password } = this.form.getRawValue();
-      await this.auth.signUp(displayName, email, password);
-      await this.router.navigateByUrl(safeNext(this.next(), '/studios'));
+      const message = await this.auth.signUp(displayName, email, password, this.inviteToken());
+      if (message === null) {
+        await this.router.navigateByUrl(safeNext(this.next(), '/studios'));
+        return;
+      }
+      this.sentTo.set(email.trim().toLowerCase());
+      this.sent.set(message);
     });
+  }
+
+  protected startOver(): void {
+    this.sent.set('');
+    this.form.controls.password.reset('');
   }
 }

@@ -1,5 +1,5 @@
-import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
-import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { FormBuilder, FormControl, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
@@ -24,6 +24,8 @@ export class StudioList {
 
   protected readonly form = inject(FormBuilder).nonNullable.group({ name: ['', [Validators.required, Validators.maxLength(80)]] });
   protected readonly submit = new FormAction();
+  protected readonly resend = new FormAction();
+  protected readonly resent = signal('');
 
   constructor() {
     void this.auth.refreshStudios();
@@ -35,6 +37,11 @@ export class StudioList {
       await this.auth.refreshStudios();
       await this.router.navigate(['/studios', studio.id, 'bench']);
     });
+  }
+
+  protected resendLink(): Promise<void> {
+    // A button without fields: an always-valid control stands in for the form.
+    return this.resend.run(new FormControl(null), async () => this.resent.set(await this.auth.resendVerification()));
   }
 
   protected async signOut(): Promise<void> {

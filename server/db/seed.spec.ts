@@ -1,0 +1,32 @@
+import { Membership } from '../features/studios/membership.model';
+import { Studio } from '../features/studios/studio.model';
+import { createHarness, TestClient, type Harness } from '../testing/harness';
+import { DEMO_ACCOUNTS, DEMO_MARKER, DEMO_STUDIO, DEMO_STUDIO_ID, seedDemo } from './seed';
+
+/** The demo seed runs once, by stable ids, and never changes who belongs where (issue "Hardening", item 8; SECURITY.md 34). */
+let h: Harness;
+beforeAll(async () => {
+  h = await createHarness();
+});
+afterAll(() => h.close());
+
+test('seeded once; a removed viewer stays removed; a look-alike studio gets no demo members', async () => {
+  await seedDemo(h.sequelize);
+  const members = async (studioId: string) => (await Membership.findAll({ where: { studioId } })).map((m) => m.userId).sort();
+  expect(await members(DEMO_STUDIO_ID)).toEqual(DEMO_ACCOUNTS.map((a) => a.id).sort());
+
+  // The owner removes the viewer; someone else makes a studio with the demo studio's name.
+  const viewer = DEMO_ACCOUNTS.find((a) => a.role === 'viewer')!;
+  await Membership.destroy({ where: { studioId: DEMO_STUDIO_ID, userId: viewer.id } });
+  const stranger = new TestClient(h.app);
+  const { id: strangerId } = await stranger.signUp();
+  const lookAlike = (await stranger.post('/api/studios', { name: DEMO_STUDIO })).body.studio.id;
+
+  // A restart seeds again: nothing changes.
+  expect(await seedDemo(h.sequelize)).toBe(false);
+  expect(await members(DEMO_STUDIO_ID)).not.toContain(viewer.id);
+  expect(await members(lookAlike)).toEqual([strangerId]);
+  expect(await Studio.count({ where: { id: DEMO_STUDIO_ID } })).toBe(1);
+  const [markers] = await h.sequelize.query('SELECT name FROM seed_markers WHERE name = $1', { bind: [DEMO_MARKER] });
+  expect(markers).toHaveLength(1);
+});
