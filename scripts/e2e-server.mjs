@@ -1,8 +1,9 @@
 #!/usr/bin/env node
 // The server the browser tests run against: its own database (recreated each run), mail
 // catcher and port, over the production build in dist/ (scripts/test.mjs builds it).
-import { spawn, spawnSync } from 'node:child_process';
+import { spawnSync } from 'node:child_process';
 import { pgPort, start as startDb } from './db.mjs';
+import { supervise, tsNode } from './supervise.mjs';
 
 const port = process.env.E2E_PORT ?? '4310';
 const smtpPort = process.env.E2E_SMTP_PORT ?? '1035';
@@ -13,11 +14,7 @@ spawnSync('psql', ['-h', '127.0.0.1', '-p', String(pgPort), '-U', 'emberline', '
 startDb(['emberline_e2e']);
 
 const env = { ...process.env, NODE_ENV: 'test', PORT: port, SMTP_PORT: smtpPort, MAIL_UI_PORT: mailUiPort, DB_NAME: 'emberline_e2e', SEED_DEMO: '1', APP_URL: `http://127.0.0.1:${port}` };
-const children = [
-  spawn('npx', ['tsx', 'server/mail/catcher.ts'], { stdio: 'inherit', env }),
-  spawn('npx', ['tsx', 'server/main.ts'], { stdio: 'inherit', env }),
-];
-const stop = () => children.forEach((c) => c.kill('SIGTERM'));
-process.on('SIGINT', stop);
-process.on('SIGTERM', stop);
-for (const child of children) child.on('exit', stop);
+supervise([
+  { name: 'mail catcher', ...tsNode('server/mail/catcher.ts'), env },
+  { name: 'server', ...tsNode('server/main.ts'), env },
+]);

@@ -1,14 +1,16 @@
 #!/usr/bin/env node
 // `npm start`: database, mail catcher, a production build of the web app, then the server with
-// the demo data. Everything listens on 127.0.0.1 only.
-import { spawn, spawnSync } from 'node:child_process';
+// the demo data. Everything listens on 127.0.0.1 only. The server is restarted if it dies; if
+// the mail catcher dies, everything stops and says which.
+import { spawnSync } from 'node:child_process';
 import { start as startDb } from './db.mjs';
+import { supervise, tsNode } from './supervise.mjs';
 
 const port = process.env.PORT ?? '4300';
 const smtpPort = process.env.SMTP_PORT ?? '1025';
 const mailUiPort = process.env.MAIL_UI_PORT ?? '1080';
 
-startDb(['emberline']);
+startDb([process.env.DB_NAME ?? 'emberline']);
 
 if (process.env.SKIP_BUILD !== '1') {
   console.log('[start] building the web app…');
@@ -17,13 +19,8 @@ if (process.env.SKIP_BUILD !== '1') {
 }
 
 const env = { ...process.env, PORT: port, SMTP_PORT: smtpPort, MAIL_UI_PORT: mailUiPort, SEED_DEMO: '1' };
-const children = [
-  spawn('npx', ['tsx', 'server/mail/catcher.ts'], { stdio: 'inherit', env }),
-  spawn('npx', ['tsx', 'server/main.ts'], { stdio: 'inherit', env }),
-];
+supervise([
+  { name: 'mail catcher', ...tsNode('server/mail/catcher.ts'), env },
+  { name: 'server', ...tsNode('server/main.ts'), env, restart: true },
+]);
 console.log(`[start] open http://127.0.0.1:${port}/ — demo accounts and password are in README.md; mail inbox at http://127.0.0.1:${mailUiPort}/`);
-
-const stop = () => children.forEach((c) => c.kill('SIGTERM'));
-process.on('SIGINT', stop);
-process.on('SIGTERM', stop);
-for (const child of children) child.on('exit', (code) => { stop(); process.exitCode = code ?? 0; });

@@ -1,12 +1,12 @@
 #!/usr/bin/env node
 // `npm test`: everything, starting what it needs. PostgreSQL (installed from Debian's packages
-// when missing) with a fresh test database, the jest projects, a production build, then the
+// when missing) with a fresh test database, the jest projects, the reliability drills, a production build, then the
 // Playwright browser tests in Debian's chromium (installed when missing).
 import { execFileSync, spawnSync } from 'node:child_process';
 import { existsSync } from 'node:fs';
 import { pgPort, start as startDb, stop as stopDb } from './db.mjs';
 
-const only = process.argv[2]; // optional: "unit" or "e2e"
+const only = process.argv[2]; // optional: "unit", "reliability" or "e2e"
 // Stop the database afterwards only if this run started it.
 const startedDb = startDb(['postgres']);
 const finish = (code) => {
@@ -20,13 +20,16 @@ const run = (cmd, args, env = {}) => {
 
 const psql = (sql) => spawnSync('psql', ['-h', '127.0.0.1', '-p', String(pgPort), '-U', 'emberline', '-d', 'postgres', '-qc', sql], { stdio: 'inherit' });
 
-if (only !== 'e2e') {
+if (!only || only === 'unit') {
   psql('DROP DATABASE IF EXISTS emberline_test WITH (FORCE)');
   startDb(['emberline_test']);
   run('npx', ['jest', '--ci'], { DB_NAME: 'emberline_test', NODE_ENV: 'test' });
 }
 
-if (only !== 'unit') {
+// Hostile uploads, kill -9 and a PostgreSQL outage against real server processes: alone, in band.
+if (!only || only === 'reliability') run('npx', ['jest', '--ci', '-c', 'jest.reliability.config.js'], { NODE_ENV: 'test' });
+
+if (!only || only === 'e2e') {
   const chromium = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
   if (!existsSync(chromium)) {
     console.log('[test] installing Debian\'s chromium package for the browser tests…');

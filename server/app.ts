@@ -44,7 +44,7 @@ export interface AppDeps {
 }
 
 /** The Express app with every route; `listen` is the caller's business (server/main.ts, tests). */
-export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; artworks: ArtworksService } {
+export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; artworks: ArtworksService; renderStore: RenderStore } {
   const { config, sequelize, mailer } = deps;
   const app = express();
   app.disable('x-powered-by');
@@ -82,7 +82,7 @@ export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; art
 
   serveSpa(app, config.staticDir);
   app.use(errorHandler);
-  return Object.assign(app, { apiSpecs: routers.flatMap((r) => r.specs), artworks });
+  return Object.assign(app, { apiSpecs: routers.flatMap((r) => r.specs), artworks, renderStore });
 }
 
 /** Serves the built Angular app with a per-request CSP nonce in index.html. */

@@ -6,6 +6,7 @@ import { createSequelize } from './db/connection';
 import { migrate } from './db/migrate';
 import { initModels } from './db/models';
 import { seedDemo } from './db/seed';
+import { reconcileRenders } from './features/renders/renders.service';
 import { Mailer } from './mail/mailer';
 
 /** Running server handles, for a clean shutdown. */
@@ -37,6 +38,8 @@ export async function start(config: Config = loadConfig()): Promise<Running> {
   if (process.env.SEED_DEMO === '1' && (await seedDemo(sequelize, app.artworks))) console.log('[seed] demo studio Kiln & Quartz created');
   const orphans = await app.artworks.reconcile();
   if (orphans) console.log(`[storage] removed ${orphans} artwork folder(s) left without a database row`);
+  const staleRenders = await reconcileRenders(app.renderStore);
+  if (staleRenders) console.log(`[storage] removed ${staleRenders} render file(s) left without a database row`);
   const host = process.env.HOST ?? '127.0.0.1';
   const server = await new Promise<Server>((resolve) => {
     const s = app.listen(config.port, host, () => resolve(s));

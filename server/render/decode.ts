@@ -48,6 +48,10 @@ export async function decodeImage(bytes: Buffer, limits = IMAGE_LIMITS, sheet?: 
   if (bytes.length > limits.maxBytes) throw new AppError(413, 'file_too_large', `The file is ${bytes.length} bytes; the limit is ${limits.maxBytes} bytes.`);
   const type = sniffImageType(bytes);
   if (!type) throw refuse('unsupported_type', 'The file is not a PNG, GIF, JPEG or WebP image (checked by its content, not its name).');
+  // libvips shows a cut-off GIF as far as it got; the format's trailer byte (0x3B) tells.
+  if (type === 'gif' && bytes[bytes.length - 1] !== 0x3b) {
+    throw refuse('unreadable_image', 'The GIF file ends early (its trailer is missing): it is truncated. Export it again.');
+  }
   let meta: Metadata;
   try {
     // The header alone: no pixels are decoded here, so the limits below are checked first.

@@ -1,5 +1,5 @@
-import { createHash } from 'node:crypto';
-import { access, mkdir, readFile, rename, writeFile } from 'node:fs/promises';
+import { createHash, randomBytes } from 'node:crypto';
+import { access, mkdir, readdir, readFile, rename, rm, writeFile } from 'node:fs/promises';
 import path from 'node:path';
 import type { PanelParams } from '../../shared/model/parameters';
 import { outputUniforms } from '../../shared/pipeline/output/uniforms';
@@ -63,9 +63,21 @@ export class RenderStore {
   async write(key: string, png: Buffer): Promise<void> {
     const file = this.fileOf(key);
     await mkdir(path.dirname(file), { recursive: true });
-    const tmp = `${file}.${process.pid}.${Date.now()}.tmp`;
+    // A random suffix: two writers of one key in the same millisecond must not share a temp file.
+    const tmp = `${file}.${randomBytes(8).toString('hex')}.tmp`;
     await writeFile(tmp, png);
     await rename(tmp, file);
+  }
+
+  /** Removes temp files and render files whose key `isKnown` does not list (after a crash); returns how many. */
+  async reconcile(isKnown: (keys: string[]) => Promise<Set<string>>): Promise<number> {
+    const dir = path.join(this.dir, 'renders');
+    const names = await readdir(dir).catch(() => [] as string[]);
+    const keys = names.filter((n) => /^[0-9a-f]{64}\.png$/.test(n)).map((n) => n.slice(0, 64));
+    const known = await isKnown(keys);
+    const stale = names.filter((n) => n.endsWith('.tmp') || (/^[0-9a-f]{64}\.png$/.test(n) && !known.has(n.slice(0, 64))));
+    for (const n of stale) await rm(path.join(dir, n), { force: true });
+    return stale.length;
   }
 
   async exists(key: string): Promise<boolean> {

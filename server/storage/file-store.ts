@@ -1,5 +1,6 @@
 import { mkdir, readdir, readFile, rename, rm, writeFile, access } from 'node:fs/promises';
 import path from 'node:path';
+import { randomBytes } from 'node:crypto';
 
 /**
  * Files outside the web root under generated names (ids and fixed names only, never a name a
@@ -16,7 +17,7 @@ export class FileStore {
   async write(folder: string, id: string, name: string, bytes: Buffer): Promise<void> {
     const target = this.file(folder, id, name);
     await mkdir(path.dirname(target), { recursive: true });
-    const tmp = `${target}.${process.pid}.${Date.now()}.tmp`;
+    const tmp = `${target}.${randomBytes(8).toString('hex')}.tmp`;
     await writeFile(tmp, bytes);
     await rename(tmp, target);
   }

@@ -40,3 +40,8 @@ export async function cachedRender(store: RenderStore, request: RenderRequest, u
   return { key, url: `/api/renders/${key}`, width: row.width, height: row.height, cached };
 }
 
+
+/** Removes render files left without a row (a crash between file and row) and stray temp files. */
+export function reconcileRenders(store: RenderStore): Promise<number> {
+  return store.reconcile(async (keys) => new Set(keys.length ? (await Render.findAll({ attributes: ['key'], where: { key: keys } })).map((r) => r.key) : []));
+}
