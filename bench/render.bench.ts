@@ -5,7 +5,8 @@ import { builtInPresetById } from '../shared/model/panel-types';
 import { mergeParams, type PanelParams } from '../shared/model/parameters';
 import { decodeImage } from '../server/render/decode';
 import { encodePng } from '../server/render/encode';
-import { renderReference } from '../server/render/reference-renderer';
+import { RenderEngine, type RenderRequest } from '../server/render/render-engine';
+import { renderCpu } from '../shared/pipeline/render';
 import { panelEmission, panelGlow } from '../shared/pipeline/render';
 import { compose } from '../shared/pipeline/output/compose';
 import { outputUniforms } from '../shared/pipeline/output/uniforms';
@@ -34,9 +35,22 @@ async function main() {
   const base = builtInPresetById('el-amber-640x480.standard')!.parameters;
   const withGlow = (mm: number): PanelParams => mergeParams(base, { glass: { glowRadiusMm: mm } });
   const scale = 3;
-  const renderMs = await time(() => renderReference({ input, parameters: base, scale, frame: 0 }));
-  const small = await time(() => renderReference({ input, parameters: withGlow(0.2), scale, frame: 0 }));
-  const large = await time(() => renderReference({ input, parameters: withGlow(5), scale, frame: 0 }));
+  // Single thread: decode, the whole CPU pipeline and PNG encode on this thread.
+  const singleThread = async (parameters: PanelParams) => encodePng(renderCpu((await decodeImage(input)).frames, parameters, { scale }));
+  const renderMs = await time(() => singleThread(base));
+  const small = await time(() => singleThread(withGlow(0.2)));
+  const large = await time(() => singleThread(withGlow(5)));
+
+  // The server's engine: worker threads, output rows split in bands across them (decoded frames cached).
+  const engine = new RenderEngine();
+  const request = (p: PanelParams): RenderRequest => ({ input, parameters: p, scale, frame: 0 });
+  const parallelRenderMs = await time(() => engine.render(request(base)));
+  const inFlight = 8;
+  const batches = 3;
+  const started = performance.now();
+  for (let b = 0; b < batches; b++) await Promise.all(Array.from({ length: inFlight }, (_, i) => engine.render(request(mergeParams(base, { viewing: { exposureEv: (b * inFlight + i) / 100 } })))));
+  const throughputPerS = (inFlight * batches) / ((performance.now() - started) / 1000);
+  await engine.close();
 
   // Stage split of one render.
   const frames = (await decodeImage(input)).frames;
@@ -56,7 +70,8 @@ async function main() {
   const sharpBaselineMs = await time(() => sharp(raw, { raw: { width: u.width, height: u.height, channels: 4 } }).blur(sigmaPx).png({ compressionLevel: 2, adaptiveFiltering: false }).toBuffer());
 
   const rows: [string, number][] = [
-    ['full render, 640×480 → 1920×1440 PNG', renderMs],
+    ['full render, 640×480 → 1920×1440 PNG, one thread', renderMs],
+    [`full render on the pool (${engine.threads} threads, row bands)`, parallelRenderMs],
     ['  decode input', decodeMs],
     ['  panel stages (fit, tone, levels, row loading)', panelMs],
     ['  glow field', glowMs],
@@ -69,8 +84,11 @@ async function main() {
   console.log(`median of ${RUNS} runs, ${process.version}, ${(await import('node:os')).cpus().length} cores`);
   console.log('| step | ms |\n| --- | ---: |');
   for (const [name, ms] of rows) console.log(`| ${name} | ${ms.toFixed(1)} |`);
+  console.log(`| renders per second, ${inFlight} in flight on the pool | ${throughputPerS.toFixed(2)} /s |`);
   const figures = {
     renderMs: +renderMs.toFixed(1),
+    parallelRenderMs: +parallelRenderMs.toFixed(1),
+    throughputPerS: +throughputPerS.toFixed(2),
     radiusRatio: +(large / small).toFixed(3),
     sharpBaselineMs: +sharpBaselineMs.toFixed(1),
     ratioToSharp: +(renderMs / sharpBaselineMs).toFixed(3),

@@ -25,7 +25,9 @@ import { openApiDocument } from './features/docs/openapi';
 import { healthRoutes } from './features/health/health.routes';
 import { panelTypesRoutes } from './features/panel-types/panel-types.routes';
 import { rendersRoutes } from './features/renders/renders.routes';
-import { RenderStore } from './render/reference-renderer';
+import { RenderEngine } from './render/render-engine';
+import { RendersService } from './features/renders/renders.service';
+import { RenderStore } from './storage/render-store';
 import { timingsRoutes } from './features/timings/timings.routes';
 import { TimingsService } from './features/timings/timings.service';
 import { inviteLinkRoutes, studiosRoutes } from './features/studios/studios.routes';
@@ -41,10 +43,12 @@ export interface AppDeps {
   /** pg pool for the session store. */
   sessionPool: Pool;
   mailer: Mailer;
+  /** The render pool; one is made (and owned by the caller through app.renderEngine) when absent. */
+  renderEngine?: RenderEngine;
 }
 
 /** The Express app with every route; `listen` is the caller's business (server/main.ts, tests). */
-export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; artworks: ArtworksService; renderStore: RenderStore } {
+export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; artworks: ArtworksService; renders: RendersService; renderEngine: RenderEngine } {
   const { config, sequelize, mailer } = deps;
   const app = express();
   app.disable('x-powered-by');
@@ -66,11 +70,12 @@ export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; art
   app.use(absoluteLifetime);
   app.use(csrfProtection);
 
-  const renderStore = new RenderStore(config.storageDir);
-  const artworks = new ArtworksService(new FileStore(config.storageDir));
+  const renderEngine = deps.renderEngine ?? new RenderEngine();
+  const renders = new RendersService(new RenderStore(config.storageDir), renderEngine, sequelize, config.studioRenderBudgetBytes);
+  const artworks = new ArtworksService(new FileStore(config.storageDir), (bytes, sheet) => renderEngine.decodedFrames(bytes, sheet));
   const presets = new PresetsService();
-  const studios = new StudiosService(outbox, config.appUrl, (_studioId, artworkIds) => artworks.removeFiles(artworkIds));
-  const routers: ApiRouter[] = [health, authRoutes(auth, passport), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renderStore), timingsRoutes(new TimingsService()), artworksRoutes(artworks, renderStore), presetsRoutes(presets, config.appUrl), shareRoutes(presets, artworks), activityRoutes()];
+  const studios = new StudiosService(outbox, config.appUrl, (_studioId, artworkIds) => artworks.removeFiles(artworkIds), (studioId) => renders.removeFor({ studioId }));
+  const routers: ApiRouter[] = [health, authRoutes(auth, passport), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renders), timingsRoutes(new TimingsService()), artworksRoutes(artworks, renders), presetsRoutes(presets, config.appUrl), shareRoutes(presets, artworks), activityRoutes()];
   const docs = new ApiRouter('/docs', 'Service');
   const specs = routers.flatMap((r) => r.specs);
   docs.route('get', '/', { policy: publicAccess, summary: 'This OpenAPI document' }, (_req, res) => {
@@ -82,7 +87,7 @@ export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; art
 
   serveSpa(app, config.staticDir);
   app.use(errorHandler);
-  return Object.assign(app, { apiSpecs: routers.flatMap((r) => r.specs), artworks, renderStore });
+  return Object.assign(app, { apiSpecs: routers.flatMap((r) => r.specs), artworks, renders, renderEngine });
 }
 
 /** Serves the built Angular app with a per-request CSP nonce in index.html. */

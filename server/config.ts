@@ -11,6 +11,8 @@ export interface Config {
   staticDir: string;
   /** Folder for uploaded originals, thumbnails and renders (outside the web root), one per database. */
   storageDir: string;
+  /** Most bytes of stored renders one studio keeps; the least recently used go first. */
+  studioRenderBudgetBytes: number;
 }
 
 function num(name: string, fallback: number): number {
@@ -49,5 +51,6 @@ export function loadConfig(): Config {
     staticDir: process.env.STATIC_DIR ?? 'dist/emberline/browser',
     // One storage folder per database: start-up reconciliation must never see another database's files.
     storageDir: process.env.STORAGE_DIR ?? `.data/storage/${database}`,
+    studioRenderBudgetBytes: num('STUDIO_RENDER_BUDGET_MB', 2048) * 1024 * 1024,
   };
 }

@@ -6,7 +6,6 @@ import { createSequelize } from './db/connection';
 import { migrate } from './db/migrate';
 import { initModels } from './db/models';
 import { seedDemo } from './db/seed';
-import { reconcileRenders } from './features/renders/renders.service';
 import { Mailer } from './mail/mailer';
 
 /** Running server handles, for a clean shutdown. */
@@ -38,7 +37,7 @@ export async function start(config: Config = loadConfig()): Promise<Running> {
   if (process.env.SEED_DEMO === '1' && (await seedDemo(sequelize, app.artworks))) console.log('[seed] demo studio Kiln & Quartz created');
   const orphans = await app.artworks.reconcile();
   if (orphans) console.log(`[storage] removed ${orphans} artwork folder(s) left without a database row`);
-  const staleRenders = await reconcileRenders(app.renderStore);
+  const staleRenders = await app.renders.reconcile();
   if (staleRenders) console.log(`[storage] removed ${staleRenders} render file(s) left without a database row`);
   const host = process.env.HOST ?? '127.0.0.1';
   const server = await new Promise<Server>((resolve) => {
@@ -49,6 +48,7 @@ export async function start(config: Config = loadConfig()): Promise<Running> {
     await new Promise<void>((resolve) => server.close(() => resolve()));
     mailer.close();
     await sessionPool.end();
+    await app.renderEngine.close();
     await sequelize.close();
   };
   for (const signal of ['SIGINT', 'SIGTERM'] as const) {

@@ -9,7 +9,7 @@ import { resolveTiming, STANDARDS, type Standard } from '../../shared/drive/reso
 import { figures } from '../../shared/drive/timing';
 import { AppError } from '../core/app-error';
 import { issuesOf } from '../core/validate';
-import { renderReference } from '../render/reference-renderer';
+import { RenderEngine } from '../render/render-engine';
 
 /** A usage error: printed with the usage line, exit code 2. */
 class UsageError extends Error {}
@@ -57,7 +57,10 @@ async function render(args: string[]): Promise<void> {
     throw new UsageError(`cannot read ${positionals[0]}`);
   });
   const started = performance.now();
-  const { png, width, height } = await renderReference({ input, parameters, scale: number(values.scale, 'scale', 1, 8, true), frame: number(values.frame, 'frame', 0, 100000, true) });
+  const request = { input, parameters, scale: number(values.scale, 'scale', 1, 8, true), frame: number(values.frame, 'frame', 0, 100000, true) };
+  // The same engine as the server: worker threads, one band of output rows per core.
+  const engine = new RenderEngine();
+  const { png, width, height } = await engine.render(request).finally(() => engine.close());
   await writeFile(values.out, png);
   console.error(`wrote ${values.out}: ${width} × ${height} in ${Math.round(performance.now() - started)} ms`);
 }

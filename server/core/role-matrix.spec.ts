@@ -25,6 +25,8 @@ interface Cell {
   linkId: string;
   shareToken: string;
   otherStudioId: string;
+  /** A stored render of the world's artwork (made only for the rows that read one). */
+  studioRenderKey: string;
 }
 interface Row {
   method: 'get' | 'post' | 'patch' | 'delete';
@@ -137,7 +139,9 @@ const ROWS: Row[] = [
     upload: () => ({ fields: { presetId: 'el-amber-640x480.standard', patch: JSON.stringify({ cell: { cols: 8, rows: 8 } }), scale: '1' }, file: { name: 'a.png', bytes: pngOf(4, 4, () => [Math.floor(Math.random() * 256), 0, 0, 255]) } }),
     expect: [201, 201, 201, 201, 401],
   },
-  { method: 'get', path: '/api/renders/:key', url: () => `/api/renders/${renderKey}`, expect: [200, 200, 200, 200, 401] },
+  // A render of an uploaded file belongs to whoever asked for it (here: "other"); everyone else sees 404.
+  { method: 'get', path: '/api/renders/:key', url: () => `/api/renders/${renderKey}`, expect: [404, 404, 404, 200, 401] },
+  { method: 'get', path: '/api/studios/:studioId/renders/:key', url: (c) => `${S(c)}/renders/${c.studioRenderKey}`, expect: [200, 200, 200, 404, 401] },
   {
     method: 'post',
     path: '/api/invites/:token/accept',
@@ -190,7 +194,10 @@ test('deny by default: every route in the Express router starts with a policy mi
 describe.each(ROWS)('$method $path', (row) => {
   test.each(ACTORS.map((actor, i) => [actor, row.expect[i]] as const))('%s → %i', async (actor, expected) => {
     const world = await createStudioWorld(users, h.app.artworks);
-    const cell: Cell = { studioId: world.studio.id, users, actor, inviteId: world.invite.id, inviteToken: world.inviteToken, timingId: world.timing.id, artworkId: world.artworkId, presetId: world.presetId, linkId: world.linkId, shareToken: world.shareToken, otherStudioId: world.studio.id };
+    const studioRenderKey = row.path.endsWith('/renders/:key') && row.path.startsWith('/api/studios')
+      ? (await h.app.renders.render({ studioId: world.studio.id, artworkId: world.artworkId, userId: users.owner.id }, { input: await h.app.artworks.original(world.artworkId), parameters: BUILT_IN_PRESETS[0].parameters, scale: 1, frame: 0 })).key
+      : '';
+    const cell: Cell = { studioId: world.studio.id, users, actor, inviteId: world.invite.id, inviteToken: world.inviteToken, timingId: world.timing.id, artworkId: world.artworkId, presetId: world.presetId, linkId: world.linkId, shareToken: world.shareToken, otherStudioId: world.studio.id, studioRenderKey };
     const client = new TestClient(h.app);
     if (actor !== 'anonymous') {
       const signIn = await client.post('/api/auth/sign-in', { email: users[actor].email, password: WORLD_PASSWORD });

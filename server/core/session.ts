@@ -21,10 +21,30 @@ export function sessionMiddleware(pool: Pool, secret: string, production: boolea
   });
 }
 
-/** connect-pg-simple's store on the sessions table; it prunes expired rows every 15 minutes (SECURITY.md 35). */
+/** A session's stored expiry is pushed forward at most this often (the cookie's on every answer). */
+export const TOUCH_EVERY_MS = 60_000;
+
+/**
+ * connect-pg-simple's store on the sessions table; it prunes expired rows every 15 minutes
+ * (SECURITY.md 35). With a rolling idle timeout every signed-in request would otherwise write (and
+ * flush) an UPDATE: the stored expiry moves at most once a minute, so the 30-minute idle timeout
+ * holds to within that minute.
+ */
 export function sessionStore(pool: Pool, prune = true): InstanceType<ReturnType<typeof connectPgSimple>> {
   const PgStore = connectPgSimple(session);
-  return new PgStore({ pool, tableName: 'sessions', createTableIfMissing: false, pruneSessionInterval: prune ? 15 * 60 : false });
+  const store = new PgStore({ pool, tableName: 'sessions', createTableIfMissing: false, pruneSessionInterval: prune ? 15 * 60 : false });
+  const touched = new Map<string, number>();
+  const touch = store.touch.bind(store);
+  store.touch = (sid, sess, done) => {
+    const now = Date.now();
+    if ((touched.get(sid) ?? 0) > now - TOUCH_EVERY_MS) return done?.();
+    touched.delete(sid);
+    touched.set(sid, now);
+    // Oldest first in a Map: keep the memory bounded.
+    if (touched.size > 50_000) touched.delete(touched.keys().next().value!);
+    touch(sid, sess, done);
+  };
+  return store;
 }
 
 /** Ends sessions older than the absolute lifetime, whatever their activity. */

@@ -11,7 +11,11 @@ beforeAll(async () => {
 afterAll(() => h.close());
 
 test('seeded once; a removed viewer stays removed; a look-alike studio gets no demo members', async () => {
-  await seedDemo(h.sequelize);
+  // This test owns the demo ids in the test database: start from none of them.
+  await h.sequelize.query('DELETE FROM seed_markers WHERE name = $1', { bind: [DEMO_MARKER] });
+  await h.sequelize.query('DELETE FROM studios WHERE id = $1', { bind: [DEMO_STUDIO_ID] });
+  await h.sequelize.query('DELETE FROM users WHERE id IN ($1, $2, $3)', { bind: DEMO_ACCOUNTS.map((a) => a.id) });
+  expect(await seedDemo(h.sequelize)).toBe(true);
   const members = async (studioId: string) => (await Membership.findAll({ where: { studioId } })).map((m) => m.userId).sort();
   expect(await members(DEMO_STUDIO_ID)).toEqual(DEMO_ACCOUNTS.map((a) => a.id).sort());
 

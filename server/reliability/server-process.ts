@@ -16,7 +16,7 @@ export interface ServerProcess {
 const ROOT = path.resolve(__dirname, '../..');
 
 /** Starts `server/main.ts` with node --import tsx and waits until /api/health answers. */
-export async function startServer(options: { port: number; database: string; storageDir: string; seed?: boolean; env?: NodeJS.ProcessEnv }): Promise<ServerProcess> {
+export async function startServer(options: { port: number; database: string; storageDir: string; seed?: boolean; env?: NodeJS.ProcessEnv; nodeArgs?: string[] }): Promise<ServerProcess> {
   const env = {
     ...process.env,
     NODE_ENV: 'test',
@@ -32,7 +32,7 @@ export async function startServer(options: { port: number; database: string; sto
   const url = `http://127.0.0.1:${options.port}`;
   // A server left over from an interrupted run would answer in our place: refuse to start beside it.
   if (await fetch(`${url}/api/health`).then(() => true, () => false)) throw new Error(`port ${options.port} is taken by another process; stop it first`);
-  const child = spawn(process.execPath, ['--import', 'tsx', 'server/main.ts'], { cwd: ROOT, env, stdio: ['ignore', 'pipe', 'pipe'] });
+  const child = spawn(process.execPath, [...(options.nodeArgs ?? []), '--import', 'tsx', 'server/main.ts'], { cwd: ROOT, env, stdio: ['ignore', 'pipe', 'pipe'] });
   let output = '';
   child.stdout!.on('data', (d) => (output += d));
   child.stderr!.on('data', (d) => (output += d));
@@ -105,7 +105,8 @@ export class ApiSession {
     return this.send('POST', urlPath, form);
   }
 
-  private cookieHeader(): string {
+  /** The Cookie header of this session, for tools that send their own requests. */
+  cookieHeader(): string {
     return [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; ');
   }
 }

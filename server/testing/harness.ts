@@ -10,6 +10,7 @@ import { createSequelize } from '../db/connection';
 import { initModels } from '../db/models';
 import { MailCatcher } from '../mail/catcher';
 import { Mailer } from '../mail/mailer';
+import { RenderEngine } from '../render/render-engine';
 
 /** A real app on the test database with a real SMTP catcher; one per spec file. */
 export interface Harness {
@@ -37,7 +38,9 @@ export async function createHarness(overrides: Partial<Config> = {}): Promise<Ha
   const sessionPool = new Pool({ host: config.db.host, port: config.db.port, database: config.db.database, user: config.db.user, max: 3 });
   sessionPool.on('error', () => undefined);
   const mailer = new Mailer(config.smtp);
-  const deps = { config, sequelize, sessionPool, mailer };
+  // One pool for the spec file, shared by restartedApp(): two small threads keep parallel spec files light.
+  const renderEngine = new RenderEngine({ threads: 2 });
+  const deps = { config, sequelize, sessionPool, mailer, renderEngine };
   const app = createApp(deps);
   return {
     app,
@@ -47,6 +50,7 @@ export async function createHarness(overrides: Partial<Config> = {}): Promise<Ha
     restartedApp: () => createApp(deps),
     async close() {
       mailer.close();
+      await renderEngine.close();
       await mail.stop();
       await sessionPool.end();
       await sequelize.close();

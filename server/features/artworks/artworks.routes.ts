@@ -4,16 +4,15 @@ import { ApiRouter } from '../../core/api-router';
 import { AppError } from '../../core/app-error';
 import { idParam, studioRole } from '../../core/policy';
 import { parseOrThrow } from '../../core/validate';
-import type { RenderStore } from '../../render/reference-renderer';
 import { uploadOne } from '../../core/upload';
-import { cachedRender, resolveParameters } from '../renders/renders.service';
+import { resolveParameters, type RendersService } from '../renders/renders.service';
 import { artworkDto, type ArtworksService } from './artworks.service';
 
 const png = { 'Content-Type': 'image/png', 'X-Content-Type-Options': 'nosniff' };
 const MIME = { png: 'image/png', gif: 'image/gif', jpeg: 'image/jpeg', webp: 'image/webp' } as const;
 
 /** /api/studios/:studioId/artworks and studio renders. */
-export function artworksRoutes(artworks: ArtworksService, renders: RenderStore): ApiRouter {
+export function artworksRoutes(artworks: ArtworksService, renders: RendersService): ApiRouter {
   const api = new ApiRouter('/studios/:studioId', 'Artworks');
   const artworkId = (req: Parameters<RequestHandler>[0]) => idParam(req, 'artworkId', 'The artwork');
 
@@ -34,7 +33,9 @@ export function artworksRoutes(artworks: ArtworksService, renders: RenderStore):
     res.json({ artwork: await artworks.rename(req.membership!.studioId, artworkId(req), req.body.name) });
   });
   api.route('delete', '/artworks/:artworkId', { policy: studioRole('editor'), summary: 'Delete an artwork and its files', status: 204 }, async (req, res) => {
-    await artworks.remove(req.membership!.studioId, artworkId(req));
+    const a = await artworks.get(req.membership!.studioId, artworkId(req));
+    await renders.removeFor({ artworkId: a.id });
+    await artworks.remove(a.studioId, a.id);
     res.status(204).end();
   });
   api.route('get', '/artworks/:artworkId/original', { policy: studioRole('viewer'), summary: 'The uploaded file as it was' }, async (req, res) => {
@@ -57,8 +58,14 @@ export function artworksRoutes(artworks: ArtworksService, renders: RenderStore):
   api.route('post', '/renders', { policy: studioRole('viewer'), summary: 'Reference render of a studio artwork with a preset (and patch) or parameters', body: studioRenderSchema }, async (req, res) => {
     const a = await artworks.get(req.membership!.studioId, req.body.artworkId);
     const parameters = resolveParameters(req.body);
-    const render = await cachedRender(renders, { input: await artworks.original(a.id), sheet: a.sheet, parameters, scale: req.body.scale, frame: req.body.frame }, req.user!.id);
+    const render = await renders.render({ studioId: a.studioId, artworkId: a.id, userId: req.user!.id }, { input: await artworks.original(a.id), sheet: a.sheet, parameters, scale: req.body.scale, frame: req.body.frame });
     res.status(render.cached ? 200 : 201).json({ render });
+  });
+  api.route('get', '/renders/:key', { policy: studioRole('viewer'), summary: "A stored reference render of one of the studio's artworks, as PNG" }, async (req, res) => {
+    const key = String(req.params.key);
+    const bytes = await renders.read(key, { studioId: req.membership!.studioId });
+    res.set({ ...png, 'Content-Disposition': `inline; filename="render-${key.slice(0, 12)}.png"`, 'Cache-Control': 'private, max-age=31536000, immutable' });
+    res.send(bytes);
   });
   return api;
 }

@@ -34,7 +34,11 @@ export const artworkDto = (a: Artwork): ArtworkDto => {
 
 /** A studio's artwork library: uploads, thumbnails, decoded frames. */
 export class ArtworksService {
-  constructor(private readonly files: FileStore) {}
+  constructor(
+    private readonly files: FileStore,
+    /** Decodes a stored original into frames; the render engine's cached decoder in the app. */
+    private readonly decode: (bytes: Buffer, sheet: SpriteSheet | null) => Promise<Frame[]> = async (bytes, sheet) => framesOf(await decodeImage(bytes, undefined, sheet), sheet),
+  ) {}
 
   async list(studioId: string, q: string | undefined, sort: 'newest' | 'oldest' | 'name'): Promise<ArtworkDto[]> {
     const order: Order = sort === 'name' ? [['name', 'ASC']] : [['createdAt', sort === 'oldest' ? 'ASC' : 'DESC']];
@@ -102,7 +106,7 @@ export class ArtworksService {
 
   /** The frames exactly as the reference renderer sees them. */
   async frames(a: Artwork): Promise<Frame[]> {
-    return framesOf(await decodeImage(await this.original(a.id)), a.sheet);
+    return this.decode(await this.original(a.id), a.sheet);
   }
 
   /** Removes the files of artworks whose rows are already gone (a deleted studio's). */

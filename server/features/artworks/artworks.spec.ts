@@ -107,7 +107,11 @@ test('studio render of an artwork equals the upload render of the same file and 
   const viaStudio = await editor.post(`/api/studios/${studioId}/renders`, { artworkId: a.id, presetId: 'crt-amber-p3.standard', patch, scale: 2 });
   expect([200, 201]).toContain(viaStudio.status);
   const viaUpload = await editor.upload('/api/renders', { presetId: 'crt-amber-p3.standard', patch: JSON.stringify(patch), scale: '2' }, { name: 'same.png', bytes: art });
-  expect(viaUpload.body.render.key).toBe(viaStudio.body.render.key);
+  // Different owners, different keys; the same pixels.
+  expect(viaUpload.body.render.key).not.toBe(viaStudio.body.render.key);
+  const [a1, b1] = await Promise.all([editor.get(viaStudio.body.render.url), editor.get(viaUpload.body.render.url)]);
+  expect(a1.status).toBe(200);
+  expect(Buffer.compare(a1.body, b1.body)).toBe(0);
 });
 
 test('storage folders without a row are removed at reconcile', async () => {

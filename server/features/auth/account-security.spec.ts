@@ -19,7 +19,7 @@ const fresh = () => new TestClient(h.app);
 const linkIn = (text: string, path: string) => text.match(new RegExp(`${path}\\?token=([A-Za-z0-9_-]+)`))![1];
 const lastMailId = () => h.mail.messages.at(-1)?.id ?? 0;
 const sessionsOf = async (userId: string) =>
-  Number(((await h.sequelize.query(`SELECT count(*)::int AS n FROM sessions WHERE sess->'passport'->>'user' = $1`, { bind: [userId] }))[0] as { n: number }[])[0].n);
+  Number(((await h.sequelize.query(`SELECT count(*)::int AS n FROM sessions WHERE sess->'passport'->'user'->>'id' = $1`, { bind: [userId] }))[0] as { n: number }[])[0].n);
 
 describe('e-mail ownership before studio work (item 2; SECURITY.md 27)', () => {
   test('sign-up creates no account and no session until the mailed link is opened', async () => {

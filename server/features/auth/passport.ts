@@ -20,9 +20,13 @@ const tooMany = (retryAfterSeconds: number) =>
 export function configurePassport(auth: AuthService, throttle: SignInThrottle): PassportStatic {
   // One instance per app, so two apps in one process (tests, a restart drill) do not share strategies.
   const passport = new Passport() as PassportStatic;
-  passport.serializeUser((user, done) => done(null, user.id));
-  passport.deserializeUser((id: string, done) => {
-    User.findByPk(id).then(
+  // The session keeps the account's public fields, so a request needs no users query. Whatever
+  // changes them signs in again (verification) or ends the sessions (password reset and change).
+  passport.serializeUser((user, done) => done(null, { id: user.id, email: user.email, displayName: user.displayName, emailVerified: user.emailVerified }));
+  passport.deserializeUser((stored: Express.User | string, done) => {
+    if (typeof stored === 'object' && stored?.id) return done(null, stored);
+    // Sessions from before the fields were kept hold the id alone.
+    User.findByPk(String(stored)).then(
       (user) => done(null, user ? user.toDto() : false),
       (err) => done(err),
     );

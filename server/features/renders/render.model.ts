@@ -7,6 +7,10 @@ export class Render extends Model<InferAttributes<Render>, InferCreationAttribut
   declare height: number;
   declare bytes: number;
   declare createdById: string | null;
+  /** The studio whose artwork was rendered; null for a render of an uploaded file (its creator's). */
+  declare studioId: CreationOptional<string | null>;
+  declare artworkId: CreationOptional<string | null>;
+  declare lastUsedAt: CreationOptional<Date>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -19,6 +23,9 @@ export function initRender(sequelize: Sequelize): void {
       height: { type: DataTypes.INTEGER, allowNull: false },
       bytes: { type: DataTypes.INTEGER, allowNull: false },
       createdById: { type: DataTypes.UUID, allowNull: true },
+      studioId: { type: DataTypes.UUID, allowNull: true },
+      artworkId: { type: DataTypes.UUID, allowNull: true },
+      lastUsedAt: { type: DataTypes.DATE, allowNull: false, defaultValue: DataTypes.NOW },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

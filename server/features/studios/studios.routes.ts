@@ -60,7 +60,13 @@ export function inviteLinkRoutes(studios: StudiosService): ApiRouter {
     res.json({ invite: await studios.previewInvite(String(req.params.token)) });
   });
   api.route('post', '/:token/accept', { policy: signedIn, summary: 'Accept an invite as the signed-in user' }, async (req, res) => {
-    res.json({ studio: await studios.acceptInvite(String(req.params.token), req.user!) });
+    const studio = await studios.acceptInvite(String(req.params.token), req.user!);
+    // Accepting proved the address: the account kept in this session says so from now on.
+    if (!req.user!.emailVerified) {
+      req.user!.emailVerified = true;
+      (req.session as unknown as { passport: { user: Express.User } }).passport.user = { ...req.user! };
+    }
+    res.json({ studio });
   });
   return api;
 }

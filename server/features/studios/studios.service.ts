@@ -43,6 +43,8 @@ export class StudiosService {
     private readonly appUrl: string,
     /** Called after a studio is deleted, with what to clean up outside the database. */
     private readonly afterDelete: (studioId: string, artworkIds: string[]) => Promise<void> = async () => undefined,
+    /** Called before a studio is deleted, while its rows still say what belongs to it. */
+    private readonly beforeDelete: (studioId: string) => Promise<unknown> = async () => undefined,
   ) {}
 
   async listForUser(userId: string): Promise<StudioDto[]> {
@@ -77,6 +79,7 @@ export class StudiosService {
 
   async remove(studioId: string): Promise<void> {
     const artworks = await Artwork.findAll({ attributes: ['id'], where: { studioId } });
+    await this.beforeDelete(studioId);
     await Studio.destroy({ where: { id: studioId } });
     await this.afterDelete(studioId, artworks.map((a) => a.id));
   }

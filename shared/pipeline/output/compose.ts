@@ -123,12 +123,19 @@ function rowProfile(emission: Float32Array, row: number, cols: number, xs: Taps,
   }
 }
 
+/** A band of output rows [y0, y1): one share of a render split across threads. */
+export interface RowBand {
+  y0: number;
+  y1: number;
+}
+
 /**
  * Output-resolution stages on the CPU: cell apertures (exact box overlap) or CRT line profiles,
  * plus the bilinearly upsampled glow field, then emission colour, light, soft knee and sRGB
- * encode. Writes an opaque RGBA image of u.width × u.height.
+ * encode. Writes an opaque RGBA image of u.width × u.height — or only the rows of `band`: every
+ * output row depends on the inputs alone, so bands computed apart give the same bytes as one pass.
  */
-export function compose(emission: Float32Array, glow: Field, u: OutputUniforms, out?: RgbaImage): RgbaImage {
+export function compose(emission: Float32Array, glow: Field, u: OutputUniforms, out?: RgbaImage, band: RowBand = { y0: 0, y1: u.height }): RgbaImage {
   const { width, height, cols, rows } = u;
   const image = out ?? { width, height, data: new Uint8Array(width * height * 4) };
   const xs = apertureTaps(width, cols, u.cellW, u.fillX);
@@ -154,7 +161,7 @@ export function compose(emission: Float32Array, glow: Field, u: OutputUniforms, 
   const gData = glow.data;
   const direct = new Float32Array(width);
   const data = image.data;
-  for (let y = 0; y < height; y++) {
+  for (let y = band.y0; y < band.y1; y++) {
     direct.fill(0);
     for (let k = 0; k < ys.stride; k++) {
       const wy = ys.weight[y * ys.stride + k];

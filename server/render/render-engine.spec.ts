@@ -1,0 +1,59 @@
+import { createHash } from 'node:crypto';
+import sharp from 'sharp';
+import { builtInPresetById } from '../../shared/model/panel-types';
+import { mergeParams } from '../../shared/model/parameters';
+import { renderCpu } from '../../shared/pipeline/render';
+import { pngOf } from '../testing/images';
+import { decodeImage } from './decode';
+import { RenderEngine } from './render-engine';
+
+/** The render pool (issue "Render engine"): same bytes as one thread, errors contained, a bounded queue. */
+let engine: RenderEngine;
+beforeAll(() => {
+  engine = new RenderEngine({ threads: 2, maxPending: 3 });
+});
+afterAll(() => engine.close());
+
+const input = pngOf(64, 48, (x, y) => [x * 4, y * 5, (x ^ y) & 255, 255]);
+const parameters = mergeParams(builtInPresetById('el-amber-640x480.standard')!.parameters, { cell: { cols: 64, rows: 48 } });
+const sha = (b: Buffer | Uint8Array | Uint8ClampedArray) => createHash('sha256').update(b).digest('hex');
+
+test('a render split into 1, 2, 3 and 7 row bands has the same pixels as the single-thread pipeline', async () => {
+  const reference = renderCpu((await decodeImage(input)).frames, parameters, { scale: 3 });
+  for (const bands of [1, 2, 3, 7]) {
+    const { png, width, height } = await engine.render({ input, parameters, scale: 3, frame: 0 }, { bands });
+    expect([width, height]).toEqual([reference.width, reference.height]);
+    const raw = await sharp(png).ensureAlpha().raw().toBuffer();
+    expect({ bands, hash: sha(raw) }).toEqual({ bands, hash: sha(reference.data) });
+  }
+});
+
+test('a task that throws answers 500 render_failed and the pool keeps rendering; a crashed worker is replaced', async () => {
+  jest.spyOn(console, 'error').mockImplementation(() => undefined);
+  await expect(engine.run('fail', { message: 'boom' })).rejects.toMatchObject({ status: 500, code: 'render_failed' });
+  await expect(engine.run('fail', { crash: true, message: 'exit' })).rejects.toMatchObject({ status: 500, code: 'render_failed' });
+  const { width } = await engine.render({ input, parameters, scale: 1, frame: 0 });
+  expect(width).toBeGreaterThan(0);
+});
+
+test('more renders than the queue holds are refused with 503 render_busy before they queue', async () => {
+  const big = mergeParams(parameters, { cell: { cols: 640, rows: 480 } });
+  const results = await Promise.allSettled(Array.from({ length: 6 }, (_, i) => engine.render({ input, parameters: mergeParams(big, { viewing: { exposureEv: i / 10 } }), scale: 2, frame: 0 })));
+  const busy = results.filter((r) => r.status === 'rejected' && (r.reason as { code?: string }).code === 'render_busy');
+  expect(results.filter((r) => r.status === 'fulfilled')).toHaveLength(3);
+  expect(busy).toHaveLength(3);
+  expect(engine.load).toBe(0);
+});
+
+test('a render larger than the output limit is refused before it is queued', () => {
+  expect(() => RenderEngine.check({ parameters: mergeParams(parameters, { cell: { cols: 2048, rows: 2048 } }), scale: 8 })).toThrow(expect.objectContaining({ code: 'output_too_large' }));
+});
+
+test('decoded frames are cached by content: a second request does not decode again', async () => {
+  const before = engine.cachedFrameBytes;
+  const fresh = pngOf(10, 10, () => [1, 2, 3, 255]);
+  const a = await engine.decodedFrames(fresh, null);
+  const b = await engine.decodedFrames(fresh, null);
+  expect(b).toBe(a);
+  expect(engine.cachedFrameBytes).toBe(before + 10 * 10 * 4);
+});

@@ -1,0 +1,163 @@
+import { createHash } from 'node:crypto';
+import os from 'node:os';
+import path from 'node:path';
+import { Piscina } from 'piscina';
+import type { PanelParams } from '../../shared/model/parameters';
+import { outputUniforms } from '../../shared/pipeline/output/uniforms';
+import type { SpriteSheet } from '../../shared/pipeline/sprite-sheet';
+import type { Field, Frame } from '../../shared/pipeline/types';
+import { AppError } from '../core/app-error';
+import { decodeImage, framesOf } from './decode';
+import { encodePng } from './encode';
+import { shared } from './pool-tasks';
+
+/** Largest output image a reference render may produce. */
+export const MAX_OUTPUT_PIXELS = 24_000_000;
+
+/** What a reference render is asked for. */
+export interface RenderRequest {
+  input: Buffer;
+  /** When the input is a sprite sheet: how to cut it into frames. */
+  sheet?: SpriteSheet | null;
+  parameters: PanelParams;
+  scale: number;
+  frame: number;
+}
+
+/** A finished render. */
+export interface RenderedPng {
+  png: Buffer;
+  width: number;
+  height: number;
+}
+
+export interface RenderEngineOptions {
+  /** Worker threads; default: one per core. */
+  threads?: number;
+  /** Renders waiting or running before new ones are refused with 503 render_busy. */
+  maxPending?: number;
+  /** Budget of the decoded-frames cache, in MB. */
+  frameCacheMb?: number;
+}
+
+/** Decoded frames in shared memory, kept by content hash (LRU, bounded in bytes). */
+class FrameCache {
+  private readonly entries = new Map<string, { frames: Frame[]; bytes: number }>();
+  private bytes = 0;
+
+  constructor(private readonly budget: number) {}
+
+  async get(input: Buffer, sheet: SpriteSheet | null | undefined): Promise<Frame[]> {
+    const key = `${createHash('sha256').update(input).digest('hex')}/${JSON.stringify(sheet ?? null)}`;
+    const hit = this.entries.get(key);
+    if (hit) {
+      this.entries.delete(key);
+      this.entries.set(key, hit);
+      return hit.frames;
+    }
+    const frames = framesOf(await decodeImage(input, undefined, sheet), sheet).map((f) => ({ delayMs: f.delayMs, image: { width: f.image.width, height: f.image.height, data: shared(f.image.data as Uint8Array) } }));
+    const bytes = frames.reduce((n, f) => n + f.image.data.byteLength, 0);
+    if (bytes <= this.budget) {
+      this.entries.set(key, { frames, bytes });
+      this.bytes += bytes;
+      for (const [k, e] of this.entries) {
+        if (this.bytes <= this.budget) break;
+        this.entries.delete(k);
+        this.bytes -= e.bytes;
+      }
+    }
+    return frames;
+  }
+
+  get sizeBytes(): number {
+    return this.bytes;
+  }
+}
+
+/**
+ * Reference renders on a pool of worker threads (piscina), sized to the cores. The HTTP thread
+ * decodes (sharp, on libvips' own threads), checks sizes and encodes; every pipeline stage runs in
+ * a worker. One render is split in two steps — the panel stages and glow field, then the output
+ * stages in row bands, one band a thread — so a single large render uses every core, and the
+ * bytes equal a single-thread render (each output row depends only on the inputs).
+ */
+export class RenderEngine {
+  readonly threads: number;
+  private readonly pool: Piscina;
+  private readonly maxPending: number;
+  private readonly frames: FrameCache;
+  private pending = 0;
+
+  constructor(options: RenderEngineOptions = {}) {
+    this.threads = options.threads ?? Math.max(1, os.availableParallelism());
+    this.maxPending = options.maxPending ?? this.threads * 8;
+    this.frames = new FrameCache((options.frameCacheMb ?? 256) * 1024 * 1024);
+    this.pool = new Piscina({ filename: path.join(__dirname, 'pool-worker.cjs'), minThreads: this.threads, maxThreads: this.threads, idleTimeout: 60_000 });
+  }
+
+  /** Renders waiting or running now. */
+  get load(): number {
+    return this.pending;
+  }
+
+  /** Bytes held by the decoded-frames cache. */
+  get cachedFrameBytes(): number {
+    return this.frames.sizeBytes;
+  }
+
+  /** Checks the request's output size before anything is queued (400 naming the limit). */
+  static check(req: Pick<RenderRequest, 'parameters' | 'scale'>): { width: number; height: number } {
+    const u = outputUniforms(req.parameters, req.scale);
+    if (u.cellH < 1) throw new AppError(400, 'invalid_input', `scale ${req.scale} makes cells ${u.cellH.toFixed(2)} px tall; use a scale of at least ${Math.ceil(req.parameters.cell.pitchXMm / req.parameters.cell.pitchYMm)}.`);
+    if (u.width * u.height > MAX_OUTPUT_PIXELS) {
+      throw new AppError(400, 'output_too_large', `The render would be ${u.width} × ${u.height} pixels; the limit is ${MAX_OUTPUT_PIXELS}. Lower the scale.`);
+    }
+    return { width: u.width, height: u.height };
+  }
+
+  /** Decoded frames of an input (cached), for routes that serve them. */
+  decodedFrames(input: Buffer, sheet?: SpriteSheet | null): Promise<Frame[]> {
+    return this.frames.get(input, sheet);
+  }
+
+  /** A full render: decode (cached), panel stages and glow, output stages in bands, PNG. */
+  async render(req: RenderRequest, options: { bands?: number } = {}): Promise<RenderedPng> {
+    const { width, height } = RenderEngine.check(req);
+    if (this.pending >= this.maxPending) {
+      throw new AppError(503, 'render_busy', `The renderer has ${this.pending} renders in hand, its limit. Try again in a few seconds.`, { retryAfterSeconds: 2 });
+    }
+    this.pending++;
+    try {
+      const frames = await this.frames.get(req.input, req.sheet);
+      if (req.frame >= frames.length) throw new AppError(400, 'invalid_input', `frame must be from 0 to ${frames.length - 1} for this image, got ${req.frame}.`);
+      const { emission, glow } = (await this.run('prepare', { frames, parameters: req.parameters, frame: req.frame })) as { emission: Float32Array; glow: Field };
+      const out = new Uint8Array(new SharedArrayBuffer(width * height * 4));
+      const count = Math.max(1, Math.min(options.bands ?? this.threads, height));
+      await Promise.all(
+        Array.from({ length: count }, (_, i) => {
+          const rows = { y0: Math.floor((i * height) / count), y1: Math.floor(((i + 1) * height) / count) };
+          return this.run('band', { emission, glow, parameters: req.parameters, scale: req.scale, rows, out });
+        }),
+      );
+      return { png: await encodePng({ width, height, data: out }), width, height };
+    } finally {
+      this.pending--;
+    }
+  }
+
+  /** Runs a named task; a worker's error comes back as 500 render_failed, and the pool replaces a dead worker. */
+  async run(name: 'prepare' | 'band' | 'fail', task: unknown): Promise<unknown> {
+    try {
+      return await this.pool.run(task, { name });
+    } catch (err) {
+      if (err instanceof AppError) throw err;
+      console.error(`[render] a ${name} task failed: ${(err as Error).message}`);
+      throw new AppError(500, 'render_failed', 'The render failed on our side and was logged. Try again; if it keeps failing, tell us which artwork and preset.');
+    }
+  }
+
+  /** Stops the worker threads. */
+  async close(): Promise<void> {
+    await this.pool.destroy();
+  }
+}
