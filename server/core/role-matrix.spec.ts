@@ -116,6 +116,7 @@ const ROWS: Row[] = [
   { method: 'post', path: '/api/studios/:studioId/presets', url: (c) => `${S(c)}/presets`, body: () => ({ name: 'New look', panelTypeId: 'crt-green-p1' }), expect: [201, 201, 403, 404, 401] },
   { method: 'post', path: '/api/studios/:studioId/presets/import', url: (c) => `${S(c)}/presets/import`, body: () => ({ format: 'emberline.preset', version: 1, name: 'Imported', panelTypeId: 'el-amber-640x480', parameters: BUILT_IN_PRESETS[0].parameters }), expect: [201, 201, 403, 404, 401] },
   { method: 'get', path: '/api/studios/:studioId/presets/:presetId', url: (c) => `${S(c)}/presets/${c.presetId}`, expect: [200, 200, 200, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/presets/:presetId/thumbnail', url: (c) => `${S(c)}/presets/${c.presetId}/thumbnail?artworkId=${c.artworkId}`, expect: [200, 200, 200, 404, 401] },
   { method: 'patch', path: '/api/studios/:studioId/presets/:presetId', url: (c) => `${S(c)}/presets/${c.presetId}`, body: () => ({ baseRevision: 1, name: 'Renamed look' }), expect: [200, 200, 403, 404, 401] },
   { method: 'delete', path: '/api/studios/:studioId/presets/:presetId', url: (c) => `${S(c)}/presets/${c.presetId}`, expect: [204, 204, 403, 404, 401] },
   { method: 'get', path: '/api/studios/:studioId/presets/:presetId/revisions', url: (c) => `${S(c)}/presets/${c.presetId}/revisions`, expect: [200, 200, 200, 404, 401] },

@@ -1,4 +1,5 @@
 import type { Express } from 'express';
+import { randomBytes } from 'node:crypto';
 import os from 'node:os';
 import path from 'node:path';
 import { Pool } from 'pg';
@@ -72,11 +73,11 @@ export class TestClient {
   /** Set false to send mutations without the CSRF header. */
   sendCsrf = true;
   /**
-   * Extra headers on every request. Each client acts from its own documentation-range address
-   * (RFC 5737 TEST-NET-3, via X-Forwarded-For, which the app trusts from loopback), so the
-   * sign-in back-off of one test's client never slows another's.
+   * Extra headers on every request. Each client acts from its own address in the IPv6
+   * documentation prefix (RFC 3849, 2001:db8::/32, via X-Forwarded-For, which the app trusts from
+   * loopback), so the sign-in back-off of one test's client never slows another's.
    */
-  headers: Record<string, string> = { 'X-Forwarded-For': `203.0.113.${1 + Math.floor(Math.random() * 254)}` };
+  headers: Record<string, string> = { 'X-Forwarded-For': `2001:db8:${randomBytes(12).toString('hex').match(/.{4}/g)!.join(':')}` };
 
   constructor(private readonly app: Express) {}
 

@@ -5,13 +5,14 @@ import { AppError } from '../../core/app-error';
 import { idParam, publicAccess, studioRole } from '../../core/policy';
 import { issuesOf } from '../../core/validate';
 import type { ArtworksService } from '../artworks/artworks.service';
+import type { RendersService } from '../renders/renders.service';
 import type { Actor, PresetsService } from './presets.service';
 
 const actorOf = (req: Request): Actor => ({ studioId: req.membership!.studioId, userId: req.user!.id, role: req.membership!.role });
 const presetId = (req: Request) => idParam(req, 'presetId', 'The preset');
 
 /** /api/studios/:studioId/presets: versioned presets, reference lock, share links, import/export. */
-export function presetsRoutes(presets: PresetsService, appUrl: string): ApiRouter {
+export function presetsRoutes(presets: PresetsService, appUrl: string, artworks: ArtworksService, renders: RendersService): ApiRouter {
   const api = new ApiRouter('/studios/:studioId/presets', 'Presets');
 
   api.route('get', '/', { policy: studioRole('viewer'), summary: 'Presets (?panelTypeId=, ?q=, ?sort=name|-name|updated|-updated, ?page=, ?pageSize=)' }, async (req, res) => {
@@ -35,6 +36,18 @@ export function presetsRoutes(presets: PresetsService, appUrl: string): ApiRoute
   });
   api.route('get', '/:presetId', { policy: studioRole('viewer'), summary: 'One preset at its current revision' }, async (req, res) => {
     res.json({ preset: await presets.get(req.membership!.studioId, presetId(req)) });
+  });
+  api.route('get', '/:presetId/thumbnail', { policy: studioRole('viewer'), summary: 'A small PNG of the preset on an artwork (?artworkId=, default the newest), made once per revision' }, async (req, res) => {
+    const { studioId } = req.membership!;
+    const preset = await presets.get(studioId, presetId(req));
+    const wanted = typeof req.query.artworkId === 'string' ? req.query.artworkId : undefined;
+    if (wanted !== undefined && !/^[0-9a-f-]{36}$/i.test(wanted)) throw new AppError(404, 'not_found', 'The artwork was not found.');
+    const artwork = wanted ? await artworks.get(studioId, wanted) : (await artworks.list(studioId, undefined, 'newest'))[0];
+    if (!artwork) throw new AppError(404, 'no_artwork', 'The studio has no artwork to show the preset on yet. Upload one in Artworks.');
+    const a = await artworks.get(studioId, artwork.id);
+    const png = await renders.thumbnail({ studioId, artworkId: a.id, userId: req.user!.id }, { input: await artworks.original(a.id), sheet: a.sheet, parameters: preset.parameters });
+    res.set({ 'Content-Type': 'image/png', 'X-Content-Type-Options': 'nosniff', 'Content-Disposition': 'inline; filename="thumbnail.png"', 'Cache-Control': 'private, max-age=3600' });
+    res.send(png);
   });
   api.route('patch', '/:presetId', { policy: studioRole('editor'), summary: 'Save a new revision (baseRevision must be the current one, else 409)', body: updatePresetSchema }, async (req, res) => {
     res.json({ preset: await presets.update(actorOf(req), presetId(req), req.body) });

@@ -78,3 +78,23 @@ test('over the studio budget the least recently used renders go first', async ()
   expect(kept.map((r) => r.key)).not.toContain(keys[0]);
   expect(existsSync(fileOf(keys[0]))).toBe(false);
 });
+
+test('preset thumbnails: small (≤ 160 px), made once per revision, a new revision makes a new one', async () => {
+  const art = await upload(5);
+  const sharp = (await import('sharp')).default;
+  const preset = (await owner.post(`/api/studios/${studioId}/presets`, { name: 'Thumb look', panelTypeId: 'el-amber-640x480' })).body.preset;
+  const url = `/api/studios/${studioId}/presets/${preset.id}/thumbnail?artworkId=${art.id}`;
+  const spy = jest.spyOn(h.app.renderEngine, 'render');
+  const first = await owner.get(url);
+  expect(first.status).toBe(200);
+  const meta = await sharp(first.body).metadata();
+  // The 640 × 480 panel at scale 1, area-fit to 160 px [cp: list thumbnails].
+  expect([meta.width, meta.height]).toEqual([160, 120]);
+  expect(Buffer.compare((await owner.get(url)).body, first.body)).toBe(0);
+  expect(spy).toHaveBeenCalledTimes(1);
+  await owner.patch(`/api/studios/${studioId}/presets/${preset.id}`, { baseRevision: 1, parameters: { ...preset.parameters, glass: { ...preset.parameters.glass, glowRadiusMm: 1 } } });
+  expect((await owner.get(url)).status).toBe(200);
+  expect(spy).toHaveBeenCalledTimes(2);
+  expect((await owner.get(`/api/studios/${studioId}/presets/${preset.id}/thumbnail?artworkId=not-an-id`)).status).toBe(404);
+  spy.mockRestore();
+});

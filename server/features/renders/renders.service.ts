@@ -1,4 +1,5 @@
 import { Op, type Sequelize } from 'sequelize';
+import sharp from 'sharp';
 import type { RenderDto } from '../../../shared/api/render.schema';
 import { builtInPresetById } from '../../../shared/model/panel-types';
 import { mergeParams, panelParamsPatchSchema, panelParamsSchema, type PanelParams, type PanelParamsPatch } from '../../../shared/model/parameters';
@@ -30,6 +31,9 @@ export function resolveParameters(fields: { presetId?: string; parameters?: unkn
 /** Who a render belongs to: a studio's artwork, or (an uploaded file) the user who asked. */
 export type RenderOwner = { studioId: string; artworkId: string; userId: string } | { studioId?: undefined; userId: string };
 
+/** Longest side of a preset thumbnail, in pixels. */
+export const THUMBNAIL_PX = 160;
+
 /** Default size budget of one studio's stored renders (least recently used go first). */
 export const DEFAULT_STUDIO_RENDER_BUDGET = 2 * 1024 ** 3;
 
@@ -56,6 +60,35 @@ export class RendersService {
     const work = this.renderOnce(key, owner, request).finally(() => this.inFlight.delete(key));
     this.inFlight.set(key, work);
     return work;
+  }
+
+  /**
+   * A small render for lists: the panel at scale 1, area-averaged to fit THUMBNAIL_PX, stored once
+   * per artwork and parameter set (so once per preset revision) under its own key.
+   */
+  async thumbnail(owner: { studioId: string; artworkId: string; userId: string }, request: Omit<RenderRequest, 'scale' | 'frame'>): Promise<Buffer> {
+    const full = { ...request, scale: 1, frame: 0 };
+    const key = renderKey(full, `studio:${owner.studioId}/thumbnail-${THUMBNAIL_PX}`);
+    const row = await Render.findOne({ where: { key, studioId: owner.studioId } });
+    if (row && (await this.store.exists(key))) {
+      await row.update({ lastUsedAt: new Date() });
+      return this.store.read(key);
+    }
+    const running = this.inFlight.get(key);
+    if (running) {
+      await running;
+      return this.store.read(key);
+    }
+    const work = (async (): Promise<RenderDto> => {
+      const { png } = await this.engine.render(full);
+      const small = await sharp(png).resize(THUMBNAIL_PX, THUMBNAIL_PX, { fit: 'inside', kernel: 'linear', withoutEnlargement: true }).png({ compressionLevel: 6 }).toBuffer({ resolveWithObject: true });
+      await this.store.write(key, small.data);
+      await Render.upsert({ key, width: small.info.width, height: small.info.height, bytes: small.data.length, createdById: owner.userId, studioId: owner.studioId, artworkId: owner.artworkId, lastUsedAt: new Date() });
+      return { key, url: '', width: small.info.width, height: small.info.height, cached: false };
+    })().finally(() => this.inFlight.delete(key));
+    this.inFlight.set(key, work);
+    await work;
+    return this.store.read(key);
   }
 
   /** The PNG of a render, if it belongs to this owner (404 otherwise, the same as a missing one). */

@@ -17,12 +17,12 @@ import { apiErrorCode, apiErrorMessage } from '../../core/api-error';
 import { ArtworkApi } from '../artworks/artwork-api';
 import { StudioContext } from '../studio/studio-context';
 import { PresetApi } from './preset-api';
-import { RenderThumb } from './render-thumb';
+import { PresetThumb } from './preset-thumb';
 
 /** The studio's presets: server-side sort, filter, search and pages; create and import. */
 @Component({
   selector: 'em-preset-list',
-  imports: [FormsModule, RouterLink, DatePipe, MatTableModule, MatSortModule, MatPaginatorModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule, MatIconModule, MatProgressBarModule, RenderThumb],
+  imports: [FormsModule, RouterLink, DatePipe, MatTableModule, MatSortModule, MatPaginatorModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule, MatIconModule, MatProgressBarModule, PresetThumb],
   templateUrl: './preset-list.html',
   styleUrl: './preset-list.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
