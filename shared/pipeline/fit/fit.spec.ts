@@ -47,3 +47,38 @@ describe('fit', () => {
     expect(p.scaleY).toBe(0.5);
   });
 });
+
+// Pixel art maps pixel → cell exactly (issue "Panel model II", item 1). Expected values follow from
+// the definition of a 1:1 or ×k placement on whole cells [calc]; full level is sRGB 255 → linear 1.0 [std: IEC 61966-2-1].
+describe('whole-cell placement for native and integer fits', () => {
+  const litCells = (out: { cols: number; data: Float32Array }) => {
+    const lit: [number, number, number][] = [];
+    for (let i = 0; i < out.data.length / 3; i++) if (out.data[i * 3] > 0) lit.push([i % out.cols, Math.floor(i / out.cols), +out.data[i * 3].toFixed(6)]);
+    return lit;
+  };
+  test.each([
+    ['63 × 63 on 64 × 64 (odd spare: 1)', 63, 64, 0],
+    ['62 × 62 on 64 × 64 (even spare: 2)', 62, 64, 1],
+    ['7 × 7 on 10 × 10 (odd spare: 3)', 7, 10, 1],
+  ])('native %s: one lit pixel lights exactly one cell at full level', (_name, size, panel, offset) => {
+    const out = fitToGrid(gray(size, size, (x, y) => (x === 5 && y === 2 ? 255 : 0)), cell(panel, panel), 'native');
+    expect(litCells(out)).toEqual([[5 + offset, 2 + offset, 1]]);
+  });
+  test('integer ×3: 21 × 21 on 64 × 64 (one spare cell) turns a lit pixel into a sharp 3 × 3 block at full level', () => {
+    expect(placement(21, 21, cell(64, 64), 'integer')).toEqual({ scaleX: 3, scaleY: 3, offsetX: 0, offsetY: 0 });
+    const out = fitToGrid(gray(21, 21, (x, y) => (x === 4 && y === 7 ? 255 : 0)), cell(64, 64), 'integer');
+    const block = [];
+    for (let y = 21; y < 24; y++) for (let x = 12; x < 15; x++) block.push([x, y, 1]);
+    expect(litCells(out)).toEqual(block);
+  });
+  test('a 256 × 1 ramp on an 8-row panel lands on one row at full strength', () => {
+    const out = fitToGrid(gray(256, 1, (x) => x), cell(256, 8), 'native');
+    const rows = new Set(litCells(out).map(([, r]) => r));
+    expect([...rows]).toEqual([3]);
+    expect(out.data[(3 * 256 + 255) * 3]).toBeCloseTo(1, 6);
+  });
+  test('integer reduction ÷3 starts on a whole cell too', () => {
+    const p = placement(20, 10, cell(8, 8), 'integer');
+    expect(Number.isInteger(p.offsetX) && Number.isInteger(p.offsetY)).toBe(true);
+  });
+});

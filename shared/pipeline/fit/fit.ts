@@ -21,7 +21,9 @@ export interface Placement {
  * Where the artwork goes. native: one pixel per cell, centred (crop or pad). integer: the
  * largest whole-number enlargement that fits, or the smallest whole-number reduction
  * (1/k). area: the largest scale that fits, keeping the artwork's physical aspect on cells of
- * pitch pitchX × pitchY.
+ * pitch pitchX × pitchY. Native and integer placements start on a whole cell (the floor of the
+ * centring offset): pixel art maps pixel → cell exactly, and with an odd number of spare cells
+ * the extra one is on the right or at the bottom.
  */
 export function placement(width: number, height: number, cell: PanelParams['cell'], fit: PanelParams['source']['fit']): Placement {
   const { cols, rows } = cell;
@@ -38,7 +40,10 @@ export function placement(width: number, height: number, cell: PanelParams['cell
     sx = s;
     sy = s * aspect;
   }
-  return { scaleX: sx, scaleY: sy, offsetX: (cols - width * sx) / 2, offsetY: (rows - height * sy) / 2 };
+  const offsetX = (cols - width * sx) / 2;
+  const offsetY = (rows - height * sy) / 2;
+  if (fit === 'area') return { scaleX: sx, scaleY: sy, offsetX, offsetY };
+  return { scaleX: sx, scaleY: sy, offsetX: Math.floor(offsetX), offsetY: Math.floor(offsetY) };
 }
 
 /** Overlap length of [a0, a1] and [b0, b1]. */
