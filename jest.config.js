@@ -1,5 +1,6 @@
-// Two projects: the server and shared code in Node (real PostgreSQL, real SMTP), and the
-// Angular components in jsdom (jest-preset-angular, zoneless).
+// Three projects: the pure shared code in Node with no services (`npm run test:unit`, seconds),
+// the server in Node (real PostgreSQL, real SMTP), and the Angular components in jsdom
+// (jest-preset-angular, zoneless).
 const { createCjsPreset } = require('jest-preset-angular/presets');
 
 /** @type {import('jest').Config} */
@@ -7,9 +8,19 @@ module.exports = {
   testTimeout: 30000,
   projects: [
     {
+      displayName: 'shared',
+      testEnvironment: 'node',
+      roots: ['<rootDir>/shared'],
+      testMatch: ['**/*.spec.ts'],
+      transform: {
+        '^.+\\.(ts|js|mjs)$': ['ts-jest', { tsconfig: '<rootDir>/tsconfig.server.json' }],
+      },
+      transformIgnorePatterns: ['/node_modules/(?!(pixelmatch|colorjs\\.io)/)'],
+    },
+    {
       displayName: 'server',
       testEnvironment: 'node',
-      roots: ['<rootDir>/server', '<rootDir>/shared'],
+      roots: ['<rootDir>/server'],
       testMatch: ['**/*.spec.ts'],
       transform: {
         '^.+\\.(ts|js|mjs)$': ['ts-jest', { tsconfig: '<rootDir>/tsconfig.server.json' }],

@@ -1,0 +1,27 @@
+import { builtInPresetById } from './shared/model/panel-types';
+import { renderCpu, panelEmission, panelGlow } from './shared/pipeline/render';
+import { compose } from './shared/pipeline/output/compose';
+import { outputUniforms } from './shared/pipeline/output/uniforms';
+import { fitToGrid } from './shared/pipeline/fit/fit';
+import { tone } from './shared/pipeline/tone/tone';
+import { quantise } from './shared/pipeline/levels/levels';
+import { rowLoading } from './shared/pipeline/row-loading/row-loading';
+import { pngOf } from './server/testing/images';
+import { decodeImage } from './server/render/decode';
+(async () => {
+  const input = pngOf(640, 480, (x, y) => { const v = y < 160 ? Math.round((x / 639) * 255) : y < 320 ? (((x >> 3) + (y >> 3)) % 2 ? 255 : 0) : x % 4 === 0 || y % 6 === 0 ? 255 : 40; return [v, v, v, 255]; });
+  const p = builtInPresetById('el-amber-640x480.standard')!.parameters;
+  const frames = (await decodeImage(input)).frames;
+  const t = (name: string, f: () => unknown) => { for (let i = 0; i < 3; i++) f(); const s = performance.now(); for (let i = 0; i < 10; i++) f(); console.log(name, ((performance.now() - s) / 10).toFixed(1)); };
+  let rgb: any, demand: any, lv: any;
+  t('fit', () => (rgb = fitToGrid(frames[0].image, p.cell, p.source.fit)));
+  t('tone', () => (demand = tone(rgb, p.source)));
+  t('levels', () => (lv = quantise(demand, p.cell.cols, p.cell.rows, p.drive)));
+  t('rowLoading', () => rowLoading(lv, p.cell.cols, p.cell.rows, p.drive.rowLoading));
+  const e = panelEmission(frames, p);
+  t('glow', () => panelGlow(e, p));
+  const g = panelGlow(e, p);
+  const u = outputUniforms(p, 3);
+  t('compose', () => compose(e, g, u));
+  console.log(p.source.fit, p.drive, p.glass, p.cell.fillX, p.cell.fillY);
+})();
