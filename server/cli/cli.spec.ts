@@ -21,7 +21,7 @@ async function cli(...argv: string[]): Promise<{ code: number; out: string; err:
 }
 
 describe('cli', () => {
-  test('emission --peak 585 --json: the 585 nm locus point and #FF9E00 [calc, REFERENCE.md]', async () => {
+  test('emission --peak 585 --json: the 585 nm locus point and #FF9E00 [calc, docs/references.md]', async () => {
     const r = await cli('emission', '--peak', '585', '--json');
     expect(r.code).toBe(0);
     expect(JSON.parse(r.out)).toEqual({ x: 0.54479, y: 0.45443, hex: '#FF9E00' });

@@ -12,7 +12,7 @@ const mode = (name: string, origin: 'dmt' | 'vga', clock: number, h: number[], v
 
 /**
  * Fixed timings a VGA-class controller offers. VESA DMT rows [std]: 640×480@60 and 800×600@60
- * as tabulated in REFERENCE.md; the other DMT rows are from the DMT document as widely
+ * as tabulated in docs/references.md; the other DMT rows are from the DMT document as widely
  * reproduced [from memory]. 640×400@70, 720×400@70 and 640×350@70 are IBM VGA modes (not DMT)
  * [ds, widely reproduced BIOS tables; from memory]. Axes are active / front / sync / back.
  */

@@ -13,7 +13,7 @@ describe('VESA DMT [std]', () => {
   test.each([
     ['640x480@60', [25.175, 640, 16, 96, 48, 800, 480, 10, 2, 33, 525, false, false]],
     ['800x600@60', [40.0, 800, 40, 128, 88, 1056, 600, 1, 4, 23, 628, true, true]],
-  ])('%s as tabulated (REFERENCE.md)', (name, expected) => {
+  ])('%s as tabulated (docs/references.md)', (name, expected) => {
     expect(row(fixedTiming(name)!)).toEqual(expected);
   });
 

@@ -1,6 +1,6 @@
 import { mergeParams, type PanelParams, type PanelParamsPatch } from './parameters';
 
-/** Where a built-in value comes from (REFERENCE.md tags). */
+/** Where a built-in value comes from (the tags of docs/references.md). */
 export type SourceTag = 'std' | 'paper' | 'ds' | 'mem' | 'cp' | 'calc';
 
 /** A physical panel: its grid, pitch, fill, emission and drive, with where the figures come from. */

@@ -60,7 +60,7 @@ describe('render (property tests with fast-check)', () => {
     });
     const white = { width: 8, height: 8, data: new Uint8Array(256).fill(255) };
     const out = renderCpu([{ image: white, delayMs: 0 }], p, { scale: 3 });
-    // Monochromatic 585 nm through the gamut rule is #FF9E00 (REFERENCE.md [calc]).
+    // Monochromatic 585 nm through the gamut rule is #FF9E00 (docs/references.md [calc]).
     for (let i = 0; i < out.data.length; i += 4) expect(Array.from(out.data.slice(i, i + 3))).toEqual([0xff, 0x9e, 0x00]);
   });
 
