@@ -2,6 +2,8 @@ import { waitForDraw } from './bench-helpers';
 import { expect, signIn, test } from './fixtures';
 
 test('an editor changes a preset → the viewer sees the new revision → the owner restores the old one → the share link shows the restored look', async ({ page, browser, guard }, testInfo) => {
+  // Three people in three browsers, each drawing the bench: about 45 s here, so twice the usual budget.
+  test.setTimeout(120_000);
   const name = `E2E look ${Date.now().toString(36)}`;
   await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
   await expect(page).toHaveURL(/\/bench/);
