@@ -1,6 +1,7 @@
 import fc from 'fast-check';
 import { BUILT_IN_PRESETS, PANEL_TYPES } from '../model/panel-types';
 import { mergeParams, type PanelParams } from '../model/parameters';
+import { outputUniforms } from './output/uniforms';
 import { panelEmission, panelGlow, renderCpu } from './render';
 
 const small = (p: PanelParams, patch: Partial<PanelParams['cell']> = {}) => mergeParams(p, { cell: { cols: 24, rows: 16, ...patch } });
@@ -50,13 +51,15 @@ describe('render (property tests with fast-check)', () => {
     );
   });
 
-  test('a fully lit flat field at fill 1 without glow shows the emission colour at display white', () => {
+  test('a fully lit flat field at fill 1 without glow shows the emission colour where its largest channel meets display white', () => {
+    // 585 nm gamut-maps to linear (1, 0.34229, 0) [calc from (2.34688, 0.71425, −0.13542)], luminance
+    // 0.2126 + 0.7152 · 0.34229 = 0.45741 [std: Rec. 709 weights]: at peak = 0.45741 · white the red channel is exactly 1.
     const p = mergeParams(PANEL_TYPES[0].defaults, {
       cell: { cols: 8, rows: 8, fillX: 1, fillY: 1 },
       drive: { dither: 'none', rowLoading: 0 },
       glass: { glowShare: 0, haloShare: 0 },
       emission: { peak1Nm: 585, fwhm1Nm: 0 },
-      viewing: { offCdM2: 0, ambientCdM2: 0, whiteCdM2: 120, peakCdM2: 120, knee: 1 },
+      viewing: { offCdM2: 0, ambientCdM2: 0, whiteCdM2: 120, peakCdM2: 120 * 0.45741, knee: 1 },
     });
     const white = { width: 8, height: 8, data: new Uint8Array(256).fill(255) };
     const out = renderCpu([{ image: white, delayMs: 0 }], p, { scale: 3 });
@@ -74,4 +77,49 @@ describe('render (property tests with fast-check)', () => {
     expect(second[0]).toBeCloseTo(Math.exp(-(1000 / 60) / tau), 5);
     expect(() => panelEmission(frames, p, 2)).toThrow(/frame must be from 0 to 1, got 2/);
   });
+});
+
+// The light formula with a luminance-1 emission colour (issue "Panel model II", item 2): a flat,
+// fully lit panel shows peak/white of display white, whatever its colour. The expected value is
+// computed here from the 8-bit output alone, with the IEC 61966-2-1 decode and Rec. 709 weights
+// written out in the test [std], not with the pipeline's own helpers.
+describe('luminance of a flat full-on panel equals peak / white', () => {
+  const decode = (code: number) => {
+    const c = code / 255;
+    return c <= 0.04045 ? c / 12.92 : ((c + 0.055) / 1.055) ** 2.4;
+  };
+  test.each(PANEL_TYPES.map((t) => [t.id, t] as const))('%s', (_id, type) => {
+    const white = 200;
+    const peak = 0.15 * white; // low enough that every built-in colour fits under display white
+    const p = mergeParams(type.defaults, {
+      cell: { cols: 12, rows: 12, fillX: 1, fillY: 1 },
+      drive: { dither: 'none', rowLoading: 0 },
+      glass: { glowShare: 0, haloShare: 0 },
+      viewing: { offCdM2: 0, ambientCdM2: 0, whiteCdM2: white, peakCdM2: peak, exposureEv: 0, knee: 1 },
+    });
+    const lit = { width: 12, height: 12, data: new Uint8Array(12 * 12 * 4).fill(255) };
+    const scale = 4;
+    const out = renderCpu([{ image: lit, delayMs: 0 }], p, { scale });
+    // Mean over whole cells away from the edges (a CRT's scan lines average to 1 over each line pitch).
+    let sum = 0;
+    let n = 0;
+    const cellH = out.height / 12;
+    for (let y = Math.round(3 * cellH); y < Math.round(9 * cellH); y++) {
+      for (let x = 3 * scale; x < 9 * scale; x++) {
+        const o = (y * out.width + x) * 4;
+        sum += 0.2126 * decode(out.data[o]) + 0.7152 * decode(out.data[o + 1]) + 0.0722 * decode(out.data[o + 2]);
+        n++;
+      }
+    }
+    expect(Math.abs(sum / n / (peak / white) - 1)).toBeLessThan(0.01);
+  });
+});
+
+test('every built-in preset shows its full-on colour under display white (largest linear channel at most 1) [calc from the light formula]', () => {
+  for (const preset of BUILT_IN_PRESETS) {
+    const u = outputUniforms(preset.parameters, 1);
+    const v = preset.parameters.viewing;
+    const largest = Math.max(...u.colour) * (v.peakCdM2 + v.offCdM2 + v.ambientCdM2) * 2 ** v.exposureEv / v.whiteCdM2;
+    expect({ preset: preset.id, fits: largest <= 1 }).toEqual({ preset: preset.id, fits: true });
+  }
 });

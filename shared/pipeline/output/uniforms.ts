@@ -24,10 +24,10 @@ export interface OutputUniforms {
   directShare: number;
   /** Glow grid samples per cell. */
   glowOversample: number;
-  /** Emission colour, linear sRGB after the gamut rule, largest channel 1; and its luminance. */
+  /** Emission colour, linear sRGB after the gamut rule, scaled to luminance 1; and that luminance (1). */
   colour: [number, number, number];
   colourY: number;
-  /** Display linear = (colour·(v·peak + off) + Y_c·ambient) · gain. */
+  /** Display linear = (colour·(v·peak + off) + Y_c·ambient) · gain, with Y_c = 1: a full cell shows `peak`. */
   peakCdM2: number;
   offCdM2: number;
   ambientCdM2: number;
@@ -42,11 +42,15 @@ export function emissionBands(e: PanelParams['emission']): EmissionBand[] {
   return bands;
 }
 
+/** The output uniforms of a parameter set at `scale` output pixels per cell pitch. */
 export function outputUniforms(p: PanelParams, scale: number): OutputUniforms {
   const cellW = scale;
   const cellH = (scale * p.cell.pitchYMm) / p.cell.pitchXMm;
   const xyz = p.emission.colourSource === 'spectrum' ? spectrumToXyz(emissionBands(p.emission)) : chromaticityToXyz(p.emission.chromaX, p.emission.chromaY);
-  const colour = emissionColour(xyz).rgb;
+  // Luminance 1, so peakCdM2 is the luminance of a lit cell for every colour (Rec. 709 weights on linear sRGB [std]).
+  const gamutMapped = emissionColour(xyz).rgb;
+  const y = REC709[0] * gamutMapped[0] + REC709[1] * gamutMapped[1] + REC709[2] * gamutMapped[2];
+  const colour = gamutMapped.map((c) => c / y) as [number, number, number];
   const plan = glowPlan(p.cell, p.glass);
   return {
     cols: p.cell.cols,
@@ -62,7 +66,7 @@ export function outputUniforms(p: PanelParams, scale: number): OutputUniforms {
     directShare: 1 - (plan.glow.share + plan.halo.share),
     glowOversample: plan.oversample,
     colour,
-    colourY: REC709[0] * colour[0] + REC709[1] * colour[1] + REC709[2] * colour[2],
+    colourY: 1,
     peakCdM2: p.viewing.peakCdM2,
     offCdM2: p.viewing.offCdM2,
     ambientCdM2: p.viewing.ambientCdM2,
