@@ -117,15 +117,29 @@ function copyOneToOne(image: RgbaImage, p: Placement, out: CellRgb): CellRgb {
   const y0 = Math.max(0, -p.offsetY);
   const x1 = Math.min(image.width, out.cols - p.offsetX);
   const y1 = Math.min(image.height, out.rows - p.offsetY);
+  // Locals for the hot loop: typed arrays and numbers only, no property loads per pixel.
   const src = image.data;
+  const dst = out.data;
+  const decode = SRGB_TO_LINEAR;
+  const width = image.width;
+  const cols = out.cols;
+  const ox = p.offsetX;
+  const oy = p.offsetY;
   for (let y = y0; y < y1; y++) {
-    for (let x = x0; x < x1; x++) {
-      const o = (y * image.width + x) * 4;
-      const d = ((y + p.offsetY) * out.cols + x + p.offsetX) * 3;
-      const a = src[o + 3] / 255;
-      out.data[d] = a * SRGB_TO_LINEAR[src[o]];
-      out.data[d + 1] = a * SRGB_TO_LINEAR[src[o + 1]];
-      out.data[d + 2] = a * SRGB_TO_LINEAR[src[o + 2]];
+    let o = (y * width + x0) * 4;
+    let d = ((y + oy) * cols + x0 + ox) * 3;
+    for (let x = x0; x < x1; x++, o += 4, d += 3) {
+      const alpha = src[o + 3];
+      if (alpha === 255) {
+        dst[d] = decode[src[o]];
+        dst[d + 1] = decode[src[o + 1]];
+        dst[d + 2] = decode[src[o + 2]];
+      } else {
+        const a = alpha / 255;
+        dst[d] = a * decode[src[o]];
+        dst[d + 1] = a * decode[src[o + 1]];
+        dst[d + 2] = a * decode[src[o + 2]];
+      }
     }
   }
   return out;

@@ -13,13 +13,15 @@ export function tone(rgb: CellRgb, source: PanelParams['source'], out?: Float32A
   const result = out ?? new Float32Array(n);
   const { brightness, contrast, gamma, invert, threshold } = source;
   const rec601 = source.luma === 'rec601';
+  // Locals for the hot loop: no property loads per cell.
+  const data = rgb.data;
+  const [r601, g601, b601] = REC601;
+  const [r709, g709, b709] = REC709;
   for (let i = 0; i < n; i++) {
-    const R = rgb.data[i * 3];
-    const G = rgb.data[i * 3 + 1];
-    const B = rgb.data[i * 3 + 2];
-    let p = rec601
-      ? REC601[0] * srgbEncode(R) + REC601[1] * srgbEncode(G) + REC601[2] * srgbEncode(B)
-      : srgbEncode(REC709[0] * R + REC709[1] * G + REC709[2] * B);
+    const R = data[i * 3];
+    const G = data[i * 3 + 1];
+    const B = data[i * 3 + 2];
+    let p = rec601 ? r601 * srgbEncode(R) + g601 * srgbEncode(G) + b601 * srgbEncode(B) : srgbEncode(r709 * R + g709 * G + b709 * B);
     p = (p - 0.5) * contrast + 0.5 + brightness;
     p = Math.min(1, Math.max(0, p));
     if (gamma !== 1) p = p ** gamma;
