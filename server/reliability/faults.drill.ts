@@ -59,48 +59,43 @@ async function assertRendersConsistent(): Promise<number> {
 
 beforeAll(() => freshDatabase(DATABASE));
 
-test('kill -9 during uploads at several moments, then a restart: no orphan files, no rows without files', async () => {
-  const noise = Buffer.alloc(1600 * 1600 * 3);
-  for (let i = 0; i < noise.length; i++) noise[i] = (i * 2654435761) >>> 24;
-  const big = await sharp(noise, { raw: { width: 1600, height: 1600, channels: 3 } }).png({ compressionLevel: 1 }).toBuffer();
-  const outcomes: { killAfterMs: number; status: string; artworks: number }[] = [];
-  for (const killAfterMs of [5, 40, 120, 250, 500]) {
+/**
+ * For each delay: a fresh server, one request started by `act`, `kill -9` after the delay, a
+ * restart (which reconciles storage), then `check`. Returns what each request answered.
+ */
+async function crashDuring(delaysMs: number[], act: (session: ApiSession, killAfterMs: number) => Promise<Response>, check: () => Promise<number>): Promise<{ killAfterMs: number; status: string; rows: number }[]> {
+  const outcomes: { killAfterMs: number; status: string; rows: number }[] = [];
+  for (const killAfterMs of delaysMs) {
     const server = await boot();
-    const session = await owner(server);
-    const upload = session.upload(`/api/studios/${DEMO_STUDIO_ID}/artworks`, { name: `crash ${killAfterMs}` }, { name: 'big.png', bytes: big }).then(
+    const answered = act(await owner(server), killAfterMs).then(
       (r) => String(r.status),
       () => 'connection lost',
     );
     await sleep(killAfterMs);
     await server.kill('SIGKILL');
-    const status = await upload;
+    const status = await answered;
     const restarted = await boot();
-    outcomes.push({ killAfterMs, status, artworks: await assertArtworksConsistent() });
+    outcomes.push({ killAfterMs, status, rows: await check() });
     await restarted.kill();
   }
-  console.table(outcomes);
+  return outcomes;
+}
+
+test('kill -9 during uploads at several moments, then a restart: no orphan files, no rows without files', async () => {
+  const noise = Buffer.alloc(1600 * 1600 * 3);
+  for (let i = 0; i < noise.length; i++) noise[i] = (i * 2654435761) >>> 24;
+  const big = await sharp(noise, { raw: { width: 1600, height: 1600, channels: 3 } }).png({ compressionLevel: 1 }).toBuffer();
+  const upload = (session: ApiSession, killAfterMs: number) => session.upload(`/api/studios/${DEMO_STUDIO_ID}/artworks`, { name: `crash ${killAfterMs}` }, { name: 'big.png', bytes: big });
+  console.table(await crashDuring([5, 40, 120, 250, 500], upload, assertArtworksConsistent));
 });
 
 test('kill -9 during renders, then a restart: every render row has its file and no file is left without one', async () => {
-  const outcomes: { killAfterMs: number; status: string; renders: number }[] = [];
-  for (const killAfterMs of [20, 150, 400]) {
-    const server = await boot();
-    const session = await owner(server);
+  const render = async (session: ApiSession, killAfterMs: number) => {
     const [art] = (await (await session.send('GET', `/api/studios/${DEMO_STUDIO_ID}/artworks`)).json()).artworks as { id: string }[];
-    const render = session
-      .send('POST', `/api/studios/${DEMO_STUDIO_ID}/renders`, { artworkId: art.id, presetId: 'el-amber-640x480.standard', patch: { viewing: { exposureEv: killAfterMs / 1000 } }, scale: 4 })
-      .then(
-        (r) => String(r.status),
-        () => 'connection lost',
-      );
-    await sleep(killAfterMs);
-    await server.kill('SIGKILL');
-    const status = await render;
-    const restarted = await boot();
-    outcomes.push({ killAfterMs, status, renders: await assertRendersConsistent() });
-    await restarted.kill();
-  }
-  console.table(outcomes);
+    return session.send('POST', `/api/studios/${DEMO_STUDIO_ID}/renders`, { artworkId: art.id, presetId: 'el-amber-640x480.standard', patch: { viewing: { exposureEv: killAfterMs / 1000 } }, scale: 4 });
+  };
+  // 1500 ms lets one render finish before the kill, so a completed render's row and file are checked too.
+  console.table(await crashDuring([20, 150, 400, 1500], render, assertRendersConsistent));
 });
 
 test('PostgreSQL stopped and started under load: 503 with Retry-After during the outage, normal answers after it, same process', async () => {
