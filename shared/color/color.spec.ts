@@ -1,6 +1,7 @@
 import Color from 'colorjs.io';
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
+import { PANEL_TYPES } from '../model/panel-types';
 import { CIE_X, CIE_Y, CIE_Z } from './cie1931';
 import { chromaticityToXyz, cmfAt, emissionColour, gamutMap, spectrumToXyz } from './emission';
 import { encode8, REC601, REC709, srgbDecode, srgbDecodeFast, srgbEncode, srgbEncodeFast, xyzToLinearSrgb } from './srgb';
@@ -117,4 +118,16 @@ describe('emission colour', () => {
   test('an emission with no visible light is refused', () => {
     expect(() => spectrumToXyz([{ peakNm: 900, fwhmNm: 0, weight: 1 }])).toThrow(/no visible light/);
   });
+});
+
+// Issue "Panel model II", item 5: the P4-like white was (0.306, 0.350), too green.
+test('the P4-like white panel type sits within 0.01 of the usual published P4 point x 0.27, y 0.30 [mem: P4 phosphor tables]', () => {
+  const type = PANEL_TYPES.find((t) => t.id === 'crt-white-p4')!;
+  const e = type.defaults.emission;
+  const [X, Y, Z] = spectrumToXyz([
+    { peakNm: e.peak1Nm, fwhmNm: e.fwhm1Nm, weight: 1 },
+    { peakNm: e.peak2Nm, fwhmNm: e.fwhm2Nm, weight: e.band2Weight },
+  ]);
+  expect(Math.abs(X / (X + Y + Z) - 0.27)).toBeLessThan(0.01);
+  expect(Math.abs(Y / (X + Y + Z) - 0.3)).toBeLessThan(0.01);
 });

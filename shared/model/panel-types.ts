@@ -87,7 +87,7 @@ export const PANEL_TYPES: readonly PanelType[] = [
     glass: { glowRadiusMm: 0.35, glowShare: 0.12 },
     viewing: { peakCdM2: 90, whiteCdM2: 130 },
   })),
-  panel('crt-white-p4', 'Monochrome CRT, white (P4-like)', 'crt', 'A white tube of two bands near 460 and 565 nm, medium-short persistence.', crtSources('P4', 'white of two bands ≈ 460 + 565 nm, medium-short persistence'), crt({ emission: { peak1Nm: 460, fwhm1Nm: 40, peak2Nm: 565, fwhm2Nm: 60, band2Weight: 1.6, decayMs: 0.1 }, viewing: { peakCdM2: 110, whiteCdM2: 130 } })),
+  panel('crt-white-p4', 'Monochrome CRT, white (P4-like)', 'crt', 'A white tube of two bands near 466 and 565 nm, medium-short persistence.', crtSources('P4', 'white of two bands ≈ 466 + 565 nm, weighted to the usual published P4 point x 0.27, y 0.30 (from memory); medium-short persistence'), crt({ emission: { peak1Nm: 466, fwhm1Nm: 40, peak2Nm: 565, fwhm2Nm: 60, band2Weight: 0.94, decayMs: 0.1 }, viewing: { peakCdM2: 110, whiteCdM2: 160 } })),
   panel('plasma-neon-640x400', 'Gas plasma, neon orange 640 × 400', 'plasma', 'A DC/AC gas-plasma panel; neon lines at 585.2 and 640.2 nm.', [
     { tag: 'std', note: 'neon emission lines 585.2 nm and 640.2 nm (atomic line tables)' },
     { tag: 'mem', note: 'grid, pitch, line ratio and fill from memory of plasma panel families' },
