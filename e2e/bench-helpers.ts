@@ -85,8 +85,20 @@ export async function choose(page: Page, select: string, option: string | RegExp
 
 /** Runs the drift check and returns the share of differing pixels (0–1). */
 export async function driftShare(page: Page): Promise<number> {
+  return (await drift(page)).share;
+}
+
+/** A drift check's figures: the share of pixels differing at all, and the largest channel difference. */
+export interface Drift {
+  share: number;
+  maxChannel: number;
+}
+
+/** Runs the drift check on the bench and reads its figures. */
+export async function drift(page: Page): Promise<Drift> {
   await page.getByRole('button', { name: 'Drift check' }).click();
   const result = page.getByTestId('drift-result');
   await expect(result).toBeVisible({ timeout: 60_000 });
-  return Number((await result.textContent())!.match(/([\d.]+) %/)![1]) / 100;
+  const share = Number((await result.textContent())!.match(/([\d.]+) %/)![1]) / 100;
+  return { share, maxChannel: Number(await page.getByTestId('drift-max').textContent()) };
 }

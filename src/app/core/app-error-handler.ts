@@ -1,4 +1,4 @@
-import { ErrorHandler, inject, Injectable, NgZone } from '@angular/core';
+import { ErrorHandler, inject, Injectable } from '@angular/core';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { apiErrorMessage } from './api-error';
 
@@ -6,11 +6,11 @@ import { apiErrorMessage } from './api-error';
 @Injectable()
 export class AppErrorHandler implements ErrorHandler {
   private readonly snackBar = inject(MatSnackBar);
-  private readonly zone = inject(NgZone);
 
   handleError(error: unknown): void {
     console.error(error);
     const message = apiErrorMessage((error as { rejection?: unknown })?.rejection ?? error);
-    this.zone.run(() => this.snackBar.open(message, 'Dismiss', { duration: 8000, politeness: 'assertive' }));
+    // Zoneless: signals drive change detection, so no zone.run is needed.
+    this.snackBar.open(message, 'Dismiss', { duration: 8000, politeness: 'assertive' });
   }
 }

@@ -13,10 +13,11 @@ import { MatSliderModule } from '@angular/material/slider';
 import { MatTooltipModule } from '@angular/material/tooltip';
 import { RouterLink } from '@angular/router';
 import pixelmatch from 'pixelmatch';
+import { pixelDiff } from '../../../../shared/analysis/pixel-diff';
 import { firstValueFrom } from 'rxjs';
 import { flashReport } from '../../../../shared/analysis/flash';
 import type { RenderDto } from '../../../../shared/api/render.schema';
-import { SRGB_TO_LINEAR } from '../../../../shared/color/srgb';
+import { REC709, SRGB_TO_LINEAR } from '../../../../shared/color/srgb';
 import { BUILT_IN_PRESETS, PANEL_TYPES } from '../../../../shared/model/panel-types';
 import type { PanelParams } from '../../../../shared/model/parameters';
 import { outputUniforms } from '../../../../shared/pipeline/output/uniforms';
@@ -102,7 +103,7 @@ export class Bench {
   protected readonly draws = signal(0);
   protected readonly usingCpu = signal(false);
   protected readonly inspect = signal<{ c: number; r: number; level: number; cd: number } | null>(null);
-  protected readonly drift = signal<{ busy: boolean; share?: number; pixels?: number; error?: string }>({ busy: false });
+  protected readonly drift = signal<{ busy: boolean; share?: number; pixels?: number; maxChannel?: number; error?: string }>({ busy: false });
   protected readonly reducedMotion = matchMedia('(prefers-reduced-motion: reduce)').matches;
   protected readonly card = CARD_MM;
 
@@ -321,10 +322,12 @@ export class Bench {
       const live = this.livePixels();
       const { width, height } = render;
       if (live.length !== reference.length) throw new Error(`the live view is ${this.uniforms().width} × ${this.uniforms().height} but the reference is ${width} × ${height}`);
+      // The heatmap marks every pixel that differs at all (threshold 0); the figures are exact.
       const diff = new Uint8Array(width * height * 4);
-      const pixels = pixelmatch(live, reference, diff, width, height, { threshold: 0.1 });
+      pixelmatch(live, reference, diff, width, height, { threshold: 0 });
       putImage(this.diffCanvas()!.nativeElement, diff, width, height);
-      this.drift.set({ busy: false, share: pixels / (width * height), pixels });
+      const exact = pixelDiff(live, reference);
+      this.drift.set({ busy: false, share: exact.differing / exact.pixels, pixels: exact.differing, maxChannel: exact.maxChannel });
     } catch (err) {
       this.drift.set({ busy: false, error: apiErrorMessage(err) });
     }
@@ -371,7 +374,8 @@ async function decodePng(blob: Blob): Promise<Uint8Array> {
 function lumaOf(f: Frame): Float32Array {
   const { data, width, height } = f.image;
   const out = new Float32Array(width * height);
-  for (let i = 0; i < out.length; i++) out[i] = 0.2126 * SRGB_TO_LINEAR[data[i * 4]] + 0.7152 * SRGB_TO_LINEAR[data[i * 4 + 1]] + 0.0722 * SRGB_TO_LINEAR[data[i * 4 + 2]];
+  const [wr, wg, wb] = REC709;
+  for (let i = 0; i < out.length; i++) out[i] = wr * SRGB_TO_LINEAR[data[i * 4]] + wg * SRGB_TO_LINEAR[data[i * 4 + 1]] + wb * SRGB_TO_LINEAR[data[i * 4 + 2]];
   return out;
 }
 
