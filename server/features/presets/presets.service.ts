@@ -47,12 +47,19 @@ export class PresetsService {
     return this.dto(row, await names([row.updatedById]));
   }
 
-  async create(actor: Actor, body: { name: string; panelTypeId: string; parameters?: PanelParams }, message = 'Created'): Promise<PresetDto> {
+  /**
+   * Creates a preset at revision 1. A name already used in the studio is refused, or — for imports
+   * and copies (`numberName`) — numbered: "Look (2)".
+   */
+  async create(actor: Actor, body: { name: string; panelTypeId: string; parameters?: PanelParams }, options: { message?: string; numberName?: boolean } = {}): Promise<PresetDto> {
+    const message = options.message ?? 'Created';
     const type = panelTypeById(body.panelTypeId);
     if (!type) throw new AppError(400, 'invalid_input', `panelTypeId "${body.panelTypeId}" is not a built-in panel type.`, { issues: [{ path: 'panelTypeId', message: 'unknown panel type' }] });
     const parameters = body.parameters ?? structuredClone(type.defaults);
     return Preset.sequelize!.transaction(async (transaction) => {
-      const row = await Preset.create({ studioId: actor.studioId, panelTypeId: type.id, name: body.name, parameters, revision: 1, updatedById: actor.userId }, { transaction });
+      // A typed name must be free; an imported or duplicated one gets the next free " (n)".
+      const name = options.numberName ? await this.freeName(actor.studioId, body.name, transaction) : await this.assertFreeName(actor.studioId, body.name, null, transaction);
+      const row = await Preset.create({ studioId: actor.studioId, panelTypeId: type.id, name, parameters, revision: 1, updatedById: actor.userId }, { transaction });
       await PresetRevision.create({ presetId: row.id, revision: 1, name: row.name, parameters, changes: [], message, authorId: actor.userId }, { transaction });
       await record(actor.studioId, actor.userId, 'preset.created', `created preset “${row.name}”`, transaction);
       return this.dto(row, await names([actor.userId], transaction));
@@ -68,6 +75,7 @@ export class PresetsService {
       const row = await this.row(actor.studioId, id, transaction);
       this.assertMayChange(row, actor);
       if (body.baseRevision !== row.revision) throw await this.stale(row, body.baseRevision, transaction);
+      if (body.name !== undefined && body.name !== row.name) await this.assertFreeName(actor.studioId, body.name, row.id, transaction);
       return this.saveRevision(row, actor, body.name ?? row.name, body.parameters ?? row.parameters, body.message ?? null, 'preset.changed', transaction);
     });
   }
@@ -105,7 +113,7 @@ export class PresetsService {
     const membership = await Membership.findOne({ where: { studioId: targetStudioId, userId: actor.userId } });
     if (!membership) throw notFound('The target studio');
     if (!roleAtLeast(membership.role, 'editor')) throw forbidden('You need to be an editor in the target studio.');
-    return this.create({ studioId: targetStudioId, userId: actor.userId, role: membership.role }, { name: name ?? `${row.name} (copy)`, panelTypeId: row.panelTypeId, parameters: row.parameters }, 'Duplicated');
+    return this.create({ studioId: targetStudioId, userId: actor.userId, role: membership.role }, { name: name ?? `${row.name} (copy)`, panelTypeId: row.panelTypeId, parameters: row.parameters }, { message: 'Duplicated', numberName: true });
   }
 
   async revisions(studioId: string, id: string): Promise<PresetRevisionDto[]> {
@@ -170,6 +178,30 @@ export class PresetsService {
     const verb = kind === 'preset.restored' ? 'restored' : 'changed';
     await record(actor.studioId, actor.userId, kind, `${verb} preset “${name}” (revision ${revision}${changes.length ? `: ${changes.map((c) => c.path).slice(0, 4).join(', ')}${changes.length > 4 ? '…' : ''}` : ''})`, transaction);
     return this.dto(row, await names([actor.userId], transaction));
+  }
+
+  /** The names of the studio's presets, lower-cased (names are unique per studio, case aside). */
+  private async takenNames(studioId: string, transaction: Transaction, exceptId: string | null): Promise<Set<string>> {
+    const rows = await Preset.findAll({ where: { studioId }, attributes: ['id', 'name'], transaction });
+    return new Set(rows.filter((r) => r.id !== exceptId).map((r) => r.name.toLowerCase()));
+  }
+
+  private async assertFreeName(studioId: string, name: string, exceptId: string | null, transaction: Transaction): Promise<string> {
+    if ((await this.takenNames(studioId, transaction, exceptId)).has(name.toLowerCase())) {
+      throw conflict('name_taken', `The studio already has a preset called “${name}”. Choose another name.`, { issues: [{ path: 'name', message: 'is already used by another preset' }] });
+    }
+    return name;
+  }
+
+  /** `name`, or `name (2)`, `name (3)` … whichever is free first (at most 80 characters). */
+  private async freeName(studioId: string, name: string, transaction: Transaction): Promise<string> {
+    const taken = await this.takenNames(studioId, transaction, null);
+    if (!taken.has(name.toLowerCase())) return name;
+    for (let n = 2; ; n++) {
+      const suffix = ` (${n})`;
+      const candidate = `${name.slice(0, 80 - suffix.length)}${suffix}`;
+      if (!taken.has(candidate.toLowerCase())) return candidate;
+    }
   }
 
   private async stale(row: Preset, base: number, transaction?: Transaction): Promise<Error> {

@@ -114,7 +114,8 @@ test('import reports every error with its JSON path and stores nothing; export â
   expect(exported.headers['content-disposition']).toMatch(/attachment/);
   const imported = await editor.post(url('/import'), exported.body);
   expect(imported.status).toBe(201);
-  expect(imported.body.preset).toMatchObject({ name: 'Round trip', panelTypeId: 'vfd-bluegreen-256x64', parameters: p.parameters });
+  // Imported into the studio that still has the original: the name is numbered.
+  expect(imported.body.preset).toMatchObject({ name: 'Round trip (2)', panelTypeId: 'vfd-bluegreen-256x64', parameters: p.parameters });
 });
 
 test('the committed JSON Schema equals the one generated from the shared schema (npx tsx scripts/gen-preset-schema.ts)', () => {
@@ -150,4 +151,20 @@ test('30 parallel saves of one revision: exactly one 200, the rest 409, no 5xx, 
   const loser = saved.find((r) => r.status === 409)!;
   expect(loser.body.error.details.current.revision).toBe(2);
   expect((await Preset.findByPk(created.id))!.revision).toBe(2);
+});
+
+test('preset names are unique in a studio: a typed name is refused, an import or a copy is numbered (issue "Workflow", item 17)', async () => {
+  const name = `Unique look ${Date.now().toString(36)}`;
+  const first = (await editor.post(url(), { name, panelTypeId: 'el-amber-640x480' })).body.preset;
+  const again = await editor.post(url(), { name: name.toUpperCase(), panelTypeId: 'crt-green-p1' });
+  expect(again.status).toBe(409);
+  expect(again.body.error.code).toBe('name_taken');
+  expect(again.body.error.message).toContain('already has a preset called');
+  const other = (await editor.post(url(), { name: `${name} B`, panelTypeId: 'el-amber-640x480' })).body.preset;
+  const rename = await editor.patch(url(`/${other.id}`), { baseRevision: 1, name });
+  expect(rename.status).toBe(409);
+  const imported = await editor.post(url('/import'), { format: 'emberline.preset', version: 1, name, panelTypeId: 'el-amber-640x480', parameters: base });
+  expect(imported.body.preset.name).toBe(`${name} (2)`);
+  const copy = await editor.post(url(`/${first.id}/duplicate`), { studioId, name });
+  expect(copy.body.preset.name).toBe(`${name} (3)`);
 });
