@@ -72,7 +72,24 @@ export class AuthStore {
     return this.studios().find((s) => s.id === last) ?? this.studios()[0];
   }
 
+  /** Remembers the studio as the last used one, and as one this browser has worked in. */
   rememberStudio(id: string): void {
     localStorage.setItem('emberline.lastStudio', id);
+    const opened = this.openedStudios().filter((s) => s !== id);
+    localStorage.setItem('emberline.openedStudios', JSON.stringify([id, ...opened].slice(0, 50)));
+  }
+
+  /** Whether this browser has worked in the studio before (so a "not found" now means the membership ended). */
+  wasMemberOf(id: string): boolean {
+    return this.openedStudios().includes(id);
+  }
+
+  private openedStudios(): string[] {
+    try {
+      const list = JSON.parse(localStorage.getItem('emberline.openedStudios') ?? '[]');
+      return Array.isArray(list) ? list.filter((s): s is string => typeof s === 'string') : [];
+    } catch {
+      return [];
+    }
   }
 }

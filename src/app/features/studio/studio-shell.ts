@@ -12,7 +12,7 @@ import { MatToolbarModule } from '@angular/material/toolbar';
 import { MatTooltipModule } from '@angular/material/tooltip';
 import { Router, RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
 import { map } from 'rxjs';
-import { apiErrorMessage } from '../../core/api-error';
+import { apiErrorCode, apiErrorMessage } from '../../core/api-error';
 import { AuthStore } from '../../core/auth-store';
 import { StudioApi } from './studio-api';
 import { StudioContext } from './studio-context';
@@ -54,7 +54,12 @@ export class StudioShell {
   }
 
   protected errorText(): string {
-    return apiErrorMessage(this.studio.error());
+    const err = this.studio.error();
+    // Non-members get the same 404 as for a missing studio (no oracle); this browser knows better.
+    if (apiErrorCode(err) === 'not_found' && this.auth.wasMemberOf(this.studioId())) {
+      return 'You are no longer a member of this studio. An owner can invite you again.';
+    }
+    return apiErrorMessage(err);
   }
 
   protected async signOut(): Promise<void> {
