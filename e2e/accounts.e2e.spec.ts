@@ -42,6 +42,10 @@ test('sign up → confirm by mail → reset the password by mail → sign in →
   await page.getByRole('textbox', { name: 'New password' }).fill('second passphrase');
   await page.getByRole('button', { name: 'Set password' }).click();
   await expect(page.getByRole('status')).toContainText('Password changed');
+  // The used link says so at once instead of showing the form again (issue "Workflow", item 20).
+  await page.goto(resetLink);
+  await expect(page.getByRole('alert')).toContainText('already used');
+  await expect(page.getByRole('textbox', { name: 'New password' })).toHaveCount(0);
 
   await signIn(page, founder, 'first passphrase');
   await expect(page.getByRole('alert').filter({ hasText: 'not right' })).toBeVisible();
@@ -66,6 +70,8 @@ test('sign up → confirm by mail → reset the password by mail → sign in →
   await second.goto(inviteLink);
   await expect(second.getByText('You are invited to Lantern Works as viewer')).toBeVisible();
   await second.getByRole('link', { name: 'Create an account' }).click();
+  // The invited address is filled in (issue "Workflow", item 20).
+  await expect(second.getByLabel('E-mail')).toHaveValue(invitee);
   await second.getByLabel('Your name').fill('Vic Invitee');
   await second.getByLabel('E-mail').fill(invitee);
   await second.getByLabel('Password').fill('invitee passphrase');

@@ -63,6 +63,7 @@ const ROWS: Row[] = [
   { method: 'post', path: '/api/auth/sign-out', url: () => '/api/auth/sign-out', expect: [204, 204, 204, 204, 204] },
   { method: 'get', path: '/api/auth/me', url: () => '/api/auth/me', expect: [200, 200, 200, 200, 200] },
   { method: 'post', path: '/api/auth/password-reset', url: () => '/api/auth/password-reset', body: (c) => ({ email: c.users.target.email }), expect: [202, 202, 202, 202, 202] },
+  { method: 'get', path: '/api/auth/password-reset/:token', url: () => `/api/auth/password-reset/${'x'.repeat(43)}`, expect: [410, 410, 410, 410, 410] },
   {
     method: 'post',
     path: '/api/auth/password-reset/confirm',

@@ -124,13 +124,16 @@ describe('password reset and change end other sessions; old links die (items 2, 
     expect((await b.get('/api/studios')).status).toBe(401);
   });
 
-  test('a new reset link voids the earlier one; using one voids all', async () => {
+  test('a new reset link voids the earlier one; using one voids all; the page can ask whether a link still works', async () => {
     const { email } = await fresh().signUp();
     const first = await askReset(email);
+    expect((await fresh().get(`/api/auth/password-reset/${first}`)).status).toBe(200);
     const second = await askReset(email);
+    expect((await fresh().get(`/api/auth/password-reset/${first}`)).status).toBe(410);
     expect((await fresh().post('/api/auth/password-reset/confirm', { token: first, password: 'first link password' })).status).toBe(400);
     expect((await fresh().post('/api/auth/password-reset/confirm', { token: second, password: 'second link password' })).status).toBe(200);
     expect((await fresh().post('/api/auth/password-reset/confirm', { token: second, password: 'again and again' })).status).toBe(400);
+    expect((await fresh().get(`/api/auth/password-reset/${second}`)).body.error.code).toBe('reset_link_invalid');
     expect((await fresh().post('/api/auth/sign-in', { email, password: 'second link password' })).status).toBe(200);
   });
 });

@@ -82,6 +82,13 @@ export function authRoutes(auth: AuthService, passport: PassportStatic): ApiRout
     await auth.requestReset(req.body.email);
     res.status(202).json({ message: 'If an account uses this e-mail, a reset link is on its way.' });
   });
+  api.route('get', '/password-reset/:token', { policy: publicAccess, summary: 'Whether a mailed reset link still works' }, async (req, res) => {
+    res.set('Referrer-Policy', 'no-referrer');
+    if (!(await auth.resetLinkWorks(String(req.params.token)))) {
+      throw new AppError(410, 'reset_link_invalid', 'This reset link was already used, replaced by a newer one or has expired. Ask for a new one.');
+    }
+    res.json({ valid: true });
+  });
   api.route('post', '/password-reset/confirm', { policy: publicAccess, summary: 'Set a new password with a reset token; ends every session of the account', body: passwordResetConfirmSchema }, async (req, res) => {
     await auth.confirmReset(req.body.token, req.body.password);
     res.json({ message: 'Password changed. Sign in with the new password.' });

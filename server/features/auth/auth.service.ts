@@ -125,6 +125,13 @@ export class AuthService {
     });
   }
 
+  /** Whether a reset link still works (so the page can say so before the user types a password). */
+  async resetLinkWorks(token: string): Promise<boolean> {
+    if (!/^[A-Za-z0-9_-]{20,100}$/.test(token)) return false;
+    const reset = await PasswordReset.findOne({ where: { tokenHash: hashToken(token) } });
+    return !!reset && !reset.usedAt && reset.expiresAt.getTime() > Date.now();
+  }
+
   /**
    * Sets a new password with a reset token. Every reset link of the account dies, every session
    * of the account ends, the address counts as proven and the sign-in back-off is cleared.

@@ -1,9 +1,11 @@
 import { HttpClient } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject, input, resource, signal } from '@angular/core';
 import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { apiErrorMessage } from '../../core/api-error';
 import { RouterLink } from '@angular/router';
 import { firstValueFrom } from 'rxjs';
 import { FormAction } from '../../core/form-action';
@@ -13,7 +15,7 @@ import { passwordLength } from './password-length';
 /** Choose a new password with the token from the e-mailed link. */
 @Component({
   selector: 'em-reset-password',
-  imports: [AccountFrame, ReactiveFormsModule, RouterLink, MatButtonModule, MatFormFieldModule, MatInputModule],
+  imports: [AccountFrame, ReactiveFormsModule, RouterLink, MatButtonModule, MatFormFieldModule, MatInputModule, MatProgressBarModule],
   template: `
     <em-account-frame heading="Choose a new password">
       @if (!token()) {
@@ -21,6 +23,14 @@ import { passwordLength } from './password-length';
       } @else if (done()) {
         <p class="ok" role="status">{{ done() }}</p>
         <a mat-flat-button routerLink="/sign-in">Sign in</a>
+      } @else if (link.isLoading()) {
+        <mat-progress-bar mode="indeterminate" aria-label="Checking the link" />
+      } @else if (link.error()) {
+        <p class="error" role="alert">{{ linkError() }}</p>
+        <div class="actions">
+          <a mat-flat-button routerLink="/forgot-password">Ask for a new link</a>
+          <a mat-stroked-button routerLink="/sign-in">Sign in</a>
+        </div>
       } @else {
         <form [formGroup]="form" (ngSubmit)="setPassword()" novalidate>
           <mat-form-field appearance="outline">
@@ -52,6 +62,15 @@ export class ResetPassword {
   protected readonly form = inject(FormBuilder).nonNullable.group({ password: ['', [Validators.required, passwordLength]] });
   protected readonly submit = new FormAction();
   protected readonly done = signal('');
+  /** Whether the link still works, asked before a password is typed (a used link says so at once). */
+  protected readonly link = resource({
+    params: () => this.token() || undefined,
+    loader: ({ params }) => firstValueFrom(this.http.get<{ valid: boolean }>(`/api/auth/password-reset/${encodeURIComponent(params)}`)),
+  });
+
+  protected linkError(): string {
+    return apiErrorMessage(this.link.error());
+  }
 
   protected setPassword(): Promise<void> {
     return this.submit.run(this.form, async () => {

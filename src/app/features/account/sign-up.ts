@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal } from '@angular/core';
 import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -7,6 +7,7 @@ import { MatInputModule } from '@angular/material/input';
 import { Router, RouterLink } from '@angular/router';
 import { FormAction } from '../../core/form-action';
 import { AuthStore } from '../../core/auth-store';
+import { StudioApi } from '../studio/studio-api';
 import { AccountFrame } from './account-frame';
 import { safeNext } from './safe-next';
 import { passwordLength } from './password-length';
@@ -25,6 +26,7 @@ import { passwordLength } from './password-length';
 export class SignUp {
   private readonly auth = inject(AuthStore);
   private readonly router = inject(Router);
+  private readonly studios = inject(StudioApi);
 
   /** Where to go after success (a path inside the app); from the query string. */
   readonly next = input<string | undefined>();
@@ -39,6 +41,20 @@ export class SignUp {
   protected readonly sent = signal('');
   protected readonly sentTo = signal('');
   private readonly inviteToken = computed(() => this.next()?.match(/^\/invites\/([A-Za-z0-9_-]{20,100})$/)?.[1]);
+
+  constructor() {
+    // Arriving from an invite: the invited address is the one to sign up with.
+    effect(() => {
+      const token = this.inviteToken();
+      if (!token) return;
+      this.studios.previewInvite(token).then(
+        (invite) => {
+          if (!invite.accepted && !this.form.controls.email.dirty) this.form.controls.email.setValue(invite.email);
+        },
+        () => undefined,
+      );
+    });
+  }
 
   protected createAccount(): Promise<void> {
     return this.submit.run(this.form, async () => {
