@@ -94,4 +94,14 @@ test('a bad file is refused with the reason, nothing is stored, and the page sta
   await expect(page.getByRole('link', { name: /Open not-really/ })).toHaveCount(0);
   await page.getByRole('button', { name: 'Dismiss the failed upload of not-really.png' }).click();
   await expect(page.getByRole('textbox', { name: 'Search by name' })).toBeEnabled();
+
+  // A failed upload, then a good one: the old error goes, and a small GIF's size reads in bytes (issue "Workflow", item 16).
+  await page.locator('input[type=file]').setInputFiles({ name: 'again-not.png', mimeType: 'image/png', buffer: Buffer.from('<html></html>') });
+  await expect(page.getByRole('alert').filter({ hasText: 'not a PNG, GIF, JPEG or WebP' })).toBeVisible();
+  const tinyGif = Buffer.from('R0lGODlhAQABAIAAAP+wAAAAACH5BAAAAAAALAAAAAABAAEAAAICRAEAOw==', 'base64');
+  const name = `tiny-${Date.now().toString(36)}`;
+  await page.locator('input[type=file]').setInputFiles({ name: `${name}.gif`, mimeType: 'image/gif', buffer: tinyGif });
+  await expect(page.getByRole('link', { name: new RegExp(`Open ${name}`) })).toBeVisible();
+  await expect(page.getByRole('alert').filter({ hasText: 'not a PNG, GIF, JPEG or WebP' })).toHaveCount(0);
+  await expect(page.getByText(`${tinyGif.length} bytes`)).toBeVisible();
 });

@@ -4,6 +4,8 @@ test('an editor works out an EL drive timing and saves it; the viewer sees it wi
   await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
   await page.getByRole('link', { name: 'Drive timing' }).click();
   await expect(page.getByRole('heading', { name: 'High voltage: read before you probe' })).toBeVisible();
+  // A new timing has no name until the user gives one (issue "Workflow", item 22).
+  await expect(page.getByRole('textbox', { name: 'Name' })).toHaveValue('');
   // DMT 640×480@60, dual-scan, 4 pixels a clock [std DMT row; calc shift clock 25.175 / 8].
   await expect(page.getByText('25.175 MHz', { exact: true })).toBeVisible();
   await expect(page.getByText('31.469 kHz', { exact: true })).toBeVisible();

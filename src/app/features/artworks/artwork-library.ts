@@ -1,4 +1,4 @@
-import { DatePipe, DecimalPipe } from '@angular/common';
+import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, DestroyRef, inject, resource, signal } from '@angular/core';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -12,6 +12,7 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { RouterLink } from '@angular/router';
 import type { ArtworkDto } from '../../../../shared/api/dto';
 import { apiErrorMessage } from '../../core/api-error';
+import { formatBytes } from '../../core/format-bytes';
 import { StudioContext } from '../studio/studio-context';
 import { ArtworkApi } from './artwork-api';
 
@@ -25,7 +26,7 @@ interface UploadItem {
 /** The studio's artwork library: upload by drop, picker or paste; search, sort, rename, delete. */
 @Component({
   selector: 'em-artwork-library',
-  imports: [FormsModule, RouterLink, DatePipe, DecimalPipe, MatButtonModule, MatIconModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatCheckboxModule, MatProgressBarModule],
+  imports: [FormsModule, RouterLink, DatePipe, MatButtonModule, MatIconModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatCheckboxModule, MatProgressBarModule],
   templateUrl: './artwork-library.html',
   styleUrl: './artwork-library.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -75,7 +76,11 @@ export class ArtworkLibrary {
     }
   }
 
+  protected readonly size = formatBytes;
+
   protected uploadFiles(files: File[]): void {
+    // A new attempt replaces the errors of earlier ones: a stale message must not outlive a retry.
+    this.uploads.update((list) => list.filter((u) => !u.error));
     const sheet = this.isSheet() ? { frameWidth: this.frameWidth(), frameHeight: this.frameHeight(), frameDelayMs: this.frameDelayMs() } : undefined;
     for (const file of files) {
       const item: UploadItem = { id: this.nextUpload++, name: file.name || 'pasted image', share: 0, error: '' };

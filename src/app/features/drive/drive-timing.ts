@@ -49,7 +49,8 @@ export class DriveTiming {
   ];
   protected readonly pixelsPerClock = PIXELS_PER_CLOCK;
   protected readonly form = inject(FormBuilder).nonNullable.group({
-    name: ['Handheld EL, 60 Hz', [Validators.required, Validators.maxLength(80)]],
+    // Empty until the user names it: a prefilled name would end up on every download.
+    name: ['', [Validators.required, Validators.maxLength(80)]],
     panelTypeId: ['el-amber-640x480'],
     kind: ['standard' as 'standard' | 'custom'],
     standard: ['dmt' as Standard],
@@ -153,6 +154,6 @@ export class DriveTiming {
             hSyncPositive: v.hSyncPositive,
             vSyncPositive: v.vSyncPositive,
           };
-    return { name: v.name.trim() || 'timing', panelTypeId: v.panelTypeId, source, interface: { dualScan: v.dualScan, pixelsPerClock: v.pixelsPerClockValue } };
+    return { name: v.name.trim() || (v.kind === 'standard' ? `${v.mode} ${v.standard.toUpperCase()}` : 'Timing by hand'), panelTypeId: v.panelTypeId, source, interface: { dualScan: v.dualScan, pixelsPerClock: v.pixelsPerClockValue } };
   }
 }
