@@ -1,4 +1,4 @@
-import { expect, signIn, test, uniqueEmail, waitForMail } from './fixtures';
+import { expect, inviteNewMember, signIn, test, uniqueEmail, waitForMail } from './fixtures';
 
 test('the demo owner signs in and sees the Kiln & Quartz studio', async ({ page, guard }) => {
   void guard;
@@ -55,11 +55,7 @@ test('sign up → confirm by mail → reset the password by mail → sign in →
   await page.getByLabel('Studio name').fill('Lantern Works');
   await page.getByRole('button', { name: 'Create studio' }).click();
   await expect(page).toHaveURL(/\/bench$/);
-  await page.getByRole('link', { name: 'Members' }).click();
-  const invitee = uniqueEmail('invitee');
-  await page.getByRole('textbox', { name: 'E-mail' }).fill(invitee);
-  await page.getByRole('button', { name: 'Send invite' }).click();
-  await expect(page.getByRole('list', { name: 'Pending invites' })).toContainText(invitee);
+  const invitee = await inviteNewMember(page, 'invitee');
   await page.screenshot({ path: testInfo.outputPath('owner-members.png'), fullPage: true });
 
   // The invitee opens the mailed link in their own browser, creates an account and joins.

@@ -49,6 +49,16 @@ export const test = base.extend<{ guard: { offHost: string[]; cspViolations: str
 
 export { expect };
 
+/** From a studio page, as its owner: invites a new address through the Members page and returns it. */
+export async function inviteNewMember(page: Page, tag: string): Promise<string> {
+  await page.getByRole('link', { name: 'Members' }).click();
+  const invitee = uniqueEmail(tag);
+  await page.getByRole('textbox', { name: 'E-mail' }).fill(invitee);
+  await page.getByRole('button', { name: 'Send invite' }).click();
+  await expect(page.getByRole('list', { name: 'Pending invites' })).toContainText(invitee);
+  return invitee;
+}
+
 /** Signs in through the form. */
 export async function signIn(page: Page, email: string, password: string): Promise<void> {
   await page.goto('/sign-in');

@@ -1,14 +1,10 @@
-import { expect, signIn, test, uniqueEmail, waitForMail } from './fixtures';
+import { expect, inviteNewMember, signIn, test, waitForMail } from './fixtures';
 
 // Issue "Workflow", item 19: a member the owner removed is told so, not that the studio is missing.
 test('an invited member joins, is removed by the owner, and on reload reads that they are no longer a member', async ({ page, browser, guard }) => {
   await signIn(page, 'owner@kilnquartz.example', 'amber-glow-demo');
   await expect(page).toHaveURL(/\/bench$/);
-  await page.getByRole('link', { name: 'Members' }).click();
-  const invitee = uniqueEmail('leaver');
-  await page.getByRole('textbox', { name: 'E-mail' }).fill(invitee);
-  await page.getByRole('button', { name: 'Send invite' }).click();
-  await expect(page.getByRole('list', { name: 'Pending invites' })).toContainText(invitee);
+  const invitee = await inviteNewMember(page, 'leaver');
 
   // The invitee follows the mailed link, creates the account there (the link proves the address) and joins.
   const inviteLink = await waitForMail(invitee, /http:\/\/127\.0\.0\.1:\d+\/invites\/[A-Za-z0-9_-]+/);
