@@ -101,6 +101,8 @@ describe('panel interface [calc]', () => {
     const w = interfaceWarnings(t, { dualScan: true, pixelsPerClock: 4 }, { family: 'el', cols: 640, rows: 400 });
     expect(w.join(' ')).toMatch(/60–120 Hz/);
     expect(w.join(' ')).toMatch(/panel is 640 × 400/);
+    // Sources belong in docs and tests, not in what the user reads (issue "Workflow", item 13).
+    expect(w.join(' ')).not.toMatch(/\[(mem|ds|std|cp|calc|paper|from memory)/);
     expect(interfaceWarnings(fixedTiming('640x480@60')!, { dualScan: true, pixelsPerClock: 4 }, { family: 'el', cols: 640, rows: 480 })).toEqual([]);
   });
 

@@ -61,7 +61,8 @@ export function interfaceWarnings(t: Timing, iface: PanelInterface, panel: Panel
   const { refreshHz, lineRateKHz } = figures(t);
   if (t.h.active !== panel.cols || t.v.active !== panel.rows) warnings.push(`The timing is ${t.h.active} × ${t.v.active} but the panel is ${panel.cols} × ${panel.rows}.`);
   // Half a hertz of slack so 59.94 Hz video rates count as 60.
-  if (panel.family === 'el' && (refreshHz < 59.5 || refreshHz > 120.5)) warnings.push(`EL panels are usually refreshed at 60–120 Hz [from memory of datasheet families]; this timing gives ${refreshHz.toFixed(2)} Hz.`);
+  // 60–120 Hz: EL datasheet families, from memory (docs/references.md). The source stays here, not in the user's warning.
+  if (panel.family === 'el' && (refreshHz < 59.5 || refreshHz > 120.5)) warnings.push(`EL panels are usually refreshed at 60–120 Hz; this timing gives ${refreshHz.toFixed(2)} Hz.`);
   if (panel.family === 'el' && !iface.dualScan && panel.rows >= 400) warnings.push('Panels of 400 rows or more are usually dual-scan; check the panel documentation.');
   if (panel.family === 'crt' && (lineRateKHz < 15 || lineRateKHz > 70)) warnings.push(`A line rate of ${lineRateKHz.toFixed(2)} kHz is outside what fixed-frequency monochrome monitors take (about 15–32 kHz; multisync up to ~70 kHz).`);
   if (refreshHz < 50) warnings.push(`${refreshHz.toFixed(1)} Hz flickers visibly on most emissive panels.`);
