@@ -81,6 +81,15 @@ test('upload through the library → open on the bench → change the glow → t
   await waitForDraw(page, third);
   withinOneCode(await drift(page), 'after a light-only edit');
   await page.screenshot({ path: testInfo.outputPath('bench-glow.png') });
+
+  // Keyboard: the first Tab offers a skip link past the bar and the navigation (issue "Workflow", item 25).
+  await page.reload();
+  await expect(page.getByRole('slider', { name: 'Glow share' })).toBeVisible();
+  await page.keyboard.press('Tab');
+  const skip = page.getByRole('link', { name: 'Skip to the page content' });
+  await expect(skip).toBeFocused();
+  await page.keyboard.press('Enter');
+  await expect(page.locator('#page-content')).toBeFocused();
 });
 
 test('a bad file is refused with the reason, nothing is stored, and the page stays usable', async ({ page, guard }) => {

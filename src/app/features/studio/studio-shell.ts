@@ -53,6 +53,12 @@ export class StudioShell {
     });
   }
 
+  /** The skip link: past the bar and the navigation, straight to the page's own content. */
+  protected skipToContent(event: Event): void {
+    event.preventDefault();
+    document.getElementById('page-content')?.focus();
+  }
+
   protected errorText(): string {
     const err = this.studio.error();
     // Non-members get the same 404 as for a missing studio (no oracle); this browser knows better.
