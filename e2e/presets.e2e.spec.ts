@@ -50,9 +50,14 @@ test('an editor changes a preset → the viewer sees the new revision → the ow
   await expect(owner.getByRole('table').filter({ hasText: 'glass.glowRadiusMm' })).toBeVisible();
   await owner.getByRole('combobox', { name: 'Show it on' }).click();
   await owner.getByRole('option', { name: 'Title screen' }).click();
+  // Expiry is a choice from a list; "never" must be picked on purpose (issue "Workflow", item 6).
+  await owner.getByRole('combobox', { name: 'Link expires' }).click();
+  await expect(owner.getByRole('option', { name: 'Never' })).toBeVisible();
+  await owner.getByRole('option', { name: 'After 30 days' }).click();
   await owner.getByRole('button', { name: 'Create link' }).click();
   const url = (await owner.getByTestId('new-link').textContent())!.trim();
   expect(url).toMatch(/\/share\/[A-Za-z0-9_-]{43}$/);
+  await expect(owner.getByRole('list', { name: 'Share links' })).toContainText('expires');
   await owner.screenshot({ path: testInfo.outputPath('preset-owner.png'), fullPage: true });
   // Renaming is a revision too.
   await owner.getByRole('button', { name: 'Rename the preset' }).click();

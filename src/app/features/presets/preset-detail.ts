@@ -45,6 +45,16 @@ export class PresetDetail {
   protected readonly compareA = signal<number | null>(null);
   protected readonly compareB = signal<number | null>(null);
   protected readonly linkArtwork = signal<string>('');
+  /** How long a new share link works; "never" is a choice of its own, not what an empty field means. */
+  protected readonly expiryChoices: { days: number | null; label: string }[] = [
+    { days: 1, label: 'After 1 day' },
+    { days: 7, label: 'After 7 days' },
+    { days: 14, label: 'After 14 days' },
+    { days: 30, label: 'After 30 days' },
+    { days: 90, label: 'After 90 days' },
+    { days: 365, label: 'After a year' },
+    { days: null, label: 'Never' },
+  ];
   protected readonly linkDays = signal<number | null>(14);
   protected readonly newLinkUrl = signal('');
   protected readonly duplicateTo = signal('');
@@ -120,7 +130,7 @@ export class PresetDetail {
 
   protected async createLink(): Promise<void> {
     await this.act(async () => {
-      const link = await this.api.createLink(this.context.studioId(), this.presetId(), { artworkId: this.linkArtwork() || undefined, expiresInDays: this.linkDays() || undefined });
+      const link = await this.api.createLink(this.context.studioId(), this.presetId(), { artworkId: this.linkArtwork() || undefined, expiresInDays: this.linkDays() ?? undefined });
       this.newLinkUrl.set(link.url ?? '');
       this.links.reload();
       return 'Share link created. Copy it now: it is shown only once.';
