@@ -34,7 +34,7 @@ export class AuthService {
    * address has an account, and a mail goes out after the answer: a verification link, or a
    * note that the account exists.
    */
-  async signUp(body: SignUpBody & { inviteToken?: string }): Promise<User | null> {
+  async signUp(body: SignUpBody): Promise<User | null> {
     const passwordHash = await hashPassword(body.password);
     const existing = await User.findOne({ where: { email: body.email } });
     if (!existing && body.inviteToken && (await this.inviteProves(body.inviteToken, body.email))) {

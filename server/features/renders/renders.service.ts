@@ -5,7 +5,7 @@ import { builtInPresetById } from '../../../shared/model/panel-types';
 import { mergeParams, panelParamsPatchSchema, panelParamsSchema, type PanelParams, type PanelParamsPatch } from '../../../shared/model/parameters';
 import { AppError, notFound } from '../../core/app-error';
 import { parseOrThrow } from '../../core/validate';
-import type { RenderEngine, RenderRequest } from '../../render/render-engine';
+import type { RenderedPng, RenderEngine, RenderRequest } from '../../render/render-engine';
 import { renderKey } from '../../render/render-key';
 import type { RenderStore } from '../../storage/render-store';
 import { Render } from './render.model';
@@ -55,11 +55,7 @@ export class RendersService {
   /** A render from the cache, or rendered now (file first, then its row). */
   render(owner: RenderOwner, request: RenderRequest): Promise<RenderDto> {
     const key = renderKey(request, owner.studioId ? `studio:${owner.studioId}` : `user:${owner.userId}`);
-    const running = this.inFlight.get(key);
-    if (running) return running.then((dto) => ({ ...dto, cached: true }));
-    const work = this.renderOnce(key, owner, request).finally(() => this.inFlight.delete(key));
-    this.inFlight.set(key, work);
-    return work;
+    return this.singleFlight(key, () => this.renderOnce(key, owner, () => this.engine.render(request)));
   }
 
   /**
@@ -69,26 +65,25 @@ export class RendersService {
   async thumbnail(owner: { studioId: string; artworkId: string; userId: string }, request: Omit<RenderRequest, 'scale' | 'frame'>): Promise<Buffer> {
     const full = { ...request, scale: 1, frame: 0 };
     const key = renderKey(full, `studio:${owner.studioId}/thumbnail-${THUMBNAIL_PX}`);
-    const row = await Render.findOne({ where: { key, studioId: owner.studioId } });
-    if (row && (await this.store.exists(key))) {
-      await row.update({ lastUsedAt: new Date() });
-      return this.store.read(key);
-    }
-    const running = this.inFlight.get(key);
-    if (running) {
-      await running;
-      return this.store.read(key);
-    }
-    const work = (async (): Promise<RenderDto> => {
-      const { png } = await this.engine.render(full);
-      const small = await sharp(png).resize(THUMBNAIL_PX, THUMBNAIL_PX, { fit: 'inside', kernel: 'linear', withoutEnlargement: true }).png({ compressionLevel: 6 }).toBuffer({ resolveWithObject: true });
-      await this.store.write(key, small.data);
-      await Render.upsert({ key, width: small.info.width, height: small.info.height, bytes: small.data.length, createdById: owner.userId, studioId: owner.studioId, artworkId: owner.artworkId, lastUsedAt: new Date() });
-      return { key, url: '', width: small.info.width, height: small.info.height, cached: false };
-    })().finally(() => this.inFlight.delete(key));
-    this.inFlight.set(key, work);
-    await work;
+    await this.singleFlight(key, () =>
+      this.renderOnce(key, owner, async () => {
+        const small = await sharp((await this.engine.render(full)).png)
+          .resize(THUMBNAIL_PX, THUMBNAIL_PX, { fit: 'inside', kernel: 'linear', withoutEnlargement: true })
+          .png({ compressionLevel: 6 })
+          .toBuffer({ resolveWithObject: true });
+        return { png: small.data, width: small.info.width, height: small.info.height };
+      }),
+    );
     return this.store.read(key);
+  }
+
+  /** Concurrent requests for one key share one piece of work; the later ones see it as cached. */
+  private singleFlight(key: string, work: () => Promise<RenderDto>): Promise<RenderDto> {
+    const running = this.inFlight.get(key);
+    if (running) return running.then((dto) => ({ ...dto, cached: true }));
+    const started = work().finally(() => this.inFlight.delete(key));
+    this.inFlight.set(key, started);
+    return started;
   }
 
   /** The PNG of a render, if it belongs to this owner (404 otherwise, the same as a missing one). */
@@ -116,7 +111,7 @@ export class RendersService {
     return this.store.reconcile(async (keys) => new Set(keys.length ? (await Render.findAll({ attributes: ['key'], where: { key: keys } })).map((r) => r.key) : []));
   }
 
-  private async renderOnce(key: string, owner: RenderOwner, request: RenderRequest): Promise<RenderDto> {
+  private async renderOnce(key: string, owner: RenderOwner, produce: () => Promise<RenderedPng>): Promise<RenderDto> {
     const url = owner.studioId ? `/api/studios/${owner.studioId}/renders/${key}` : `/api/renders/${key}`;
     const row = await Render.findByPk(key);
     // A row whose file went missing is rendered again rather than served broken.
@@ -124,16 +119,16 @@ export class RendersService {
       await row.update({ lastUsedAt: new Date() });
       return { key, url, width: row.width, height: row.height, cached: true };
     }
-    const { png, width, height } = await this.engine.render(request);
+    const { png, width, height } = await produce();
     // A crash between the two writes leaves an unreferenced file (removed at start), never a row without one.
     await this.store.write(key, png);
     await Render.upsert({ key, width, height, bytes: png.length, createdById: owner.userId, studioId: owner.studioId ?? null, artworkId: owner.studioId ? owner.artworkId : null, lastUsedAt: new Date() });
-    if (owner.studioId) await this.enforceBudget(owner.studioId);
+    if (owner.studioId) await this.enforceBudget(owner.studioId, key);
     return { key, url, width, height, cached: false };
   }
 
-  /** Drops a studio's least recently used renders until its total is within the budget. */
-  private async enforceBudget(studioId: string): Promise<void> {
+  /** Drops a studio's least recently used renders until its total is within the budget; never `keep`, the one just made. */
+  private async enforceBudget(studioId: string, keep: string): Promise<void> {
     const [over] = (await this.sequelize.query(
       `SELECT key FROM (
          SELECT key, sum(bytes) OVER (ORDER BY last_used_at DESC, key) AS running FROM renders WHERE studio_id = $1
@@ -141,7 +136,8 @@ export class RendersService {
       { bind: [studioId, this.studioBudgetBytes] },
     )) as [{ key: string }[], unknown];
     if (!over.length) return;
-    const keys = over.map((r) => r.key);
+    const keys = over.map((r) => r.key).filter((k) => k !== keep);
+    if (!keys.length) return;
     await Render.destroy({ where: { key: keys } });
     await this.store.remove(keys);
   }
