@@ -1,6 +1,6 @@
 import type { Request, RequestHandler } from 'express';
 import { roleAtLeast, type Role } from '../../shared/model/roles';
-import { Membership } from '../features/studios/membership.model';
+import { roleIn } from '../features/studios/membership-lookup';
 import { forbidden, notFound, unauthenticated } from './app-error';
 
 /** Who may call a route. Every /api route declares one; a route without one is a test failure. */
@@ -33,10 +33,10 @@ export function enforce(policy: Policy): RequestHandler {
     const studioId = String(req.params.studioId ?? '');
     // Another studio's id and a malformed id look the same as a missing one (no IDOR oracle).
     if (!UUID.test(studioId)) throw notFound('The studio');
-    const membership = await Membership.findOne({ where: { studioId, userId: req.user.id } });
-    if (!membership) throw notFound('The studio');
-    if (!roleAtLeast(membership.role, policy.role)) throw forbidden();
-    req.membership = { studioId, userId: req.user.id, role: membership.role };
+    const role = await roleIn(studioId, req.user.id);
+    if (!role) throw notFound('The studio');
+    if (!roleAtLeast(role, policy.role)) throw forbidden();
+    req.membership = { studioId, userId: req.user.id, role };
     next();
   };
   return Object.assign(handler, { [POLICY]: policy });

@@ -24,8 +24,22 @@ const helmetWithCsp = helmet({
   referrerPolicy: { policy: 'same-origin' },
 });
 
-/** helmet's headers with a strict CSP (ASVS 5.0 3.4) and a fresh nonce per response. */
+/**
+ * API answers are data, never a page: nothing may run or load from them (a PNG opened in its own
+ * tab may still show itself). This is the stricter policy, and it needs no nonce.
+ */
+const helmetForApi = helmet({
+  contentSecurityPolicy: {
+    useDefaults: false,
+    directives: { defaultSrc: ["'none'"], imgSrc: ["'self'"], frameAncestors: ["'none'"], baseUri: ["'none'"], formAction: ["'none'"] },
+  },
+  crossOriginEmbedderPolicy: false,
+  referrerPolicy: { policy: 'same-origin' },
+});
+
+/** helmet's headers with a strict CSP (ASVS 5.0 3.4): a fresh nonce for pages, none at all for API answers. */
 export const securityHeaders: RequestHandler = (req, res, next) => {
+  if (req.path.startsWith('/api/')) return helmetForApi(req, res, next);
   res.locals.cspNonce = randomBytes(16).toString('base64');
   helmetWithCsp(req, res, next);
 };

@@ -24,25 +24,122 @@ export function sessionMiddleware(pool: Pool, secret: string, production: boolea
 /** A session's stored expiry is pushed forward at most this often (the cookie's on every answer). */
 export const TOUCH_EVERY_MS = 60_000;
 
+/** How long a session read from the table may be served from memory before it is read again. */
+export const SESSION_CACHE_MS = 10_000;
+
+type StoredSession = session.SessionData;
+
+/**
+ * Sessions this process has just read or written, so a burst of requests on one session costs one
+ * SELECT rather than one each. Every write and delete this process makes goes through here first;
+ * a change made by another process (none today) shows within SESSION_CACHE_MS. An entry is never
+ * served past the stored expiry it was read or written with.
+ */
+class SessionCache {
+  private readonly entries = new Map<string, { json: string; userId: string | null; expire: number; until: number }>();
+  /** Counts forgets: a read that started before one may have fetched what it removed. */
+  private generation = 0;
+
+  constructor(private readonly ttlMs: number, private readonly max: number) {}
+
+  read(sid: string, now = Date.now()): StoredSession | undefined {
+    const e = this.entries.get(sid);
+    if (!e) return undefined;
+    if (e.until <= now || e.expire <= now) {
+      this.entries.delete(sid);
+      return undefined;
+    }
+    // express-session rewrites the object it is given: each request gets its own copy.
+    return JSON.parse(e.json) as StoredSession;
+  }
+
+  /** Call before reading the table; pass the result to write. */
+  mark(): number {
+    return this.generation;
+  }
+
+  write(sid: string, sess: StoredSession, expire: number, mark = this.generation, now = Date.now()): void {
+    this.entries.delete(sid);
+    if (mark !== this.generation) return;
+    this.entries.set(sid, { json: JSON.stringify(sess), userId: userIdOf(sess), expire, until: now + this.ttlMs });
+    // Oldest first in a Map: keep the memory bounded.
+    if (this.entries.size > this.max) this.entries.delete(this.entries.keys().next().value!);
+  }
+
+  /** A touch moved the stored expiry forward. */
+  extend(sid: string, expire: number): void {
+    const e = this.entries.get(sid);
+    if (e) e.expire = expire;
+  }
+
+  forget(sid: string): void {
+    this.generation++;
+    this.entries.delete(sid);
+  }
+
+  /** Drops every session of an account except `keepSid` (see endSessionsOf). */
+  forgetUser(userId: string, keepSid: string | null): void {
+    this.generation++;
+    for (const [sid, e] of this.entries) if (e.userId === userId && sid !== keepSid) this.entries.delete(sid);
+  }
+}
+
+/** passport keeps the account at sess.passport.user: an object with the id, or (older rows) the id. */
+function userIdOf(sess: StoredSession): string | null {
+  const user = (sess as { passport?: { user?: { id?: string } | string } }).passport?.user;
+  return (typeof user === 'string' ? user : user?.id) ?? null;
+}
+
+/** connect-pg-simple's own rule for a row's expiry: the cookie's, else a day from now. */
+function expireOf(sess: StoredSession): number {
+  const expires = sess.cookie?.expires;
+  return expires ? new Date(expires).getTime() : Date.now() + 86_400_000;
+}
+
+export const sessionCache = new SessionCache(SESSION_CACHE_MS, 50_000);
+
 /**
  * connect-pg-simple's store on the sessions table; it prunes expired rows every 15 minutes
- * (SECURITY.md 35). With a rolling idle timeout every signed-in request would otherwise write (and
- * flush) an UPDATE: the stored expiry moves at most once a minute, so the 30-minute idle timeout
- * holds to within that minute.
+ * (security item 35 in the README). With a rolling idle timeout every signed-in request would
+ * otherwise write (and flush) an UPDATE: the stored expiry moves at most once a minute, so the
+ * 30-minute idle timeout holds to within that minute. Reads go through sessionCache.
  */
 export function sessionStore(pool: Pool, prune = true): InstanceType<ReturnType<typeof connectPgSimple>> {
   const PgStore = connectPgSimple(session);
   const store = new PgStore({ pool, tableName: 'sessions', createTableIfMissing: false, pruneSessionInterval: prune ? 15 * 60 : false });
   const touched = new Map<string, number>();
-  const touch = store.touch.bind(store);
+  const [get, set, destroy, touch] = [store.get.bind(store), store.set.bind(store), store.destroy.bind(store), store.touch.bind(store)];
+  store.get = (sid, done) => {
+    const cached = sessionCache.read(sid);
+    if (cached) return done(null, cached);
+    const mark = sessionCache.mark();
+    get(sid, (err, sess) => {
+      if (!err && sess) sessionCache.write(sid, sess, expireOf(sess), mark);
+      done(err, sess);
+    });
+  };
+  store.set = (sid, sess, done) => {
+    sessionCache.forget(sid);
+    const mark = sessionCache.mark();
+    set(sid, sess, (err) => {
+      if (!err) sessionCache.write(sid, sess, expireOf(sess), mark);
+      done?.(err);
+    });
+  };
+  store.destroy = (sid, done) => {
+    sessionCache.forget(sid);
+    destroy(sid, done);
+  };
   store.touch = (sid, sess, done) => {
     const now = Date.now();
     if ((touched.get(sid) ?? 0) > now - TOUCH_EVERY_MS) return done?.();
     touched.delete(sid);
     touched.set(sid, now);
-    // Oldest first in a Map: keep the memory bounded.
     if (touched.size > 50_000) touched.delete(touched.keys().next().value!);
-    touch(sid, sess, done);
+    touch(sid, sess, () => {
+      sessionCache.extend(sid, expireOf(sess));
+      done?.();
+    });
   };
   return store;
 }

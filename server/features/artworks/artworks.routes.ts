@@ -27,7 +27,7 @@ export function artworksRoutes(artworks: ArtworksService, renders: RendersServic
     res.status(201).json({ artwork: await artworks.upload(req.membership!.studioId, req.user!.id, req.file.buffer, req.file.originalname, fields) });
   });
   api.route('get', '/artworks/:artworkId', { policy: studioRole('viewer'), summary: 'One artwork' }, async (req, res) => {
-    res.json({ artwork: artworkDto(await artworks.get(req.membership!.studioId, artworkId(req))) });
+    res.json({ artwork: await artworks.find(req.membership!.studioId, artworkId(req)) });
   });
   api.route('patch', '/artworks/:artworkId', { policy: studioRole('editor'), summary: 'Rename an artwork', body: renameArtworkSchema }, async (req, res) => {
     res.json({ artwork: await artworks.rename(req.membership!.studioId, artworkId(req), req.body.name) });
@@ -39,18 +39,18 @@ export function artworksRoutes(artworks: ArtworksService, renders: RendersServic
     res.status(204).end();
   });
   api.route('get', '/artworks/:artworkId/original', { policy: studioRole('viewer'), summary: 'The uploaded file as it was' }, async (req, res) => {
-    const a = await artworks.get(req.membership!.studioId, artworkId(req));
+    const a = await artworks.find(req.membership!.studioId, artworkId(req));
     const safeName = a.name.replace(/[^\w .-]/g, '_');
     res.set({ 'Content-Type': MIME[a.type], 'X-Content-Type-Options': 'nosniff', 'Content-Disposition': `attachment; filename="${safeName}.${a.type === 'jpeg' ? 'jpg' : a.type}"` });
     res.send(await artworks.original(a.id));
   });
   api.route('get', '/artworks/:artworkId/thumbnail', { policy: studioRole('viewer'), summary: 'A PNG thumbnail (at most 256 px)' }, async (req, res) => {
-    const a = await artworks.get(req.membership!.studioId, artworkId(req));
+    const a = await artworks.find(req.membership!.studioId, artworkId(req));
     res.set({ ...png, 'Content-Disposition': 'inline; filename="thumbnail.png"', 'Cache-Control': 'private, max-age=3600' });
     res.send(await artworks.thumbnail(a.id));
   });
   api.route('get', '/artworks/:artworkId/frames', { policy: studioRole('viewer'), summary: 'The decoded frames as raw RGBA, one after another (what the reference renderer sees)' }, async (req, res) => {
-    const a = await artworks.get(req.membership!.studioId, artworkId(req));
+    const a = await artworks.find(req.membership!.studioId, artworkId(req));
     const frames = await artworks.frames(a);
     res.set({ 'Content-Type': 'application/octet-stream', 'X-Content-Type-Options': 'nosniff', 'Content-Disposition': 'attachment; filename="frames.rgba"', 'Cache-Control': 'private, max-age=3600' });
     res.send(Buffer.concat(frames.map((f) => Buffer.from(f.image.data.buffer, f.image.data.byteOffset, f.image.data.byteLength))));

@@ -5,6 +5,7 @@ import type { ArtworkDto } from '../../../shared/api/dto';
 import type { SpriteSheet } from '../../../shared/pipeline/sprite-sheet';
 import type { Frame } from '../../../shared/pipeline/types';
 import { AppError, notFound } from '../../core/app-error';
+import { ReadCache } from '../../core/read-cache';
 import { decodeImage, framesOf } from '../../render/decode';
 import type { FileStore } from '../../storage/file-store';
 import { Artwork } from './artwork.model';
@@ -32,6 +33,14 @@ export const artworkDto = (a: Artwork): ArtworkDto => {
   };
 };
 
+/**
+ * The hot reads of a library — its list, one artwork, a thumbnail — served from memory for a few
+ * seconds; any write to artworks or studios empties them (server/db/models.ts).
+ */
+export const libraryCache = new ReadCache<readonly ArtworkDto[]>('artwork-lists', 5_000, { maxEntries: 2_000 });
+export const artworkCache = new ReadCache<ArtworkDto | null>('artworks', 5_000, { maxEntries: 20_000 });
+export const thumbnailCache = new ReadCache<Buffer>('thumbnails', 60_000, { maxEntries: 5_000, maxSize: 32 * 1024 * 1024, sizeOf: (b) => b.length });
+
 /** A studio's artwork library: uploads, thumbnails, decoded frames. */
 export class ArtworksService {
   constructor(
@@ -40,10 +49,22 @@ export class ArtworksService {
     private readonly decode: (bytes: Buffer, sheet: SpriteSheet | null) => Promise<Frame[]> = async (bytes, sheet) => framesOf(await decodeImage(bytes, undefined, sheet), sheet),
   ) {}
 
-  async list(studioId: string, q: string | undefined, sort: 'newest' | 'oldest' | 'name'): Promise<ArtworkDto[]> {
-    const order: Order = sort === 'name' ? [['name', 'ASC']] : [['createdAt', sort === 'oldest' ? 'ASC' : 'DESC']];
-    const where = q ? { studioId, name: { [Op.iLike]: `%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%` } } : { studioId };
-    return (await Artwork.findAll({ where, order, limit: 500 })).map(artworkDto);
+  list(studioId: string, q: string | undefined, sort: 'newest' | 'oldest' | 'name'): Promise<readonly ArtworkDto[]> {
+    return libraryCache.read(JSON.stringify([studioId, q ?? '', sort]), async () => {
+      const order: Order = sort === 'name' ? [['name', 'ASC']] : [['createdAt', sort === 'oldest' ? 'ASC' : 'DESC']];
+      const where = q ? { studioId, name: { [Op.iLike]: `%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%` } } : { studioId };
+      return (await Artwork.findAll({ where, order, limit: 500 })).map(artworkDto);
+    });
+  }
+
+  /** One artwork as the API shows it, for reads (through artworkCache); 404 when not in the studio. */
+  async find(studioId: string, id: string): Promise<ArtworkDto> {
+    const dto = await artworkCache.read(`${studioId}/${id}`, async () => {
+      const a = await Artwork.findOne({ where: { id, studioId } });
+      return a && artworkDto(a);
+    });
+    if (!dto) throw notFound('The artwork');
+    return dto;
   }
 
   async get(studioId: string, id: string): Promise<Artwork> {
@@ -94,7 +115,7 @@ export class ArtworksService {
   }
 
   thumbnail(id: string): Promise<Buffer> {
-    return this.readFile(id, 'thumbnail.png');
+    return thumbnailCache.read(id, () => this.readFile(id, 'thumbnail.png'));
   }
 
   private readFile(id: string, name: string): Promise<Buffer> {
@@ -105,7 +126,7 @@ export class ArtworksService {
   }
 
   /** The frames exactly as the reference renderer sees them. */
-  async frames(a: Artwork): Promise<Frame[]> {
+  async frames(a: Pick<ArtworkDto, 'id' | 'sheet'>): Promise<Frame[]> {
     return this.decode(await this.original(a.id), a.sheet);
   }
 

@@ -7,6 +7,7 @@ import { panelTypeById } from '../../../shared/model/panel-types';
 import type { PanelParams } from '../../../shared/model/parameters';
 import { roleAtLeast, type Role } from '../../../shared/model/roles';
 import { AppError, conflict, forbidden, notFound } from '../../core/app-error';
+import { ReadCache } from '../../core/read-cache';
 import { hashToken, newToken } from '../../core/tokens';
 import { record } from '../activity/activity.model';
 import { Artwork } from '../artworks/artwork.model';
@@ -30,8 +31,15 @@ const names = async (ids: (string | null)[], transaction?: Transaction): Promise
 };
 
 /** Studio presets: revisions on every save, optimistic concurrency, reference lock, share links. */
+/** Pages of a studio's preset list, served from memory for a few seconds; emptied by any write to presets, studios or users (server/db/models.ts). */
+export const presetListCache = new ReadCache<{ presets: PresetDto[]; total: number }>('preset-lists', 5_000, { maxEntries: 2_000 });
+
 export class PresetsService {
-  async list(studioId: string, q: { panelTypeId?: string; search?: string; sort: string; page: number; pageSize: number }): Promise<{ presets: PresetDto[]; total: number }> {
+  list(studioId: string, q: { panelTypeId?: string; search?: string; sort: string; page: number; pageSize: number }): Promise<{ presets: PresetDto[]; total: number }> {
+    return presetListCache.read(JSON.stringify([studioId, q.panelTypeId ?? '', q.search ?? '', q.sort, q.page, q.pageSize]), () => this.query(studioId, q));
+  }
+
+  private async query(studioId: string, q: { panelTypeId?: string; search?: string; sort: string; page: number; pageSize: number }): Promise<{ presets: PresetDto[]; total: number }> {
     const where: Record<string, unknown> = { studioId };
     if (q.panelTypeId) where.panelTypeId = q.panelTypeId;
     if (q.search) where.name = { [Op.iLike]: `%${q.search.replace(/[\\%_]/g, (c) => `\\${c}`)}%` };

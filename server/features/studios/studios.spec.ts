@@ -79,6 +79,27 @@ test('the last owner can neither leave nor be demoted; with a second owner both 
   expect((await owner.get(`/api/studios/${studioId}`)).status).toBe(404);
 });
 
+test('a role change or a removal holds from the very next request, though roles are read through a cache', async () => {
+  const { owner, studioId } = await ownerWithStudio();
+  const member = new TestClient(h.app);
+  const account = await member.signUp('member password 1', 'member');
+  await Membership.create({ studioId, userId: account.id, role: 'viewer' });
+  const artworks = `/api/studios/${studioId}/artworks`;
+  // Reads warm the cache with the viewer role; a viewer may not upload-rename-delete.
+  expect((await member.get(artworks)).status).toBe(200);
+  expect((await member.post(`/api/studios/${studioId}/timings`, {})).status).toBe(403);
+  expect((await owner.patch(`/api/studios/${studioId}/members/${account.id}`, { role: 'editor' })).status).toBe(200);
+  // Promoted: the editor-only route now gets past the policy to body validation (400, not 403).
+  expect((await member.post(`/api/studios/${studioId}/timings`, {})).status).toBe(400);
+  expect((await owner.delete(`/api/studios/${studioId}/members/${account.id}`)).status).toBe(204);
+  expect((await member.get(artworks)).status).toBe(404);
+  // A member added outside the API (any Sequelize write) is seen at once too.
+  await Membership.create({ studioId, userId: account.id, role: 'viewer' });
+  expect((await member.get(artworks)).status).toBe(200);
+  expect((await owner.delete(`/api/studios/${studioId}`)).status).toBe(204);
+  expect((await member.get(artworks)).status).toBe(404);
+});
+
 test('a user in several studios lists each with its role', async () => {
   const { owner, studioId } = await ownerWithStudio();
   const second = await owner.post('/api/studios', { name: 'Another Bench' });
