@@ -1,7 +1,8 @@
 import type { PanelParams } from '../../shared/model/parameters';
 import { compose, type RowBand } from '../../shared/pipeline/output/compose';
 import { outputUniforms } from '../../shared/pipeline/output/uniforms';
-import { panelEmission, panelGlow } from '../../shared/pipeline/render';
+import { glowField, glowPlan } from '../../shared/pipeline/glow/glow';
+import { panelEmission } from '../../shared/pipeline/render';
 import type { Field, Frame } from '../../shared/pipeline/types';
 
 /**
@@ -17,11 +18,16 @@ export function shared<T extends Float32Array | Uint8Array>(a: T): T {
   return copy;
 }
 
-/** Panel-resolution stages and the glow field for one frame (stages 1–5 and 7). */
-export function prepare(task: { frames: Frame[]; parameters: PanelParams; frame: number }): { emission: Float32Array; glow: Field } {
-  const emission = panelEmission(task.frames, task.parameters, task.frame);
-  const glow = panelGlow(emission, task.parameters);
-  return { emission: shared(emission), glow: { width: glow.width, height: glow.height, data: shared(glow.data) } };
+/**
+ * Panel-resolution stages and the glow field for one frame (stages 1–5 and 7), written into the
+ * shared arrays the engine hands in (sized by glowFieldSize and the panel grid).
+ */
+export function prepare(task: { frames: Frame[]; parameters: PanelParams; frame: number; emissionOut: Float32Array; glowOut: Float32Array }): { width: number; height: number } {
+  const p = task.parameters;
+  const emission = panelEmission(task.frames, p, task.frame);
+  task.emissionOut.set(emission);
+  const glow = glowField(emission, p.cell, glowPlan(p.cell, p.glass), task.glowOut);
+  return { width: glow.width, height: glow.height };
 }
 
 /** Output-resolution stages for a band of rows, written into the shared output image. */

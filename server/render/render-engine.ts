@@ -3,6 +3,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { Piscina } from 'piscina';
 import type { PanelParams } from '../../shared/model/parameters';
+import { glowFieldSize, glowPlan } from '../../shared/pipeline/glow/glow';
 import { outputUniforms } from '../../shared/pipeline/output/uniforms';
 import type { SpriteSheet } from '../../shared/pipeline/sprite-sheet';
 import type { Field, Frame } from '../../shared/pipeline/types';
@@ -10,6 +11,7 @@ import { AppError } from '../core/app-error';
 import { decodeImage, framesOf } from './decode';
 import { encodePng } from './encode';
 import { shared } from './pool-tasks';
+import { SharedBufferPool } from './shared-buffers';
 
 /** Largest output image a reference render may produce. */
 export const MAX_OUTPUT_PIXELS = 24_000_000;
@@ -87,6 +89,8 @@ export class RenderEngine {
   private readonly maxPending: number;
   private readonly frames: FrameCache;
   private pending = 0;
+  /** The emission, glow and output arrays of renders, reused (up to 256 MiB held while idle). */
+  private readonly buffers = new SharedBufferPool(256 * 1024 * 1024);
 
   constructor(options: RenderEngineOptions = {}) {
     this.threads = options.threads ?? Math.max(1, os.availableParallelism());
@@ -130,16 +134,28 @@ export class RenderEngine {
     try {
       const frames = await this.frames.get(req.input, req.sheet);
       if (req.frame >= frames.length) throw new AppError(400, 'invalid_input', `frame must be from 0 to ${frames.length - 1} for this image, got ${req.frame}.`);
-      const { emission, glow } = (await this.run('prepare', { frames, parameters: req.parameters, frame: req.frame })) as { emission: Float32Array; glow: Field };
-      const out = new Uint8Array(new SharedArrayBuffer(width * height * 4));
-      const count = Math.max(1, Math.min(options.bands ?? this.threads, height));
-      await Promise.all(
-        Array.from({ length: count }, (_, i) => {
-          const rows = { y0: Math.floor((i * height) / count), y1: Math.floor(((i + 1) * height) / count) };
-          return this.run('band', { emission, glow, parameters: req.parameters, scale: req.scale, rows, out });
-        }),
-      );
-      return { png: await encodePng({ width, height, data: out }), width, height };
+      const { cell, glass } = req.parameters;
+      const size = glowFieldSize(cell, glowPlan(cell, glass));
+      const buffers = [this.buffers.acquire(cell.cols * cell.rows * 4), this.buffers.acquire(size.width * size.height * 4), this.buffers.acquire(width * height * 4)];
+      try {
+        const [emission, glowData] = [new Float32Array(buffers[0]), new Float32Array(buffers[1])];
+        const out = new Uint8Array(buffers[2]);
+        await this.run('prepare', { frames, parameters: req.parameters, frame: req.frame, emissionOut: emission, glowOut: glowData });
+        const glow: Field = { ...size, data: glowData };
+        const count = Math.max(1, Math.min(options.bands ?? this.threads, height));
+        // Every band settles before the buffers go back: a failed one must not leave another writing.
+        const bands = await Promise.allSettled(
+          Array.from({ length: count }, (_, i) => {
+            const rows = { y0: Math.floor((i * height) / count), y1: Math.floor(((i + 1) * height) / count) };
+            return this.run('band', { emission, glow, parameters: req.parameters, scale: req.scale, rows, out });
+          }),
+        );
+        const failed = bands.find((b) => b.status === 'rejected');
+        if (failed) throw failed.reason;
+        return { png: await encodePng({ width, height, data: out }), width, height };
+      } finally {
+        this.buffers.release(...buffers);
+      }
     } finally {
       this.pending--;
     }

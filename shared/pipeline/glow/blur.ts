@@ -1,3 +1,5 @@
+import { scratchArray } from '../scratch';
+
 /**
  * Gaussian blur by a cascade of extended box filters (Gwosdek, Grewenig, Bruhn & Weickert,
  * "Theoretical foundations of Gaussian convolution by extended box filtering", SSVM 2011 —
@@ -24,31 +26,42 @@ export function extendedBoxVariance(r: number, alpha: number): number {
   return m2 / w;
 }
 
-/** One horizontal extended-box pass over every row (zero outside), by a running sum. */
-function passRows(src: Float32Array, dst: Float32Array, width: number, height: number, r: number, alpha: number): void {
+/**
+ * One horizontal extended-box pass over a row held in a padded buffer: `from` and `to` have
+ * pad = r + 1 zeros on each side of the row's width samples, so the window needs no edge checks
+ * (adding those zeros changes no sum: x + 0 and x − 0 are exactly x).
+ */
+function passRow(from: Float32Array, to: Float32Array, width: number, pad: number, r: number, alpha: number): void {
   const c = 1 / (2 * r + 1 + 2 * alpha);
-  const at = (base: number, k: number) => (k >= 0 && k < width ? src[base + k] : 0);
-  // Interior samples, where the window and both end taps are inside the row, need no checks.
-  const first = Math.min(width, r + 1);
-  const last = Math.max(first, width - r - 1);
+  let s = 0;
+  for (let k = 0; k <= r; k++) s += from[pad + k];
+  for (let i = pad; i < pad + width; i++) {
+    const lo = from[i - r - 1];
+    const hi = from[i + r + 1];
+    to[i] = c * (s + alpha * (lo + hi));
+    s += hi - from[i - r];
+  }
+}
+
+/**
+ * The horizontal cascade: each row through all passes in two small padded buffers (they stay in
+ * the processor's cache), written once to dst. `row(y, into, offset)` supplies row y.
+ */
+function blurRows(row: (y: number, into: Float32Array, offset: number) => void, dst: Float32Array, width: number, height: number, r: number, alpha: number): void {
+  const pad = r + 1;
+  const size = width + 2 * pad;
+  // Zero margins: the passes write only the row's own samples.
+  const a = scratchArray(0, size).fill(0);
+  const b = scratchArray(1, size).fill(0);
   for (let y = 0; y < height; y++) {
-    const base = y * width;
-    let s = 0;
-    for (let k = 0; k <= r && k < width; k++) s += src[base + k];
-    for (let x = 0; x < first; x++) {
-      dst[base + x] = c * (s + alpha * (at(base, x - r - 1) + at(base, x + r + 1)));
-      s += at(base, x + r + 1) - at(base, x - r);
+    row(y, a, pad);
+    let from = a;
+    let to = b;
+    for (let p = 0; p < BOX_PASSES; p++) {
+      passRow(from, to, width, pad, r, alpha);
+      [from, to] = [to, from];
     }
-    for (let x = first; x < last; x++) {
-      const lo = src[base + x - r - 1];
-      const hi = src[base + x + r + 1];
-      dst[base + x] = c * (s + alpha * (lo + hi));
-      s += hi - src[base + x - r];
-    }
-    for (let x = last; x < width; x++) {
-      dst[base + x] = c * (s + alpha * (at(base, x - r - 1) + at(base, x + r + 1)));
-      s += at(base, x + r + 1) - at(base, x - r);
-    }
+    dst.set(from.subarray(pad, pad + width), y * width);
   }
 }
 
@@ -85,22 +98,31 @@ function passColumns(src: Float32Array, dst: Float32Array, width: number, height
  * new array. Energy inside the field is conserved up to what spreads past its edges.
  */
 export function gaussianBlur(data: Float32Array, width: number, height: number, sigmaX: number, sigmaY: number): Float32Array {
-  let a = new Float32Array(data.length);
-  let b = new Float32Array(data.length);
-  let src: Float32Array = data;
-  const step = (run: (from: Float32Array, to: Float32Array) => void) => {
-    run(src, a);
-    src = a;
-    [a, b] = [b, a];
-  };
+  return gaussianBlurRows((y, into, offset) => into.set(data.subarray(y * width, (y + 1) * width), offset), width, height, sigmaX, sigmaY);
+}
+
+/**
+ * gaussianBlur of a field given row by row — `row(y, into, offset)` writes row y at
+ * into[offset…] — so a caller can produce rows on the fly instead of building the field. The
+ * result goes into `out` when given (width × height samples), else into a new array.
+ */
+export function gaussianBlurRows(row: (y: number, into: Float32Array, offset: number) => void, width: number, height: number, sigmaX: number, sigmaY: number, out: Float32Array = new Float32Array(width * height)): Float32Array {
   if (sigmaX > 0) {
     const { r, alpha } = extendedBox(sigmaX);
-    for (let p = 0; p < BOX_PASSES; p++) step((from, to) => passRows(from, to, width, height, r, alpha));
+    blurRows(row, out, width, height, r, alpha);
+  } else {
+    for (let y = 0; y < height; y++) row(y, out, y * width);
   }
   if (sigmaY > 0) {
     const { r, alpha } = extendedBox(sigmaY);
     const sums = new Float64Array(width);
-    for (let p = 0; p < BOX_PASSES; p++) step((from, to) => passColumns(from, to, width, height, r, alpha, sums));
+    // From out back into out: scratch arrays carry the passes between.
+    let from: Float32Array = out;
+    for (let p = 0; p < BOX_PASSES; p++) {
+      const to = p === BOX_PASSES - 1 ? out : scratchArray(2 + (p % 2), out.length);
+      passColumns(from, to, width, height, r, alpha, sums);
+      from = to;
+    }
   }
-  return src === data ? Float32Array.from(data) : src;
+  return out;
 }

@@ -1,6 +1,7 @@
 import type { PanelParams } from '../../model/parameters';
 import type { Field } from '../types';
-import { gaussianBlur } from './blur';
+import { scratchArray } from '../scratch';
+import { gaussianBlurRows } from './blur';
 
 /** Halation ring radius from faceplate thickness t and index n: r = 2·t·tan(asin(1/n)). */
 export function haloRadiusFromGlass(thicknessMm: number, n: number): number {
@@ -59,22 +60,33 @@ export function apertureShare(fill: number, k: number, m: number): number {
  * fill 1 down (their Gaussian profile is narrower than any glow the grid resolves).
  */
 export function fluxField(emission: Float32Array, cell: PanelParams['cell'], m: number): Field {
-  const { cols, rows } = cell;
+  const width = cell.cols * m;
+  const height = cell.rows * m;
+  const data = new Float32Array(width * height);
+  const row = fluxRows(emission, cell, m);
+  for (let y = 0; y < height; y++) row(y, data, y * width);
+  return { width, height, data };
+}
+
+/** fluxField row by row: `row(y, into, offset)` writes glow-grid row y of the flux image. */
+export function fluxRows(emission: Float32Array, cell: PanelParams['cell'], m: number): (y: number, into: Float32Array, offset: number) => void {
+  const { cols } = cell;
   const fillY = cell.mode === 'crt' ? 1 : cell.fillY;
-  const wx = Array.from({ length: m }, (_, k) => apertureShare(cell.fillX, k, m));
-  const wy = Array.from({ length: m }, (_, k) => apertureShare(fillY, k, m));
-  const width = cols * m;
-  const data = new Float32Array(width * rows * m);
-  for (let r = 0; r < rows; r++) {
-    for (let l = 0; l < m; l++) {
-      const rowBase = (r * m + l) * width;
-      for (let c = 0; c < cols; c++) {
-        const e = emission[r * cols + c] * wy[l];
-        for (let k = 0; k < m; k++) data[rowBase + c * m + k] = e * wx[k];
-      }
+  const wx = Float64Array.from({ length: m }, (_, k) => apertureShare(cell.fillX, k, m));
+  const wy = Float64Array.from({ length: m }, (_, k) => apertureShare(fillY, k, m));
+  return (y, into, offset) => {
+    const base = Math.floor(y / m) * cols;
+    const w = wy[y % m];
+    if (m === 1) {
+      const k0 = wx[0];
+      for (let c = 0; c < cols; c++) into[offset + c] = emission[base + c] * w * k0;
+      return;
     }
-  }
-  return { width, height: rows * m, data };
+    for (let c = 0; c < cols; c++) {
+      const e = emission[base + c] * w;
+      for (let k = 0; k < m; k++) into[offset + c * m + k] = e * wx[k];
+    }
+  };
 }
 
 /**
@@ -105,26 +117,31 @@ export function addUpsampled(coarse: Field, m: number, fine: Field, M: number, s
   }
 }
 
+/** Samples across and down of the glow field for these parameters. */
+export function glowFieldSize(cell: PanelParams['cell'], plan: GlowPlan): { width: number; height: number } {
+  return { width: cell.cols * plan.oversample, height: cell.rows * plan.oversample };
+}
+
 /**
  * The glow field: glowShare·G(flux, σ_glow) + haloShare·G(flux, σ_halo). Each component is
- * blurred on the grid that samples it well, then the coarser is upsampled onto the finer.
+ * blurred on the grid that samples it well, then the coarser is upsampled onto the finer. Into
+ * `into` when given (glowFieldSize samples; its contents are replaced), else a new array.
  */
-export function glowField(emission: Float32Array, cell: PanelParams['cell'], plan: GlowPlan): Field {
+export function glowField(emission: Float32Array, cell: PanelParams['cell'], plan: GlowPlan, into?: Float32Array): Field {
   const M = plan.oversample;
-  const fluxes = new Map<number, Field>();
-  const fluxAt = (m: number) => {
-    if (!fluxes.has(m)) fluxes.set(m, fluxField(emission, cell, m));
-    return fluxes.get(m)!;
-  };
-  const out: Field = { width: cell.cols * M, height: cell.rows * M, data: new Float32Array(cell.cols * M * cell.rows * M) };
+  const { width, height } = glowFieldSize(cell, plan);
+  const out: Field = { width, height, data: into ? into.fill(0) : new Float32Array(width * height) };
   for (const part of [plan.glow, plan.halo]) {
     if (part.share <= 0) continue;
-    const flux = fluxAt(part.oversample);
-    const blurred = part.sigmaX > 0 || part.sigmaY > 0 ? gaussianBlur(flux.data, flux.width, flux.height, part.sigmaX, part.sigmaY) : flux.data;
-    if (part.oversample === M) {
-      for (let i = 0; i < out.data.length; i++) out.data[i] += part.share * blurred[i];
+    const m = part.oversample;
+    // The flux rows go straight into the blur: the flux image itself is never stored.
+    const blurred = gaussianBlurRows(fluxRows(emission, cell, m), cell.cols * m, cell.rows * m, part.sigmaX, part.sigmaY, scratchArray(4, cell.cols * m * cell.rows * m));
+    if (m === M) {
+      const data = out.data;
+      const share = part.share;
+      for (let i = 0; i < data.length; i++) data[i] += share * blurred[i];
     } else {
-      addUpsampled({ width: flux.width, height: flux.height, data: blurred }, part.oversample, out, M, part.share);
+      addUpsampled({ width: cell.cols * m, height: cell.rows * m, data: blurred }, m, out, M, part.share);
     }
   }
   return out;

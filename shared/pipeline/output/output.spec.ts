@@ -89,4 +89,30 @@ describe('ChannelCoder (light → knee → sRGB as thresholds)', () => {
     }
     expect(mismatches).toBe(0);
   });
+
+  test.each([
+    ['amber EL defaults', {}],
+    ['exposure +2 EV into the knee', { viewing: { exposureEv: 2, knee: 0.7 } }],
+    ['bright ambient, no knee', { viewing: { ambientCdM2: 40, knee: 1 } }],
+  ])('%s: the one-lookup pixel table gives the channel coders’ bytes, at every threshold and one ulp either side', (_name, patch) => {
+    const { PixelCoder } = jest.requireActual('./compose') as typeof import('./compose');
+    const u = outputUniforms(mergeParams(PANEL_TYPES[0].defaults, patch), 3);
+    const pixel = new PixelCoder(u);
+    const [r, g, b] = pixel.channels;
+    const next = (x: number, dir: 1 | -1) => {
+      const f = new Float64Array([x]);
+      const bits = new BigInt64Array(f.buffer);
+      bits[0] += BigInt(x > 0 ? dir : -dir);
+      return f[0];
+    };
+    const probes = [0, -1e-9, 1e-12, 7.5, 1e9, ...Array.from({ length: 40000 }, (_, i) => (i / 40000) * 3)];
+    for (const c of pixel.channels) for (const t of c.v) if (Number.isFinite(t) && t > 0) probes.push(t, next(t, 1), next(t, -1));
+    let mismatches = 0;
+    for (const v of probes) {
+      const w = pixel.word(v);
+      if ((w & 255) !== r.code(v) || ((w >>> 8) & 255) !== g.code(v) || ((w >>> 16) & 255) !== b.code(v) || w >>> 24 !== 255) mismatches++;
+    }
+    expect(probes.length).toBeGreaterThan(40000);
+    expect(mismatches).toBe(0);
+  });
 });

@@ -1,0 +1,13 @@
+/**
+ * Scratch arrays reused from render to render, one set per thread (each worker has its own copy
+ * of this module). A fresh multi-megabyte array costs a page fault per 4 KiB on first write —
+ * on a small virtual machine that took longer than the arithmetic it held. A slot's contents are
+ * valid until the next call for that slot: callers copy out what they keep.
+ */
+const slots: Float32Array[] = [];
+
+/** Slots in use: 0–3 the blur's passes (glow/blur.ts), 4 a blurred glow component (glow/glow.ts). */
+export function scratchArray(slot: number, length: number): Float32Array {
+  if (!slots[slot] || slots[slot].length < length) slots[slot] = new Float32Array(length);
+  return slots[slot].subarray(0, length);
+}
