@@ -104,7 +104,7 @@ describe('cli drive timing', () => {
 
   test.each([
     [['timing', '--mode', '123x45@60', '--standard', 'dmt', '--json'], 'not among the fixed'],
-    [['timing', '--mode', '640x480', '--standard', 'cvt'], 'mode must look like 640x480@60'],
+    [['timing', '--mode', '640x480', '--standard', 'cvt'], 'write the mode as width x height @ refresh'],
     [['timing', '--mode', '640x480@60', '--standard', 'gtf'], '--standard must be one of dmt, cvt, cvt-rb, cvt-rb2'],
     [['timing', '--mode', '640x480@2', '--standard', 'cvt'], 'refresh rate must be from 20 to 480 Hz'],
     [['timing', '--mode', '640x480@60', '--standard', 'dmt', '--pixels-per-clock', '3'], '--pixels-per-clock must be one of 1, 4, 8, 16'],

@@ -52,8 +52,16 @@ export function fixedTiming(name: string): Timing | undefined {
   return FIXED_TIMINGS.find((t) => t.name === name && t.origin === 'dmt') ?? FIXED_TIMINGS.find((t) => t.name === name);
 }
 
-/** Parses "640x480@60" into its parts, or null. */
+/**
+ * Parses a mode as people write it — "640x480@60", "640 x 480 @ 60", "640×480@59.94 Hz" — into
+ * its parts, or null. Sizes are not range-checked here: the standard says what it can produce.
+ */
 export function parseMode(text: string): { width: number; height: number; refreshHz: number } | null {
-  const m = /^(\d{2,5})x(\d{2,5})@(\d{1,3}(?:\.\d+)?)$/.exec(text.trim());
+  const m = /^(\d{1,6})\s*[x×]\s*(\d{1,6})\s*@\s*(\d{1,4}(?:\.\d+)?)\s*(?:hz)?$/i.exec(text.trim());
   return m ? { width: Number(m[1]), height: Number(m[2]), refreshHz: Number(m[3]) } : null;
+}
+
+/** The canonical name of a mode: "640x480@60". */
+export function modeName(mode: { width: number; height: number; refreshHz: number }): string {
+  return `${mode.width}x${mode.height}@${mode.refreshHz}`;
 }

@@ -1,9 +1,9 @@
 import fc from 'fast-check';
 import { cvtTiming, cvtVSync } from './cvt';
-import { FIXED_TIMINGS, fixedTiming, VGA_MODE_12H } from './dmt';
+import { FIXED_TIMINGS, fixedTiming, parseMode, VGA_MODE_12H } from './dmt';
 import { timingDiagramSvg } from './diagram';
 import { interfaceFigures, interfaceWarnings } from './interface';
-import { decodeVgaRegisters, hex2, vbeCrtcInfoBlock, vgaRegisters } from './registers';
+import { decodeVgaRegisters, hex2, vbeCrtcInfoBlock, VbeFieldRangeError, vgaRegisters } from './registers';
 import { resolveTiming } from './resolve';
 import { axis, figures, timingProblems, type Timing } from './timing';
 
@@ -56,8 +56,21 @@ describe('VESA CVT 1.2 [std; worked results agree with published modelines]', ()
 
   test('impossible requests are refused with the reason', () => {
     expect(() => cvtTiming(640, 480, 5)).toThrow('refresh rate must be from 20 to 480 Hz, got 5');
-    expect(() => resolveTiming('640by480', 'cvt')).toThrow('mode must look like 640x480@60');
+    expect(() => resolveTiming('640by480', 'cvt')).toThrow('write the mode as width x height @ refresh, like 640x480@60');
     expect(() => resolveTiming('641x480@60', 'dmt')).toThrow('not among the fixed');
+    // A mode that reads well but is out of range gets the range, not the format.
+    expect(() => resolveTiming('0x0@0', 'cvt')).toThrow('width must be a whole number from 64 to 8192, got 0');
+  });
+
+  test('modes are read as people write them: spaces, ×, a trailing Hz', () => {
+    for (const text of ['640x480@60', ' 640 x 480 @ 60 ', '640×480@60', '640X480@60Hz', '640 x 480 @ 60 hz']) {
+      expect(parseMode(text)).toEqual({ width: 640, height: 480, refreshHz: 60 });
+      expect(resolveTiming(text, 'dmt').name).toBe('640x480@60');
+    }
+    expect(parseMode('640 x 480')).toBeNull();
+    expect(resolveTiming('vga-mode-12h', 'dmt')).toBe(VGA_MODE_12H);
+    // The BIOS mode's id means nothing to CVT.
+    expect(() => resolveTiming('vga-mode-12h', 'cvt')).toThrow('write the mode as');
   });
 
   test('properties: totals are the sums of their parts, the clock is on the step, refresh near the request', () => {
@@ -146,8 +159,21 @@ describe('VGA CRT controller registers [ds, widely reproduced BIOS tables]', () 
     expect(() => vgaRegisters(cvtTiming(1004, 480, 60, 'cvt-rb2'))).toThrow(/8-pixel character clock/);
   });
 
-  test('each register’s value is the sum of its explained bit fields', () => {
-    for (const f of vgaRegisters(VGA_MODE_12H).crtc) expect(f.bits.length).toBeGreaterThan(0);
+  test('each register’s bit fields cover bits 7–0 once, each value fits its field, and the register is their sum', () => {
+    for (const timing of [VGA_MODE_12H, fixedTiming('800x600@60')!, cvtTiming(1024, 768, 75)]) {
+      for (const f of vgaRegisters(timing).crtc) {
+        const covered: number[] = [];
+        let sum = 0;
+        for (const b of f.bits) {
+          const [hi, lo = hi] = b.range.split(':').map(Number);
+          for (let bit = lo; bit <= hi; bit++) covered.push(bit);
+          expect({ register: f.name, range: b.range, fits: b.value >= 0 && b.value < 2 ** (hi - lo + 1) }).toEqual({ register: f.name, range: b.range, fits: true });
+          sum += b.value * 2 ** lo;
+        }
+        expect({ register: f.name, bits: covered.sort((a, b) => a - b) }).toEqual({ register: f.name, bits: [0, 1, 2, 3, 4, 5, 6, 7] });
+        expect({ register: f.name, value: f.value }).toEqual({ register: f.name, value: sum });
+      }
+    }
     const overflow = vgaRegisters(VGA_MODE_12H).crtc[7];
     expect(overflow.bits.filter((b) => b.value).map((b) => b.range)).toEqual(['5', '4', '3', '2', '1']);
   });
@@ -161,6 +187,18 @@ describe('VBE 3.0 CRTCInfoBlock [ds, from memory]', () => {
     expect(bytes.slice(0, 2)).toEqual([0x20, 0x03]);
     // 25 175 000 Hz = 0x018023D8.
     expect(bytes.slice(13, 17)).toEqual([0xd8, 0x23, 0x80, 0x01]);
+  });
+
+  test('a value wider than its field is refused with the field and its width, never cut to its low bytes', () => {
+    const huge: Timing = { ...fixedTiming('640x480@60')!, h: axis(100000, 16, 96, 48), v: axis(100000, 10, 2, 33) };
+    expect(() => vbeCrtcInfoBlock(huge)).toThrow(VbeFieldRangeError);
+    expect(() => vbeCrtcInfoBlock(huge)).toThrow("the horizontal total (pixels) would be 100160, more than the VBE block's 16-bit HorizontalTotal field holds (at most 65535)");
+    // 16-bit words hold 65535 exactly.
+    const edge: Timing = { ...fixedTiming('640x480@60')!, h: axis(65535 - 160, 16, 96, 48) };
+    expect(vbeCrtcInfoBlock(edge).fields.HorizontalTotal).toBe(65535);
+    // RefreshRate is in hundredths of a hertz: 655.35 Hz is the most it can say.
+    const fast: Timing = { ...fixedTiming('640x480@60')!, pixelClockMHz: (800 * 525 * 700) / 1e6 };
+    expect(() => vbeCrtcInfoBlock(fast)).toThrow(expect.objectContaining({ field: 'RefreshRate', bits: 16 }));
   });
 });
 

@@ -2,6 +2,7 @@ import type { TimingSource } from '../api/timing.schema';
 import { panelTypeById } from '../model/panel-types';
 import { timingFromSource } from './from-source';
 import { interfaceFigures, interfaceWarnings, type InterfaceFigures, type PanelInterface } from './interface';
+import { vbeCrtcInfoBlock } from './registers';
 import { figures, timingProblems, type Timing, type TimingFigures } from './timing';
 
 /** Everything that follows from a timing request on a panel type. */
@@ -22,6 +23,8 @@ export function evaluateTiming(req: { name: string; panelTypeId: string; source:
   const timing = timingFromSource(req.source, req.name);
   const problems = timingProblems(timing);
   if (problems.length) throw new RangeError(problems.join('; '));
+  // A timing the VBE block cannot carry is refused, not silently cut to its low bytes.
+  vbeCrtcInfoBlock(timing);
   const panel = interfaceFigures(timing, req.interface);
   const warnings = interfaceWarnings(timing, req.interface, { family: panelType.family, cols: panelType.defaults.cell.cols, rows: panelType.defaults.cell.rows });
   return { timing, figures: figures(timing), panel, warnings };

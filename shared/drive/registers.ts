@@ -122,11 +122,37 @@ export function vgaRegisters(t: Timing): VgaRegisters {
 /** Two upper-case hex digits. */
 export const hex2 = (v: number) => v.toString(16).toUpperCase().padStart(2, '0');
 
+/** What each VBE block field holds, in words, for messages. */
+const VBE_FIELD_LABELS: Record<string, string> = {
+  HorizontalTotal: 'the horizontal total (pixels)',
+  HorizontalSyncStart: 'the horizontal sync start (pixels)',
+  HorizontalSyncEnd: 'the horizontal sync end (pixels)',
+  VerticalTotal: 'the vertical total (lines)',
+  VerticalSyncStart: 'the vertical sync start (lines)',
+  VerticalSyncEnd: 'the vertical sync end (lines)',
+  Flags: 'the flags',
+  PixelClock: 'the pixel clock (Hz)',
+  RefreshRate: 'the refresh rate (hundredths of a hertz)',
+};
+
+/** A timing value too wide for its field of the VBE block: which field, and what it holds. */
+export class VbeFieldRangeError extends RangeError {
+  constructor(
+    readonly field: string,
+    readonly value: number,
+    readonly bits: number,
+    readonly max: number,
+  ) {
+    super(`${VBE_FIELD_LABELS[field] ?? field} would be ${value}, more than the VBE block's ${bits}-bit ${field} field holds (at most ${max})`);
+  }
+}
+
 /**
  * The VBE 3.0 CRTCInfoBlock for a timing [ds, VBE 3.0 core functions, from memory]: words
  * HorizontalTotal, HorizontalSyncStart, HorizontalSyncEnd, VerticalTotal, VerticalSyncStart,
  * VerticalSyncEnd; byte Flags (bit 2 = hsync negative, bit 3 = vsync negative); dword
- * PixelClock in Hz; word RefreshRate in 0.01 Hz; 40 reserved bytes. Little-endian.
+ * PixelClock in Hz; word RefreshRate in 0.01 Hz; 40 reserved bytes. Little-endian. A value
+ * wider than its field throws VbeFieldRangeError.
  */
 export function vbeCrtcInfoBlock(t: Timing): { fields: Record<string, number>; bytes: number[] } {
   const pixelClock = Math.round(t.pixelClockMHz * 1e6);
@@ -142,6 +168,12 @@ export function vbeCrtcInfoBlock(t: Timing): { fields: Record<string, number>; b
     PixelClock: pixelClock,
     RefreshRate: refresh,
   };
+  // A value wider than its field would be cut to its low bytes without a word: refuse it.
+  const widths: Record<keyof typeof fields, number> = { HorizontalTotal: 2, HorizontalSyncStart: 2, HorizontalSyncEnd: 2, VerticalTotal: 2, VerticalSyncStart: 2, VerticalSyncEnd: 2, Flags: 1, PixelClock: 4, RefreshRate: 2 };
+  for (const [name, bytes] of Object.entries(widths) as [keyof typeof fields, number][]) {
+    const max = 2 ** (8 * bytes) - 1;
+    if (!(fields[name] >= 0 && fields[name] <= max)) throw new VbeFieldRangeError(name, fields[name], bytes * 8, max);
+  }
   const le = (v: number, n: number) => Array.from({ length: n }, (_, i) => (v >>> (8 * i)) & 0xff);
   const bytes = [
     ...le(fields.HorizontalTotal, 2),

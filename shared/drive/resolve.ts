@@ -1,5 +1,5 @@
 import { cvtTiming, type CvtVariant } from './cvt';
-import { fixedTiming, parseMode, VGA_MODE_12H } from './dmt';
+import { fixedTiming, modeName, parseMode, VGA_MODE_12H } from './dmt';
 import type { Timing } from './timing';
 
 /** The ways a timing can be asked for. */
@@ -8,12 +8,12 @@ export type Standard = (typeof STANDARDS)[number];
 
 /** A mode name with a standard → its timing; RangeError with a readable reason otherwise. */
 export function resolveTiming(modeText: string, standard: Standard): Timing {
-  if (modeText === 'vga-mode-12h') return VGA_MODE_12H;
+  if (modeText === 'vga-mode-12h' && standard === 'dmt') return VGA_MODE_12H;
   const mode = parseMode(modeText);
-  if (!mode) throw new RangeError(`mode must look like 640x480@60, got "${modeText}"`);
+  if (!mode) throw new RangeError(`write the mode as width x height @ refresh, like 640x480@60 (got "${modeText}")`);
   if (standard === 'dmt') {
-    const t = fixedTiming(modeText);
-    if (!t) throw new RangeError(`${modeText} is not among the fixed (DMT/VGA) timings; use a CVT standard for other modes`);
+    const t = fixedTiming(modeName(mode));
+    if (!t) throw new RangeError(`${modeName(mode)} is not among the fixed (DMT/VGA) timings; use a CVT standard for other modes`);
     return t;
   }
   return cvtTiming(mode.width, mode.height, mode.refreshHz, standard as CvtVariant);

@@ -1,6 +1,6 @@
 import { DecimalPipe, KeyValuePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, resource, signal } from '@angular/core';
-import { toSignal } from '@angular/core/rxjs-interop';
+import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
 import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
@@ -13,10 +13,10 @@ import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import type { SavedTimingDto } from '../../../../shared/api/dto';
 import type { CreateTimingBody, TimingSource } from '../../../../shared/api/timing.schema';
-import { FIXED_TIMINGS } from '../../../../shared/drive/dmt';
+import { FIXED_TIMINGS, fixedTiming, modeName, parseMode } from '../../../../shared/drive/dmt';
 import { evaluateTiming } from '../../../../shared/drive/evaluate';
 import { PIXELS_PER_CLOCK, type PanelInterface } from '../../../../shared/drive/interface';
-import { vbeCrtcInfoBlock, vgaRegisters, hex2 } from '../../../../shared/drive/registers';
+import { VbeFieldRangeError, vbeCrtcInfoBlock, vgaRegisters, hex2 } from '../../../../shared/drive/registers';
 import type { Standard } from '../../../../shared/drive/resolve';
 import { PANEL_TYPES } from '../../../../shared/model/panel-types';
 import { apiErrorMessage } from '../../core/api-error';
@@ -25,6 +25,12 @@ import { RegisterTable } from './register-table';
 import { SafetyNotice } from './safety-notice';
 import { TimingApi } from './timing-api';
 import { TimingDiagram } from './timing-diagram';
+
+/** A mode as typed ("800 x 600 @ 75") in the form the API stores ("800x600@75"); other text as it is. */
+function canonicalMode(text: string): string {
+  const parsed = parseMode(text);
+  return parsed ? modeName(parsed) : text.trim();
+}
 
 /** The drive timing workbench: pick or enter a timing, see what the panel and the VGA need, save it. */
 @Component({
@@ -79,11 +85,36 @@ export class DriveTiming {
       } catch (err) {
         registerError = (err as Error).message;
       }
-      return { ...evaluation, registers, registerError, vbe: vbeCrtcInfoBlock(evaluation.timing), error: '' };
+      return { ...evaluation, registers, registerError, vbe: vbeCrtcInfoBlock(evaluation.timing), error: '', field: null };
     } catch (err) {
-      return { error: (err as Error).message } as const;
+      return { error: (err as Error).message, field: err instanceof VbeFieldRangeError ? err.field : null } as const;
     }
   });
+  /**
+   * For a timing by hand, the part of the form a too-wide VBE field comes from, so the message
+   * stands beside the numbers that made it: 'h', 'v' or 'clock'.
+   */
+  protected readonly vbeProblemAt = computed(() => {
+    const r = this.result();
+    if (!r.field || this.value().kind !== 'custom') return null;
+    return { at: r.field.startsWith('Horizontal') ? 'h' : r.field.startsWith('Vertical') ? 'v' : 'clock', message: r.error };
+  });
+
+  constructor() {
+    // Switching standard keeps the mode where it still means something: a fixed mode the CVT
+    // field can read ("640x480@60", never the VGA BIOS mode's own id), or a typed mode that is
+    // also a fixed one; otherwise the first fixed mode, so the list never shows a blank.
+    this.form.controls.standard.valueChanges.pipe(takeUntilDestroyed()).subscribe((standard) => {
+      const mode = this.form.controls.mode.value;
+      if (standard === 'dmt') {
+        const parsed = parseMode(mode);
+        const fixed = parsed && fixedTiming(modeName(parsed));
+        this.form.controls.mode.setValue(mode === 'vga-mode-12h' ? mode : fixed ? fixed.name : this.fixedModes[0].value);
+      } else if (mode === 'vga-mode-12h') {
+        this.form.controls.mode.setValue('640x480@60');
+      }
+    });
+  }
   /** Keeps the block's field order in the keyvalue pipe. */
   protected readonly keepOrder = () => 0;
 
@@ -145,7 +176,7 @@ export class DriveTiming {
   private requestOf(v: ReturnType<typeof this.form.getRawValue>): CreateTimingBody {
     const source: TimingSource =
       v.kind === 'standard'
-        ? { kind: 'standard', standard: v.standard, mode: v.mode.trim() }
+        ? { kind: 'standard', standard: v.standard, mode: canonicalMode(v.mode) }
         : {
             kind: 'custom',
             pixelClockMHz: Number(v.pixelClockMHz),
