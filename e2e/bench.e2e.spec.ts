@@ -113,4 +113,20 @@ test('a bad file is refused with the reason, nothing is stored, and the page sta
   await expect(page.getByRole('link', { name: new RegExp(`Open ${name}`) })).toBeVisible();
   await expect(page.getByRole('alert').filter({ hasText: 'not a PNG, GIF, JPEG or WebP' })).toHaveCount(0);
   await expect(page.getByText(`${tinyGif.length} bytes`)).toBeVisible();
+
+  // Rename: the field takes the focus at once, ready to type over (item 16).
+  await page.getByRole('button', { name: `Rename ${name}` }).click();
+  const field = page.getByRole('textbox', { name: `New name for ${name}` });
+  await expect(field).toBeFocused();
+  await page.keyboard.type(`${name}-renamed`);
+  await page.keyboard.press('Enter');
+  await expect(page.getByRole('link', { name: `Open ${name}-renamed on the bench` })).toBeVisible();
+
+  // Delete asks first, names what goes with it, and leaves the focus on the page heading, not on another card (item 5).
+  await page.getByRole('button', { name: `Delete ${name}-renamed` }).click();
+  const dialog = page.getByRole('alertdialog', { name: `Delete “${name}-renamed”?` });
+  await expect(dialog).toContainText('every render made from it');
+  await dialog.getByRole('button', { name: 'Delete artwork' }).click();
+  await expect(page.getByRole('link', { name: `Open ${name}-renamed on the bench` })).toHaveCount(0);
+  await expect(page.getByRole('heading', { name: 'Artworks', level: 1 })).toBeFocused();
 });

@@ -22,7 +22,15 @@ test('an invited member joins, is removed by the owner, and on reload reads that
   const studioUrl = member.url();
 
   await page.reload();
+  // Removing asks first and names what it means (issue "Workflow", item 5); Cancel keeps the member.
   await page.getByRole('button', { name: 'Remove Lee Leaver' }).click();
+  const dialog = page.getByRole('alertdialog', { name: 'Remove Lee Leaver?' });
+  await expect(dialog).toContainText('Lee Leaver loses access to Kiln & Quartz at once');
+  await expect(dialog.getByRole('button', { name: 'Cancel' })).toBeFocused();
+  await dialog.getByRole('button', { name: 'Cancel' }).click();
+  await expect(page.getByRole('table', { name: 'Studio members' })).toContainText(invitee);
+  await page.getByRole('button', { name: 'Remove Lee Leaver' }).click();
+  await page.getByRole('alertdialog').getByRole('button', { name: 'Remove member' }).click();
   await expect(page.getByRole('table', { name: 'Studio members' })).not.toContainText(invitee);
 
   await member.goto(studioUrl);

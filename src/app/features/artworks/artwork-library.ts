@@ -1,5 +1,5 @@
 import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, DestroyRef, inject, resource, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, type ElementRef, inject, resource, signal, viewChild } from '@angular/core';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
@@ -13,6 +13,8 @@ import { RouterLink } from '@angular/router';
 import type { ArtworkDto } from '../../../../shared/api/dto';
 import { apiErrorMessage } from '../../core/api-error';
 import { formatBytes } from '../../core/format-bytes';
+import { Confirm } from '../../shared/confirm-dialog';
+import { AutoFocus } from '../../shared/auto-focus';
 import { StudioContext } from '../studio/studio-context';
 import { ArtworkApi } from './artwork-api';
 
@@ -26,7 +28,7 @@ interface UploadItem {
 /** The studio's artwork library: upload by drop, picker or paste; search, sort, rename, delete. */
 @Component({
   selector: 'em-artwork-library',
-  imports: [FormsModule, RouterLink, DatePipe, MatButtonModule, MatIconModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatCheckboxModule, MatProgressBarModule],
+  imports: [FormsModule, RouterLink, AutoFocus, DatePipe, MatButtonModule, MatIconModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatCheckboxModule, MatProgressBarModule],
   templateUrl: './artwork-library.html',
   styleUrl: './artwork-library.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -34,7 +36,9 @@ interface UploadItem {
 export class ArtworkLibrary {
   private readonly api = inject(ArtworkApi);
   private readonly snackBar = inject(MatSnackBar);
+  private readonly confirm = inject(Confirm);
   protected readonly context = inject(StudioContext);
+  private readonly heading = viewChild<ElementRef<HTMLElement>>('heading');
 
   protected readonly query = signal('');
   protected readonly sort = signal<'newest' | 'oldest' | 'name'>('newest');
@@ -115,10 +119,18 @@ export class ArtworkLibrary {
   }
 
   protected async deleteArtwork(a: ArtworkDto): Promise<void> {
+    const confirmed = await this.confirm.ask({
+      title: `Delete “${a.name}”?`,
+      consequences: ['The original file, its thumbnail and every render made from it are deleted.', 'Share links that show it will show no picture.', 'This cannot be undone.'],
+      action: 'Delete artwork',
+    });
+    if (!confirmed) return;
     try {
       await this.api.remove(this.context.studioId(), a.id);
       this.snackBar.open(`Deleted “${a.name}”.`, undefined, { duration: 3000 });
       this.artworks.reload();
+      // The card and its buttons are gone: focus the page's heading, not whatever card moved up.
+      this.heading()?.nativeElement.focus();
     } catch (err) {
       this.snackBar.open(apiErrorMessage(err), 'Dismiss', { duration: 8000 });
     }

@@ -20,6 +20,7 @@ import { VbeFieldRangeError, vbeCrtcInfoBlock, vgaRegisters, hex2 } from '../../
 import type { Standard } from '../../../../shared/drive/resolve';
 import { PANEL_TYPES } from '../../../../shared/model/panel-types';
 import { apiErrorMessage } from '../../core/api-error';
+import { Confirm } from '../../shared/confirm-dialog';
 import { StudioContext } from '../studio/studio-context';
 import { RegisterTable } from './register-table';
 import { SafetyNotice } from './safety-notice';
@@ -43,6 +44,7 @@ function canonicalMode(text: string): string {
 export class DriveTiming {
   private readonly api = inject(TimingApi);
   private readonly snackBar = inject(MatSnackBar);
+  private readonly confirm = inject(Confirm);
   protected readonly context = inject(StudioContext);
 
   protected readonly panelTypes = PANEL_TYPES;
@@ -163,6 +165,8 @@ export class DriveTiming {
   }
 
   protected async deleteTiming(t: SavedTimingDto): Promise<void> {
+    const confirmed = await this.confirm.ask({ title: `Delete “${t.name}”?`, consequences: ['Nobody in the studio finds it here or on the bench any more.', 'This cannot be undone.'], action: 'Delete timing' });
+    if (!confirmed) return;
     try {
       await this.api.remove(this.context.studioId(), t.id);
       if (this.selectedId() === t.id) this.selectedId.set(null);

@@ -13,6 +13,7 @@ import type { PresetRevisionDto } from '../../../../shared/api/dto';
 import { paramDiff } from '../../../../shared/model/param-diff';
 import { panelTypeById } from '../../../../shared/model/panel-types';
 import { apiErrorMessage } from '../../core/api-error';
+import { Confirm } from '../../shared/confirm-dialog';
 import { AuthStore } from '../../core/auth-store';
 import { ArtworkApi } from '../artworks/artwork-api';
 import { downloadText } from '../drive/download';
@@ -33,6 +34,7 @@ export class PresetDetail {
   private readonly artworksApi = inject(ArtworkApi);
   private readonly snackBar = inject(MatSnackBar);
   private readonly router = inject(Router);
+  private readonly confirm = inject(Confirm);
   protected readonly auth = inject(AuthStore);
   protected readonly context = inject(StudioContext);
 
@@ -121,6 +123,18 @@ export class PresetDetail {
   }
 
   protected async deletePreset(): Promise<void> {
+    const name = this.preset.hasValue() ? this.preset.value().name : 'this preset';
+    const live = this.links.hasValue() ? this.links.value().filter((l) => !l.revokedAt && (!l.expiresAt || new Date(l.expiresAt) > new Date())).length : 0;
+    const confirmed = await this.confirm.ask({
+      title: `Delete “${name}”?`,
+      consequences: [
+        'Its whole revision history is deleted with it.',
+        live ? `Its ${live === 1 ? 'share link stops' : `${live} share links stop`} working at once: clients who have ${live === 1 ? 'it' : 'them'} will see that the link no longer works.` : 'It has no live share links.',
+        'This cannot be undone.',
+      ],
+      action: 'Delete preset',
+    });
+    if (!confirmed) return;
     await this.act(async () => {
       await this.api.remove(this.context.studioId(), this.presetId());
       await this.router.navigate(['/studios', this.context.studioId(), 'presets']);

@@ -15,6 +15,7 @@ import type { MemberDto } from '../../../../shared/api/dto';
 import { ROLES, type Role } from '../../../../shared/model/roles';
 import { apiErrorMessage } from '../../core/api-error';
 import { AuthStore } from '../../core/auth-store';
+import { Confirm } from '../../shared/confirm-dialog';
 import { StudioApi } from './studio-api';
 import { StudioContext } from './studio-context';
 
@@ -31,6 +32,7 @@ export class Members {
   private readonly snackBar = inject(MatSnackBar);
   private readonly router = inject(Router);
   private readonly auth = inject(AuthStore);
+  private readonly confirm = inject(Confirm);
   protected readonly context = inject(StudioContext);
 
   protected readonly roles = ROLES;
@@ -73,6 +75,12 @@ export class Members {
   }
 
   protected async removeMember(member: MemberDto): Promise<void> {
+    const confirmed = await this.confirm.ask({
+      title: `Remove ${member.displayName}?`,
+      consequences: [`${member.displayName} loses access to ${this.context.studio()?.name ?? 'the studio'} at once: its artworks, presets and timings.`, 'What they made stays in the studio.', 'To bring them back, invite them again.'],
+      action: 'Remove member',
+    });
+    if (!confirmed) return;
     await this.act(() => this.api.removeMember(this.context.studioId(), member.userId), `${member.displayName} was removed.`);
   }
 
@@ -84,6 +92,13 @@ export class Members {
   protected async leaveStudio(): Promise<void> {
     const me = this.me();
     if (!me) return;
+    const studio = this.context.studio()?.name ?? 'the studio';
+    const confirmed = await this.confirm.ask({
+      title: `Leave ${studio}?`,
+      consequences: [`You lose access to ${studio} at once.`, 'What you made stays in the studio.', 'To come back, an owner must invite you again.'],
+      action: 'Leave studio',
+    });
+    if (!confirmed) return;
     try {
       await this.api.removeMember(this.context.studioId(), me);
       await this.auth.refreshStudios();
