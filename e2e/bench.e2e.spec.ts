@@ -130,3 +130,38 @@ test('a bad file is refused with the reason, nothing is stored, and the page sta
   await expect(page.getByRole('link', { name: `Open ${name}-renamed on the bench` })).toHaveCount(0);
   await expect(page.getByRole('heading', { name: 'Artworks', level: 1 })).toBeFocused();
 });
+
+test('controls another setting decides are read-only and say why; choices read as words, not codes', async ({ page, guard }) => {
+  void guard;
+  await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
+  await expect(page).toHaveURL(/\/bench/);
+  await waitForDraw(page, 0);
+
+  // Halo from glass: the radius shows what the formula gives, read-only (issue "Workflow", item 15).
+  await page.getByRole('switch', { name: 'Halo from glass' }).click();
+  const thickness = page.getByRole('spinbutton', { name: 'Glass thickness' });
+  await thickness.fill('3');
+  await thickness.press('Enter');
+  const halo = page.getByRole('spinbutton', { name: 'Halo radius' });
+  const n = PANEL_TYPES[0].defaults.glass.refractiveIndex;
+  // r = 2·t·tan(asin(1/n)) [classical faceplate optics, from memory; docs/references.md].
+  await expect.poll(async () => Number(await halo.inputValue())).toBeCloseTo(2 * 3 * Math.tan(Math.asin(1 / n)), 3);
+  await expect(halo).toHaveAttribute('readonly', '');
+  await expect(halo).toHaveAccessibleDescription(/From the glass/);
+  await expect(page.getByRole('slider', { name: /^Halo radius/ })).toHaveCount(0);
+
+  // A saved timing drives the refresh rate: the field shows it read-only and names the timing (item 11).
+  await choose(page, 'Drive timing', /^Handheld EL, 60 Hz/);
+  const refresh = page.getByRole('spinbutton', { name: 'Refresh rate' });
+  await expect(refresh).toHaveValue('59.94');
+  await expect(refresh).toHaveAttribute('readonly', '');
+  await expect(refresh).toHaveAccessibleDescription(/Set by the drive timing “Handheld EL, 60 Hz”/);
+  await choose(page, 'Drive timing', "Panel type's own refresh");
+  await expect(refresh).not.toHaveAttribute('readonly');
+
+  // Choices are offered by their labels (item 12).
+  await page.getByRole('combobox', { name: 'Dither' }).click();
+  await expect(page.getByRole('option', { name: 'Error diffusion (Floyd–Steinberg)' })).toBeVisible();
+  await expect(page.getByRole('option', { name: 'floyd-steinberg' })).toHaveCount(0);
+  await page.keyboard.press('Escape');
+});

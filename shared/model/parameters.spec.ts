@@ -1,4 +1,5 @@
 import { BUILT_IN_PRESETS, PANEL_TYPES } from './panel-types';
+import { changeLabel, describeChange, describeValue, paramDiff } from './param-diff';
 import { mergeParams, PARAMS, panelParamsPatchSchema, panelParamsSchema } from './parameters';
 
 const base = PANEL_TYPES[0].defaults;
@@ -51,5 +52,29 @@ describe('parameter schema', () => {
       expect(p.meaning.length).toBeGreaterThan(10);
       if (p.kind === 'number' || p.kind === 'int') expect(p.max).toBeGreaterThan(p.min);
     }
+  });
+});
+
+describe('words for parameters (what the user reads)', () => {
+
+  test('every option of every choice has its own label, never its code', () => {
+    for (const p of PARAMS) {
+      if (p.kind !== 'enum') continue;
+      expect(Object.keys(p.optionLabels).sort()).toEqual([...p.options].sort());
+      for (const o of p.options) expect(p.optionLabels[o]).not.toBe(o);
+    }
+  });
+
+  test('a change reads as label, value and unit at the control’s precision', () => {
+    const base = PANEL_TYPES[0].defaults;
+    const after = mergeParams(base, { glass: { haloShare: 0.1, glowRadiusMm: 0.4 }, drive: { dither: 'bayer4' }, source: { fit: 'native' } });
+    const words = paramDiff(base, after).map(describeChange);
+    expect(words).toContain(`Halo share ${base.glass.haloShare.toFixed(3)} → 0.100`);
+    expect(words).toContain(`Glow radius ${base.glass.glowRadiusMm.toFixed(2)} mm → 0.40 mm`);
+    expect(words.find((w) => w.startsWith('Dither'))).toMatch(/→ Ordered, Bayer 4 × 4$/);
+    expect(words.join(' ')).not.toMatch(/glass\.|drive\.|floyd-steinberg|bayer\d/);
+    expect(describeValue('glass.haloFromGlass', true)).toBe('on');
+    expect(changeLabel('name')).toBe('Name');
+    expect(describeChange({ path: 'name', from: 'Old', to: 'New' })).toBe('Name “Old” → “New”');
   });
 });

@@ -3,8 +3,8 @@ import { z } from 'zod';
 
 /**
  * Every parameter of the panel model, in physical units, grouped along the path of the light:
- * Source → Drive → Cell → Emission → Glass → Viewing. The validation schema, the defaults and
- * (later) the bench controls are all generated from this one table.
+ * Source → Drive → Cell → Emission → Glass → Viewing. The validation schema, the defaults, the
+ * bench controls and the words for a change ("Halo share 0.03 → 0.10") all come from this table.
  */
 export const GROUPS = ['source', 'drive', 'cell', 'emission', 'glass', 'viewing'] as const;
 export type Group = (typeof GROUPS)[number];
@@ -26,6 +26,8 @@ export interface NumberSpec extends Base {
 export interface EnumSpec extends Base {
   kind: 'enum';
   options: readonly string[];
+  /** What the user reads for each option. */
+  optionLabels: Readonly<Record<string, string>>;
 }
 export interface BoolSpec extends Base {
   kind: 'bool';
@@ -34,7 +36,7 @@ export type ParamSpec = NumberSpec | EnumSpec | BoolSpec;
 
 const n = (group: Group, key: string, label: string, min: number, max: number, unit: string, step: number, meaning: string): NumberSpec => ({ group, key, label, kind: 'number', min, max, unit, step, meaning });
 const i = (group: Group, key: string, label: string, min: number, max: number, unit: string, meaning: string): NumberSpec => ({ group, key, label, kind: 'int', min, max, unit, step: 1, meaning });
-const e = (group: Group, key: string, label: string, options: readonly string[], meaning: string): EnumSpec => ({ group, key, label, kind: 'enum', options, meaning });
+const e = (group: Group, key: string, label: string, options: readonly string[], optionLabels: Record<string, string>, meaning: string): EnumSpec => ({ group, key, label, kind: 'enum', options, optionLabels, meaning });
 const b = (group: Group, key: string, label: string, meaning: string): BoolSpec => ({ group, key, label, kind: 'bool', meaning });
 
 export const FIT_MODES = ['native', 'integer', 'area'] as const;
@@ -45,8 +47,8 @@ export const COLOUR_SOURCES = ['spectrum', 'chromaticity'] as const;
 export const FIELDS = ['both', 'odd', 'even'] as const;
 
 export const PARAMS: readonly ParamSpec[] = [
-  e('source', 'fit', 'Fit', FIT_MODES, 'How artwork pixels map onto panel cells: 1:1 centred, whole-number scale, or fit with area averaging'),
-  e('source', 'luma', 'Luma weights', LUMA_MODES, 'Rec. 709 relative luminance of linear light, or Rec. 601 luma of the encoded values'),
+  e('source', 'fit', 'Fit', FIT_MODES, { native: 'Native, 1:1 centred', integer: 'Whole-number scale', area: 'Fit, area average' }, 'How artwork pixels map onto panel cells: 1:1 centred, whole-number scale, or fit with area averaging'),
+  e('source', 'luma', 'Luma weights', LUMA_MODES, { rec709: 'Rec. 709 luminance (linear light)', rec601: 'Rec. 601 luma (encoded values)' }, 'Rec. 709 relative luminance of linear light, or Rec. 601 luma of the encoded values'),
   n('source', 'brightness', 'Brightness', -1, 1, '', 0.01, 'Offset added to the perceptual (sRGB-encoded) tone'),
   n('source', 'contrast', 'Contrast', 0, 4, '×', 0.01, 'Gain of the perceptual tone about mid-gray 0.5'),
   n('source', 'gamma', 'Gamma', 0.2, 5, '', 0.01, 'Exponent on the perceptual tone: above 1 darkens mid-tones'),
@@ -54,12 +56,12 @@ export const PARAMS: readonly ParamSpec[] = [
   n('source', 'threshold', 'Black clip', 0, 0.95, '', 0.01, 'Tones below this are driven off; the rest are stretched to fill the range'),
 
   i('drive', 'grayLevels', 'Gray levels', 2, 16, 'levels', 'Distinct drive levels the panel can show (2 = on/off)'),
-  e('drive', 'dither', 'Dither', DITHERS, 'How in-between tones are spread over cells: none, ordered Bayer, clustered dot, or error diffusion'),
+  e('drive', 'dither', 'Dither', DITHERS, { none: 'None', bayer2: 'Ordered, Bayer 2 × 2', bayer4: 'Ordered, Bayer 4 × 4', bayer8: 'Ordered, Bayer 8 × 8', cluster4: 'Clustered dot 4 × 4', 'floyd-steinberg': 'Error diffusion (Floyd–Steinberg)' }, 'How in-between tones are spread over cells: none, ordered Bayer, clustered dot, or error diffusion'),
   b('drive', 'serpentine', 'Serpentine scan', 'Error diffusion alternates row direction, which breaks up worm artefacts'),
   n('drive', 'rowLoading', 'Row loading droop', 0, 0.5, '', 0.005, "A row's emission drops by this × its lit fraction (passive-matrix drive)"),
   n('drive', 'refreshHz', 'Refresh rate', 20, 240, 'Hz', 0.5, 'Frames (or fields) per second the panel is refreshed at'),
 
-  e('cell', 'mode', 'Cell type', CELL_MODES, 'Matrix of separate cells, or CRT scan lines drawn by a beam'),
+  e('cell', 'mode', 'Cell type', CELL_MODES, { matrix: 'Matrix of cells', crt: 'CRT scan lines' }, 'Matrix of separate cells, or CRT scan lines drawn by a beam'),
   i('cell', 'cols', 'Columns', 8, 2048, 'cells', 'Cells across the panel'),
   i('cell', 'rows', 'Rows', 8, 2048, 'cells', 'Cells (or scan lines) down the panel'),
   n('cell', 'pitchXMm', 'Pitch across', 0.05, 5, 'mm', 0.005, 'Centre-to-centre distance of cells across'),
@@ -67,9 +69,9 @@ export const PARAMS: readonly ParamSpec[] = [
   n('cell', 'fillX', 'Fill across', 0.05, 1, '', 0.01, 'Share of the pitch the lit aperture covers across'),
   n('cell', 'fillY', 'Fill down', 0.05, 1, '', 0.01, 'Share of the pitch the lit aperture covers down (matrix cells)'),
   n('cell', 'spotSigma', 'Spot size', 0.1, 1, 'line pitch', 0.01, 'CRT beam spot: Gaussian σ of the line profile as a share of the line pitch'),
-  e('cell', 'field', 'Interlace field', FIELDS, 'CRT: both fields (progressive) or the moment one field is drawn over the fading other'),
+  e('cell', 'field', 'Interlace field', FIELDS, { both: 'Both (progressive)', odd: 'Odd field', even: 'Even field' }, 'CRT: both fields (progressive) or the moment one field is drawn over the fading other'),
 
-  e('emission', 'colourSource', 'Colour from', COLOUR_SOURCES, 'Emission colour from a spectrum of bands, or from stated CIE 1931 x, y'),
+  e('emission', 'colourSource', 'Colour from', COLOUR_SOURCES, { spectrum: 'Spectrum bands', chromaticity: 'CIE 1931 x, y' }, 'Emission colour from a spectrum of bands, or from stated CIE 1931 x, y'),
   n('emission', 'peak1Nm', 'Band 1 peak', 380, 780, 'nm', 0.1, 'Peak wavelength of the main emission band or line'),
   n('emission', 'fwhm1Nm', 'Band 1 width', 0, 200, 'nm', 0.5, 'Full width at half maximum of band 1 (0 = a spectral line)'),
   n('emission', 'peak2Nm', 'Band 2 peak', 380, 780, 'nm', 0.1, 'Peak wavelength of a second band or line'),

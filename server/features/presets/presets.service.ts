@@ -2,7 +2,7 @@ import { Op, type Order, type Transaction } from 'sequelize';
 import type { PresetDto, PresetRevisionDto, SharedViewDto, ShareLinkDto } from '../../../shared/api/dto';
 import type { PresetDocument } from '../../../shared/api/preset.schema';
 import { PRESET_FORMAT } from '../../../shared/api/preset.schema';
-import { paramDiff } from '../../../shared/model/param-diff';
+import { changeLabel, paramDiff } from '../../../shared/model/param-diff';
 import { panelTypeById } from '../../../shared/model/panel-types';
 import type { PanelParams } from '../../../shared/model/parameters';
 import { roleAtLeast, type Role } from '../../../shared/model/roles';
@@ -184,7 +184,7 @@ export class PresetsService {
     await PresetRevision.create({ presetId: row.id, revision, name, parameters, changes, message, authorId: actor.userId }, { transaction });
     await row.update({ name, parameters, revision, updatedById: actor.userId }, { transaction });
     const verb = kind === 'preset.restored' ? 'restored' : 'changed';
-    await record(actor.studioId, actor.userId, kind, `${verb} preset “${name}” (revision ${revision}${changes.length ? `: ${changes.map((c) => c.path).slice(0, 4).join(', ')}${changes.length > 4 ? '…' : ''}` : ''})`, transaction);
+    await record(actor.studioId, actor.userId, kind, `${verb} preset “${name}” (revision ${revision}${changes.length ? `: ${changes.map((c) => changeLabel(c.path)).slice(0, 4).join(', ')}${changes.length > 4 ? '…' : ''}` : ''})`, transaction);
     return this.dto(row, await names([actor.userId], transaction));
   }
 

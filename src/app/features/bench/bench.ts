@@ -30,7 +30,7 @@ import { ArtworkApi } from '../artworks/artwork-api';
 import { TimingApi } from '../drive/timing-api';
 import { StudioContext } from '../studio/studio-context';
 import { BenchEngine, type PanelResult } from './bench-engine';
-import { ParamControls } from './param-controls';
+import { ParamControls, type ParamLock } from './param-controls';
 
 /** ID-1 card width in mm (ISO/IEC 7810), the on-screen ruler for real size. */
 const CARD_MM = { width: 85.6, height: 53.98 };
@@ -119,6 +119,13 @@ export class Bench {
   });
   protected readonly flash = computed(() => (this.frames.hasValue() && this.frames.value().length > 1 ? flashReport(this.frames.value().map(lumaOf), this.frames.value().map((f) => f.delayMs)) : null));
   protected readonly linkedTiming = computed(() => (this.timings.hasValue() ? this.timings.value().find((t) => t.id === this.timingId()) : undefined));
+  /** While a saved timing drives the refresh rate, the Refresh control shows it read-only. */
+  protected readonly locks = computed(() => {
+    const t = this.linkedTiming();
+    const locks: Record<string, ParamLock> = {};
+    if (t) locks['drive.refreshHz'] = { reason: `Set by the drive timing “${t.name}”. Choose “Panel type's own refresh” to set it here.` };
+    return locks;
+  });
   protected readonly frcFlickerHz = computed(() => {
     const d = this.params().drive;
     return d.grayLevels > 2 ? d.refreshHz / (d.grayLevels - 1) : null;

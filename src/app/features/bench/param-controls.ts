@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, input, output } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatExpansionModule } from '@angular/material/expansion';
 import { MatIconModule } from '@angular/material/icon';
@@ -7,8 +7,17 @@ import { MatSliderModule } from '@angular/material/slider';
 import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { MatTooltipModule } from '@angular/material/tooltip';
 import { GROUPS, PARAMS, type Group, type NumberSpec, type PanelParams, type ParamSpec } from '../../../../shared/model/parameters';
+import { haloRadiusFromGlass } from '../../../../shared/pipeline/glow/glow';
 
 const GROUP_LABELS: Record<Group, string> = { source: 'Source', drive: 'Drive', cell: 'Cell', emission: 'Emission', glass: 'Glass', viewing: 'Viewing' };
+
+/** A control another setting decides: shown read-only with the value in force and why. */
+export interface ParamLock {
+  /** The value that applies (shown instead of the stored one), when it differs. */
+  value?: number;
+  /** Why it cannot be changed here ("Set by the drive timing “EL 75 Hz”"). */
+  reason: string;
+}
 
 /** The parameter table as controls, along the path of the light; each group can be reset. */
 @Component({
@@ -22,7 +31,22 @@ export class ParamControls {
   readonly params = input.required<PanelParams>();
   readonly defaults = input.required<PanelParams>();
   readonly disabled = input(false);
+  /** Controls decided elsewhere, by "group.key", on top of the ones this component derives itself. */
+  readonly locks = input<Readonly<Record<string, ParamLock>>>({});
   readonly changed = output<PanelParams>();
+
+  /** Every lock in force: the given ones, and a halo radius that the glass decides. */
+  protected readonly allLocks = computed<Record<string, ParamLock>>(() => {
+    const glass = this.params().glass;
+    const own: Record<string, ParamLock> = glass.haloFromGlass
+      ? { 'glass.haloRadiusMm': { value: Math.round(haloRadiusFromGlass(glass.glassThicknessMm, glass.refractiveIndex) * 1000) / 1000, reason: 'From the glass: 2 × thickness × tan(asin(1 ÷ refractive index)). Turn off “Halo from glass” to set it.' } }
+      : {};
+    return { ...own, ...this.locks() };
+  });
+
+  protected lockOf(spec: ParamSpec): ParamLock | undefined {
+    return this.allLocks()[`${spec.group}.${spec.key}`];
+  }
 
   protected readonly groups = GROUPS.map((g) => ({ key: g, label: GROUP_LABELS[g], specs: PARAMS.filter((p) => p.group === g) }));
 
@@ -31,7 +55,7 @@ export class ParamControls {
   }
 
   protected num(spec: ParamSpec): number {
-    return this.valueOf(spec) as number;
+    return this.lockOf(spec)?.value ?? (this.valueOf(spec) as number);
   }
 
   protected asNumber(spec: ParamSpec): NumberSpec {

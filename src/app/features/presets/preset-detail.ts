@@ -10,7 +10,7 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { Router, RouterLink } from '@angular/router';
 import type { PresetRevisionDto } from '../../../../shared/api/dto';
-import { paramDiff } from '../../../../shared/model/param-diff';
+import { changeLabel, describeChange, describeValue, paramDiff, type ParamChange } from '../../../../shared/model/param-diff';
 import { panelTypeById } from '../../../../shared/model/panel-types';
 import { apiErrorMessage } from '../../core/api-error';
 import { Confirm } from '../../shared/confirm-dialog';
@@ -121,6 +121,13 @@ export class PresetDetail {
       return `Copied as “${copy.name}”.`;
     });
   }
+
+  protected describeChanges(changes: ParamChange[]): string {
+    return changes.map(describeChange).join(' · ');
+  }
+
+  protected readonly label = changeLabel;
+  protected readonly value = describeValue;
 
   protected async deletePreset(): Promise<void> {
     const name = this.preset.hasValue() ? this.preset.value().name : 'this preset';
