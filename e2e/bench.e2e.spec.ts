@@ -165,3 +165,31 @@ test('controls another setting decides are read-only and say why; choices read a
   await expect(page.getByRole('option', { name: 'floyd-steinberg' })).toHaveCount(0);
   await page.keyboard.press('Escape');
 });
+
+for (const viewport of [{ width: 1280, height: 800 }, { width: 390, height: 844 }]) {
+  test(`at ${viewport.width}×${viewport.height} the preview stays in view while every control group is open and the controls scroll`, async ({ page, guard }) => {
+    void guard;
+    await page.setViewportSize(viewport);
+    await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
+    await expect(page).toHaveURL(/\/bench/);
+    await waitForDraw(page, 0);
+    const stage = page.getByTestId('stage');
+    // Issue "Workflow", item 1: the preview is on screen from the start (on a phone, before the controls)…
+    await expect(stage).toBeInViewport({ ratio: 0.5 });
+    // …and stays there with every group open, at a control in the middle and at the last one.
+    for (const group of ['Cell', 'Emission', 'Viewing']) await page.getByRole('button', { name: group, exact: true }).click();
+    for (const control of ['Reset Cell', 'Reset Viewing']) {
+      const button = page.getByRole('button', { name: control });
+      await button.scrollIntoViewIfNeeded();
+      await expect(button).toBeInViewport();
+      await expect(stage).toBeInViewport({ ratio: 0.5 });
+    }
+    // A change made down there shows in the preview without scrolling back.
+    const before = await draws(page);
+    const exposure = page.getByRole('spinbutton', { name: 'Exposure' });
+    await exposure.fill('1');
+    await exposure.press('Enter');
+    await waitForDraw(page, before);
+    await expect(stage).toBeInViewport({ ratio: 0.5 });
+  });
+}
