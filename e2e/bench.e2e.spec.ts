@@ -193,3 +193,41 @@ for (const viewport of [{ width: 1280, height: 800 }, { width: 390, height: 844 
     await expect(stage).toBeInViewport({ ratio: 0.5 });
   });
 }
+
+test('the compare divider follows a drag across the stage, can be grabbed again at either edge, and moves by keyboard; both sides are labelled', async ({ page, guard }) => {
+  void guard;
+  await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
+  await expect(page).toHaveURL(/\/bench/);
+  await waitForDraw(page, 0);
+  await choose(page, 'Compare with', 'Original artwork');
+  const stage = page.getByTestId('stage');
+  await expect(stage.getByText(/^A · /)).toBeVisible();
+  await expect(stage.getByText('B · Original artwork')).toBeVisible();
+  const divider = page.getByRole('slider', { name: 'Compare divider' });
+  const box = (await stage.boundingBox())!;
+  const y = box.y + box.height / 2;
+  // Issue "Workflow", item 4: a drag to a quarter of the width puts the divider there (it used to jump to 0).
+  const dragTo = async (share: number) => {
+    const d = (await divider.boundingBox())!;
+    await page.mouse.move(d.x + d.width / 2, y);
+    await page.mouse.down();
+    await page.mouse.move(box.x + box.width * share, y, { steps: 8 });
+    await page.mouse.up();
+  };
+  const at = async () => Number(await divider.getAttribute('aria-valuenow'));
+  await dragTo(0.25);
+  expect(Math.abs((await at()) - 25)).toBeLessThanOrEqual(2);
+  await dragTo(1.2);
+  expect(await at()).toBe(100);
+  // At the right edge it can still be grabbed and brought back.
+  await dragTo(0.6);
+  expect(Math.abs((await at()) - 60)).toBeLessThanOrEqual(2);
+  await divider.focus();
+  await page.keyboard.press('Home');
+  expect(await at()).toBe(0);
+  await page.keyboard.press('End');
+  expect(await at()).toBe(100);
+  await page.keyboard.press('PageDown');
+  expect(await at()).toBe(90);
+  await expect(divider).toHaveAttribute('aria-valuetext', /90 % A: .+, the rest B: Original artwork/);
+});

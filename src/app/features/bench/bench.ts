@@ -280,17 +280,43 @@ export class Bench {
     this.inspect.set({ c, r, level, cd: level * this.params().viewing.peakCdM2 + this.params().viewing.offCdM2 });
   }
 
+  /** What the left (A) side of a comparison shows: the look being tuned. */
+  protected readonly labelA = computed(() => {
+    const studio = this.studioPreset();
+    const name = studio ? `r${studio.revision} · ${studio.name}` : (BUILT_IN_PRESETS.find((p) => p.id === this.presetId())?.name ?? 'This look');
+    return this.dirty() ? `${name} (edited)` : name;
+  });
+  /** What the right (B) side shows. */
+  protected readonly labelB = computed(() => (this.compare() === 'original' ? 'Original artwork' : (this.presets().find((p) => p.id === this.comparePresetId())?.name ?? 'Preset B')));
+
+  protected grabSplit(e: PointerEvent): void {
+    (e.currentTarget as HTMLElement).setPointerCapture(e.pointerId);
+    this.moveSplit(e);
+  }
+
+  /** The divider follows the pointer across the whole stage (its own box is only a few pixels wide). */
   protected moveSplit(e: PointerEvent): void {
-    if (!(e.buttons & 1)) return;
-    const rect = (e.currentTarget as HTMLElement).getBoundingClientRect();
+    const divider = e.currentTarget as HTMLElement;
+    if (!divider.hasPointerCapture(e.pointerId)) return;
+    const rect = divider.parentElement!.getBoundingClientRect();
     this.split.set(Math.round(Math.min(100, Math.max(0, ((e.clientX - rect.left) / rect.width) * 100))));
   }
 
   protected nudgeSplit(e: KeyboardEvent): void {
-    const step = e.key === 'ArrowLeft' ? -2 : e.key === 'ArrowRight' ? 2 : 0;
-    if (!step) return;
+    const to: Record<string, (v: number) => number> = {
+      ArrowLeft: (v) => v - 2,
+      ArrowDown: (v) => v - 2,
+      ArrowRight: (v) => v + 2,
+      ArrowUp: (v) => v + 2,
+      PageDown: (v) => v - 10,
+      PageUp: (v) => v + 10,
+      Home: () => 0,
+      End: () => 100,
+    };
+    const move = to[e.key];
+    if (!move) return;
     e.preventDefault();
-    this.split.update((v) => Math.min(100, Math.max(0, v + step)));
+    this.split.update((v) => Math.min(100, Math.max(0, move(v))));
   }
 
   protected step(delta: number): void {
