@@ -1,3 +1,4 @@
+import { readPngText } from '../shared/api/png-text';
 import { PANEL_TYPES } from '../shared/model/panel-types';
 import { choose, draws, drift, studioIdOf, thirdPartyArtworks, uploadArtwork, waitForDraw, type Drift } from './bench-helpers';
 
@@ -230,4 +231,26 @@ test('the compare divider follows a drag across the stage, can be grabbed again 
   await page.keyboard.press('PageDown');
   expect(await at()).toBe(90);
   await expect(divider).toHaveAttribute('aria-valuetext', /90 % A: .+, the rest B: Original artwork/);
+});
+
+test('the current view downloads as the reference PNG at this scale, with its parameters inside the file', async ({ page, guard }) => {
+  void guard;
+  await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
+  await expect(page).toHaveURL(/\/bench/);
+  await waitForDraw(page, 0);
+  const glow = page.getByRole('spinbutton', { name: 'Glow radius' });
+  await glow.fill('0.4');
+  await glow.press('Enter');
+  // Issue "Workflow", item 27.
+  const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Download PNG' }).click()]);
+  expect(download.suggestedFilename()).toMatch(/\.png$/);
+  const bytes = new Uint8Array(await (await download.createReadStream()).toArray().then((parts) => Buffer.concat(parts)));
+  const text = readPngText(bytes);
+  expect(text.Software).toBe('Emberline');
+  const saved = JSON.parse(text['Emberline parameters']);
+  expect(saved.parameters.glass.glowRadiusMm).toBe(0.4);
+  expect(saved.scale).toBe(2);
+  // The picture is the live view's size: 640 × 480 cells at 2 px a pitch [IHDR width and height].
+  const view = new DataView(bytes.buffer, bytes.byteOffset);
+  expect([view.getUint32(16), view.getUint32(20)]).toEqual([1280, 960]);
 });

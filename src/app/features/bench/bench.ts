@@ -1,5 +1,4 @@
 import { DecimalPipe } from '@angular/common';
-import { HttpClient } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, DestroyRef, effect, ElementRef, inject, input, linkedSignal, resource, signal, untracked, viewChild } from '@angular/core';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -14,9 +13,8 @@ import { MatTooltipModule } from '@angular/material/tooltip';
 import { RouterLink } from '@angular/router';
 import pixelmatch from 'pixelmatch';
 import { pixelDiff } from '../../../../shared/analysis/pixel-diff';
-import { firstValueFrom } from 'rxjs';
 import { flashReport } from '../../../../shared/analysis/flash';
-import type { RenderDto } from '../../../../shared/api/render.schema';
+import { withPngText } from '../../../../shared/api/png-text';
 import { REC709, SRGB_TO_LINEAR } from '../../../../shared/color/srgb';
 import { BUILT_IN_PRESETS, PANEL_TYPES } from '../../../../shared/model/panel-types';
 import type { PanelParams } from '../../../../shared/model/parameters';
@@ -31,6 +29,8 @@ import { TimingApi } from '../drive/timing-api';
 import { StudioContext } from '../studio/studio-context';
 import { BenchEngine, type PanelResult } from './bench-engine';
 import { ParamControls, type ParamLock } from './param-controls';
+import { RenderApi } from './render-api';
+import { downloadBlob } from '../drive/download';
 
 /** ID-1 card width in mm (ISO/IEC 7810), the on-screen ruler for real size. */
 const CARD_MM = { width: 85.6, height: 53.98 };
@@ -49,7 +49,7 @@ export class Bench {
   private readonly timingsApi = inject(TimingApi);
   private readonly presetApi = inject(PresetApi);
   private readonly snackBar = inject(MatSnackBar);
-  private readonly http = inject(HttpClient);
+  private readonly renders = inject(RenderApi);
   protected readonly context = inject(StudioContext);
 
   /** ?artwork= from the library. */
@@ -342,6 +342,31 @@ export class Bench {
     this.calibrating.set(false);
   }
 
+  protected readonly downloading = signal(false);
+
+  /**
+   * Saves the reference render of this view — this frame, at this scale — as a PNG that carries
+   * its parameters (iTXt "Emberline parameters", JSON) so the look can be read back from the file.
+   */
+  protected async downloadPng(): Promise<void> {
+    const artwork = this.selected();
+    if (!artwork) return;
+    this.downloading.set(true);
+    try {
+      const parameters = this.params();
+      const render = await this.renders.render(this.context.studioId(), { artworkId: artwork.id, parameters, scale: this.scale(), frame: this.frame() });
+      const png = new Uint8Array(await (await this.renders.png(render)).arrayBuffer());
+      const tagged = withPngText(png, { Software: 'Emberline', Title: `${artwork.name} · ${this.labelA()}`, 'Emberline parameters': JSON.stringify({ panelTypeId: this.panelTypeId(), scale: this.scale(), frame: this.frame(), parameters }) });
+      const name = `${artwork.name} ${this.labelA()}`.replace(/[^\p{L}\p{N} ._-]+/gu, ' ').replace(/\s+/g, '-').replace(/^-|-$/g, '') || 'emberline';
+      downloadBlob(`${name}.png`, new Blob([tagged], { type: 'image/png' }));
+      this.snackBar.open(`Saved ${name}.png (${render.width} × ${render.height} px, parameters inside).`, undefined, { duration: 4000 });
+    } catch (err) {
+      this.snackBar.open(apiErrorMessage(err), 'Dismiss', { duration: 8000 });
+    } finally {
+      this.downloading.set(false);
+    }
+  }
+
   /** Asks the server for the reference render of this view and diffs it with the live canvas. */
   protected async checkDrift(): Promise<void> {
     const artwork = this.selected();
@@ -349,8 +374,8 @@ export class Bench {
     this.drift.set({ busy: true });
     try {
       const body = { artworkId: artwork.id, parameters: this.params(), scale: this.scale(), frame: this.frame() };
-      const { render } = await firstValueFrom(this.http.post<{ render: RenderDto }>(`/api/studios/${this.context.studioId()}/renders`, body));
-      const blob = await firstValueFrom(this.http.get(render.url, { responseType: 'blob' }));
+      const render = await this.renders.render(this.context.studioId(), body);
+      const blob = await this.renders.png(render);
       const reference = await decodePng(blob);
       const live = this.livePixels();
       const { width, height } = render;
