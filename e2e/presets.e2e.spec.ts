@@ -78,3 +78,25 @@ test('an editor changes a preset → the viewer sees the new revision → the ow
   await client.screenshot({ path: testInfo.outputPath('shared-view.png'), fullPage: true });
   await clientContext.close();
 });
+
+test('on a phone the presets table fits: the Changed column is on screen, panel type and revision under the name', async ({ page }) => {
+  await page.setViewportSize({ width: 390, height: 844 });
+  await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
+  await expect(page).toHaveURL(/\/bench$/);
+  // A preset of its own, so the table has a row whatever ran before.
+  const xsrf = (await page.context().cookies()).find((c) => c.name === 'XSRF-TOKEN')!.value;
+  const created = await page.request.post(page.url().replace(/^(.*\/studios\/[^/]+)\/bench$/, '$1/presets').replace('/studios/', '/api/studios/'), {
+    headers: { 'X-XSRF-TOKEN': xsrf },
+    data: { name: `Phone look ${Date.now().toString(36)}`, panelTypeId: 'el-amber-640x480' },
+  });
+  expect(created.status(), await created.text()).toBe(201);
+  await page.goto(page.url().replace(/\/bench$/, '/presets'));
+  const table = page.getByRole('table', { name: 'Presets' });
+  // Issue "Workflow", item 21.
+  await expect(table.getByRole('columnheader', { name: 'Changed' })).toBeInViewport();
+  const firstRow = table.getByRole('row').nth(1);
+  await expect(firstRow.getByRole('cell').last()).toBeInViewport();
+  await expect(firstRow).toContainText(/revision \d+/);
+  const scroll = await page.locator('.panel').evaluate((el) => el.scrollWidth - el.clientWidth);
+  expect(scroll).toBeLessThanOrEqual(1);
+});

@@ -30,12 +30,12 @@ export function artworksRoutes(artworks: ArtworksService, renders: RendersServic
     res.json({ artwork: await artworks.find(req.membership!.studioId, artworkId(req)) });
   });
   api.route('patch', '/artworks/:artworkId', { policy: studioRole('editor'), summary: 'Rename an artwork', body: renameArtworkSchema }, async (req, res) => {
-    res.json({ artwork: await artworks.rename(req.membership!.studioId, artworkId(req), req.body.name) });
+    res.json({ artwork: await artworks.rename(req.membership!.studioId, req.user!.id, artworkId(req), req.body.name) });
   });
   api.route('delete', '/artworks/:artworkId', { policy: studioRole('editor'), summary: 'Delete an artwork and its files', status: 204 }, async (req, res) => {
     const a = await artworks.get(req.membership!.studioId, artworkId(req));
     await renders.removeFor({ artworkId: a.id });
-    await artworks.remove(a.studioId, a.id);
+    await artworks.remove(a.studioId, req.user!.id, a.id);
     res.status(204).end();
   });
   api.route('get', '/artworks/:artworkId/original', { policy: studioRole('viewer'), summary: 'The uploaded file as it was' }, async (req, res) => {

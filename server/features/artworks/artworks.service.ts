@@ -8,6 +8,7 @@ import { AppError, notFound } from '../../core/app-error';
 import { ReadCache } from '../../core/read-cache';
 import { decodeImage, framesOf } from '../../render/decode';
 import type { FileStore } from '../../storage/file-store';
+import { record } from '../activity/activity.model';
 import { Artwork } from './artwork.model';
 
 const FOLDER = 'artworks';
@@ -37,8 +38,9 @@ export const artworkDto = (a: Artwork): ArtworkDto => {
  * The hot reads of a library — its list, one artwork, a thumbnail — served from memory for a few
  * seconds; any write to artworks or studios empties them (server/db/models.ts).
  */
-export const libraryCache = new ReadCache<readonly ArtworkDto[]>('artwork-lists', 5_000, { maxEntries: 2_000 });
-export const artworkCache = new ReadCache<ArtworkDto | null>('artworks', 5_000, { maxEntries: 20_000 });
+export const LIBRARY_CACHE_MS = 5_000;
+export const libraryCache = new ReadCache<readonly ArtworkDto[]>('artwork-lists', LIBRARY_CACHE_MS, { maxEntries: 2_000 });
+export const artworkCache = new ReadCache<ArtworkDto | null>('artworks', LIBRARY_CACHE_MS, { maxEntries: 20_000 });
 export const thumbnailCache = new ReadCache<Buffer>('thumbnails', 60_000, { maxEntries: 5_000, maxSize: 32 * 1024 * 1024, sizeOf: (b) => b.length });
 
 /** A studio's artwork library: uploads, thumbnails, decoded frames. */
@@ -91,6 +93,7 @@ export class ArtworksService {
       const fromFile = fileName.replace(/\.[^.]+$/, '').replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029]/g, ' ').trim();
       const name = (fields.name ?? fromFile).slice(0, 120) || 'Untitled';
       const row = await Artwork.create({ id, studioId, name, type: decoded.type, width: first.width, height: first.height, frameCount: frames.length, delaysMs: frames.map((f) => f.delayMs), bytes: bytes.length, sheet, createdById: userId }, { transaction });
+      await record(studioId, userId, 'artwork.uploaded', `uploaded artwork “${name}”${frames.length > 1 ? ` (${frames.length} frames)` : ''}`, transaction);
       return artworkDto(row);
     } catch (err) {
       await this.files.remove(FOLDER, id);
@@ -98,15 +101,18 @@ export class ArtworksService {
     }
   }
 
-  async rename(studioId: string, id: string, name: string): Promise<ArtworkDto> {
+  async rename(studioId: string, userId: string, id: string, name: string): Promise<ArtworkDto> {
     const a = await this.get(studioId, id);
+    const before = a.name;
     await a.update({ name });
+    if (before !== name) await record(studioId, userId, 'artwork.renamed', `renamed artwork “${before}” to “${name}”`);
     return artworkDto(a);
   }
 
-  async remove(studioId: string, id: string): Promise<void> {
+  async remove(studioId: string, userId: string, id: string): Promise<void> {
     const a = await this.get(studioId, id);
     await a.destroy();
+    await record(studioId, userId, 'artwork.deleted', `deleted artwork “${a.name}”`);
     await this.files.remove(FOLDER, id);
   }
 

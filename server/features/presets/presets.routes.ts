@@ -32,7 +32,7 @@ export function presetsRoutes(presets: PresetsService, appUrl: string, artworks:
       throw new AppError(400, 'invalid_document', `The document has ${issues.length} error${issues.length === 1 ? '' : 's'}; nothing was imported.`, { issues });
     }
     const { name, panelTypeId, parameters } = parsed.data;
-    res.status(201).json({ preset: await presets.create(actorOf(req), { name, panelTypeId, parameters }, { message: 'Imported', numberName: true }) });
+    res.status(201).json({ preset: await presets.create(actorOf(req), { name, panelTypeId, parameters }, { message: 'Imported', numberName: true, how: 'imported' }) });
   });
   api.route('get', '/:presetId', { policy: studioRole('viewer'), summary: 'One preset at its current revision' }, async (req, res) => {
     res.json({ preset: await presets.get(req.membership!.studioId, presetId(req)) });

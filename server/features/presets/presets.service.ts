@@ -59,8 +59,9 @@ export class PresetsService {
    * Creates a preset at revision 1. A name already used in the studio is refused, or — for imports
    * and copies (`numberName`) — numbered: "Look (2)".
    */
-  async create(actor: Actor, body: { name: string; panelTypeId: string; parameters?: PanelParams }, options: { message?: string; numberName?: boolean } = {}): Promise<PresetDto> {
+  async create(actor: Actor, body: { name: string; panelTypeId: string; parameters?: PanelParams }, options: { message?: string; numberName?: boolean; how?: 'created' | 'imported' | 'copied' } = {}): Promise<PresetDto> {
     const message = options.message ?? 'Created';
+    const how = options.how ?? 'created';
     const type = panelTypeById(body.panelTypeId);
     if (!type) throw new AppError(400, 'invalid_input', `panelTypeId "${body.panelTypeId}" is not a built-in panel type.`, { issues: [{ path: 'panelTypeId', message: 'unknown panel type' }] });
     const parameters = body.parameters ?? structuredClone(type.defaults);
@@ -69,7 +70,7 @@ export class PresetsService {
       const name = options.numberName ? await this.freeName(actor.studioId, body.name, transaction) : await this.assertFreeName(actor.studioId, body.name, null, transaction);
       const row = await Preset.create({ studioId: actor.studioId, panelTypeId: type.id, name, parameters, revision: 1, updatedById: actor.userId }, { transaction });
       await PresetRevision.create({ presetId: row.id, revision: 1, name: row.name, parameters, changes: [], message, authorId: actor.userId }, { transaction });
-      await record(actor.studioId, actor.userId, 'preset.created', `created preset “${row.name}”`, transaction);
+      await record(actor.studioId, actor.userId, `preset.${how}`, `${how} preset “${row.name}”`, transaction);
       return this.dto(row, await names([actor.userId], transaction));
     });
   }
@@ -121,7 +122,7 @@ export class PresetsService {
     const membership = await Membership.findOne({ where: { studioId: targetStudioId, userId: actor.userId } });
     if (!membership) throw notFound('The target studio');
     if (!roleAtLeast(membership.role, 'editor')) throw forbidden('You need to be an editor in the target studio.');
-    return this.create({ studioId: targetStudioId, userId: actor.userId, role: membership.role }, { name: name ?? `${row.name} (copy)`, panelTypeId: row.panelTypeId, parameters: row.parameters }, { message: 'Duplicated', numberName: true });
+    return this.create({ studioId: targetStudioId, userId: actor.userId, role: membership.role }, { name: name ?? `${row.name} (copy)`, panelTypeId: row.panelTypeId, parameters: row.parameters }, { message: 'Duplicated', numberName: true, how: 'copied' });
   }
 
   async revisions(studioId: string, id: string): Promise<PresetRevisionDto[]> {

@@ -132,10 +132,17 @@ test('list: filter by panel type, search, sort and pages with a total', async ()
   expect(next.body.presets.map((p: { name: string }) => p.name)).toEqual(['List Zeta']);
 });
 
-test('the activity feed tells who did what', async () => {
-  const feed = (await editor.get(`/api/studios/${studioId}/activity`)).body.activity;
-  const kinds = feed.map((a: { kind: string }) => a.kind);
-  expect(kinds).toEqual(expect.arrayContaining(['preset.created', 'preset.changed', 'preset.restored', 'preset.reference', 'link.created', 'link.revoked']));
+test('the activity feed tells who did what: presets (an import as an import), links, and artwork uploads, renames and deletions (issue "Workflow", item 18)', async () => {
+  const artwork = (await editor.upload(`/api/studios/${studioId}/artworks`, { name: 'Feed lamp' }, { name: 'lamp.png', bytes: pngOf(8, 6, () => [200, 120, 0, 255]) })).body.artwork;
+  await editor.patch(`/api/studios/${studioId}/artworks/${artwork.id}`, { name: 'Feed lantern' });
+  await editor.delete(`/api/studios/${studioId}/artworks/${artwork.id}`);
+  await editor.post(url('/import'), { format: 'emberline.preset', version: 1, name: 'Feed import', panelTypeId: 'el-amber-640x480', parameters: base });
+  const feed = (await editor.get(`/api/studios/${studioId}/activity`)).body.activity as { kind: string; summary: string; actor: string }[];
+  const kinds = feed.map((a) => a.kind);
+  expect(kinds).toEqual(expect.arrayContaining(['preset.created', 'preset.changed', 'preset.restored', 'preset.reference', 'link.created', 'link.revoked', 'preset.imported', 'artwork.uploaded', 'artwork.renamed', 'artwork.deleted']));
+  const summaries = feed.map((a) => a.summary);
+  expect(summaries).toEqual(expect.arrayContaining(['uploaded artwork “Feed lamp”', 'renamed artwork “Feed lamp” to “Feed lantern”', 'deleted artwork “Feed lantern”', 'imported preset “Feed import”']));
+  expect(summaries).not.toContain('created preset “Feed import”');
   expect(feed[0].actor).toEqual(expect.any(String));
 });
 

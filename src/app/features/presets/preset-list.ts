@@ -1,3 +1,4 @@
+import { BreakpointObserver } from '@angular/cdk/layout';
 import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, resource, signal } from '@angular/core';
 import { FormsModule } from '@angular/forms';
@@ -11,7 +12,9 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatSortModule, type Sort } from '@angular/material/sort';
 import { MatTableModule } from '@angular/material/table';
+import { toSignal } from '@angular/core/rxjs-interop';
 import { Router, RouterLink } from '@angular/router';
+import { map } from 'rxjs';
 import { PANEL_TYPES, panelTypeById } from '../../../../shared/model/panel-types';
 import { apiErrorCode, apiErrorMessage } from '../../core/api-error';
 import { ArtworkApi } from '../artworks/artwork-api';
@@ -36,7 +39,9 @@ export class PresetList {
 
   protected readonly panelTypes = PANEL_TYPES;
   protected readonly typeName = (id: string) => panelTypeById(id)?.name ?? id;
-  protected readonly columns = ['thumb', 'name', 'panelType', 'revision', 'updated'];
+  /** On a phone the panel type and revision go under the name, so the Changed column fits. */
+  protected readonly narrow = toSignal(inject(BreakpointObserver).observe('(max-width: 600px)').pipe(map((s) => s.matches)), { initialValue: false });
+  protected readonly columns = computed(() => (this.narrow() ? ['thumb', 'name', 'updated'] : ['thumb', 'name', 'panelType', 'revision', 'updated']));
   protected readonly panelTypeId = signal('');
   protected readonly search = signal('');
   protected readonly sort = signal('-updated');
