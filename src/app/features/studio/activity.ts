@@ -5,7 +5,7 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { PresetApi } from '../presets/preset-api';
 import { StudioContext } from './studio-context';
 
-const ICONS: Record<string, string> = { preset: 'tune', member: 'group', link: 'link' };
+const ICONS: Record<string, string> = { preset: 'tune', member: 'group', link: 'link', invite: 'mail', artwork: 'image' };
 
 /** The studio's activity feed: who did what, when. */
 @Component({
