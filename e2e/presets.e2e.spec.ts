@@ -31,7 +31,9 @@ test('an editor changes a preset → the viewer sees the new revision → the ow
   await viewer.getByRole('textbox', { name: 'Search presets' }).fill(name);
   await viewer.getByRole('link', { name }).click();
   await expect(viewer.getByTestId('current-revision')).toHaveText('2');
-  await expect(viewer.getByRole('list', { name: 'Revisions' })).toContainText('glass.glowRadiusMm: 0.25 → 1.2');
+  // Changes read by label and unit, never by internal key (issue "Workflow", item 12).
+  await expect(viewer.getByRole('list', { name: 'Revisions' })).toContainText('Glow radius 0.25 mm → 1.20 mm');
+  await expect(viewer.getByRole('list', { name: 'Revisions' })).not.toContainText('glass.');
   await expect(viewer.getByRole('button', { name: /^Restore/ })).toHaveCount(0);
   await viewerContext.close();
 
@@ -47,7 +49,9 @@ test('an editor changes a preset → the viewer sees the new revision → the ow
   await expect(owner.getByTestId('current-revision')).toHaveText('3');
   await owner.getByRole('button', { name: 'Compare revision 3' }).click();
   await owner.getByRole('button', { name: 'Compare revision 2' }).click();
-  await expect(owner.getByRole('table').filter({ hasText: 'glass.glowRadiusMm' })).toBeVisible();
+  const diff = owner.getByRole('table').filter({ hasText: 'Glow radius' });
+  await expect(diff).toBeVisible();
+  await expect(diff.getByRole('row').filter({ hasText: 'Glow radius' })).toContainText(/Glow radius\s*0\.25 mm\s*1\.20 mm/);
   await owner.getByRole('combobox', { name: 'Show it on' }).click();
   await owner.getByRole('option', { name: 'Title screen' }).click();
   // Expiry is a choice from a list; "never" must be picked on purpose (issue "Workflow", item 6).

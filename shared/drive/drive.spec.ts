@@ -62,6 +62,15 @@ describe('VESA CVT 1.2 [std; worked results agree with published modelines]', ()
     expect(() => resolveTiming('0x0@0', 'cvt')).toThrow('width must be a whole number from 64 to 8192, got 0');
   });
 
+  test('an impossible timing is described in words with singular and plural units', () => {
+    const t: Timing = { ...fixedTiming('640x480@60')!, h: axis(0, -1, 96, 48), v: axis(480, 10, 0, 33) };
+    expect(timingProblems(t)).toEqual([
+      'Horizontal front porch must be a whole number of pixels ≥ 0, got -1',
+      'Horizontal active must be at least 1 pixel',
+      'Vertical sync width must be at least 1 line',
+    ]);
+  });
+
   test('modes are read as people write them: spaces, ×, a trailing Hz', () => {
     for (const text of ['640x480@60', ' 640 x 480 @ 60 ', '640×480@60', '640X480@60Hz', '640 x 480 @ 60 hz']) {
       expect(parseMode(text)).toEqual({ width: 640, height: 480, refreshHz: 60 });

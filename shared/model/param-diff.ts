@@ -1,4 +1,4 @@
-import { GROUPS, PARAMS, type PanelParams, type ParamSpec } from './parameters';
+import { GROUP_LABELS, GROUPS, PARAMS, type Group, type PanelParams, type ParamSpec } from './parameters';
 
 /** One parameter that differs between two parameter sets. */
 export interface ParamChange {
@@ -46,4 +46,34 @@ export function describeChange(change: ParamChange): string {
 export function describeValue(path: string, value: unknown): string {
   const spec = SPECS.get(path);
   return spec ? formatParamValue(spec, value) : String(value);
+}
+
+const DOCUMENT_FIELDS: Readonly<Record<string, string>> = { format: 'Format', version: 'Format version', name: 'Name', panelTypeId: 'Panel type', parameters: 'Parameters' };
+
+/**
+ * A path into a preset document ("$.parameters.glass.glowRadiusMm", with or without "$.") as the
+ * user reads it: "Glow radius (Glass)", "Drive settings", "Name".
+ */
+export function fieldLabel(path: string): string {
+  const parts = path.replace(/^\$\.?/, '').split('.').filter(Boolean);
+  if (!parts.length) return 'The document';
+  if (parts[0] !== 'parameters') return DOCUMENT_FIELDS[parts[0]] ?? parts[0];
+  if (parts.length === 1) return 'Parameters';
+  const group = GROUP_LABELS[parts[1] as Group];
+  if (!group) return `Parameters “${parts[1]}”`;
+  if (parts.length === 2) return `${group} settings`;
+  const spec = SPECS.get(`${parts[1]}.${parts[2]}`);
+  return spec ? `${spec.label} (${group})` : `${group} “${parts[2]}”`;
+}
+
+const ARTICLE: Readonly<Record<string, string>> = { object: 'a group of settings', number: 'a number', string: 'text', boolean: 'on or off (true or false)', array: 'a list' };
+
+/** A validation message in plain words (the schema library's own phrasing for type errors and unknown keys). */
+export function plainMessage(message: string): string {
+  if (/received undefined/.test(message)) return 'is missing';
+  const type = /^Invalid input: expected (\w+), received (\w+)/.exec(message);
+  if (type) return `must be ${ARTICLE[type[1]] ?? type[1]}, not ${ARTICLE[type[2]] ?? type[2]}`;
+  const keys = /^Unrecognized keys?: (.+)$/.exec(message);
+  if (keys) return `has settings Emberline does not know: ${keys[1].replace(/"/g, '“').replace(/“([^“]*)“/g, '“$1”')}`;
+  return message;
 }

@@ -20,11 +20,11 @@ describe('parameter schema', () => {
   });
 
   test.each([
-    ['out of range', { glass: { glowRadiusMm: -3 } }, 'glass.glowRadiusMm', 'glass.glowRadiusMm must be a number from 0 to 20 mm, got -3'],
-    ['NaN', { viewing: { peakCdM2: Number.NaN } }, 'viewing.peakCdM2', 'viewing.peakCdM2 must be a number from 1 to 2000 cd/m²'],
-    ['not whole', { drive: { grayLevels: 2.5 } }, 'drive.grayLevels', 'drive.grayLevels must be a whole number from 2 to 16 levels, got 2.5'],
-    ['wrong type', { cell: { cols: '640' } }, 'cell.cols', 'cell.cols must be a whole number from 8 to 2048 cells'],
-    ['unknown option', { drive: { dither: 'blue-noise' } }, 'drive.dither', 'drive.dither must be one of none, bayer2, bayer4, bayer8, cluster4, floyd-steinberg'],
+    ['out of range', { glass: { glowRadiusMm: -3 } }, 'glass.glowRadiusMm', 'Glow radius (Glass) must be a number from 0 to 20 mm, got -3'],
+    ['NaN', { viewing: { peakCdM2: Number.NaN } }, 'viewing.peakCdM2', 'Peak luminance (Viewing) must be a number from 1 to 2000 cd/m²'],
+    ['not whole', { drive: { grayLevels: 2.5 } }, 'drive.grayLevels', 'Gray levels (Drive) must be a whole number from 2 to 16 levels, got 2.5'],
+    ['wrong type', { cell: { cols: '640' } }, 'cell.cols', 'Columns (Cell) must be a whole number from 8 to 2048 cells'],
+    ['unknown option', { drive: { dither: 'blue-noise' } }, 'drive.dither', 'Dither (Drive) must be one of none, bayer2, bayer4, bayer8, cluster4, floyd-steinberg'],
   ])('%s is refused with the name, range and value', (_name, patch, path, message) => {
     const value = mergeParams(base, {});
     Object.assign((value as unknown as Record<string, object>)[path.split('.')[0]], Object.values(patch)[0]);

@@ -8,6 +8,7 @@ import { z } from 'zod';
  */
 export const GROUPS = ['source', 'drive', 'cell', 'emission', 'glass', 'viewing'] as const;
 export type Group = (typeof GROUPS)[number];
+export const GROUP_LABELS: Readonly<Record<Group, string>> = { source: 'Source', drive: 'Drive', cell: 'Cell', emission: 'Emission', glass: 'Glass', viewing: 'Viewing' };
 
 interface Base {
   group: Group;
@@ -108,12 +109,13 @@ export interface PanelParams {
 }
 
 function fieldSchema(spec: ParamSpec): z.ZodType {
-  const where = `${spec.group}.${spec.key}`;
+  // Named as the bench names it: "Glow radius (Glass)"; the JSON path travels beside the message.
+  const where = `${spec.label} (${GROUP_LABELS[spec.group]})`;
   if (spec.kind === 'bool') return z.boolean({ message: `${where} must be true or false` });
   if (spec.kind === 'enum') return z.enum(spec.options as [string, ...string[]], { message: `${where} must be one of ${spec.options.join(', ')}` });
   const range = `${spec.kind === 'int' ? 'a whole number' : 'a number'} from ${spec.min} to ${spec.max}${spec.unit ? ` ${spec.unit}` : ''}`;
   // One message for every failure, naming the parameter, its range and the value given.
-  const error = (issue: { input?: unknown }) => `${where} must be ${range}, got ${typeof issue.input === 'string' ? `"${issue.input}"` : String(issue.input)}`;
+  const error = (issue: { input?: unknown }) => `${where} must be ${range}, got ${typeof issue.input === 'string' ? `“${issue.input}”` : String(issue.input)}`;
   let schema = z.number({ error });
   if (spec.kind === 'int') schema = schema.int({ error });
   return schema.min(spec.min, { error }).max(spec.max, { error }).meta({ description: `${spec.meaning}${spec.unit ? ` (${spec.unit})` : ''}` });

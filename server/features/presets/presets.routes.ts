@@ -4,6 +4,7 @@ import { ApiRouter } from '../../core/api-router';
 import { AppError } from '../../core/app-error';
 import { idParam, publicAccess, studioRole } from '../../core/policy';
 import { issuesOf } from '../../core/validate';
+import { fieldLabel, plainMessage } from '../../../shared/model/param-diff';
 import type { ArtworksService } from '../artworks/artworks.service';
 import type { RendersService } from '../renders/renders.service';
 import type { Actor, PresetsService } from './presets.service';
@@ -28,7 +29,13 @@ export function presetsRoutes(presets: PresetsService, appUrl: string, artworks:
   api.route('post', '/import', { policy: studioRole('editor'), summary: 'Import a preset document; every error is reported with its JSON path', status: 201 }, async (req, res) => {
     const parsed = presetDocumentSchema.safeParse(req.body);
     if (!parsed.success) {
-      const issues = issuesOf(parsed.error).map((i) => ({ path: i.path === '(root)' ? '$' : `$.${i.path}`, message: i.message }));
+      const issues = issuesOf(parsed.error).map((i) => {
+        const path = i.path === '(root)' ? '$' : `$.${i.path}`;
+        const label = fieldLabel(path);
+        // A parameter's own message starts with its label: say it once.
+        const message = plainMessage(i.message.startsWith(label) ? i.message.slice(label.length).trim() : i.message);
+        return { path, label, message };
+      });
       throw new AppError(400, 'invalid_document', `The document has ${issues.length} error${issues.length === 1 ? '' : 's'}; nothing was imported.`, { issues });
     }
     const { name, panelTypeId, parameters } = parsed.data;

@@ -107,6 +107,12 @@ test('import reports every error with its JSON path and stores nothing; export �
   expect(res.status).toBe(400);
   const paths = res.body.error.details.issues.map((i: { path: string }) => i.path);
   expect(paths).toEqual(expect.arrayContaining(['$.version', '$.name', '$.parameters.glass.glowRadiusMm', '$.parameters.drive']));
+  // Each also names the field as the bench does, in plain words (issue "Workflow", item 12).
+  const byPath = Object.fromEntries(res.body.error.details.issues.map((i: { path: string; label: string; message: string }) => [i.path, `${i.label} ${i.message}`]));
+  expect(byPath['$.parameters.glass.glowRadiusMm']).toBe('Glow radius (Glass) must be a number from 0 to 20 mm, got “wide”');
+  expect(byPath['$.parameters.drive']).toBe('Drive settings has settings Emberline does not know: “sparkle”');
+  const missing = await editor.post(url('/import'), { format: 'emberline.preset', version: 1, name: 'No cell', panelTypeId: 'el-amber-640x480', parameters: { ...base, cell: undefined } });
+  expect(missing.body.error.details.issues).toContainEqual({ path: '$.parameters.cell', label: 'Cell settings', message: 'is missing' });
   expect(await Preset.count()).toBe(before);
 
   const p = (await editor.post(url(), { name: 'Round trip', panelTypeId: 'vfd-bluegreen-256x64' })).body.preset;

@@ -49,7 +49,7 @@ describe('POST /api/renders', () => {
   });
 
   test.each([
-    ['an out-of-range parameter', { presetId: 'el-amber-640x480.standard', patch: JSON.stringify({ glass: { glowRadiusMm: -3 } }) }, 400, 'glass.glowRadiusMm must be a number from 0 to 20 mm, got -3'],
+    ['an out-of-range parameter', { presetId: 'el-amber-640x480.standard', patch: JSON.stringify({ glass: { glowRadiusMm: -3 } }) }, 400, 'Glow radius (Glass) must be a number from 0 to 20 mm, got -3'],
     ['an unknown parameter', { presetId: 'el-amber-640x480.standard', patch: JSON.stringify({ glass: { sparkle: 1 } }) }, 400, 'sparkle'],
     ['an unknown preset', { presetId: 'nope' }, 400, 'There is no built-in preset "nope"'],
     ['a scale of 9', { presetId: 'el-amber-640x480.standard', patch: small, scale: '9' }, 400, 'scale must be a whole number from 1 to 8'],

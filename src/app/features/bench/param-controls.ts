@@ -6,10 +6,9 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatSliderModule } from '@angular/material/slider';
 import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { MatTooltipModule } from '@angular/material/tooltip';
-import { GROUPS, PARAMS, type Group, type NumberSpec, type PanelParams, type ParamSpec } from '../../../../shared/model/parameters';
+import { GROUP_LABELS, GROUPS, PARAMS, type Group, type NumberSpec, type PanelParams, type ParamSpec } from '../../../../shared/model/parameters';
 import { haloRadiusFromGlass } from '../../../../shared/pipeline/glow/glow';
 
-const GROUP_LABELS: Record<Group, string> = { source: 'Source', drive: 'Drive', cell: 'Cell', emission: 'Emission', glass: 'Glass', viewing: 'Viewing' };
 
 /** A control another setting decides: shown read-only with the value in force and why. */
 export interface ParamLock {

@@ -49,7 +49,7 @@ export class PresetList {
   protected readonly pageSize = signal(10);
   protected readonly newName = signal('');
   protected readonly newType = signal(PANEL_TYPES[0].id);
-  protected readonly importErrors = signal<{ path: string; message: string }[]>([]);
+  protected readonly importErrors = signal<{ path: string; label: string; message: string }[]>([]);
   protected readonly presets = resource({
     params: () => ({ studioId: this.context.studioId(), panelTypeId: this.panelTypeId(), q: this.search().trim(), sort: this.sort(), page: this.page(), pageSize: this.pageSize() }),
     loader: ({ params }) => this.api.list(params.studioId, params),
@@ -88,7 +88,7 @@ export class PresetList {
     try {
       doc = JSON.parse(await file.text());
     } catch {
-      this.importErrors.set([{ path: '$', message: `${file.name} is not JSON.` }]);
+      this.importErrors.set([{ path: '$', label: 'The document', message: `${file.name} is not JSON.` }]);
       return;
     }
     try {
@@ -96,7 +96,7 @@ export class PresetList {
       this.snackBar.open(`Imported “${p.name}”.`, undefined, { duration: 3000 });
       this.presets.reload();
     } catch (err) {
-      const issues = (err as { error?: { error?: { details?: { issues?: { path: string; message: string }[] } } } }).error?.error?.details?.issues;
+      const issues = (err as { error?: { error?: { details?: { issues?: { path: string; label: string; message: string }[] } } } }).error?.error?.details?.issues;
       if (apiErrorCode(err) === 'invalid_document' && issues) this.importErrors.set(issues);
       else this.snackBar.open(apiErrorMessage(err), 'Dismiss', { duration: 8000 });
     }
