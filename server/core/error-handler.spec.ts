@@ -3,7 +3,7 @@ import request from 'supertest';
 import { AppError } from './app-error';
 import { errorHandler, isDatabaseDown } from './error-handler';
 
-/** SECURITY.md 16 (ASVS 5.0 16.5): generic JSON errors, never a stack, the process stays up. */
+/** security item 16 (ASVS 5.0 16.5): generic JSON errors, never a stack, the process stays up. */
 describe('errorHandler', () => {
   const app = express();
   app.get('/boom', () => {
@@ -58,7 +58,7 @@ describe('errorHandler', () => {
   });
 });
 
-describe('outage through the whole app: the session store and health (issue "Hardening", item 9; SECURITY.md 24)', () => {
+describe('outage through the whole app: the session store and health (issue "Hardening", item 9; security item 24)', () => {
   test('with PostgreSQL unreachable, a signed-in request and health both answer 503 with Retry-After', async () => {
     const { createHarness, TestClient } = await import('../testing/harness');
     // A port nothing listens on: the same errors as a stopped server, without stopping the shared test database.

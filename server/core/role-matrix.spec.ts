@@ -10,7 +10,7 @@ import { pngOf } from '../testing/images';
 import { ACTORS, createStudioWorld, createUsers, TIMING_BODY, WORLD_PASSWORD, type Actor, type WorldUsers } from '../testing/world';
 
 /**
- * Access control as a table (SECURITY.md 8–10; ASVS 5.0 8.2.1, 8.2.2): every /api route ×
+ * Access control as a table (security items 8–10; ASVS 5.0 8.2.1, 8.2.2): every /api route ×
  * {owner, editor, viewer, other studio, anonymous} → the expected status.
  */
 interface Cell {

@@ -174,7 +174,7 @@ export function issueCsrfCookie(req: Request, res: Response, rotate = false): vo
 /**
  * Mutations must echo the session's token in X-XSRF-TOKEN (ASVS 5.0 3.5). The token (and so a
  * session row) is made only when asked for — GET /api/auth/csrf before a first form, or at
- * sign-in — never for a plain read (SECURITY.md 35).
+ * sign-in — never for a plain read (security item 35).
  */
 export const csrfProtection: RequestHandler[] = [
   (req, res, next) =>

@@ -3,7 +3,7 @@ import { Studio } from '../features/studios/studio.model';
 import { createHarness, TestClient, type Harness } from '../testing/harness';
 import { DEMO_ACCOUNTS, DEMO_MARKER, DEMO_STUDIO, DEMO_STUDIO_ID, seedDemo } from './seed';
 
-/** The demo seed runs once, by stable ids, and never changes who belongs where (issue "Hardening", item 8; SECURITY.md 34). */
+/** The demo seed runs once, by stable ids, and never changes who belongs where (issue "Hardening", item 8; security item 34). */
 let h: Harness;
 beforeAll(async () => {
   h = await createHarness();

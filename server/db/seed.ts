@@ -20,7 +20,7 @@ export const DEMO_ACCOUNTS: { id: string; email: string; displayName: string; ro
   { id: 'e0b1a5e5-0000-4000-8000-00000000a002', email: 'editor@kilnquartz.example', displayName: 'Emeric Vale', role: 'editor' },
   { id: 'e0b1a5e5-0000-4000-8000-00000000a003', email: 'viewer@kilnquartz.example', displayName: 'Vesna Roe', role: 'viewer' },
 ];
-/** The marker row that says the demo scenario was seeded (SECURITY.md 34). */
+/** The marker row that says the demo scenario was seeded (security item 34). */
 export const DEMO_MARKER = 'demo-kiln-and-quartz-v1';
 
 /**

@@ -2,7 +2,7 @@ import type { Sequelize, Transaction } from 'sequelize';
 import { AppError } from '../core/app-error';
 import type { MailMessage, Mailer } from './mailer';
 
-/** Mail throttles (SECURITY.md 31): per recipient address and per sending account, per hour. */
+/** Mail throttles (security item 31): per recipient address and per sending account, per hour. */
 export const MAIL_LIMITS = {
   /** Mails of any kind to one address in an hour. */
   perRecipientPerHour: 5,
@@ -15,7 +15,7 @@ export type MailKind = 'verify' | 'account-exists' | 'reset' | 'invite';
 
 /**
  * Outgoing mail: counted in PostgreSQL (so a restart keeps the throttle) and sent after the
- * HTTP response, so an answer takes the same time whether or not a mail goes out (SECURITY.md 30).
+ * HTTP response, so an answer takes the same time whether or not a mail goes out (security item 30).
  */
 export class MailOutbox {
   constructor(

@@ -12,7 +12,7 @@ import { HEALTH_PROBE_MS } from '../features/health/health.routes';
 import { ROLE_CACHE_MS } from '../features/studios/membership-lookup';
 
 /**
- * Fault drills (SECURITY.md 22–24; issue "Hardening"): `kill -9` of the server during an upload
+ * Fault drills (security items 22–24; issue "Hardening"): `kill -9` of the server during an upload
  * and during a render, then a restart, leaves no orphan files and no rows without files; a
  * PostgreSQL stop under load answers 503 fast, and the same process recovers when it is back.
  */

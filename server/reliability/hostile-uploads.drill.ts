@@ -7,7 +7,7 @@ import { flipBits, hostileCorpus, validBases } from '../testing/hostile-corpus';
 import { ApiSession, freshDatabase, startServer, type ServerProcess } from './server-process';
 
 /**
- * Hostile uploads against a real server process (SECURITY.md 17–20, 32; issue "Hardening"):
+ * Hostile uploads against a real server process (security items 17–20, 32; issue "Hardening"):
  * every answer 4xx (or 2xx for a mutant that is still a valid image), never 5xx, the same process
  * throughout, peak memory printed and bounded.
  */

@@ -34,7 +34,7 @@ export function gifFrameBomb(frames: number): Buffer {
 }
 
 /**
- * The named hostile corpus (SECURITY.md 17–20, 32): truncations, bad checksums and lengths,
+ * The named hostile corpus (security items 17–20, 32): truncations, bad checksums and lengths,
  * pixel, frame and sprite-sheet bombs, markup renamed as images, and polyglots.
  */
 export async function hostileCorpus(): Promise<HostileCase[]> {

@@ -46,7 +46,7 @@ export const changePasswordSchema = z.strictObject({
   newPassword: passwordSchema,
 });
 
-/** Studio names appear in invitation mails: one line, no web addresses (SECURITY.md 31). */
+/** Studio names appear in invitation mails: one line, no web addresses (security item 31). */
 export const studioNameSchema = mailedNameSchema(80);
 
 export const createStudioSchema = z.strictObject({ name: studioNameSchema });

@@ -20,7 +20,7 @@ export function nameSchema(max: number) {
     .refine((s) => !CONTROL.test(s), { message: 'must be one line of text without control characters' });
 }
 
-/** A name that also appears in e-mails to other people: no web addresses either (SECURITY.md 31). */
+/** A name that also appears in e-mails to other people: no web addresses either (security item 31). */
 export function mailedNameSchema(max: number) {
   return nameSchema(max).refine((s) => !LINK.test(s), { message: 'must not contain a web address' });
 }

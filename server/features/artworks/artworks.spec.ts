@@ -52,7 +52,7 @@ test('a sprite sheet is cut into frames with its delay', async () => {
   expect(bad.body.error.message).toContain('does not divide into 7 × 8 frames');
 });
 
-describe('sprite-sheet bombs are refused from the header, before any frame is cut (SECURITY.md 19, 32)', () => {
+describe('sprite-sheet bombs are refused from the header, before any frame is cut (security items 19, 32)', () => {
   const flat = (side: number) => sharp({ create: { width: side, height: side, channels: 4, background: '#ffb000' } }).png({ compressionLevel: 9 }).toBuffer();
   test.each([
     ['4000 × 4000 cut into 1 × 1 frames (16 million)', 4000, 1, 'sheet_does_not_fit', /smaller than the minimum of 4 × 4/],

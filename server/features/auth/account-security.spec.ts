@@ -7,7 +7,7 @@ import { User } from './user.model';
 
 /**
  * The account findings of the hostile test (issue "Hardening", items 2, 4, 5, 6, 7, 12) and
- * SECURITY.md 27–31, 35. Each test failed on the code before the fix.
+ * security items 27–31, 35. Each test failed on the code before the fix.
  */
 let h: Harness;
 beforeAll(async () => {
@@ -21,7 +21,7 @@ const lastMailId = () => h.mail.messages.at(-1)?.id ?? 0;
 const sessionsOf = async (userId: string) =>
   Number(((await h.sequelize.query(`SELECT count(*)::int AS n FROM sessions WHERE sess->'passport'->'user'->>'id' = $1`, { bind: [userId] }))[0] as { n: number }[])[0].n);
 
-describe('e-mail ownership before studio work (item 2; SECURITY.md 27)', () => {
+describe('e-mail ownership before studio work (item 2; security item 27)', () => {
   test('sign-up creates no account and no session until the mailed link is opened', async () => {
     const email = uniqueEmail('pending');
     const client = fresh();
@@ -92,7 +92,7 @@ describe('e-mail ownership before studio work (item 2; SECURITY.md 27)', () => {
   });
 });
 
-describe('password reset and change end other sessions; old links die (items 2, 7; SECURITY.md 28)', () => {
+describe('password reset and change end other sessions; old links die (items 2, 7; security item 28)', () => {
   const askReset = async (email: string) => {
     const since = lastMailId();
     await fresh().post('/api/auth/password-reset', { email });
@@ -138,7 +138,7 @@ describe('password reset and change end other sessions; old links die (items 2, 
   });
 });
 
-describe('sign-in back-off (item 4; SECURITY.md 3, 29)', () => {
+describe('sign-in back-off (item 4; security items 3, 29)', () => {
   test('150 parallel wrong guesses: only the free ones are checked, the rest wait; a reset clears the account', async () => {
     const { email, password } = await fresh().signUp();
     const client = fresh();
@@ -199,7 +199,7 @@ describe('sign-in back-off (item 4; SECURITY.md 3, 29)', () => {
   });
 });
 
-describe('no account enumeration (item 5; SECURITY.md 4, 30)', () => {
+describe('no account enumeration (item 5; security items 4, 30)', () => {
   test('sign-up answers the same body for a known and an unknown address; the known one gets a notice, not a link', async () => {
     const { email } = await fresh().signUp();
     const since = lastMailId();
@@ -239,7 +239,7 @@ describe('no account enumeration (item 5; SECURITY.md 4, 30)', () => {
   });
 });
 
-describe('mail abuse (item 6; SECURITY.md 31)', () => {
+describe('mail abuse (item 6; security item 31)', () => {
   test(`at most ${MAIL_LIMITS.perRecipientPerHour} mails an hour to one address; the answer does not change`, async () => {
     const { email } = await fresh().signUp();
     const before = h.mail.messages.filter((m) => m.to.includes(email)).length;
@@ -286,7 +286,7 @@ describe('mail abuse (item 6; SECURITY.md 31)', () => {
   });
 });
 
-describe('sessions only when something must be kept (item 12; SECURITY.md 35)', () => {
+describe('sessions only when something must be kept (item 12; security item 35)', () => {
   const count = async () => Number(((await h.sequelize.query('SELECT count(*)::int AS n FROM sessions'))[0] as { n: number }[])[0].n);
 
   test('2 000 anonymous reads write no session row', async () => {

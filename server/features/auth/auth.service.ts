@@ -16,7 +16,7 @@ export const RESET_TTL_MS = 60 * 60 * 1000;
 /** How long a sign-up's verification link works. */
 export const VERIFY_TTL_MS = 24 * 60 * 60 * 1000;
 
-/** The one answer to every sign-up that does not come with a matching invite (SECURITY.md 30). */
+/** The one answer to every sign-up that does not come with a matching invite (security item 30). */
 export const SIGN_UP_SENT = 'Check your inbox: we sent a link to finish creating your account. It works for 24 hours.';
 
 /** Accounts: sign-up with a verified address, credential checks, password resets and changes. */

@@ -11,7 +11,7 @@ afterAll(() => h.close());
 
 const sidOf = (c: TestClient) => c.cookie('emberline.sid');
 
-describe('password storage (SECURITY.md 1; ASVS 5.0 11.4.2)', () => {
+describe('password storage (security item 1; ASVS 5.0 11.4.2)', () => {
   test('argon2id with m ≥ 19456 KiB, t ≥ 2, p = 1, and a fresh salt per account', async () => {
     const a = await new TestClient(h.app).signUp('same password here');
     const b = await new TestClient(h.app).signUp('same password here');
@@ -26,7 +26,7 @@ describe('password storage (SECURITY.md 1; ASVS 5.0 11.4.2)', () => {
   });
 });
 
-describe('password rules (SECURITY.md 2; ASVS 5.0 6.2)', () => {
+describe('password rules (security item 2; ASVS 5.0 6.2)', () => {
   test.each([
     ['7 characters', 'abcdefg', 400],
     ['8 characters', 'abcdefgh', 202],
@@ -57,7 +57,7 @@ describe('sign-in', () => {
     expect(res.status).toBe(400);
     expect(res.body.error.message).toMatch(/NUL character/);
   });
-  test('unknown account and wrong password answer the same (SECURITY.md 4; ASVS 5.0 6.3.8)', async () => {
+  test('unknown account and wrong password answer the same (security item 4; ASVS 5.0 6.3.8)', async () => {
     const { email } = await new TestClient(h.app).signUp();
     const wrong = await new TestClient(h.app).post('/api/auth/sign-in', { email, password: 'not the password' });
     const unknown = await new TestClient(h.app).post('/api/auth/sign-in', { email: uniqueEmail('ghost'), password: 'not the password' });
@@ -66,7 +66,7 @@ describe('sign-in', () => {
     expect(unknown.body).toEqual(wrong.body);
   });
 
-  test('the session id changes at sign-in and the old one is dead (SECURITY.md 5; ASVS 5.0 7.2.4)', async () => {
+  test('the session id changes at sign-in and the old one is dead (security item 5; ASVS 5.0 7.2.4)', async () => {
     const { email, password } = await new TestClient(h.app).signUp();
     const client = new TestClient(h.app);
     await client.get('/api/auth/csrf');
@@ -81,7 +81,7 @@ describe('sign-in', () => {
     expect((await replay.get('/api/studios')).status).toBe(401);
   });
 
-  test('sign-out destroys the session on the server (SECURITY.md 5; ASVS 5.0 7.4.1)', async () => {
+  test('sign-out destroys the session on the server (security item 5; ASVS 5.0 7.4.1)', async () => {
     const client = new TestClient(h.app);
     await client.signUp();
     const sid = sidOf(client)!;
@@ -91,7 +91,7 @@ describe('sign-in', () => {
     expect((await replay.get('/api/studios')).status).toBe(401);
   });
 
-  test('cookies: session HttpOnly + SameSite=Lax with a 30-minute idle expiry (SECURITY.md 6, 7)', async () => {
+  test('cookies: session HttpOnly + SameSite=Lax with a 30-minute idle expiry (security items 6, 7)', async () => {
     const { email, password } = await new TestClient(h.app).signUp();
     const res = await new TestClient(h.app).post('/api/auth/sign-in', { email, password });
     const session = ([] as string[]).concat(res.headers['set-cookie']).find((c) => c.startsWith('emberline.sid='))!;
@@ -102,7 +102,7 @@ describe('sign-in', () => {
     expect(expires - Date.now()).toBeLessThanOrEqual(30 * 60_000 + 1000);
   });
 
-  test('a session older than the 12-hour absolute lifetime is signed out (SECURITY.md 7; ASVS 4 3.3.2)', async () => {
+  test('a session older than the 12-hour absolute lifetime is signed out (security item 7; ASVS 4 3.3.2)', async () => {
     const client = new TestClient(h.app);
     await client.signUp();
     expect((await client.get('/api/studios')).status).toBe(200);
@@ -153,7 +153,7 @@ describe('password reset by e-mail (real SMTP to the catcher)', () => {
   });
 });
 
-describe('requests (SECURITY.md 13, 15, 16)', () => {
+describe('requests (security items 13, 15, 16)', () => {
   test('a mutation without the CSRF header is refused with 403 and changes nothing', async () => {
     const client = new TestClient(h.app);
     await client.signUp();

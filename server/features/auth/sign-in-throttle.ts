@@ -9,7 +9,7 @@ export interface ThrottleRule {
 }
 
 /**
- * Sign-in back-off (SECURITY.md 3, 29; OWASP's Authentication Cheat Sheet recommends an
+ * Sign-in back-off (security items 3, 29; OWASP's Authentication Cheat Sheet recommends an
  * increasing delay over a lock-out). Per account: 5 free failures, then 1 s, 2 s, 4 s … up to
  * 5 minutes between attempts, so at most about 25 guesses an hour and never a hard lock. Per
  * client address: 20 free, the same doubling up to 15 minutes.

@@ -11,7 +11,7 @@ import { Invite } from './invite.model';
 import { Membership } from './membership.model';
 import { Studio } from './studio.model';
 
-/** Refuses studio work to an account that has not proven its address (SECURITY.md 27). */
+/** Refuses studio work to an account that has not proven its address (security item 27). */
 function assertVerified(user: Express.User, what: string): void {
   if (!user.emailVerified) {
     throw new AppError(403, 'email_unverified', `Confirm your e-mail address before you ${what}: open the link we mailed you, or ask for a new one.`);
@@ -137,7 +137,7 @@ export class StudiosService {
     const { token, hash } = newToken();
     const invite = await Invite.create({ studioId, email, role, tokenHash: hash, invitedById: invitedBy.id, expiresAt: new Date(Date.now() + INVITE_TTL_MS) });
     const link = `${this.appUrl}/invites/${token}`;
-    // Names typed by users are quoted as data, never in the subject (SECURITY.md 31).
+    // Names typed by users are quoted as data, never in the subject (security item 31).
     const queued = await this.outbox.post(
       'invite',
       {
@@ -181,7 +181,7 @@ export class StudiosService {
       if (invite.email !== user.email) {
         throw new AppError(403, 'invite_other_email', `This invite is for ${invite.email}. Sign in with that e-mail to accept it.`);
       }
-      // The invite's link was mailed to this address: opening it proves the mailbox (SECURITY.md 27).
+      // The invite's link was mailed to this address: opening it proves the mailbox (security item 27).
       if (!user.emailVerified) await User.update({ emailVerifiedAt: new Date() }, { where: { id: user.id }, transaction });
       const existing = await Membership.findOne({ where: { studioId: invite.studioId, userId: user.id }, transaction });
       if (!existing) {
