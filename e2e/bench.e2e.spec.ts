@@ -254,3 +254,37 @@ test('the current view downloads as the reference PNG at this scale, with its pa
   const view = new DataView(bytes.buffer, bytes.byteOffset);
   expect([view.getUint32(16), view.getUint32(20)]).toEqual([1280, 960]);
 });
+
+test('unsaved tuning is marked, can be reverted, and is never dropped by a panel-type switch without asking', async ({ page, guard }) => {
+  void guard;
+  await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
+  await expect(page).toHaveURL(/\/bench/);
+  await waitForDraw(page, 0);
+  const glow = page.getByRole('spinbutton', { name: 'Glow radius' });
+  const original = await glow.inputValue();
+  await glow.fill('1.5');
+  await glow.press('Enter');
+  // Issue "Workflow", item 3.
+  await expect(page.getByRole('status').filter({ hasText: 'Modified since the built-in preset (1 change)' })).toBeVisible();
+  const type = page.getByRole('combobox', { name: 'Panel type' });
+  const before = (await type.textContent())!.trim();
+  await type.click();
+  await page.getByRole('option', { name: PANEL_TYPES[1].name }).click();
+  const dialog = page.getByRole('alertdialog', { name: `Switch to ${PANEL_TYPES[1].name}?` });
+  await expect(dialog).toContainText(`Glow radius ${Number(original).toFixed(2)} mm → 1.50 mm`);
+  await dialog.getByRole('button', { name: 'Cancel' }).click();
+  await expect(type).toHaveText(before);
+  await expect(glow).toHaveValue('1.5');
+  // Revert puts the preset's value back.
+  await page.getByRole('button', { name: 'Revert' }).click();
+  await expect(glow).toHaveValue(original);
+  await expect(page.getByText(/Modified since/)).toHaveCount(0);
+  // Tuned again, then switched on purpose.
+  await glow.fill('1.5');
+  await glow.press('Enter');
+  await type.click();
+  await page.getByRole('option', { name: PANEL_TYPES[1].name }).click();
+  await page.getByRole('alertdialog').getByRole('button', { name: 'Discard changes and switch' }).click();
+  await expect(type).toHaveText(PANEL_TYPES[1].name);
+  await expect(glow).toHaveValue(String(PANEL_TYPES[1].defaults.glass.glowRadiusMm));
+});

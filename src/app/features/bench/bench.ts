@@ -7,7 +7,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
-import { MatSelectModule } from '@angular/material/select';
+import { MatSelect, MatSelectModule } from '@angular/material/select';
 import { MatSliderModule } from '@angular/material/slider';
 import { MatTooltipModule } from '@angular/material/tooltip';
 import { RouterLink } from '@angular/router';
@@ -16,7 +16,7 @@ import { pixelDiff } from '../../../../shared/analysis/pixel-diff';
 import { flashReport } from '../../../../shared/analysis/flash';
 import { withPngText } from '../../../../shared/api/png-text';
 import { REC709, SRGB_TO_LINEAR } from '../../../../shared/color/srgb';
-import { BUILT_IN_PRESETS, PANEL_TYPES } from '../../../../shared/model/panel-types';
+import { BUILT_IN_PRESETS, PANEL_TYPES, panelTypeById } from '../../../../shared/model/panel-types';
 import type { PanelParams } from '../../../../shared/model/parameters';
 import { outputUniforms } from '../../../../shared/pipeline/output/uniforms';
 import type { Frame } from '../../../../shared/pipeline/types';
@@ -29,6 +29,8 @@ import { TimingApi } from '../drive/timing-api';
 import { StudioContext } from '../studio/studio-context';
 import { BenchEngine, type PanelResult } from './bench-engine';
 import { ParamControls, type ParamLock } from './param-controls';
+import { Confirm } from '../../shared/confirm-dialog';
+import { describeChange, paramDiff } from '../../../../shared/model/param-diff';
 import { RenderApi } from './render-api';
 import { downloadBlob } from '../drive/download';
 
@@ -49,6 +51,7 @@ export class Bench {
   private readonly timingsApi = inject(TimingApi);
   private readonly presetApi = inject(PresetApi);
   private readonly snackBar = inject(MatSnackBar);
+  private readonly confirm = inject(Confirm);
   private readonly renders = inject(RenderApi);
   protected readonly context = inject(StudioContext);
 
@@ -165,8 +168,36 @@ export class Bench {
     effect(() => this.drawOriginal(this.compare(), this.frame()));
   }
 
-  protected choosePanelType(id: string): void {
-    this.panelTypeId.set(id);
+  /** Unsaved tuning is never dropped without a word: switching panel type or preset asks first. */
+  protected async choosePanelType(id: string, select: MatSelect): Promise<void> {
+    if (id === this.panelTypeId()) return;
+    if (await this.mayDiscardTuning(`Switch to ${panelTypeById(id)?.name ?? 'another panel type'}?`)) this.panelTypeId.set(id);
+    else select.value = this.panelTypeId();
+  }
+
+  protected async choosePreset(id: string, select: MatSelect): Promise<void> {
+    if (id === this.presetId()) return;
+    if (await this.mayDiscardTuning('Open another preset?')) this.presetId.set(id);
+    else select.value = this.presetId();
+  }
+
+  /** Puts the look back as it was saved (or as the built-in preset has it). */
+  protected revert(): void {
+    this.params.set(structuredClone(this.defaults()));
+  }
+
+  /** What is modified, as the user reads it ("Glow radius 0.25 mm → 0.40 mm"). */
+  protected readonly changes = computed(() => paramDiff(this.defaults(), this.params()).map(describeChange));
+
+  private async mayDiscardTuning(title: string): Promise<boolean> {
+    const changes = this.changes();
+    if (!changes.length) return true;
+    const shown = changes.slice(0, 5);
+    return this.confirm.ask({
+      title,
+      consequences: [`Your unsaved changes to this look are discarded:`, ...shown.map((c) => `• ${c}`), ...(changes.length > shown.length ? [`• and ${changes.length - shown.length} more`] : []), 'Save them first (as a revision or a new preset) to keep them.'],
+      action: 'Discard changes and switch',
+    });
   }
 
   /** Saves the current parameters as the studio preset's next revision (409: someone was faster). */
