@@ -288,3 +288,31 @@ test('unsaved tuning is marked, can be reverted, and is never dropped by a panel
   await expect(type).toHaveText(PANEL_TYPES[1].name);
   await expect(glow).toHaveValue(String(PANEL_TYPES[1].defaults.glass.glowRadiusMm));
 });
+
+test('playback sits above the preview with speed and loop; without loop it stops on the last frame, and a drift check pauses it', async ({ page, guard }) => {
+  void guard;
+  await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
+  await expect(page).toHaveURL(/\/bench/);
+  await choose(page, 'Artwork', 'Walk cycle');
+  const animation = page.getByRole('group', { name: 'Animation' });
+  const play = animation.getByRole('button', { name: 'Play' });
+  // Issue "Workflow", item 23: on screen at 1280 × 800, above the canvas.
+  await expect(play).toBeInViewport();
+  expect((await play.boundingBox())!.y).toBeLessThan((await page.getByTestId('stage').boundingBox())!.y);
+  const position = page.getByTestId('frame-position');
+  const count = Number((await position.textContent())!.match(/\/ (\d+)/)![1]);
+  expect(count).toBeGreaterThan(1);
+  await choose(page, 'Playback speed', '4×');
+  await animation.getByRole('switch', { name: 'Loop' }).click();
+  await play.click();
+  await expect(position).toHaveText(`frame ${count} / ${count}`, { timeout: 10_000 });
+  await expect(animation.getByRole('button', { name: 'Play' })).toBeVisible();
+  await page.waitForTimeout(600);
+  await expect(position).toHaveText(`frame ${count} / ${count}`);
+  // Looping again: a drift check stops playback so it checks the frame on screen (item 10).
+  await animation.getByRole('switch', { name: 'Loop' }).click();
+  await animation.getByRole('button', { name: 'Play' }).click();
+  await expect(animation.getByRole('button', { name: 'Pause' })).toBeVisible();
+  await page.getByRole('button', { name: 'Drift check' }).click();
+  await expect(animation.getByRole('button', { name: 'Play' })).toBeVisible();
+});

@@ -9,6 +9,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelect, MatSelectModule } from '@angular/material/select';
 import { MatSliderModule } from '@angular/material/slider';
+import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { MatTooltipModule } from '@angular/material/tooltip';
 import { RouterLink } from '@angular/router';
 import pixelmatch from 'pixelmatch';
@@ -41,7 +42,7 @@ const CSS_PX_PER_MM = 96 / 25.4;
 /** The bench: artwork live on a simulated panel, tuned by hand, checked against the server. */
 @Component({
   selector: 'em-bench',
-  imports: [FormsModule, DecimalPipe, RouterLink, MatInputModule, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatSelectModule, MatSliderModule, MatIconModule, MatProgressBarModule, MatTooltipModule, ParamControls],
+  imports: [FormsModule, DecimalPipe, RouterLink, MatInputModule, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatSelectModule, MatSliderModule, MatSlideToggleModule, MatIconModule, MatProgressBarModule, MatTooltipModule, ParamControls],
   templateUrl: './bench.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -355,13 +356,23 @@ export class Bench {
     this.frame.update((f) => (f + delta + n) % n);
   }
 
+  /** Playback speed: each frame shows for its own delay divided by this. */
+  protected readonly speed = signal(1);
+  protected readonly speeds = [0.25, 0.5, 1, 2, 4];
+  /** Off: playback stops on the last frame. */
+  protected readonly loop = signal(true);
+
   protected togglePlay(): void {
     if (this.playing()) return this.playing.set(false);
     if (this.flash()?.exceeds && !this.flashAccepted()) return;
+    const count = this.frames.hasValue() ? this.frames.value().length : 1;
+    // Played to the end without looping: start again from the first frame.
+    if (!this.loop() && this.frame() === count - 1) this.frame.set(0);
     this.playing.set(true);
-    const delay = () => (this.frames.hasValue() ? this.frames.value()[this.frame()]?.delayMs : 0) || 100;
+    const delay = () => ((this.frames.hasValue() ? this.frames.value()[this.frame()]?.delayMs : 0) || 100) / this.speed();
     const tick = () => {
       if (!this.playing() || !this.frames.hasValue()) return;
+      if (!this.loop() && this.frame() === this.frames.value().length - 1) return this.playing.set(false);
       this.step(1);
       setTimeout(tick, delay());
     };
@@ -402,6 +413,8 @@ export class Bench {
   protected async checkDrift(): Promise<void> {
     const artwork = this.selected();
     if (!artwork) return;
+    // The check compares the frame on screen: it must not move on while the reference renders.
+    this.playing.set(false);
     this.drift.set({ busy: true });
     try {
       const body = { artworkId: artwork.id, parameters: this.params(), scale: this.scale(), frame: this.frame() };
