@@ -99,3 +99,47 @@ test('keyboard only: sign in with Tab and Enter', async ({ page, guard }) => {
   await page.keyboard.press('Enter');
   await expect(page.getByLabel('Your role: viewer')).toBeVisible();
 });
+
+test('the account menu leads to name and password, and an owner renames and deletes a studio', async ({ page }) => {
+  const email = uniqueEmail('settings');
+  await page.goto('/sign-up');
+  await page.getByLabel('Your name').fill('Sol Settings');
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill('settings passphrase');
+  await page.getByRole('button', { name: 'Create account' }).click();
+  await page.goto(await waitForMail(email, /http:\/\/127\.0\.0\.1:\d+\/verify-email\?token=[A-Za-z0-9_-]+/));
+  await page.getByLabel('Studio name').fill('Temporary Kiln');
+  await page.getByRole('button', { name: 'Create studio' }).click();
+  await expect(page).toHaveURL(/\/bench$/);
+
+  // Issue "Workflow", item 26: name and password from the account menu.
+  await page.getByRole('button', { name: 'Account menu for Sol Settings' }).click();
+  await page.getByRole('menuitem', { name: 'Name and password' }).click();
+  await expect(page.getByRole('heading', { name: 'Your account' })).toBeVisible();
+  await page.getByRole('textbox', { name: 'Display name' }).fill('Sol Renamed');
+  await page.getByRole('button', { name: 'Save name' }).click();
+  await expect(page.getByRole('status').filter({ hasText: 'Name saved.' })).toBeVisible();
+  await page.getByLabel('Current password').fill('not my password');
+  await page.getByLabel('New password', { exact: true }).fill('another passphrase');
+  await page.getByRole('button', { name: 'Change password' }).click();
+  await expect(page.getByRole('alert').filter({ hasText: 'not right' })).toBeVisible();
+  await page.getByLabel('Current password').fill('settings passphrase');
+  await page.getByRole('button', { name: 'Change password' }).click();
+  await expect(page.getByRole('status').filter({ hasText: 'other sessions are signed out' })).toBeVisible();
+
+  // The owner renames the studio, then deletes it after the dialog says what goes.
+  await page.getByRole('link', { name: 'Back to your studios' }).click();
+  await page.getByRole('link', { name: /Temporary Kiln/ }).first().click();
+  await page.getByRole('button', { name: 'Account menu for Sol Renamed' }).click();
+  await page.getByRole('menuitem', { name: 'Rename or delete this studio' }).click();
+  const name = page.getByRole('textbox', { name: 'Studio name' });
+  await name.fill('Kiln Renamed');
+  await page.getByRole('button', { name: 'Rename studio' }).click();
+  await expect(page.getByText('The studio is now called “Kiln Renamed”.')).toBeVisible();
+  await page.getByRole('button', { name: 'Delete studio…' }).click();
+  const dialog = page.getByRole('alertdialog', { name: 'Delete Kiln Renamed?' });
+  await expect(dialog).toContainText('Every member loses access.');
+  await dialog.getByRole('button', { name: 'Delete studio' }).click();
+  await expect(page).toHaveURL(/\/studios$/);
+  await expect(page.getByText('You are not in a studio yet.')).toBeVisible();
+});

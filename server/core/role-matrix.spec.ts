@@ -62,6 +62,7 @@ const ROWS: Row[] = [
   { method: 'post', path: '/api/auth/sign-in', url: () => '/api/auth/sign-in', body: (c) => ({ email: c.users.other.email, password: WORLD_PASSWORD }), expect: [200, 200, 200, 200, 200] },
   { method: 'post', path: '/api/auth/sign-out', url: () => '/api/auth/sign-out', expect: [204, 204, 204, 204, 204] },
   { method: 'get', path: '/api/auth/me', url: () => '/api/auth/me', expect: [200, 200, 200, 200, 200] },
+  { method: 'patch', path: '/api/auth/me', url: () => '/api/auth/me', body: () => ({ displayName: 'Renamed In Matrix' }), expect: [200, 200, 200, 200, 401] },
   { method: 'post', path: '/api/auth/password-reset', url: () => '/api/auth/password-reset', body: (c) => ({ email: c.users.target.email }), expect: [202, 202, 202, 202, 202] },
   { method: 'get', path: '/api/auth/password-reset/:token', url: () => `/api/auth/password-reset/${'x'.repeat(43)}`, expect: [410, 410, 410, 410, 410] },
   {

@@ -41,6 +41,8 @@ export const passwordResetConfirmSchema = z.strictObject({
 
 export const verifyEmailSchema = z.strictObject({ token: linkToken('a verification token') });
 
+export const updateProfileSchema = z.strictObject({ displayName: mailedNameSchema(80) });
+
 export const changePasswordSchema = z.strictObject({
   currentPassword: z.string().max(1024),
   newPassword: passwordSchema,

@@ -10,6 +10,7 @@ export const routes: Routes = [
   { path: 'reset-password', title: 'Choose a new password · Emberline', loadComponent: () => import('./features/account/reset-password').then((m) => m.ResetPassword) },
   { path: 'share/:token', title: 'Shared look · Emberline', loadComponent: () => import('./features/share/shared-view').then((m) => m.SharedView) },
   { path: 'invites/:token', title: 'Studio invite · Emberline', loadComponent: () => import('./features/studio/invite-accept').then((m) => m.InviteAccept) },
+  { path: 'account', canActivate: [signedInGuard], title: 'Your account · Emberline', loadComponent: () => import('./features/account/account-settings').then((m) => m.AccountSettings) },
   { path: 'studios', canActivate: [signedInGuard], title: 'Your studios · Emberline', loadComponent: () => import('./features/studio/studio-list').then((m) => m.StudioList) },
   {
     path: 'studios/:studioId',

@@ -1,6 +1,6 @@
 import type { NextFunction, Request, Response } from 'express';
 import type { PassportStatic } from 'passport';
-import { changePasswordSchema, passwordResetConfirmSchema, passwordResetSchema, signInSchema, signUpSchema, verifyEmailSchema } from '../../../shared/api/auth.schema';
+import { changePasswordSchema, updateProfileSchema, passwordResetConfirmSchema, passwordResetSchema, signInSchema, signUpSchema, verifyEmailSchema } from '../../../shared/api/auth.schema';
 import { ApiRouter } from '../../core/api-router';
 import { AppError } from '../../core/app-error';
 import { publicAccess, signedIn } from '../../core/policy';
@@ -73,6 +73,14 @@ export function authRoutes(auth: AuthService, passport: PassportStatic): ApiRout
   });
   api.route('get', '/me', { policy: publicAccess, summary: 'The signed-in user, or null when signed out' }, (req, res) => {
     res.json({ user: req.user ?? null });
+  });
+  api.route('patch', '/me', { policy: signedIn, summary: "Change the signed-in account's display name", body: updateProfileSchema }, async (req, res) => {
+    const user = await auth.rename(req.user!.id, req.body.displayName);
+    // The session keeps the account's public fields: keep them current for this session.
+    const stored = (req.session as unknown as { passport?: { user?: Express.User } }).passport;
+    if (stored?.user && typeof stored.user === 'object') stored.user = { ...stored.user, displayName: user.displayName };
+    req.user = { ...req.user!, displayName: user.displayName };
+    res.json({ user: req.user });
   });
   api.route('post', '/password', { policy: signedIn, summary: "Change the signed-in account's password; ends its other sessions", body: changePasswordSchema }, async (req, res) => {
     await auth.changePassword(req.user!.id, req.body.currentPassword, req.body.newPassword, req.sessionID);

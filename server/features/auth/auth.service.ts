@@ -8,6 +8,8 @@ import { EmailVerification } from './email-verification.model';
 import { decoyPasswordHash, hashPassword, verifyPassword } from './password';
 import { PasswordReset } from './password-reset.model';
 import { endSessionsOf } from './sessions';
+import { sessionCache } from '../../core/session';
+import type { UserDto } from '../../../shared/api/dto';
 import { accountKey, type SignInThrottle } from './sign-in-throttle';
 import { User } from './user.model';
 
@@ -152,6 +154,16 @@ export class AuthService {
   }
 
   /** Changes the password of a signed-in account after checking the current one; ends its other sessions. */
+  /** Changes the display name; every stored session of the account shows the new one. */
+  async rename(userId: string, displayName: string): Promise<UserDto> {
+    const user = await User.findByPk(userId);
+    if (!user) throw new AppError(404, 'not_found', 'The account was not found.');
+    await user.update({ displayName });
+    await this.sequelize.query(`UPDATE sessions SET sess = jsonb_set(sess::jsonb, '{passport,user,displayName}', to_jsonb($2::text))::json WHERE sess->'passport'->'user'->>'id' = $1`, { bind: [userId, displayName] });
+    sessionCache.forgetUser(userId, null);
+    return user.toDto();
+  }
+
   async changePassword(userId: string, current: string, next: string, keepSessionId: string): Promise<void> {
     const user = await User.findByPk(userId);
     if (!user || !(await verifyPassword(user.passwordHash, current))) {

@@ -211,3 +211,20 @@ describe('requests (security items 13, 15, 16)', () => {
     expect(res.headers['x-content-type-options']).toBe('nosniff');
   });
 });
+
+test('a display name change shows in this session and in the account\'s other sessions at once; a bad name is refused with the reason (issue "Workflow", item 26)', async () => {
+  const a = new TestClient(h.app);
+  const account = await a.signUp('profile password 1', 'profile');
+  const b = new TestClient(h.app);
+  expect((await b.post('/api/auth/sign-in', { email: account.email, password: 'profile password 1' })).status).toBe(200);
+  expect((await b.get('/api/auth/me')).body.user.displayName).not.toBe('Ada Lumen');
+  const res = await a.patch('/api/auth/me', { displayName: 'Ada Lumen' });
+  expect(res.status).toBe(200);
+  expect(res.body.user.displayName).toBe('Ada Lumen');
+  expect((await a.get('/api/auth/me')).body.user.displayName).toBe('Ada Lumen');
+  expect((await b.get('/api/auth/me')).body.user.displayName).toBe('Ada Lumen');
+  expect((await User.findByPk(account.id))!.displayName).toBe('Ada Lumen');
+  const bad = await a.patch('/api/auth/me', { displayName: '' });
+  expect(bad.status).toBe(400);
+  expect(JSON.stringify(bad.body.error)).toContain('displayName');
+});

@@ -60,6 +60,17 @@ export class AuthStore {
     this.studios.set([]);
   }
 
+  /** Changes the display name of the signed-in account. */
+  async rename(displayName: string): Promise<void> {
+    const { user } = await firstValueFrom(this.http.patch<{ user: UserDto }>('/api/auth/me', { displayName }));
+    this.user.set(user);
+  }
+
+  /** Changes the password; the server ends the account's other sessions. Returns its message. */
+  async changePassword(currentPassword: string, newPassword: string): Promise<string> {
+    return (await firstValueFrom(this.http.post<{ message: string }>('/api/auth/password', { currentPassword, newPassword }))).message;
+  }
+
   async refreshStudios(): Promise<StudioDto[]> {
     const { studios } = await firstValueFrom(this.http.get<{ studios: StudioDto[] }>('/api/studios'));
     this.studios.set(studios);

@@ -1,5 +1,5 @@
-import { ChangeDetectionStrategy, Component, computed, inject, resource, signal } from '@angular/core';
-import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { ChangeDetectionStrategy, Component, computed, inject, linkedSignal, resource, signal } from '@angular/core';
+import { FormBuilder, FormsModule, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
@@ -12,7 +12,7 @@ import { MatTooltipModule } from '@angular/material/tooltip';
 import { DatePipe } from '@angular/common';
 import { Router } from '@angular/router';
 import type { MemberDto } from '../../../../shared/api/dto';
-import { ROLES, type Role } from '../../../../shared/model/roles';
+import { ROLE_LABELS, ROLES, roleInSentence, type Role } from '../../../../shared/model/roles';
 import { apiErrorMessage } from '../../core/api-error';
 import { AuthStore } from '../../core/auth-store';
 import { Confirm } from '../../shared/confirm-dialog';
@@ -22,7 +22,7 @@ import { StudioContext } from './studio-context';
 /** Members and pending invites of the open studio; owners invite, change roles and remove. */
 @Component({
   selector: 'em-members',
-  imports: [ReactiveFormsModule, DatePipe, MatTableModule, MatSelectModule, MatButtonModule, MatIconModule, MatFormFieldModule, MatInputModule, MatProgressBarModule, MatTooltipModule],
+  imports: [ReactiveFormsModule, FormsModule, DatePipe, MatTableModule, MatSelectModule, MatButtonModule, MatIconModule, MatFormFieldModule, MatInputModule, MatProgressBarModule, MatTooltipModule],
   templateUrl: './members.html',
   styleUrl: './members.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -36,6 +36,7 @@ export class Members {
   protected readonly context = inject(StudioContext);
 
   protected readonly roles = ROLES;
+  protected readonly roleLabels = ROLE_LABELS;
   protected readonly me = computed(() => this.auth.user()?.id);
   protected readonly members = resource({ params: () => this.context.studioId(), loader: ({ params }) => this.api.members(params) });
   protected readonly invites = resource({
@@ -71,7 +72,7 @@ export class Members {
   }
 
   protected async changeRole(member: MemberDto, role: Role): Promise<void> {
-    await this.act(() => this.api.changeRole(this.context.studioId(), member.userId, role), `${member.displayName} is now ${role}.`);
+    await this.act(() => this.api.changeRole(this.context.studioId(), member.userId, role), `${member.displayName} is now ${roleInSentence(role)}.`);
   }
 
   protected async removeMember(member: MemberDto): Promise<void> {
@@ -82,6 +83,39 @@ export class Members {
     });
     if (!confirmed) return;
     await this.act(() => this.api.removeMember(this.context.studioId(), member.userId), `${member.displayName} was removed.`);
+  }
+
+  protected readonly studioName = linkedSignal(() => this.context.studio()?.name ?? '');
+
+  protected async renameStudio(): Promise<void> {
+    const name = this.studioName().trim();
+    try {
+      const studio = await this.api.rename(this.context.studioId(), name);
+      this.context.studio.set(studio);
+      await this.auth.refreshStudios();
+      this.snackBar.open(`The studio is now called “${studio.name}”.`, undefined, { duration: 4000 });
+    } catch (err) {
+      this.snackBar.open(apiErrorMessage(err), 'Dismiss', { duration: 8000 });
+    }
+  }
+
+  protected async deleteStudio(): Promise<void> {
+    const studio = this.context.studio();
+    if (!studio) return;
+    const confirmed = await this.confirm.ask({
+      title: `Delete ${studio.name}?`,
+      consequences: ['Every artwork, preset (with its history), saved timing and render in it is deleted.', 'Its share links stop working at once.', 'Every member loses access.', 'This cannot be undone.'],
+      action: 'Delete studio',
+    });
+    if (!confirmed) return;
+    try {
+      await this.api.remove(studio.id);
+      await this.auth.refreshStudios();
+      await this.router.navigateByUrl('/studios');
+      this.snackBar.open(`Deleted ${studio.name}.`, undefined, { duration: 4000 });
+    } catch (err) {
+      this.snackBar.open(apiErrorMessage(err), 'Dismiss', { duration: 8000 });
+    }
   }
 
   protected async revokeInvite(inviteId: string): Promise<void> {

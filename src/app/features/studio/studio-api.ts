@@ -15,6 +15,12 @@ export class StudioApi {
   async get(studioId: string): Promise<StudioDto> {
     return (await firstValueFrom(this.http.get<{ studio: StudioDto }>(`/api/studios/${studioId}`))).studio;
   }
+  async rename(studioId: string, name: string): Promise<StudioDto> {
+    return (await firstValueFrom(this.http.patch<{ studio: StudioDto }>(`/api/studios/${studioId}`, { name }))).studio;
+  }
+  async remove(studioId: string): Promise<void> {
+    await firstValueFrom(this.http.delete(`/api/studios/${studioId}`));
+  }
   async members(studioId: string): Promise<MemberDto[]> {
     return (await firstValueFrom(this.http.get<{ members: MemberDto[] }>(`/api/studios/${studioId}/members`))).members;
   }
