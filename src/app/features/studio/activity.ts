@@ -13,7 +13,7 @@ const ICONS: Record<string, string> = { preset: 'tune', member: 'group', link: '
   imports: [DatePipe, MatIconModule, MatProgressBarModule],
   template: `
     <h1>Activity</h1>
-    <p class="sub">Changes to presets, people and share links in {{ context.studio()?.name }}.</p>
+    <p class="sub">Changes to presets, artworks, people and share links in {{ context.studio()?.name }}.</p>
     @if (feed.isLoading()) {
       <mat-progress-bar mode="indeterminate" aria-label="Loading activity" />
     } @else if (feed.hasValue() && feed.value().length === 0) {
