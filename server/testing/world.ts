@@ -7,7 +7,10 @@ import { Membership } from '../features/studios/membership.model';
 import { Studio } from '../features/studios/studio.model';
 import { SavedTiming } from '../features/timings/timing.model';
 import { PresetsService } from '../features/presets/presets.service';
-import type { ArtworksService } from '../features/artworks/artworks.service';
+import os from 'node:os';
+import path from 'node:path';
+import { ArtworksService } from '../features/artworks/artworks.service';
+import { FileStore } from '../storage/file-store';
 import { uniqueEmail } from './harness';
 import { pngOf } from './images';
 
@@ -57,11 +60,13 @@ export async function createStudioWorld(users: WorldUsers, artworks?: ArtworksSe
   const { token, hash } = newToken();
   const invite = await Invite.create({ studioId: studio.id, email: uniqueEmail('invitee'), role: 'viewer', tokenHash: hash, invitedById: users.owner.id, expiresAt: new Date(Date.now() + 86_400_000) });
   const timing = await SavedTiming.create({ studioId: studio.id, ...TIMING_BODY, createdById: users.owner.id, updatedById: users.owner.id });
-  const artworkId = artworks ? (await artworks.upload(studio.id, users.owner.id, pngOf(8, 8, (x, y) => [x * 30, y * 30, 0, 255]), 'tile.png', {})).id : '';
+  // Every world has an artwork: a share link always shows one.
+  const library = artworks ?? new ArtworksService(new FileStore(path.join(os.tmpdir(), `emberline-world-${process.pid}`)));
+  const artworkId = (await library.upload(studio.id, users.owner.id, pngOf(8, 8, (x, y) => [x * 30, y * 30, 0, 255]), 'tile.png', {})).id;
   const presets = new PresetsService();
   const actor = { studioId: studio.id, userId: users.owner.id, role: 'owner' as const };
   const preset = await presets.create(actor, { name: 'World look', panelTypeId: 'el-amber-640x480' });
-  const link = await presets.createLink(actor, preset.id, artworkId ? { artworkId } : {}, 'http://app.test');
+  const link = await presets.createLink(actor, preset.id, { artworkId }, 'http://app.test');
   const shareToken = link.url!.split('/share/')[1];
   return { studio, invite, inviteToken: token, timing, artworkId, presetId: preset.id, linkId: link.id, shareToken };
 }

@@ -144,9 +144,14 @@ export class PresetsService {
 
   async createLink(actor: Actor, id: string, body: { artworkId?: string; expiresInDays?: number }, appUrl: string): Promise<ShareLinkDto> {
     const row = await this.row(actor.studioId, id);
-    if (body.artworkId && !(await Artwork.findOne({ where: { id: body.artworkId, studioId: actor.studioId } }))) throw notFound('The artwork');
+    // A link always shows the look on a picture: the chosen artwork, else the studio's newest.
+    const artwork = body.artworkId
+      ? await Artwork.findOne({ where: { id: body.artworkId, studioId: actor.studioId } })
+      : await Artwork.findOne({ where: { studioId: actor.studioId }, order: [['createdAt', 'DESC']] });
+    if (body.artworkId && !artwork) throw notFound('The artwork');
+    if (!artwork) throw new AppError(409, 'no_artwork', 'A share link shows the look on an artwork, and this studio has none yet. Upload one on the Artworks page first.');
     const { token, hash } = newToken();
-    const link = await ShareLink.create({ presetId: row.id, artworkId: body.artworkId ?? null, tokenHash: hash, createdById: actor.userId, expiresAt: body.expiresInDays ? new Date(Date.now() + body.expiresInDays * 86_400_000) : null });
+    const link = await ShareLink.create({ presetId: row.id, artworkId: artwork.id, tokenHash: hash, createdById: actor.userId, expiresAt: body.expiresInDays ? new Date(Date.now() + body.expiresInDays * 86_400_000) : null });
     await record(actor.studioId, actor.userId, 'link.created', `created a share link to “${row.name}”`);
     return { ...this.linkDto(link), url: `${appUrl}/share/${token}` };
   }

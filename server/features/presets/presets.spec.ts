@@ -100,6 +100,24 @@ test('share links: ≥ 128-bit tokens, optional expiry, revocable, no-referrer, 
   expect((await anon.get('/api/share/not-a-real-token-at-all-xyz')).status).toBe(404);
 });
 
+test('a share link always shows a picture: without a choice, the studio\'s newest artwork; with none in the studio, a clear refusal (issue "Workflow", item 9)', async () => {
+  const p = (await owner.post(url(), { name: `Link picture ${Date.now()}`, panelTypeId: 'el-amber-640x480' })).body.preset;
+  const newest = (await owner.upload(`/api/studios/${studioId}/artworks`, { name: 'Newest for links' }, { name: 'n.png', bytes: pngOf(8, 6, () => [250, 150, 0, 255]) })).body.artwork;
+  const link = (await owner.post(url(`/${p.id}/links`), { expiresInDays: 1 })).body.link;
+  expect(link.artworkId).toBe(newest.id);
+  const shared = (await new TestClient(h.app).get(new URL(link.url).pathname.replace('/share/', '/api/share/'))).body.shared;
+  expect(shared.artwork.name).toBe('Newest for links');
+  expect(shared.framesUrl).toEqual(expect.any(String));
+
+  const lone = new TestClient(h.app);
+  await lone.signUp('lone owner pass', 'lone');
+  const empty = (await lone.post('/api/studios', { name: 'Empty Studio' })).body.studio.id;
+  const preset = (await lone.post(`/api/studios/${empty}/presets`, { name: 'Alone', panelTypeId: 'el-amber-640x480' })).body.preset;
+  const refused = await lone.post(`/api/studios/${empty}/presets/${preset.id}/links`, {});
+  expect(refused.status).toBe(409);
+  expect(refused.body.error.message).toContain('Upload one on the Artworks page first');
+});
+
 test('import reports every error with its JSON path and stores nothing; export → import round-trips', async () => {
   const before = await Preset.count();
   const doc = { format: 'emberline.preset', version: 2, name: '', panelTypeId: 'el-amber-640x480', parameters: { ...base, glass: { ...base.glass, glowRadiusMm: 'wide' }, drive: { ...base.drive, sparkle: 1 } } };

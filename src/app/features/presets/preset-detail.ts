@@ -1,5 +1,5 @@
 import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, computed, inject, input, resource, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, linkedSignal, resource, signal } from '@angular/core';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -46,7 +46,8 @@ export class PresetDetail {
   protected readonly artworks = resource({ params: () => this.context.studioId(), loader: ({ params }) => this.artworksApi.list(params) });
   protected readonly compareA = signal<number | null>(null);
   protected readonly compareB = signal<number | null>(null);
-  protected readonly linkArtwork = signal<string>('');
+  /** The artwork a new share link shows: chosen, else the studio's newest (a link always has a picture). */
+  protected readonly linkArtwork = linkedSignal<string>(() => (this.artworks.hasValue() ? (this.artworks.value()[0]?.id ?? '') : ''));
   /** How long a new share link works; "never" is a choice of its own, not what an empty field means. */
   protected readonly expiryChoices: { days: number | null; label: string }[] = [
     { days: 1, label: 'After 1 day' },
