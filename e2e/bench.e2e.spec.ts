@@ -1,3 +1,4 @@
+import type { Page } from '@playwright/test';
 import { readPngText } from '../shared/api/png-text';
 import { PANEL_TYPES } from '../shared/model/panel-types';
 import { choose, draws, drift, studioIdOf, thirdPartyArtworks, uploadArtwork, waitForDraw, type Drift } from './bench-helpers';
@@ -14,6 +15,13 @@ const withinOneCode = (d: Drift, what: string) => {
 import { expect, signIn, test } from './fixtures';
 
 test.describe.configure({ timeout: 600_000 });
+
+/** Signs the demo editor in and waits for the bench's first draw. */
+async function openBenchAsEditor(page: Page): Promise<void> {
+  await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
+  await expect(page).toHaveURL(/\/bench/);
+  await waitForDraw(page, 0);
+}
 
 test('for every built-in panel type, on third-party artworks, the WebGL canvas equals the server reference within one code value', async ({ page, guard }, testInfo) => {
   void guard;
@@ -134,9 +142,7 @@ test('a bad file is refused with the reason, nothing is stored, and the page sta
 
 test('controls another setting decides are read-only and say why; choices read as words, not codes', async ({ page, guard }) => {
   void guard;
-  await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
-  await expect(page).toHaveURL(/\/bench/);
-  await waitForDraw(page, 0);
+  await openBenchAsEditor(page);
 
   // Halo from glass: the radius shows what the formula gives, read-only (issue "Workflow", item 15).
   await page.getByRole('switch', { name: 'Halo from glass' }).click();
@@ -197,9 +203,7 @@ for (const viewport of [{ width: 1280, height: 800 }, { width: 390, height: 844 
 
 test('the compare divider follows a drag across the stage, can be grabbed again at either edge, and moves by keyboard; both sides are labelled', async ({ page, guard }) => {
   void guard;
-  await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
-  await expect(page).toHaveURL(/\/bench/);
-  await waitForDraw(page, 0);
+  await openBenchAsEditor(page);
   await choose(page, 'Compare with', 'Original artwork');
   const stage = page.getByTestId('stage');
   await expect(stage.getByText(/^A · /)).toBeVisible();
@@ -235,9 +239,7 @@ test('the compare divider follows a drag across the stage, can be grabbed again 
 
 test('the current view downloads as the reference PNG at this scale, with its parameters inside the file', async ({ page, guard }) => {
   void guard;
-  await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
-  await expect(page).toHaveURL(/\/bench/);
-  await waitForDraw(page, 0);
+  await openBenchAsEditor(page);
   const glow = page.getByRole('spinbutton', { name: 'Glow radius' });
   await glow.fill('0.4');
   await glow.press('Enter');
@@ -257,9 +259,7 @@ test('the current view downloads as the reference PNG at this scale, with its pa
 
 test('unsaved tuning is marked, can be reverted, and is never dropped by a panel-type switch without asking', async ({ page, guard }) => {
   void guard;
-  await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
-  await expect(page).toHaveURL(/\/bench/);
-  await waitForDraw(page, 0);
+  await openBenchAsEditor(page);
   const glow = page.getByRole('spinbutton', { name: 'Glow radius' });
   const original = await glow.inputValue();
   await glow.fill('1.5');

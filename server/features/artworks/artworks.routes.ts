@@ -6,7 +6,7 @@ import { idParam, studioRole } from '../../core/policy';
 import { parseOrThrow } from '../../core/validate';
 import { uploadOne } from '../../core/upload';
 import { resolveParameters, type RendersService } from '../renders/renders.service';
-import { artworkDto, type ArtworksService } from './artworks.service';
+import type { ArtworksService } from './artworks.service';
 
 const png = { 'Content-Type': 'image/png', 'X-Content-Type-Options': 'nosniff' };
 const MIME = { png: 'image/png', gif: 'image/gif', jpeg: 'image/jpeg', webp: 'image/webp' } as const;
