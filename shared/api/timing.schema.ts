@@ -20,7 +20,7 @@ export const timingSourceSchema = z.discriminatedUnion('kind', [
   z.strictObject({
     kind: z.literal('standard'),
     standard: z.enum(STANDARDS, { message: `standard must be one of ${STANDARDS.join(', ')}` }),
-    mode: z.string().regex(/^(\d{2,5}x\d{2,5}@\d{1,3}(\.\d+)?|vga-mode-12h)$/, { message: 'mode must look like 640x480@60' }),
+    mode: z.string().regex(/^(\d{2,5}x\d{2,5}@\d{1,3}(\.\d+)?( RB)?|vga-mode-03h|vga-mode-12h)$/, { message: 'mode must look like 640x480@60 (or 1280x768@60 RB for a reduced-blanking DMT row)' }),
   }),
   z.strictObject({
     kind: z.literal('custom'),

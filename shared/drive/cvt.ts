@@ -5,23 +5,31 @@ export const CVT = {
   cellGranularity: 8,
   minVFrontPorch: 3,
   minVSyncBackPorchUs: 550,
+  /** Least vertical back porch, normal blanking and reduced blanking v1 alike (6 in CVT 1.1). */
   minVBackPorch: 7,
   hSyncShare: 0.08,
   cPrime: 30,
   mPrime: 300,
   minDutyCycle: 20,
   clockStepMHz: 0.25,
-  rb1: { hBlank: 160, hSync: 32, vFrontPorch: 3, minVBlankUs: 460, minVBackPorch: 6 },
+  rb1: { hBlank: 160, hSync: 32, vFrontPorch: 3, minVBlankUs: 460, minVBackPorch: 7 },
   rb2: { hBlank: 80, hFrontPorch: 8, hSync: 32, vSync: 8, vBackPorch: 6, minVFrontPorch: 1, minVBlankUs: 460, clockStepMHz: 0.001 },
 } as const;
 
-/** CVT's vertical sync width by aspect ratio: 4:3 → 4, 16:9 → 5, 16:10 → 6, 5:4 and 15:9 → 7, else 10. */
+/**
+ * CVT's vertical sync width by aspect ratio [std]: 4:3 → 4, 16:9 → 5, 16:10 → 6, 5:4 and 15:9
+ * → 7, any other → 10. Which ratio a size has is decided in whole numbers on the requested
+ * size — lines × 4 / 3 (rounded down) equals the width, and so on, 5:4 also needing the lines
+ * to divide by 4 — as the two public implementations checked here do it (edid-decode's
+ * calc_cvt_mode and libdisplay-info's di_cvt_compute; docs/references.md). So 1366×768 and
+ * 1360×768 are both "other" (768 × 16 / 9 = 1365), 10 lines.
+ */
 export function cvtVSync(width: number, height: number): number {
-  const is = (a: number, b: number) => height === Math.floor((width * b) / a / CVT.cellGranularity) * CVT.cellGranularity || width * b === height * a;
+  const is = (a: number, b: number) => Math.floor((height * a) / b) === width;
   if (is(4, 3)) return 4;
   if (is(16, 9)) return 5;
   if (is(16, 10)) return 6;
-  if (is(5, 4) || is(15, 9)) return 7;
+  if ((height % 4 === 0 && is(5, 4)) || is(15, 9)) return 7;
   return 10;
 }
 

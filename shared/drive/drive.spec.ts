@@ -1,6 +1,6 @@
 import fc from 'fast-check';
 import { cvtTiming, cvtVSync } from './cvt';
-import { FIXED_TIMINGS, fixedTiming, parseMode, VGA_MODE_12H } from './dmt';
+import { FIXED_TIMINGS, VGA_TIMINGS, fixedTiming, parseMode, VGA_MODE_03H, VGA_MODE_12H } from './dmt';
 import { timingDiagramSvg } from './diagram';
 import { interfaceFigures, interfaceWarnings } from './interface';
 import { decodeVgaRegisters, hex2, vbeCrtcInfoBlock, VbeFieldRangeError, vgaRegisters } from './registers';
@@ -17,8 +17,9 @@ describe('VESA DMT [std]', () => {
     expect(row(fixedTiming(name)!)).toEqual(expected);
   });
 
-  // The other rows are from memory of the DMT document: check that each gives its nominal rate.
-  test.each(FIXED_TIMINGS.map((t) => [t.name, t] as const))('%s refreshes within 1 Hz of its name (DMT names round, e.g. 72.809 Hz) [mem]', (name, t) => {
+  // The IBM VGA's own modes are from memory of BIOS tables: check that each gives its nominal rate
+  // (the whole DMT table is checked in dmt.spec.ts).
+  test.each(VGA_TIMINGS.map((t) => [t.name, t] as const))('%s refreshes within 1 Hz of its name [mem]', (name, t) => {
     const nominal = Number(name.split('@')[1]);
     expect(Math.abs(figures(t).refreshHz - nominal)).toBeLessThan(1);
     expect(timingProblems(t)).toEqual([]);
@@ -151,12 +152,16 @@ describe('VGA CRT controller registers [ds, widely reproduced BIOS tables]', () 
     expect(dmt[0x05]).not.toBe(bios[0x05]);
   });
 
-  test('properties: decoding the registers gives back the timing (8-pixel cells)', () => {
-    const timings = [...FIXED_TIMINGS.filter((t) => t.h.total % 8 === 0 && t.h.frontPorch % 8 === 0 && t.h.sync % 8 === 0), VGA_MODE_12H];
+  test('properties: decoding the registers gives back the timing (8- and 9-pixel characters)', () => {
+    // Every fixed timing a VGA counter can hold: on a character clock, at most 260 characters and 1025 lines with the porches drawn below.
+    const onClock = (t: Timing) => [8, 9].some((c) => [t.h.total, t.h.frontPorch, t.h.sync, t.h.active].every((px) => px % c === 0));
+    const timings = [...FIXED_TIMINGS.filter((t) => onClock(t) && t.h.total <= 2080 && t.v.active <= 950), VGA_MODE_12H, VGA_MODE_03H];
+    expect(timings.length).toBeGreaterThan(40);
     fc.assert(
       fc.property(fc.constantFrom(...timings), fc.integer({ min: 1, max: 30 }), fc.integer({ min: 1, max: 40 }), (base, vfp, vbp) => {
         const t: Timing = { ...base, v: axis(base.v.active, vfp, base.v.sync, vbp), blanking: undefined };
-        const d = decodeVgaRegisters(vgaRegisters(t).crtc.map((f) => f.value));
+        const regs = vgaRegisters(t);
+        const d = decodeVgaRegisters(regs.crtc.map((f) => f.value), regs.layout.charWidth);
         expect(d).toMatchObject({ hTotal: t.h.total, hActive: t.h.active, hSyncStart: t.h.active + t.h.frontPorch, vTotal: t.v.total, vActive: t.v.active, vSyncStart: t.v.active + t.v.frontPorch });
         expect(d.vSyncEndLow4).toBe((t.v.active + t.v.frontPorch + t.v.sync) & 15);
       }),
@@ -217,5 +222,56 @@ describe('timing diagram', () => {
     expect(svg.startsWith('<svg')).toBe(true);
     for (const text of ['active 640', 'front 16', 'sync 96', 'back 48', 'active 480', 'front 10', 'sync 2', 'back 33', 'HSYNC (−)', 'VSYNC (−)', 'Shift clock ÷8', '25.175 MHz']) expect(svg).toContain(text);
     expect(svg).not.toMatch(/href=|<script/);
+  });
+});
+
+describe('CVT fine points, settled against two public implementations (edid-decode calc_cvt_mode, libdisplay-info di_cvt_compute) [std + second implementation]', () => {
+  test.each([
+    [1366, 768, 10, '768 × 16 / 9 = 1365, not 1366: "other"'],
+    [1360, 768, 10, 'nor 1360'],
+    [1920, 1080, 5, '16:9'],
+    [1280, 768, 7, '15:9'],
+    [1280, 1024, 7, '5:4, 1024 divides by 4'],
+    [1400, 1050, 4, '4:3'],
+    [1680, 1050, 6, '16:10'],
+    [320, 240, 4, '4:3'],
+  ])('V sync width for %i×%i is %i lines (%s)', (w, h, lines) => {
+    expect(cvtVSync(w, h)).toBe(lines);
+  });
+
+  test('reduced blanking v1 keeps a back porch of at least 7 lines, as normal blanking does: the small EL formats', () => {
+    const qvga = cvtTiming(320, 240, 60, 'cvt-rb');
+    expect([qvga.v.frontPorch, qvga.v.sync, qvga.v.backPorch, qvga.v.total]).toEqual([3, 4, 7, 254]);
+    expect(cvtTiming(640, 480, 50, 'cvt-rb').pixelClockMHz).toBe(19.75);
+    // Where the 460 µs blanking minimum is larger, nothing changes (640×480@60 stays 494 lines).
+    expect(cvtTiming(640, 480, 60, 'cvt-rb').v.total).toBe(494);
+  });
+});
+
+describe('9-dot text modes [ds, widely reproduced BIOS tables]', () => {
+  const MODE_03H = '5F 4F 50 82 55 81 BF 1F 00 4F 0D 0E 00 00 00 00 9C 8E 8F 28 1F 96 B9 A3 FF';
+
+  test('the BIOS mode 03h timing gives the published CR00–CR18, misc 67 and sequencer 00 03 00 02', () => {
+    const regs = vgaRegisters(VGA_MODE_03H);
+    expect(regs.layout).toEqual({ charWidth: 9, memory: 'text', charHeight: 16 });
+    expect(regs.crtc.map((f) => hex2(f.value)).join(' ')).toBe(MODE_03H);
+    expect(hex2(regs.misc.value)).toBe('67');
+    expect(regs.sequencer.map((f) => hex2(f.value)).join(' ')).toBe('00 03 00 02');
+  });
+
+  test('mode 12h keeps its 8-dot sequencer 01 0F 00 06', () => {
+    expect(vgaRegisters(VGA_MODE_12H).sequencer.map((f) => hex2(f.value)).join(' ')).toBe('01 0F 00 06');
+  });
+
+  test('720×400@70, refused before, gets 9-dot registers that agree with mode 03h except where its porches differ', () => {
+    const regs = vgaRegisters(fixedTiming('720x400@70')!);
+    expect(regs.layout.charWidth).toBe(9);
+    const bios = MODE_03H.split(' ').map((h) => parseInt(h, 16));
+    const got = regs.crtc.map((f) => f.value);
+    for (const i of [0x00, 0x01, 0x06, 0x07, 0x09, 0x10, 0x11, 0x12, 0x13, 0x14, 0x17, 0x18]) expect(hex2(got[i])).toBe(hex2(bios[i]));
+    // The monitor table starts sync at 738 px (character 82); the BIOS at character 85.
+    expect(got[0x04]).toBe(82);
+    const d = decodeVgaRegisters(got, 9);
+    expect(d).toMatchObject({ hTotal: 900, hActive: 720, hSyncStart: 738, vTotal: 449, vActive: 400, vSyncStart: 412 });
   });
 });

@@ -9,28 +9,62 @@ export interface RegisterField {
   bits: { range: string; meaning: string; value: number }[];
 }
 
-/** The VGA register set for a timing: CR00–CR18 and the miscellaneous output register. */
+/** The VGA register set for a timing: CR00–CR18, the miscellaneous output register and sequencer SR01–SR04. */
 export interface VgaRegisters {
   crtc: RegisterField[];
   misc: RegisterField;
+  /** Sequencer registers 1–4 (clocking mode, map mask, character map, memory mode), as a BIOS parameter table holds them. */
+  sequencer: RegisterField[];
+  /** The character clock and memory layout the values are for. */
+  layout: VgaLayout;
   /** Notes on choices made (character width, memory layout, clock select). */
   notes: string[];
 }
 
-const CHAR = 8;
+/**
+ * How a mode uses the VGA: 8-dot characters with the 16-colour planar graphics layout of mode
+ * 12h, or 9-dot characters with the text layout of mode 03h (80 columns, characters 16 lines
+ * high, cursor on lines 13–14, word addressing).
+ */
+export interface VgaLayout {
+  charWidth: 8 | 9;
+  memory: 'planar' | 'text';
+  /** Scan lines per character row (text) or 1 (graphics). */
+  charHeight: number;
+}
+
+/** Pixel counts that must be whole characters. */
+const characterEdges = (t: Timing) => [['horizontal total', t.h.total], ['active width', t.h.active], ['sync start', t.h.active + t.h.frontPorch], ['sync width', t.h.sync]] as const;
+
+/**
+ * The character clock a timing fits: 8 dots when every horizontal edge is a multiple of 8, else
+ * 9 dots (the VGA's text clock, with the text layout) when they are multiples of 9; RangeError
+ * naming the first edge that fits neither.
+ */
+export function vgaLayoutFor(t: Timing): VgaLayout {
+  const fits = (c: number) => characterEdges(t).every(([, px]) => px % c === 0);
+  if (fits(8)) return { charWidth: 8, memory: 'planar', charHeight: 1 };
+  // Text rows of 16 lines (400-line modes) or 14 (350-line modes), else 8.
+  if (fits(9)) return { charWidth: 9, memory: 'text', charHeight: t.v.active % 16 === 0 ? 16 : t.v.active % 14 === 0 ? 14 : 8 };
+  const [name, px] = characterEdges(t).find(([, v]) => v % 8 !== 0)!;
+  throw new RangeError(`${name} ${px} px is not a multiple of the 8-pixel character clock (nor are all edges multiples of the 9-pixel text clock)`);
+}
+
 const bit = (v: number, n: number) => (v >> n) & 1;
 
 /**
- * VGA-compatible CRT controller values [ds, widely reproduced BIOS tables] for a timing with an
- * 8-pixel character clock, in the 16-colour planar memory layout of mode 12h (offset = width/16,
- * mode control E3). Blanking runs from the end of the active area to one character before the
- * total unless the timing states its own blanking edges. Counters: horizontal in characters,
- * vertical in lines; CR00 = total − 5, CR06 = total − 2, display ends are "− 1".
+ * VGA-compatible CRT controller values [ds, widely reproduced BIOS tables] for a timing, with
+ * the character clock and memory layout vgaLayoutFor picks: 8-dot characters in the planar
+ * layout of mode 12h (offset = width/16, mode control E3), or 9-dot characters in the text
+ * layout of mode 03h (offset = columns/2, 16-line characters, mode control A3). Blanking runs
+ * from the end of the active area to one character before the total unless the timing states
+ * its own blanking edges. Counters: horizontal in characters, vertical in lines; CR00 = total −
+ * 5, CR06 = total − 2, display ends are "− 1".
  */
 export function vgaRegisters(t: Timing): VgaRegisters {
-  for (const [name, px] of [['horizontal total', t.h.total], ['active width', t.h.active], ['sync start', t.h.active + t.h.frontPorch], ['sync width', t.h.sync]] as const) {
-    if (px % CHAR !== 0) throw new RangeError(`${name} ${px} px is not a multiple of the 8-pixel character clock`);
-  }
+  const layout = vgaLayoutFor(t);
+  const CHAR = layout.charWidth;
+  const text = layout.memory === 'text';
   const hTotal = t.h.total / CHAR;
   const hDisplay = t.h.active / CHAR;
   const hBlankStart = (t.blanking?.hStart ?? t.h.active) / CHAR;
@@ -87,9 +121,11 @@ export function vgaRegisters(t: Timing): VgaRegisters {
       { range: '7', meaning: 'double scan off', value: 0 },
       { range: '6', meaning: 'line compare, bit 9', value: bit(lineCompare, 9) },
       { range: '5', meaning: 'start vertical blanking, bit 9', value: bit(vBlankStart, 9) },
-      { range: '4:0', meaning: 'scan lines per character row − 1 (graphics: 0)', value: 0 },
+      { range: '4:0', meaning: text ? `scan lines per character row − 1 (${layout.charHeight} − 1)` : 'scan lines per character row − 1 (graphics: 0)', value: layout.charHeight - 1 },
     ]),
-    ...[0x0a, 0x0b, 0x0c, 0x0d, 0x0e, 0x0f].map((i) => reg(i, ['Cursor start', 'Cursor end', 'Start address high', 'Start address low', 'Cursor location high', 'Cursor location low'][i - 0x0a], [{ range: '7:0', meaning: 'not used for this mode (0)', value: 0 }])),
+    reg(0x0a, 'Cursor start', [{ range: '7:0', meaning: text ? `cursor from scan line ${layout.charHeight - 3}, shown` : 'not used for this mode (0)', value: text ? layout.charHeight - 3 : 0 }]),
+    reg(0x0b, 'Cursor end', [{ range: '7:0', meaning: text ? `cursor to scan line ${layout.charHeight - 2}, no skew` : 'not used for this mode (0)', value: text ? layout.charHeight - 2 : 0 }]),
+    ...[0x0c, 0x0d, 0x0e, 0x0f].map((i) => reg(i, ['Start address high', 'Start address low', 'Cursor location high', 'Cursor location low'][i - 0x0c], [{ range: '7:0', meaning: 'page 0, cursor home (0)', value: 0 }])),
     reg(0x10, 'Vertical retrace start', [{ range: '7:0', meaning: `line where sync starts, bits 7–0 (${vSyncStart})`, value: vSyncStart & 0xff }]),
     reg(0x11, 'Vertical retrace end', [
       { range: '7', meaning: 'protect CR00–CR07', value: 1 },
@@ -98,11 +134,15 @@ export function vgaRegisters(t: Timing): VgaRegisters {
       { range: '3:0', meaning: `sync end, bits 3–0 (${vSyncEnd} mod 16)`, value: vSyncEnd & 0x0f },
     ]),
     reg(0x12, 'Vertical display end', [{ range: '7:0', meaning: `last displayed line, bits 7–0 (${vDisplayEnd})`, value: vDisplayEnd & 0xff }]),
-    reg(0x13, 'Offset', [{ range: '7:0', meaning: `words per line of one plane (${t.h.active} / 16)`, value: (t.h.active / 16) & 0xff }]),
-    reg(0x14, 'Underline location', [{ range: '7:0', meaning: 'byte addressing, no underline', value: 0 }]),
+    text
+      ? reg(0x13, 'Offset', [{ range: '7:0', meaning: `words per text row (${hDisplay} columns / 2)`, value: (hDisplay / 2) & 0xff }])
+      : reg(0x13, 'Offset', [{ range: '7:0', meaning: `words per line of one plane (${t.h.active} / 16)`, value: (t.h.active / 16) & 0xff }]),
+    reg(0x14, 'Underline location', [{ range: '7:0', meaning: text ? 'underline on scan line 31 (below the character: none shown)' : 'byte addressing, no underline', value: text ? 0x1f : 0 }]),
     reg(0x15, 'Start vertical blanking', [{ range: '7:0', meaning: `line where blanking starts, bits 7–0 (${vBlankStart})`, value: vBlankStart & 0xff }]),
     reg(0x16, 'End vertical blanking', [{ range: '7:0', meaning: `blanking end, bits 7–0 (${vBlankEnd} mod 256)`, value: vBlankEnd & 0xff }]),
-    reg(0x17, 'Mode control', [{ range: '7:0', meaning: 'sync on, byte mode, wrap, CGA/Hercules compatibility off (as mode 12h)', value: 0xe3 }]),
+    text
+      ? reg(0x17, 'Mode control', [{ range: '7:0', meaning: 'sync on, word mode, wrap, CGA/Hercules compatibility off (as mode 03h)', value: 0xa3 }])
+      : reg(0x17, 'Mode control', [{ range: '7:0', meaning: 'sync on, byte mode, wrap, CGA/Hercules compatibility off (as mode 12h)', value: 0xe3 }]),
     reg(0x18, 'Line compare', [{ range: '7:0', meaning: 'split screen off (0x3FF), bits 7–0', value: lineCompare & 0xff }]),
   ];
   const clockSelect = Math.abs(t.pixelClockMHz - 25.175) < 0.01 ? 0 : Math.abs(t.pixelClockMHz - 28.322) < 0.01 ? 1 : 2;
@@ -114,9 +154,23 @@ export function vgaRegisters(t: Timing): VgaRegisters {
     { range: '1', meaning: 'video RAM enabled', value: 1 },
     { range: '0', meaning: 'CRTC at 3Dx (colour I/O addresses)', value: 1 },
   ]);
-  const notes = ['8-pixel character clock; 16-colour planar memory layout (offset = width / 16, mode control E3).'];
+  const sequencer = [
+    reg(0x01, 'Clocking mode', [
+      { range: '5', meaning: 'screen on', value: 0 },
+      { range: '3', meaning: 'dot clock not halved', value: 0 },
+      { range: '0', meaning: text ? '9-dot characters (0)' : '8-dot characters (1)', value: text ? 0 : 1 },
+    ]),
+    reg(0x02, 'Map mask', [{ range: '3:0', meaning: text ? 'planes 0 and 1 (characters and attributes)' : 'all four planes', value: text ? 0x3 : 0xf }]),
+    reg(0x03, 'Character map select', [{ range: '7:0', meaning: 'font 0 for both character sets', value: 0 }]),
+    reg(0x04, 'Memory mode', [
+      { range: '3', meaning: 'chain 4 off', value: 0 },
+      { range: '2', meaning: text ? 'odd/even addressing on (0)' : 'odd/even addressing off (1)', value: text ? 0 : 1 },
+      { range: '1', meaning: 'more than 64 KiB of memory', value: 1 },
+    ]),
+  ];
+  const notes = [text ? '9-pixel character clock; text memory layout of mode 03h (80 columns, 16-line characters, offset = columns / 2, mode control A3).' : '8-pixel character clock; 16-colour planar memory layout (offset = width / 16, mode control E3).'];
   if (clockSelect === 2) notes.push(`${t.pixelClockMHz} MHz is neither standard VGA crystal: program it in the card's clock synthesiser (chip-specific).`);
-  return { crtc, misc, notes };
+  return { crtc, misc, sequencer, layout, notes };
 }
 
 /** Two upper-case hex digits. */
@@ -190,8 +244,8 @@ export function vbeCrtcInfoBlock(t: Timing): { fields: Record<string, number>; b
   return { fields, bytes };
 }
 
-/** Reads a timing back from CR00–CR18 (8-pixel characters): what the registers encode. */
-export function decodeVgaRegisters(crtc: number[]): { hTotal: number; hActive: number; hSyncStart: number; vTotal: number; vActive: number; vSyncStart: number; vSyncEndLow4: number } {
+/** Reads a timing back from CR00–CR18 (characters of `charWidth` pixels): what the registers encode. */
+export function decodeVgaRegisters(crtc: number[], CHAR: 8 | 9 = 8): { hTotal: number; hActive: number; hSyncStart: number; vTotal: number; vActive: number; vSyncStart: number; vSyncEndLow4: number } {
   const o = crtc[0x07];
   const b = (v: number, n: number) => (v >> n) & 1;
   return {

@@ -19,6 +19,8 @@ export interface Timing {
   vSyncPositive: boolean;
   /** Blanking edges where a controller's mode differs from "active to total" (pixels / lines). */
   blanking?: { hStart: number; hEnd: number; vStart: number; vEnd: number };
+  /** The row's id in VESA DMT (01h–58h), for DMT timings. */
+  dmtId?: number;
 }
 
 /** Figures that follow from a timing. */

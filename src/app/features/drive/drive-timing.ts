@@ -13,7 +13,7 @@ import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import type { SavedTimingDto } from '../../../../shared/api/dto';
 import type { CreateTimingBody, TimingSource } from '../../../../shared/api/timing.schema';
-import { FIXED_TIMINGS, fixedTiming, modeName, parseMode } from '../../../../shared/drive/dmt';
+import { BIOS_MODES, FIXED_TIMINGS, fixedTiming, modeName, parseMode } from '../../../../shared/drive/dmt';
 import { evaluateTiming } from '../../../../shared/drive/evaluate';
 import { PIXELS_PER_CLOCK, type PanelInterface } from '../../../../shared/drive/interface';
 import { VbeFieldRangeError, vbeCrtcInfoBlock, vgaRegisters, hex2 } from '../../../../shared/drive/registers';
@@ -48,7 +48,11 @@ export class DriveTiming {
   protected readonly context = inject(StudioContext);
 
   protected readonly panelTypes = PANEL_TYPES;
-  protected readonly fixedModes = [...FIXED_TIMINGS.map((t) => ({ value: t.name, label: `${t.name} (${t.origin === 'dmt' ? 'VESA DMT' : 'IBM VGA'})` })), { value: 'vga-mode-12h', label: 'VGA BIOS mode 12h (640×480)' }];
+  protected readonly fixedModes = [
+    ...FIXED_TIMINGS.map((t) => ({ value: t.name, label: `${t.name.replace(' RB', ', reduced blanking')} (${t.dmtId ? `VESA DMT ${hex2(t.dmtId)}h` : 'IBM VGA'})` })),
+    { value: 'vga-mode-03h', label: 'VGA BIOS mode 03h (80 × 25 text, 720×400, 9-dot)' },
+    { value: 'vga-mode-12h', label: 'VGA BIOS mode 12h (640×480)' },
+  ];
   protected readonly standards: { value: Standard; label: string }[] = [
     { value: 'dmt', label: 'Fixed timing (DMT / VGA)' },
     { value: 'cvt', label: 'CVT 1.2' },
@@ -111,9 +115,9 @@ export class DriveTiming {
       if (standard === 'dmt') {
         const parsed = parseMode(mode);
         const fixed = parsed && fixedTiming(modeName(parsed));
-        this.form.controls.mode.setValue(mode === 'vga-mode-12h' ? mode : fixed ? fixed.name : this.fixedModes[0].value);
-      } else if (mode === 'vga-mode-12h') {
-        this.form.controls.mode.setValue('640x480@60');
+        this.form.controls.mode.setValue(BIOS_MODES.some((b) => b.name === mode) ? mode : fixed ? fixed.name : this.fixedModes[0].value);
+      } else if (BIOS_MODES.some((b) => b.name === mode)) {
+        this.form.controls.mode.setValue(mode === 'vga-mode-03h' ? '720x400@70' : '640x480@60');
       }
     });
   }
