@@ -116,3 +116,44 @@ describe('cli drive timing', () => {
     expect(r.err).toContain(message);
   });
 });
+
+describe('cli frame-data', () => {
+  const dir = mkdtempSync(path.join(os.tmpdir(), 'emberline-cli-fd-'));
+  const input = path.join(dir, 'in.png');
+  // A 640 × 480 card: left half white, right half black, so a 1-bit frame is 40 bytes of FF then 40 of 00 a row.
+  writeFileSync(input, pngOf(640, 480, (x) => (x < 320 ? [255, 255, 255, 255] : [0, 0, 0, 255])));
+
+  test('--format c: the header’s array has cols·rows·bits/8 numbers that unpack to the image (MSB first, row by row) [calc]', async () => {
+    const out = path.join(dir, 'title.h');
+    const r = await cli('frame-data', input, '--preset', 'el-amber-640x480.line-art', '--bits', '1', '--format', 'c', '--out', out);
+    expect(r.code).toBe(0);
+    expect(r.err).toContain('38400 bytes');
+    const text = readFileSync(out, 'utf8');
+    const m = /static const uint8_t title\[(\d+)\] = \{([^}]*)\}/.exec(text)!;
+    expect(Number(m[1])).toBe(38400);
+    const bytes = m[2].split(',').map((s) => s.trim()).filter(Boolean).map((s) => parseInt(s, 16));
+    // Row 100: bytes 100·80 … 100·80 + 79. Row droop and glow do not reach the data.
+    expect(bytes.slice(8000, 8080)).toEqual([...new Array(40).fill(0xff), ...new Array(40).fill(0)]);
+  });
+
+  test('--format bin with dual-scan planes and --format hex with FRC', async () => {
+    expect((await cli('frame-data', input, '--preset', 'el-amber-640x480.line-art', '--bits', '1', '--dual-scan', 'planes', '--format', 'bin', '--out', path.join(dir, 'f.bin'))).code).toBe(0);
+    expect(readFileSync(path.join(dir, 'f.bin')).length).toBe(38400);
+    const r = await cli('frame-data', input, '--preset', 'el-amber-640x480.standard', '--bits', '1', '--frc', '4', '--format', 'hex', '--out', path.join(dir, 'f.hex'));
+    expect(r.code).toBe(0);
+    expect(r.err).toContain('3 frames of 38400 bytes');
+    expect(readFileSync(path.join(dir, 'f.hex'), 'utf8').trimEnd().endsWith(':00000001FF')).toBe(true);
+  });
+
+  test.each([
+    [['frame-data', 'in.png', '--preset', 'el-amber-640x480.standard', '--format', 'c', '--out', 'x.h'], '--bits must be one of 1, 2, 4, got nothing'],
+    [['frame-data', 'in.png', '--preset', 'el-amber-640x480.standard', '--bits', '1', '--format', 'svg', '--out', 'x'], '--format must be one of bin, hex, c, got "svg"'],
+    [['frame-data', 'in.png', '--preset', 'el-amber-640x480.standard', '--bits', '1', '--dual-scan', 'yes', '--format', 'c', '--out', 'x'], '--dual-scan must be one of planes, interleaved'],
+    [['frame-data', 'in.png', '--preset', 'crt-green-p1.standard', '--bits', '2', '--format', 'c', '--out', 'x'], 'the preset has 16 gray levels but 2 bits a cell hold 4'],
+  ])('%j exits 2 with a clear message', async (argv, message) => {
+    const args = argv.map((a) => (a === 'in.png' ? input : a === 'x' || a === 'x.h' ? path.join(dir, a) : a));
+    const r = await cli(...args);
+    expect(r.code).toBe(2);
+    expect(r.err).toContain(message);
+  });
+});

@@ -1,14 +1,18 @@
 import { readFile, writeFile } from 'node:fs/promises';
+import path from 'node:path';
 import { parseArgs } from 'node:util';
 import { emissionColour, spectrumToXyz } from '../../shared/color/emission';
 import { BUILT_IN_PRESETS, builtInPresetById, PANEL_TYPES } from '../../shared/model/panel-types';
 import { panelParamsSchema, type PanelParams } from '../../shared/model/parameters';
 import { interfaceFigures, PIXELS_PER_CLOCK, type PanelInterface } from '../../shared/drive/interface';
+import { BITS_PER_CELL, frameData, MAX_FRC_LEVELS, type FrameLayout } from '../../shared/drive/frame-data';
+import { encodeFrameData, FRAME_DATA_FORMAT_INFO, FRAME_DATA_FORMATS } from '../../shared/drive/frame-data-formats';
 import { hex2, vgaRegisters } from '../../shared/drive/registers';
 import { resolveTiming, STANDARDS, type Standard } from '../../shared/drive/resolve';
 import { figures } from '../../shared/drive/timing';
 import { AppError } from '../core/app-error';
 import { issuesOf } from '../core/validate';
+import { decodeImage } from '../render/decode';
 import { RenderEngine } from '../render/render-engine';
 
 /** A usage error: printed with the usage line, exit code 2. */
@@ -21,7 +25,10 @@ commands:
   emission --peak <nm> [--fwhm <nm>] [--json]
   presets [--json]
   timing --mode 640x480@60 --standard dmt|cvt|cvt-rb|cvt-rb2 [--dual-scan] [--pixels-per-clock 1|4|8|16] [--json]
-  registers --mode 640x480@60 --standard dmt|cvt|cvt-rb|cvt-rb2 [--json]`;
+  registers --mode 640x480@60 --standard dmt|cvt|cvt-rb|cvt-rb2 [--json]
+  frame-data <image> --preset <built-in id | file.json> --bits 1|2|4 [--bit-order msb|lsb]
+             [--pixels-per-clock 1|4|8|16] [--dual-scan planes|interleaved] [--frc N] [--frame K]
+             [--name NAME] --format bin|hex|c --out <file>`;
 
 function number(value: string | undefined, name: string, min: number, max: number, integer = false): number {
   const n = Number(value);
@@ -135,6 +142,46 @@ function registers(args: string[]): void {
   else console.log(`CR00–CR18: ${crtc.join(' ')}\nmisc (3C2): ${hex2(regs.misc.value)}`);
 }
 
+const oneOf = <T extends string | number>(value: string | undefined, name: string, allowed: readonly T[], fallback?: T): T => {
+  if (value === undefined && fallback !== undefined) return fallback;
+  const match = allowed.find((a) => String(a) === value);
+  if (match === undefined) throw new UsageError(`--${name} must be one of ${allowed.join(', ')}, got ${value === undefined ? 'nothing' : `"${value}"`}`);
+  return match;
+};
+
+/** The packed cells of one image through a preset, in a controller's layout, written as bin, Intel HEX or a C header. */
+async function frameDataCommand(args: string[]): Promise<void> {
+  const options = { preset: { type: 'string' }, bits: { type: 'string' }, 'bit-order': { type: 'string' }, 'pixels-per-clock': { type: 'string' }, 'dual-scan': { type: 'string' }, frc: { type: 'string' }, frame: { type: 'string', default: '0' }, name: { type: 'string' }, format: { type: 'string' }, out: { type: 'string' } } as const;
+  const { values, positionals } = parseArgs({ args, allowPositionals: true, options });
+  if (positionals.length !== 1) throw new UsageError('frame-data takes one input image');
+  if (!values.preset) throw new UsageError('frame-data needs --preset');
+  if (!values.out) throw new UsageError('frame-data needs --out <file>');
+  const format = oneOf(values.format, 'format', FRAME_DATA_FORMATS);
+  const layout: FrameLayout = {
+    bitsPerCell: oneOf(values.bits, 'bits', BITS_PER_CELL),
+    bitOrder: oneOf(values['bit-order'], 'bit-order', ['msb', 'lsb'] as const, 'msb'),
+    pixelsPerClock: oneOf(values['pixels-per-clock'], 'pixels-per-clock', PIXELS_PER_CLOCK, 1),
+    scan: values['dual-scan'] === undefined ? 'single' : oneOf(values['dual-scan'], 'dual-scan', ['planes', 'interleaved'] as const) === 'planes' ? 'dual-planes' : 'dual-interleaved',
+    frcLevels: values.frc === undefined ? 0 : number(values.frc, 'frc', 2, MAX_FRC_LEVELS, true),
+  };
+  const parameters = await loadPreset(values.preset);
+  const input = await readFile(positionals[0]).catch(() => {
+    throw new UsageError(`cannot read ${positionals[0]}`);
+  });
+  const { frames } = await decodeImage(input);
+  const k = number(values.frame, 'frame', 0, frames.length - 1, true);
+  let data;
+  try {
+    data = frameData(frames[k].image, parameters, layout);
+  } catch (err) {
+    throw err instanceof RangeError ? new UsageError(err.message) : err;
+  }
+  const name = values.name ?? path.basename(values.out).replace(/\.[^.]*$/, '');
+  await writeFile(values.out, encodeFrameData(data, format, name));
+  console.error(`wrote ${values.out}: ${FRAME_DATA_FORMAT_INFO[format].label}, ${data.frames} frame${data.frames > 1 ? 's' : ''} of ${data.frameBytes} bytes`);
+  for (const line of data.description) console.error(`  ${line}`);
+}
+
 /** Runs one CLI command; returns the process exit code. */
 export async function main(argv: string[]): Promise<number> {
   const [command, ...rest] = argv;
@@ -144,6 +191,7 @@ export async function main(argv: string[]): Promise<number> {
     else if (command === 'presets') presets(rest);
     else if (command === 'timing') timing(rest);
     else if (command === 'registers') registers(rest);
+    else if (command === 'frame-data') await frameDataCommand(rest);
     else throw new UsageError(command ? `unknown command "${command}"` : 'no command given');
     return 0;
   } catch (err) {

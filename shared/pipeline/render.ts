@@ -17,12 +17,19 @@ export function refreshesOf(delayMs: number, refreshHz: number): number {
   return Math.max(1, Math.round((delayMs * refreshHz) / 1000));
 }
 
-/** Stages 1–4 for one image: fit, tone, levels, row loading → emission per cell (0–1). */
-export function driveImage(frame: Frame['image'], p: PanelParams): Float32Array {
+/**
+ * Stages 1–3 for one image: fit, tone, levels → each cell's drive level as a share of full on
+ * (k / (grayLevels − 1)): what a controller is told to show, before the panel's row droop.
+ */
+export function driveLevels(frame: Frame['image'], p: PanelParams): Float32Array {
   const rgb = fitToGrid(frame, p.cell, p.source.fit);
   const demand = tone(rgb, p.source);
-  const levels = quantise(demand, p.cell.cols, p.cell.rows, p.drive);
-  return rowLoading(levels, p.cell.cols, p.cell.rows, p.drive.rowLoading);
+  return quantise(demand, p.cell.cols, p.cell.rows, p.drive);
+}
+
+/** Stages 1–4 for one image: fit, tone, levels, row loading → emission per cell (0–1). */
+export function driveImage(frame: Frame['image'], p: PanelParams): Float32Array {
+  return rowLoading(driveLevels(frame, p), p.cell.cols, p.cell.rows, p.drive.rowLoading);
 }
 
 /**
