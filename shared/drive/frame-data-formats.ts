@@ -80,7 +80,7 @@ export function toCHeader(data: FrameData, name: string): string {
 }
 
 /** Frame data in a format, as bytes to save. */
-export function encodeFrameData(data: FrameData, format: FrameDataFormat, name: string): Uint8Array {
+export function encodeFrameData(data: FrameData, format: FrameDataFormat, name: string): Uint8Array<ArrayBuffer> {
   if (format === 'bin') return data.bytes;
   return new TextEncoder().encode(format === 'hex' ? toIntelHex(data.bytes) : toCHeader(data, name));
 }

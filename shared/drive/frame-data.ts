@@ -39,7 +39,7 @@ export interface FrameData {
   /** cols · rows · bits / 8. */
   frameBytes: number;
   /** Frame 0 plane 0, frame 0 plane 1, frame 1 plane 0, … */
-  bytes: Uint8Array;
+  bytes: Uint8Array<ArrayBuffer>;
   /** Gray levels the codes stand for. */
   levels: number;
   /** The layout in sentences, for file comments and the page. */

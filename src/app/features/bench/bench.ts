@@ -34,6 +34,7 @@ import { Confirm } from '../../shared/confirm-dialog';
 import { describeChange, paramDiff } from '../../../../shared/model/param-diff';
 import { RenderApi } from './render-api';
 import { downloadBlob } from '../drive/download';
+import { FrameDataExport } from '../drive/frame-data-export';
 
 /** ID-1 card width in mm (ISO/IEC 7810), the on-screen ruler for real size. */
 const CARD_MM = { width: 85.6, height: 53.98 };
@@ -42,7 +43,7 @@ const CSS_PX_PER_MM = 96 / 25.4;
 /** The bench: artwork live on a simulated panel, tuned by hand, checked against the server. */
 @Component({
   selector: 'em-bench',
-  imports: [FormsModule, DecimalPipe, RouterLink, MatInputModule, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatSelectModule, MatSliderModule, MatSlideToggleModule, MatIconModule, MatProgressBarModule, MatTooltipModule, ParamControls],
+  imports: [FormsModule, DecimalPipe, RouterLink, MatInputModule, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatSelectModule, MatSliderModule, MatSlideToggleModule, MatIconModule, MatProgressBarModule, MatTooltipModule, ParamControls, FrameDataExport],
   templateUrl: './bench.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -130,6 +131,11 @@ export class Bench {
     if (t) locks['drive.refreshHz'] = { reason: `Set by the drive timing “${t.name}”. Choose “Panel type's own refresh” to set it here.` };
     return locks;
   });
+  protected readonly showFrameData = signal(false);
+  /** The frame on the bench, as decoded (the frame data packs it through the current look). */
+  protected readonly currentImage = computed(() => (this.frames.hasValue() ? this.frames.value()[this.frame()]?.image : undefined));
+  /** Downloads are named after the artwork and the look. */
+  protected readonly downloadName = computed(() => `${this.selected()?.name ?? 'artwork'} ${this.labelA()}`);
   protected readonly frcFlickerHz = computed(() => {
     const d = this.params().drive;
     return d.grayLevels > 2 ? d.refreshHz / (d.grayLevels - 1) : null;
@@ -399,7 +405,7 @@ export class Bench {
       const render = await this.renders.render(this.context.studioId(), { artworkId: artwork.id, parameters, scale: this.scale(), frame: this.frame() });
       const png = new Uint8Array(await (await this.renders.png(render)).arrayBuffer());
       const tagged = withPngText(png, { Software: 'Emberline', Title: `${artwork.name} · ${this.labelA()}`, 'Emberline parameters': JSON.stringify({ panelTypeId: this.panelTypeId(), scale: this.scale(), frame: this.frame(), parameters }) });
-      const name = `${artwork.name} ${this.labelA()}`.replace(/[^\p{L}\p{N} ._-]+/gu, ' ').replace(/\s+/g, '-').replace(/^-|-$/g, '') || 'emberline';
+      const name = this.downloadName().replace(/[^\p{L}\p{N} ._-]+/gu, ' ').replace(/\s+/g, '-').replace(/^-|-$/g, '') || 'emberline';
       downloadBlob(`${name}.png`, new Blob([tagged], { type: 'image/png' }));
       this.snackBar.open(`Saved ${name}.png (${render.width} × ${render.height} px, parameters inside).`, undefined, { duration: 4000 });
     } catch (err) {

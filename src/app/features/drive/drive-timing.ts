@@ -22,6 +22,7 @@ import { PANEL_TYPES } from '../../../../shared/model/panel-types';
 import { apiErrorMessage } from '../../core/api-error';
 import { Confirm } from '../../shared/confirm-dialog';
 import { StudioContext } from '../studio/studio-context';
+import { FrameDataCard } from './frame-data-card';
 import { RegisterTable } from './register-table';
 import { SafetyNotice } from './safety-notice';
 import { TimingApi } from './timing-api';
@@ -36,7 +37,7 @@ function canonicalMode(text: string): string {
 /** The drive timing workbench: pick or enter a timing, see what the panel and the VGA need, save it. */
 @Component({
   selector: 'em-drive-timing',
-  imports: [ReactiveFormsModule, DecimalPipe, KeyValuePipe, MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule, MatButtonToggleModule, MatSlideToggleModule, MatCheckboxModule, MatIconModule, SafetyNotice, RegisterTable, TimingDiagram],
+  imports: [ReactiveFormsModule, DecimalPipe, KeyValuePipe, MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule, MatButtonToggleModule, MatSlideToggleModule, MatCheckboxModule, MatIconModule, SafetyNotice, RegisterTable, TimingDiagram, FrameDataCard],
   templateUrl: './drive-timing.html',
   styleUrl: './drive-timing.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
