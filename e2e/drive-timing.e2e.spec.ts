@@ -5,7 +5,7 @@ test('an editor works out an EL drive timing and saves it; the viewer sees it wi
   await page.getByRole('link', { name: 'Drive timing' }).click();
   await expect(page.getByRole('heading', { name: 'High voltage: read before you probe' })).toBeVisible();
   // A new timing has no name until the user gives one (issue "Workflow", item 22).
-  await expect(page.getByRole('textbox', { name: 'Name' })).toHaveValue('');
+  await expect(page.getByRole('textbox', { name: 'Name', exact: true })).toHaveValue('');
   // DMT 640×480@60, dual-scan, 4 pixels a clock [std DMT row; calc shift clock 25.175 / 8].
   await expect(page.getByText('25.175 MHz', { exact: true })).toBeVisible();
   await expect(page.getByText('31.469 kHz', { exact: true })).toBeVisible();
@@ -28,7 +28,7 @@ test('an editor works out an EL drive timing and saves it; the viewer sees it wi
   await page.getByRole('spinbutton', { name: 'Pixel clock (MHz)' }).fill('25.175');
 
   const name = `E2E timing ${Date.now().toString(36)}`;
-  await page.getByRole('textbox', { name: 'Name' }).fill(name);
+  await page.getByRole('textbox', { name: 'Name', exact: true }).fill(name);
   await page.getByRole('button', { name: 'Save timing' }).click();
   await expect(page.getByRole('list', { name: 'Saved timings' })).toContainText(name);
   await page.screenshot({ path: testInfo.outputPath('drive-editor.png') });
@@ -73,7 +73,7 @@ test('modes are read as written, switching standard keeps a mode that means some
   await horizontal.getByRole('spinbutton', { name: 'Active' }).fill('100000');
   await expect(horizontal.getByRole('alert')).toContainText("the horizontal total (pixels) would be 100160, more than the VBE block's 16-bit HorizontalTotal field holds (at most 65535)");
   await expect(page.getByLabel('CRTC information block bytes')).toHaveCount(0);
-  await page.getByRole('textbox', { name: 'Name' }).fill('Too wide');
+  await page.getByRole('textbox', { name: 'Name', exact: true }).fill('Too wide');
   await page.getByRole('button', { name: 'Save timing' }).click();
   await expect(page.getByRole('list', { name: 'Saved timings' })).not.toContainText('Too wide');
   await horizontal.getByRole('spinbutton', { name: 'Active' }).fill('640');
