@@ -28,6 +28,8 @@ import { rendersRoutes } from './features/renders/renders.routes';
 import { RenderEngine } from './render/render-engine';
 import { RendersService } from './features/renders/renders.service';
 import { RenderStore } from './storage/render-store';
+import { romsRoutes } from './features/roms/roms.routes';
+import { RomsService } from './features/roms/roms.service';
 import { timingsRoutes } from './features/timings/timings.routes';
 import { TimingsService } from './features/timings/timings.service';
 import { inviteLinkRoutes, studiosRoutes } from './features/studios/studios.routes';
@@ -75,7 +77,8 @@ export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; art
   const artworks = new ArtworksService(new FileStore(config.storageDir), (bytes, sheet) => renderEngine.decodedFrames(bytes, sheet));
   const presets = new PresetsService();
   const studios = new StudiosService(outbox, config.appUrl, (_studioId, artworkIds) => artworks.removeFiles(artworkIds), (studioId) => renders.removeFor({ studioId }));
-  const routers: ApiRouter[] = [health, authRoutes(auth, passport), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renders), timingsRoutes(new TimingsService()), artworksRoutes(artworks, renders), presetsRoutes(presets, config.appUrl, artworks, renders), shareRoutes(presets, artworks), activityRoutes()];
+  const timings = new TimingsService();
+  const routers: ApiRouter[] = [health, authRoutes(auth, passport), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renders), timingsRoutes(timings), romsRoutes(new RomsService(timings)), artworksRoutes(artworks, renders), presetsRoutes(presets, config.appUrl, artworks, renders), shareRoutes(presets, artworks), activityRoutes()];
   const docs = new ApiRouter('/docs', 'Service');
   const specs = routers.flatMap((r) => r.specs);
   docs.route('get', '/', { policy: publicAccess, summary: 'This OpenAPI document' }, (_req, res) => {

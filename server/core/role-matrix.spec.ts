@@ -7,6 +7,7 @@ import { Invite } from '../features/studios/invite.model';
 import { Membership } from '../features/studios/membership.model';
 import { createHarness, TestClient, uniqueEmail, type Harness } from '../testing/harness';
 import { pngOf } from '../testing/images';
+import { syntheticRom } from '../../shared/drive/sample-rom';
 import { ACTORS, createStudioWorld, createUsers, TIMING_BODY, WORLD_PASSWORD, type Actor, type WorldUsers } from '../testing/world';
 
 /**
@@ -20,6 +21,7 @@ interface Cell {
   inviteId: string;
   inviteToken: string;
   timingId: string;
+  romId: string;
   artworkId: string;
   presetId: string;
   linkId: string;
@@ -93,6 +95,20 @@ const ROWS: Row[] = [
   { method: 'get', path: '/api/studios/:studioId/timings/:timingId', url: (c) => `${S(c)}/timings/${c.timingId}`, expect: [200, 200, 200, 404, 401] },
   { method: 'patch', path: '/api/studios/:studioId/timings/:timingId', url: (c) => `${S(c)}/timings/${c.timingId}`, body: () => ({ name: 'Renamed timing' }), expect: [200, 200, 403, 404, 401] },
   { method: 'delete', path: '/api/studios/:studioId/timings/:timingId', url: (c) => `${S(c)}/timings/${c.timingId}`, expect: [204, 204, 403, 404, 401] },
+  // Video BIOS images: editors and owners only (a card's firmware; a bad patch can stop a card).
+  { method: 'get', path: '/api/studios/:studioId/roms', url: (c) => `${S(c)}/roms`, expect: [200, 200, 403, 404, 401] },
+  {
+    method: 'post',
+    path: '/api/studios/:studioId/roms',
+    url: (c) => `${S(c)}/roms`,
+    upload: () => ({ fields: {}, file: { name: 'card.rom', bytes: Buffer.from(syntheticRom()) } }),
+    expect: [201, 201, 403, 404, 401],
+  },
+  { method: 'get', path: '/api/studios/:studioId/roms/:romId', url: (c) => `${S(c)}/roms/${c.romId}`, expect: [200, 200, 403, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/roms/:romId/image', url: (c) => `${S(c)}/roms/${c.romId}/image`, expect: [200, 200, 403, 404, 401] },
+  { method: 'post', path: '/api/studios/:studioId/roms/:romId/patch', url: (c) => `${S(c)}/roms/${c.romId}/patch`, body: (c) => ({ entryIndex: 0x1b, timingId: c.timingId }), expect: [201, 201, 403, 404, 401] },
+  { method: 'patch', path: '/api/studios/:studioId/roms/:romId', url: (c) => `${S(c)}/roms/${c.romId}`, body: () => ({ name: 'Renamed card' }), expect: [200, 200, 403, 404, 401] },
+  { method: 'delete', path: '/api/studios/:studioId/roms/:romId', url: (c) => `${S(c)}/roms/${c.romId}`, expect: [204, 204, 403, 404, 401] },
   { method: 'get', path: '/api/studios/:studioId/artworks', url: (c) => `${S(c)}/artworks`, expect: [200, 200, 200, 404, 401] },
   {
     method: 'post',
@@ -200,7 +216,7 @@ describe.each(ROWS)('$method $path', (row) => {
     const studioRenderKey = row.path.endsWith('/renders/:key') && row.path.startsWith('/api/studios')
       ? (await h.app.renders.render({ studioId: world.studio.id, artworkId: world.artworkId, userId: users.owner.id }, { input: await h.app.artworks.original(world.artworkId), parameters: BUILT_IN_PRESETS[0].parameters, scale: 1, frame: 0 })).key
       : '';
-    const cell: Cell = { studioId: world.studio.id, users, actor, inviteId: world.invite.id, inviteToken: world.inviteToken, timingId: world.timing.id, artworkId: world.artworkId, presetId: world.presetId, linkId: world.linkId, shareToken: world.shareToken, otherStudioId: world.studio.id, studioRenderKey };
+    const cell: Cell = { studioId: world.studio.id, users, actor, inviteId: world.invite.id, inviteToken: world.inviteToken, timingId: world.timing.id, romId: world.romId, artworkId: world.artworkId, presetId: world.presetId, linkId: world.linkId, shareToken: world.shareToken, otherStudioId: world.studio.id, studioRenderKey };
     const client = new TestClient(h.app);
     if (actor !== 'anonymous') {
       const signIn = await client.post('/api/auth/sign-in', { email: users[actor].email, password: WORLD_PASSWORD });

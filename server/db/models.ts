@@ -8,6 +8,7 @@ import { initPresets, Preset } from '../features/presets/preset.model';
 import { presetListCache } from '../features/presets/presets.service';
 import { initRender } from '../features/renders/render.model';
 import { initSavedTiming } from '../features/timings/timing.model';
+import { initVideoRom } from '../features/roms/rom.model';
 import { initInvite, Invite } from '../features/studios/invite.model';
 import { initMembership, Membership } from '../features/studios/membership.model';
 import { roleCache } from '../features/studios/membership-lookup';
@@ -27,6 +28,7 @@ export function initModels(sequelize: Sequelize): void {
   initPresets(sequelize);
   initActivity(sequelize);
   initSavedTiming(sequelize);
+  initVideoRom(sequelize);
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
   Membership.belongsTo(Studio, { foreignKey: 'studioId', as: 'studio' });
   Invite.belongsTo(Studio, { foreignKey: 'studioId', as: 'studio' });

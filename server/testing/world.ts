@@ -6,6 +6,8 @@ import { Invite } from '../features/studios/invite.model';
 import { Membership } from '../features/studios/membership.model';
 import { Studio } from '../features/studios/studio.model';
 import { SavedTiming } from '../features/timings/timing.model';
+import { VideoRom } from '../features/roms/rom.model';
+import { syntheticRom } from '../../shared/drive/sample-rom';
 import { PresetsService } from '../features/presets/presets.service';
 import os from 'node:os';
 import path from 'node:path';
@@ -48,7 +50,7 @@ export const TIMING_BODY = {
   interface: { dualScan: true, pixelsPerClock: 4 as const },
 };
 
-export async function createStudioWorld(users: WorldUsers, artworks?: ArtworksService): Promise<{ studio: Studio; invite: Invite; inviteToken: string; timing: SavedTiming; artworkId: string; presetId: string; linkId: string; shareToken: string }> {
+export async function createStudioWorld(users: WorldUsers, artworks?: ArtworksService): Promise<{ studio: Studio; invite: Invite; inviteToken: string; timing: SavedTiming; romId: string; artworkId: string; presetId: string; linkId: string; shareToken: string }> {
   const studio = await Studio.create({ name: `Matrix ${Math.random().toString(36).slice(2, 7)}` });
   const roles: [User, Role][] = [
     [users.owner, 'owner'],
@@ -60,6 +62,8 @@ export async function createStudioWorld(users: WorldUsers, artworks?: ArtworksSe
   const { token, hash } = newToken();
   const invite = await Invite.create({ studioId: studio.id, email: uniqueEmail('invitee'), role: 'viewer', tokenHash: hash, invitedById: users.owner.id, expiresAt: new Date(Date.now() + 86_400_000) });
   const timing = await SavedTiming.create({ studioId: studio.id, ...TIMING_BODY, createdById: users.owner.id, updatedById: users.owner.id });
+  const rom = Buffer.from(syntheticRom());
+  const romId = (await VideoRom.create({ studioId: studio.id, name: 'World card', bytes: rom, size: rom.length, sha256: '0'.repeat(64), patchedFromId: null, patch: null, createdById: users.owner.id })).id;
   // Every world has an artwork: a share link always shows one.
   const library = artworks ?? new ArtworksService(new FileStore(path.join(os.tmpdir(), `emberline-world-${process.pid}`)));
   const artworkId = (await library.upload(studio.id, users.owner.id, pngOf(8, 8, (x, y) => [x * 30, y * 30, 0, 255]), 'tile.png', {})).id;
@@ -68,5 +72,5 @@ export async function createStudioWorld(users: WorldUsers, artworks?: ArtworksSe
   const preset = await presets.create(actor, { name: 'World look', panelTypeId: 'el-amber-640x480' });
   const link = await presets.createLink(actor, preset.id, { artworkId }, 'http://app.test');
   const shareToken = link.url!.split('/share/')[1];
-  return { studio, invite, inviteToken: token, timing, artworkId, presetId: preset.id, linkId: link.id, shareToken };
+  return { studio, invite, inviteToken: token, timing, romId, artworkId, presetId: preset.id, linkId: link.id, shareToken };
 }

@@ -125,3 +125,39 @@ export interface ActivityDto {
   actor: string | null;
   createdAt: string;
 }
+
+/** What a patch changed, kept with the patched image. */
+export interface RomPatchRecord {
+  entryIndex: number;
+  entryOffset: number;
+  timingId: string;
+  timingName: string;
+  mode: string;
+  changes: import('../drive/vga-rom').PatchChange[];
+  checksum: { at: number; old: number; new: number };
+  notes: string[];
+}
+
+/** A stored video option ROM image. */
+export interface VideoRomDto {
+  id: string;
+  name: string;
+  /** Bytes in the file. */
+  size: number;
+  sha256: string;
+  /** All bytes of the declared image sum to 0 mod 256. */
+  checksumOk: boolean;
+  patchedFromId: string | null;
+  patch: RomPatchRecord | null;
+  /** Images patched from this one. */
+  patchedIds: string[];
+  createdAt: string;
+  imageUrl: string;
+}
+
+/** One image with what reading it found, or why it could not be read. */
+export interface VideoRomDetailDto {
+  rom: VideoRomDto;
+  info: import('../drive/vga-rom').RomInfo | null;
+  problem: { code: string; message: string } | null;
+}
