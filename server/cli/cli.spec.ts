@@ -4,6 +4,7 @@ import path from 'node:path';
 import { PNG } from 'pngjs';
 import { main } from './main';
 import { pngOf } from '../testing/images';
+import { syntheticRom } from '../../shared/drive/sample-rom';
 
 /** Runs the CLI in-process and captures what it prints. */
 async function cli(...argv: string[]): Promise<{ code: number; out: string; err: string }> {
@@ -154,6 +155,49 @@ describe('cli frame-data', () => {
     const args = argv.map((a) => (a === 'in.png' ? input : a === 'x' || a === 'x.h' ? path.join(dir, a) : a));
     const r = await cli(...args);
     expect(r.code).toBe(2);
+    expect(r.err).toContain(message);
+  });
+});
+
+describe('cli rom-info and rom-patch', () => {
+  const dir = mkdtempSync(path.join(os.tmpdir(), 'emberline-cli-rom-'));
+  const rom = path.join(dir, 'card.rom');
+  writeFileSync(rom, syntheticRom());
+
+  test('rom-info --json: size, checksum, and the table entries with their decoded timings [ds]', async () => {
+    const r = await cli('rom-info', rom, '--json');
+    expect(r.code).toBe(0);
+    const doc = JSON.parse(r.out);
+    expect(doc).toMatchObject({ size: 32768, checksumOk: true, table: { offset: 0x1000, from: 'pointer' } });
+    expect(doc.entries).toHaveLength(29);
+    expect(doc.entries[0x1b]).toMatchObject({ index: 0x1b, offset: 0x16c0, status: 'ok', standardMode: 'mode 12h', width: 640, height: 480, pixelClockMHz: 25.175, refreshHz: 59.94 });
+    expect(doc.entries[0]).toMatchObject({ index: 0, status: 'empty', width: null });
+  });
+
+  test('rom-patch, then rom-info on the result: the new timing, the sum still 0 mod 256 [calc]', async () => {
+    const out = path.join(dir, 'patched.rom');
+    const r = await cli('rom-patch', rom, '--entry', '0x1b', '--mode', '640x400@70', '--standard', 'dmt', '--out', out, '--json');
+    expect(r.code).toBe(0);
+    const doc = JSON.parse(r.out);
+    expect(doc).toMatchObject({ entry: 0x1b, offset: 0x16c0, mode: '640x400@70', checksum: { at: 32767 } });
+    expect(doc.changes.find((c: { field: string }) => c.field === 'CR06 Vertical total')).toMatchObject({ old: 0x0b, new: 0xbf });
+    const bytes = readFileSync(out);
+    expect(bytes.reduce((s, v) => (s + v) & 0xff, 0)).toBe(0);
+    const info = JSON.parse((await cli('rom-info', out, '--json')).out);
+    expect(info.entries[0x1b]).toMatchObject({ width: 640, height: 400, refreshHz: 70.086 }); // 25.175 MHz / (800 · 449) [calc]
+    const text = await cli('rom-patch', rom, '--entry', '27', '--mode', '640x400@70', '--standard', 'dmt', '--out', path.join(dir, 'p2.rom'));
+    expect(text.out).toContain('0x16D0  0B → BF  CR06 Vertical total');
+    expect(text.out).toContain('verify the burned chip');
+  });
+
+  test.each([
+    [['rom-patch', 'card.rom', '--entry', '27', '--mode', '640x400@70', '--standard', 'dmt', '--out', 'card.rom'], 2, '--out must be a new file'],
+    [['rom-patch', 'card.rom', '--entry', 'twelve', '--mode', '640x400@70', '--standard', 'dmt', '--out', 'x.rom'], 2, '--entry must be a whole number'],
+    [['rom-patch', 'card.rom', '--entry', '2', '--mode', '640x400@70', '--standard', 'dmt', '--out', 'x.rom'], 1, 'entry 2 is empty'],
+    [['rom-info', 'card.rom', '--table-offset', '0x7FF0'], 1, 'does not fit in the 32768-byte image'],
+  ])('%j exits %i with a clear message', async (argv, code, message) => {
+    const r = await cli(...argv.map((a) => (a.endsWith('.rom') ? path.join(dir, a) : a)));
+    expect(r.code).toBe(code);
     expect(r.err).toContain(message);
   });
 });

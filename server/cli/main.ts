@@ -10,6 +10,7 @@ import { encodeFrameData, FRAME_DATA_FORMAT_INFO, FRAME_DATA_FORMATS } from '../
 import { hex2, vgaRegisters } from '../../shared/drive/registers';
 import { resolveTiming, STANDARDS, type Standard } from '../../shared/drive/resolve';
 import { figures } from '../../shared/drive/timing';
+import { describeEntry, patchRom, readRom, RomError, type RomInfo } from '../../shared/drive/vga-rom';
 import { AppError } from '../core/app-error';
 import { issuesOf } from '../core/validate';
 import { decodeImage } from '../render/decode';
@@ -28,7 +29,11 @@ commands:
   registers --mode 640x480@60 --standard dmt|cvt|cvt-rb|cvt-rb2 [--json]
   frame-data <image> --preset <built-in id | file.json> --bits 1|2|4 [--bit-order msb|lsb]
              [--pixels-per-clock 1|4|8|16] [--dual-scan planes|interleaved] [--frc N] [--frame K]
-             [--name NAME] --format bin|hex|c --out <file>`;
+             [--name NAME] --format bin|hex|c --out <file>
+  rom-info <rom.bin> [--table-offset N] [--json]
+  rom-patch <rom.bin> --entry N --mode 640x480@60 --standard dmt|cvt|cvt-rb|cvt-rb2
+            [--table-offset N] [--checksum-at N] --out <patched.bin> [--json]
+  (N: decimal or 0x… hex)`;
 
 function number(value: string | undefined, name: string, min: number, max: number, integer = false): number {
   const n = Number(value);
@@ -182,6 +187,84 @@ async function frameDataCommand(args: string[]): Promise<void> {
   for (const line of data.description) console.error(`  ${line}`);
 }
 
+/** A whole number given in decimal or as 0x… hex. */
+function offsetArg(value: string | undefined, name: string): number | undefined {
+  if (value === undefined) return undefined;
+  const n = /^0x[0-9a-f]+$/i.test(value) ? parseInt(value.slice(2), 16) : /^\d+$/.test(value) ? Number(value) : NaN;
+  if (!Number.isInteger(n)) throw new UsageError(`--${name} must be a whole number (decimal or 0x… hex), got "${value}"`);
+  return n;
+}
+
+const hex = (n: number) => `0x${n.toString(16).toUpperCase().padStart(4, '0')}`;
+
+async function readRomFile(file: string | undefined, tableOffset: number | undefined): Promise<{ bytes: Buffer; info: RomInfo }> {
+  if (!file) throw new UsageError('give the ROM image file');
+  const bytes = await readFile(file).catch(() => {
+    throw new UsageError(`cannot read ${file}`);
+  });
+  return { bytes, info: readRom(bytes, { tableOffset }) };
+}
+
+/** Header, checksum and the VGA parameter table of an option ROM image. */
+async function romInfo(args: string[]): Promise<void> {
+  const { values, positionals } = parseArgs({ args, allowPositionals: true, options: { 'table-offset': { type: 'string' }, json: { type: 'boolean', default: false } } });
+  if (positionals.length !== 1) throw new UsageError('rom-info takes one ROM image');
+  const { info } = await readRomFile(positionals[0], offsetArg(values['table-offset'], 'table-offset'));
+  const entries = info.entries.map((e) => ({
+    index: e.index,
+    offset: e.offset,
+    status: e.status,
+    standardMode: e.standardMode,
+    width: e.decoded?.width ?? null,
+    height: e.decoded?.height ?? null,
+    pixelClockMHz: e.decoded?.pixelClockMHz ?? null,
+    refreshHz: e.decoded?.refreshHz == null ? null : Math.round(e.decoded.refreshHz * 1000) / 1000,
+    hTotal: e.decoded?.hTotal ?? null,
+    vTotal: e.decoded?.vTotal ?? null,
+    charWidth: e.decoded?.charWidth ?? null,
+    memory: e.decoded?.memory ?? null,
+    confidence: e.confidence,
+  }));
+  if (values.json) {
+    console.log(JSON.stringify({ size: info.size, fileBytes: info.fileBytes, checksumOk: info.checksum.ok, checksum: info.checksum, pci: info.pci, table: info.table, entries, notes: info.notes }));
+    return;
+  }
+  console.log(`${info.size} bytes (${info.size / 512} blocks of 512); checksum ${info.checksum.ok ? 'good (sum 00)' : `BAD (sum ${hex2(info.checksum.sum)}, should be 00)`}`);
+  if (info.pci) console.log(`PCI data at ${hex(info.pci.offset)}: vendor ${hex(info.pci.vendorId)}, device ${hex(info.pci.deviceId)}, class ${info.pci.classCode.toString(16).padStart(6, '0')}`);
+  console.log(info.table ? `parameter table at ${hex(info.table.offset)} (${info.table.from === 'pointer' ? `from the save pointer table at ${hex(info.table.pointerAt!)}` : 'offset given'})` : 'parameter table: not pointed at; entries found by scanning');
+  for (const e of info.entries) if (e.status !== 'empty') console.log(`  ${hex2(e.index)}h at ${hex(e.offset)}  ${(e.standardMode ?? '').padEnd(26)} ${e.status === 'ok' ? describeEntry(e) : `unclear: ${e.decoded!.problems.join('; ')}`}`);
+  const empty = info.entries.filter((e) => e.status === 'empty').length;
+  if (empty) console.log(`  (${empty} empty entries)`);
+  for (const n of info.notes) console.log(`note: ${n}`);
+}
+
+/** Writes a timing into one entry of an image, fixes the checksum, and prints the byte diff. */
+async function romPatch(args: string[]): Promise<void> {
+  const { values, positionals } = parseArgs({ args, allowPositionals: true, options: { entry: { type: 'string' }, mode: { type: 'string' }, standard: { type: 'string' }, 'table-offset': { type: 'string' }, 'checksum-at': { type: 'string' }, out: { type: 'string' }, json: { type: 'boolean', default: false } } });
+  if (positionals.length !== 1) throw new UsageError('rom-patch takes one ROM image');
+  const entry = offsetArg(values.entry, 'entry');
+  if (entry === undefined) throw new UsageError('rom-patch needs --entry N (the index rom-info lists)');
+  if (!values.out) throw new UsageError('rom-patch needs --out <patched.bin>');
+  if (path.resolve(values.out) === path.resolve(positionals[0])) throw new UsageError('--out must be a new file: keep the original image beside the patched one');
+  const t = timingOf(values);
+  const { bytes, info } = await readRomFile(positionals[0], offsetArg(values['table-offset'], 'table-offset'));
+  let patch;
+  try {
+    patch = patchRom(bytes, info, entry, t, { checksumAt: offsetArg(values['checksum-at'], 'checksum-at') });
+  } catch (err) {
+    throw err instanceof RangeError && !(err instanceof RomError) ? new UsageError(`a VGA CRT controller cannot hold ${t.name}: ${err.message}`) : err;
+  }
+  await writeFile(values.out, patch.bytes);
+  if (values.json) {
+    console.log(JSON.stringify({ entry, offset: info.entries.find((e) => e.index === entry)!.offset, mode: t.name, changes: patch.changes, checksum: patch.checksum, notes: patch.notes }));
+    return;
+  }
+  console.log(`entry ${hex2(entry)}h with ${t.name}: ${patch.changes.length} bytes changed, written to ${values.out}`);
+  for (const c of patch.changes) console.log(`  ${hex(c.offset)}  ${hex2(c.old)} → ${hex2(c.new)}  ${c.field}`);
+  for (const n of patch.notes) console.log(`note: ${n}`);
+  console.log('Keep the original image, verify the burned chip against the file, and have a way to recover (a second card or a programmer) before you flash.');
+}
+
 /** Runs one CLI command; returns the process exit code. */
 export async function main(argv: string[]): Promise<number> {
   const [command, ...rest] = argv;
@@ -192,6 +275,8 @@ export async function main(argv: string[]): Promise<number> {
     else if (command === 'timing') timing(rest);
     else if (command === 'registers') registers(rest);
     else if (command === 'frame-data') await frameDataCommand(rest);
+    else if (command === 'rom-info') await romInfo(rest);
+    else if (command === 'rom-patch') await romPatch(rest);
     else throw new UsageError(command ? `unknown command "${command}"` : 'no command given');
     return 0;
   } catch (err) {
@@ -199,7 +284,7 @@ export async function main(argv: string[]): Promise<number> {
       console.error(`error: ${(err as Error).message}\n\n${USAGE}`);
       return 2;
     }
-    if (err instanceof AppError) {
+    if (err instanceof AppError || err instanceof RomError) {
       console.error(`error: ${err.message}`);
       return 1;
     }
