@@ -5,6 +5,9 @@ import { User } from '../features/auth/user.model';
 import { Membership } from '../features/studios/membership.model';
 import { Studio } from '../features/studios/studio.model';
 import type { ArtworksService } from '../features/artworks/artworks.service';
+import { createHash } from 'node:crypto';
+import { syntheticRom } from '../../shared/drive/sample-rom';
+import { VideoRom } from '../features/roms/rom.model';
 import { SavedTiming } from '../features/timings/timing.model';
 import { demoArtworks } from './demo-art';
 
@@ -30,6 +33,29 @@ export const DEMO_MARKER = 'demo-kiln-and-quartz-v1';
  * removes them should the transaction fail).
  */
 export async function seedDemo(sequelize: Sequelize, artworks?: ArtworksService): Promise<boolean> {
+  const seeded = await seedDemoStudio(sequelize, artworks);
+  await seedDemoRom(sequelize);
+  return seeded;
+}
+
+/** The sample ROM image (built from the published VGA tables, no vendor's firmware) is a later addition: its own marker, once. */
+export const DEMO_ROM_MARKER = 'demo-kiln-and-quartz-rom-v1';
+export const DEMO_ROM_ID = 'e0b1a5e5-0000-4000-8000-00000000b001';
+
+async function seedDemoRom(sequelize: Sequelize): Promise<void> {
+  await sequelize.transaction(async (transaction) => {
+    await sequelize.query('SELECT pg_advisory_xact_lock(424243)', { transaction });
+    const [[done]] = (await sequelize.query('SELECT 1 AS seeded FROM seed_markers WHERE name = $1', { bind: [DEMO_ROM_MARKER], transaction })) as [unknown[], unknown];
+    if (done) return;
+    if ((await Studio.findByPk(DEMO_STUDIO_ID, { transaction })) && !(await VideoRom.findByPk(DEMO_ROM_ID, { transaction }))) {
+      const bytes = Buffer.from(syntheticRom());
+      await VideoRom.create({ id: DEMO_ROM_ID, studioId: DEMO_STUDIO_ID, name: 'Sample VGA card (demo)', bytes, size: bytes.length, sha256: createHash('sha256').update(bytes).digest('hex'), patchedFromId: null, patch: null, createdById: DEMO_ACCOUNTS[0].id }, { transaction });
+    }
+    await sequelize.query('INSERT INTO seed_markers (name) VALUES ($1)', { bind: [DEMO_ROM_MARKER], transaction });
+  });
+}
+
+async function seedDemoStudio(sequelize: Sequelize, artworks?: ArtworksService): Promise<boolean> {
   const [[done]] = (await sequelize.query('SELECT 1 AS seeded FROM seed_markers WHERE name = $1', { bind: [DEMO_MARKER] })) as [unknown[], unknown];
   if (done) return false;
   const passwordHash = await hashPassword(DEMO_PASSWORD);

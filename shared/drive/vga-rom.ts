@@ -299,7 +299,7 @@ export function readRom(b: Uint8Array, opts: { tableOffset?: number } = {}): Rom
   const inRange = pointers.filter((p) => p.target + ENTRY_BYTES <= size);
   const usable = inRange.find((p) => tableEntries(b, size, p.target, '').some((e) => e.status === 'ok'));
   if (usable) {
-    return { ...header, table: { offset: usable.target, from: 'pointer', pointerAt: usable.at }, entries: tableEntries(b, size, usable.target, `the video save pointer table (at ${hex(usable.at)}) points to`), notes };
+    return { ...header, table: { offset: usable.target, from: 'pointer', pointerAt: usable.at }, entries: tableEntries(b, size, usable.target, `that the video save pointer table (at ${hex(usable.at)}) points to`), notes };
   }
   const outside = pointers.find((p) => p.target + ENTRY_BYTES > size);
   if (outside) {
