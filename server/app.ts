@@ -78,7 +78,7 @@ export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; art
   const presets = new PresetsService();
   const studios = new StudiosService(outbox, config.appUrl, (_studioId, artworkIds) => artworks.removeFiles(artworkIds), (studioId) => renders.removeFor({ studioId }));
   const timings = new TimingsService();
-  const routers: ApiRouter[] = [health, authRoutes(auth, passport), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renders), timingsRoutes(timings), romsRoutes(new RomsService(timings)), artworksRoutes(artworks, renders), presetsRoutes(presets, config.appUrl, artworks, renders), shareRoutes(presets, artworks), activityRoutes()];
+  const routers: ApiRouter[] = [health, authRoutes(auth, passport), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renders), timingsRoutes(timings), romsRoutes(new RomsService(timings)), artworksRoutes(artworks, renders, presets), presetsRoutes(presets, config.appUrl, artworks, renders), shareRoutes(presets, artworks), activityRoutes()];
   const docs = new ApiRouter('/docs', 'Service');
   const specs = routers.flatMap((r) => r.specs);
   docs.route('get', '/', { policy: publicAccess, summary: 'This OpenAPI document' }, (_req, res) => {

@@ -120,6 +120,7 @@ const ROWS: Row[] = [
   { method: 'get', path: '/api/studios/:studioId/artworks/:artworkId', url: (c) => `${S(c)}/artworks/${c.artworkId}`, expect: [200, 200, 200, 404, 401] },
   { method: 'patch', path: '/api/studios/:studioId/artworks/:artworkId', url: (c) => `${S(c)}/artworks/${c.artworkId}`, body: () => ({ name: 'Renamed' }), expect: [200, 200, 403, 404, 401] },
   { method: 'delete', path: '/api/studios/:studioId/artworks/:artworkId', url: (c) => `${S(c)}/artworks/${c.artworkId}`, expect: [204, 204, 403, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/artworks/:artworkId/links', url: (c) => `${S(c)}/artworks/${c.artworkId}/links`, expect: [200, 200, 403, 404, 401] },
   { method: 'get', path: '/api/studios/:studioId/artworks/:artworkId/original', url: (c) => `${S(c)}/artworks/${c.artworkId}/original`, expect: [200, 200, 200, 404, 401] },
   { method: 'get', path: '/api/studios/:studioId/artworks/:artworkId/thumbnail', url: (c) => `${S(c)}/artworks/${c.artworkId}/thumbnail`, expect: [200, 200, 200, 404, 401] },
   { method: 'get', path: '/api/studios/:studioId/artworks/:artworkId/frames', url: (c) => `${S(c)}/artworks/${c.artworkId}/frames`, expect: [200, 200, 200, 404, 401] },

@@ -6,13 +6,14 @@ import { idParam, studioRole } from '../../core/policy';
 import { parseOrThrow } from '../../core/validate';
 import { uploadOne } from '../../core/upload';
 import { resolveParameters, type RendersService } from '../renders/renders.service';
+import type { PresetsService } from '../presets/presets.service';
 import type { ArtworksService } from './artworks.service';
 
 const png = { 'Content-Type': 'image/png', 'X-Content-Type-Options': 'nosniff' };
 const MIME = { png: 'image/png', gif: 'image/gif', jpeg: 'image/jpeg', webp: 'image/webp' } as const;
 
 /** /api/studios/:studioId/artworks and studio renders. */
-export function artworksRoutes(artworks: ArtworksService, renders: RendersService): ApiRouter {
+export function artworksRoutes(artworks: ArtworksService, renders: RendersService, presets: PresetsService): ApiRouter {
   const api = new ApiRouter('/studios/:studioId', 'Artworks');
   const artworkId = (req: Parameters<RequestHandler>[0]) => idParam(req, 'artworkId', 'The artwork');
 
@@ -37,6 +38,10 @@ export function artworksRoutes(artworks: ArtworksService, renders: RendersServic
     await renders.removeFor({ artworkId: a.id });
     await artworks.remove(a.studioId, req.user!.id, a.id);
     res.status(204).end();
+  });
+  api.route('get', '/artworks/:artworkId/links', { policy: studioRole('editor'), summary: 'The live share links that show this artwork (what a delete would take the picture from)' }, async (req, res) => {
+    const a = await artworks.find(req.membership!.studioId, artworkId(req));
+    res.json({ links: await presets.liveLinksShowing(req.membership!.studioId, a.id) });
   });
   api.route('get', '/artworks/:artworkId/original', { policy: studioRole('viewer'), summary: 'The uploaded file as it was' }, async (req, res) => {
     const a = await artworks.find(req.membership!.studioId, artworkId(req));

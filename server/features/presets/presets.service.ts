@@ -156,6 +156,13 @@ export class PresetsService {
     return { ...this.linkDto(link), url: `${appUrl}/share/${token}` };
   }
 
+  /** The live share links (neither revoked nor expired) that show an artwork of the studio, with their preset's name. */
+  async liveLinksShowing(studioId: string, artworkId: string): Promise<{ id: string; presetId: string; presetName: string; expiresAt: string | null }[]> {
+    const links = await ShareLink.findAll({ where: { artworkId, revokedAt: null, [Op.or]: [{ expiresAt: null }, { expiresAt: { [Op.gt]: new Date() } }] }, order: [['createdAt', 'DESC']] });
+    const presets = new Map((await Preset.findAll({ where: { id: links.map((l) => l.presetId), studioId }, attributes: ['id', 'name'] })).map((p) => [p.id, p.name]));
+    return links.filter((l) => presets.has(l.presetId)).map((l) => ({ id: l.id, presetId: l.presetId, presetName: presets.get(l.presetId)!, expiresAt: l.expiresAt?.toISOString() ?? null }));
+  }
+
   async revokeLink(actor: Actor, id: string, linkId: string): Promise<void> {
     const row = await this.row(actor.studioId, id);
     const link = await ShareLink.findOne({ where: { id: linkId, presetId: row.id } });
@@ -171,7 +178,8 @@ export class PresetsService {
     const preset = await Preset.findByPk(link.presetId);
     if (!preset) throw notFound('The shared look');
     const studio = await Studio.findByPk(preset.studioId);
-    const artwork = link.artworkId ? await Artwork.findByPk(link.artworkId) : null;
+    // The link's artwork, or — when it was deleted since — the studio's newest, so a client never gets a look without a picture.
+    const artwork = (link.artworkId ? await Artwork.findOne({ where: { id: link.artworkId, studioId: preset.studioId } }) : null) ?? (await Artwork.findOne({ where: { studioId: preset.studioId }, order: [['createdAt', 'DESC']] }));
     return {
       artwork,
       view: {

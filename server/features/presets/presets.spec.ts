@@ -118,6 +118,21 @@ test('a share link always shows a picture: without a choice, the studio\'s newes
   expect(refused.body.error.message).toContain('Upload one on the Artworks page first');
 });
 
+test('before an artwork is deleted its live links are listed by preset; after, those links show the studio\'s newest artwork (issue "Workflow", item 9)', async () => {
+  const p = (await owner.post(url(), { name: `Links to a doomed artwork ${Date.now()}`, panelTypeId: 'el-amber-640x480' })).body.preset;
+  const doomed = (await owner.upload(`/api/studios/${studioId}/artworks`, { name: 'Doomed art' }, { name: 'd.png', bytes: pngOf(8, 8, () => [10, 200, 0, 255]) })).body.artwork;
+  const live = (await owner.post(url(`/${p.id}/links`), { artworkId: doomed.id })).body.link;
+  const revoked = (await owner.post(url(`/${p.id}/links`), { artworkId: doomed.id })).body.link;
+  await owner.delete(url(`/${p.id}/links/${revoked.id}`));
+  const listed = (await owner.get(`/api/studios/${studioId}/artworks/${doomed.id}/links`)).body.links;
+  expect(listed).toEqual([{ id: live.id, presetId: p.id, presetName: p.name, expiresAt: null }]);
+  const other = (await owner.upload(`/api/studios/${studioId}/artworks`, { name: 'Still here' }, { name: 's.png', bytes: pngOf(8, 8, () => [200, 10, 0, 255]) })).body.artwork;
+  expect((await owner.delete(`/api/studios/${studioId}/artworks/${doomed.id}`)).status).toBe(204);
+  const shared = (await new TestClient(h.app).get(new URL(live.url).pathname.replace('/share/', '/api/share/'))).body.shared;
+  expect(shared.artwork.name).toBe(other.name);
+  expect(shared.framesUrl).toEqual(expect.any(String));
+});
+
 test('import reports every error with its JSON path and stores nothing; export → import round-trips', async () => {
   const before = await Preset.count();
   const doc = { format: 'emberline.preset', version: 2, name: '', panelTypeId: 'el-amber-640x480', parameters: { ...base, glass: { ...base.glass, glowRadiusMm: 'wide' }, drive: { ...base.drive, sparkle: 1 } } };

@@ -41,6 +41,11 @@ export class ArtworkApi {
     await firstValueFrom(this.http.delete(`/api/studios/${studioId}/artworks/${id}`));
   }
 
+  /** The live share links that show this artwork, by preset name. */
+  async liveLinks(studioId: string, id: string): Promise<{ id: string; presetId: string; presetName: string; expiresAt: string | null }[]> {
+    return (await firstValueFrom(this.http.get<{ links: { id: string; presetId: string; presetName: string; expiresAt: string | null }[] }>(`/api/studios/${studioId}/artworks/${id}/links`))).links;
+  }
+
   async get(studioId: string, id: string): Promise<ArtworkDto> {
     return (await firstValueFrom(this.http.get<{ artwork: ArtworkDto }>(`/api/studios/${studioId}/artworks/${id}`))).artwork;
   }

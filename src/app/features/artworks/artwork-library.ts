@@ -119,9 +119,21 @@ export class ArtworkLibrary {
   }
 
   protected async deleteArtwork(a: ArtworkDto): Promise<void> {
+    let links: { presetName: string }[];
+    try {
+      links = await this.api.liveLinks(this.context.studioId(), a.id);
+    } catch (err) {
+      this.snackBar.open(apiErrorMessage(err), 'Dismiss', { duration: 8000 });
+      return;
+    }
+    const others = (this.artworks.hasValue() ? this.artworks.value() : []).filter((x) => x.id !== a.id);
+    const names = [...new Set(links.map((l) => `“${l.presetName}”`))].join(', ');
+    const linkLine = !links.length
+      ? 'No live share link shows it.'
+      : `${links.length === 1 ? 'One live share link shows it' : `${links.length} live share links show it`} (${names}): ${others.length ? 'they will show the studio’s newest other artwork instead.' : 'they will show no picture until you upload another artwork.'}`;
     const confirmed = await this.confirm.ask({
       title: `Delete “${a.name}”?`,
-      consequences: ['The original file, its thumbnail and every render made from it are deleted.', 'Share links that show it will show no picture.', 'This cannot be undone.'],
+      consequences: ['The original file, its thumbnail and every render made from it are deleted.', linkLine, 'This cannot be undone.'],
       action: 'Delete artwork',
     });
     if (!confirmed) return;

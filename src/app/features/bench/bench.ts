@@ -29,7 +29,7 @@ import { ArtworkApi } from '../artworks/artwork-api';
 import { TimingApi } from '../drive/timing-api';
 import { StudioContext } from '../studio/studio-context';
 import { BenchEngine, type PanelResult } from './bench-engine';
-import { ParamControls, type ParamLock } from './param-controls';
+import { applyParamEdit, ParamControls, type ParamEdit, type ParamLock } from './param-controls';
 import { Confirm } from '../../shared/confirm-dialog';
 import { describeChange, paramDiff } from '../../../../shared/model/param-diff';
 import { RenderApi } from './render-api';
@@ -39,6 +39,8 @@ import { FrameDataExport } from '../drive/frame-data-export';
 /** ID-1 card width in mm (ISO/IEC 7810), the on-screen ruler for real size. */
 const CARD_MM = { width: 85.6, height: 53.98 };
 const CSS_PX_PER_MM = 96 / 25.4;
+/** The calibration slider's range, screen pixels per millimetre. */
+const clampPxPerMm = (v: number) => Math.min(12, Math.max(2, v));
 
 /** The bench: artwork live on a simulated panel, tuned by hand, checked against the server. */
 @Component({
@@ -67,7 +69,10 @@ export class Bench {
   private readonly glCanvas = viewChild<ElementRef<HTMLCanvasElement>>('glCanvas');
   private readonly cpuCanvas = viewChild<ElementRef<HTMLCanvasElement>>('cpuCanvas');
   private readonly bCanvas = viewChild<ElementRef<HTMLCanvasElement>>('bCanvas');
+  private readonly cCanvas = viewChild<ElementRef<HTMLCanvasElement>>('cCanvas');
+  private readonly dCanvas = viewChild<ElementRef<HTMLCanvasElement>>('dCanvas');
   private readonly diffCanvas = viewChild<ElementRef<HTMLCanvasElement>>('diffCanvas');
+  private readonly driftSection = viewChild<ElementRef<HTMLElement>>('driftSection');
   private readonly engine = new BenchEngine();
   private readonly engineB = new BenchEngine();
   private gl: PanelRenderer | null | undefined;
@@ -94,8 +99,17 @@ export class Bench {
   protected readonly timingId = linkedSignal<string, string>({ source: this.panelTypeId, computation: () => '' });
   protected readonly scale = signal(2);
   protected readonly zoom = signal<'fit' | 'pixels' | 'real'>('fit');
-  protected readonly compare = signal<'off' | 'original' | 'preset'>('off');
+  protected readonly compare = signal<'off' | 'original' | 'preset' | 'four'>('off');
+  /** Looks to compare with: the studio's presets of this panel type, then the built-in ones. */
+  protected readonly compareLooks = computed(() => [
+    ...this.ownPresets().map((p) => ({ id: `studio:${p.id}`, name: `r${p.revision} · ${p.name}`, parameters: p.parameters })),
+    ...this.presets().map((p) => ({ id: p.id, name: p.name, parameters: p.parameters })),
+  ]);
   protected readonly comparePresetId = linkedSignal(() => this.presets()[1]?.id ?? this.presets()[0].id);
+  /** The 2 × 2 split's other two looks (bottom left C, bottom right D). */
+  protected readonly comparePresetIdC = linkedSignal(() => this.compareLooks()[2]?.id ?? this.compareLooks()[0].id);
+  protected readonly comparePresetIdD = linkedSignal(() => this.compareLooks()[3]?.id ?? this.compareLooks()[0].id);
+  protected readonly lookName = (id: string) => this.compareLooks().find((l) => l.id === id)?.name ?? 'Another look';
   protected readonly split = signal(50);
   protected readonly frame = linkedSignal({ source: this.selected, computation: () => 0 });
   protected readonly playing = signal(false);
@@ -131,6 +145,8 @@ export class Bench {
     if (t) locks['drive.refreshHz'] = { reason: `Set by the drive timing “${t.name}”. Choose “Panel type's own refresh” to set it here.` };
     return locks;
   });
+  /** Binds an edit from the controls to the current parameters (see ParamEdit). */
+  protected readonly applyEdit = (edit: ParamEdit) => (p: PanelParams) => applyParamEdit(p, edit);
   protected readonly showFrameData = signal(false);
   /** The frame on the bench, as decoded (the frame data packs it through the current look). */
   protected readonly currentImage = computed(() => (this.frames.hasValue() ? this.frames.value()[this.frame()]?.image : undefined));
@@ -171,7 +187,7 @@ export class Bench {
       this.scale();
       untracked(() => this.drift.set({ busy: false }));
     });
-    effect(() => void this.redrawB(this.compare(), this.comparePresetId(), this.frame(), this.scale()));
+    effect(() => void this.redrawB(this.compare(), [this.comparePresetId(), this.comparePresetIdC(), this.comparePresetIdD()], this.frame(), this.scale()));
     effect(() => this.drawOriginal(this.compare(), this.frame()));
   }
 
@@ -292,12 +308,20 @@ export class Bench {
     this.sent.set(engine, frames);
   }
 
-  private async redrawB(mode: string, presetId: string, frame: number, scale: number): Promise<void> {
-    if (mode !== 'preset' || !this.frames.hasValue() || !this.bCanvas()) return;
+  /** Draws the compared looks: B alone, or B, C and D for the 2 × 2 split, one after another on the second engine. */
+  private async redrawB(mode: string, ids: string[], frame: number, scale: number): Promise<void> {
+    if ((mode !== 'preset' && mode !== 'four') || !this.frames.hasValue()) return;
     this.sendFrames(this.engineB, this.frames.value());
-    const preset = BUILT_IN_PRESETS.find((p) => p.id === presetId)!;
-    const result = await this.engineB.render(preset.parameters, frame, scale, true).catch(() => null);
-    if (result?.image) putImage(this.bCanvas()!.nativeElement, result.image.data, result.image.width, result.image.height);
+    const targets = mode === 'preset' ? [this.bCanvas()] : [this.bCanvas(), this.cCanvas(), this.dCanvas()];
+    for (let k = 0; k < targets.length; k++) {
+      const look = this.compareLooks().find((l) => l.id === ids[k]);
+      const canvas = targets[k]?.nativeElement;
+      if (!look || !canvas) continue;
+      const result = await this.engineB.render(look.parameters, frame, scale, true).catch(() => null);
+      // null: a newer view replaced this one; that redraw paints all of them.
+      if (!result) return;
+      if (result.image) putImage(canvas, result.image.data, result.image.width, result.image.height);
+    }
   }
 
   private drawOriginal(mode: string, frame: number): void {
@@ -325,7 +349,7 @@ export class Bench {
     return this.dirty() ? `${name} (edited)` : name;
   });
   /** What the right (B) side shows. */
-  protected readonly labelB = computed(() => (this.compare() === 'original' ? 'Original artwork' : (this.presets().find((p) => p.id === this.comparePresetId())?.name ?? 'Preset B')));
+  protected readonly labelB = computed(() => (this.compare() === 'original' ? 'Original artwork' : this.lookName(this.comparePresetId())));
 
   protected grabSplit(e: PointerEvent): void {
     (e.currentTarget as HTMLElement).setPointerCapture(e.pointerId);
@@ -385,6 +409,28 @@ export class Bench {
     setTimeout(tick, delay());
   }
 
+  /** Where a drag of the card outline started: pointer x and the outline's width then. */
+  protected outlineGrab: { x: number; width: number } | null = null;
+
+  protected grabOutline(e: PointerEvent): void {
+    (e.target as HTMLElement).setPointerCapture(e.pointerId);
+    this.outlineGrab = { x: e.clientX, width: CARD_MM.width * this.pxPerMm() };
+  }
+
+  /** The outline follows the pointer: its width is the card's 85.60 mm at the new scale. */
+  protected dragOutline(e: PointerEvent): void {
+    if (!this.outlineGrab) return;
+    this.pxPerMm.set(clampPxPerMm((this.outlineGrab.width + e.clientX - this.outlineGrab.x) / CARD_MM.width));
+  }
+
+  protected nudgeOutline(e: KeyboardEvent): void {
+    const step = e.shiftKey ? 0.1 : 0.01;
+    const delta = e.key === 'ArrowRight' || e.key === 'ArrowUp' ? step : e.key === 'ArrowLeft' || e.key === 'ArrowDown' ? -step : 0;
+    if (!delta) return;
+    e.preventDefault();
+    this.pxPerMm.set(clampPxPerMm(Math.round((this.pxPerMm() + delta) * 100) / 100));
+  }
+
   protected saveCalibration(): void {
     localStorage.setItem('emberline.pxPerMm', String(this.pxPerMm()));
     this.calibrating.set(false);
@@ -422,6 +468,8 @@ export class Bench {
     // The check compares the frame on screen: it must not move on while the reference renders.
     this.playing.set(false);
     this.drift.set({ busy: true });
+    // The result shows above the preview: bring it into view within the preview pane.
+    setTimeout(() => this.driftSection()?.nativeElement.scrollIntoView({ block: 'nearest' }));
     try {
       const body = { artworkId: artwork.id, parameters: this.params(), scale: this.scale(), frame: this.frame() };
       const render = await this.renders.render(this.context.studioId(), body);

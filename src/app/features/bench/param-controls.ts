@@ -18,6 +18,21 @@ export interface ParamLock {
   reason: string;
 }
 
+/**
+ * One edit, applied by the owner of the parameters to its own current set. An edit never carries
+ * a whole parameter set: a copy taken from this component's input could be a change behind (the
+ * input updates on the next change detection), and writing it back would undo the edit before it.
+ */
+export type ParamEdit = { kind: 'set'; group: Group; key: string; value: unknown } | { kind: 'reset'; group: Group; to: PanelParams[Group] };
+
+/** Applies an edit to a parameter set, returning a new set. */
+export function applyParamEdit(params: PanelParams, edit: ParamEdit): PanelParams {
+  const next = structuredClone(params);
+  if (edit.kind === 'reset') (next as unknown as Record<string, unknown>)[edit.group] = structuredClone(edit.to);
+  else (next[edit.group] as Record<string, unknown>)[edit.key] = edit.value;
+  return next;
+}
+
 /** The parameter table as controls, along the path of the light; each group can be reset. */
 @Component({
   selector: 'em-param-controls',
@@ -32,7 +47,7 @@ export class ParamControls {
   readonly disabled = input(false);
   /** Controls decided elsewhere, by "group.key", on top of the ones this component derives itself. */
   readonly locks = input<Readonly<Record<string, ParamLock>>>({});
-  readonly changed = output<PanelParams>();
+  readonly changed = output<ParamEdit>();
 
   /** Every lock in force: the given ones, and a halo radius that the glass decides. */
   protected readonly allLocks = computed<Record<string, ParamLock>>(() => {
@@ -68,15 +83,11 @@ export class ParamControls {
       n = Math.min(spec.max, Math.max(spec.min, spec.kind === 'int' ? Math.round(n) : n));
       value = n;
     }
-    const next = structuredClone(this.params());
-    (next[spec.group] as Record<string, unknown>)[spec.key] = value;
-    this.changed.emit(next);
+    this.changed.emit({ kind: 'set', group: spec.group, key: spec.key, value });
   }
 
   protected resetGroup(group: Group): void {
-    const next = structuredClone(this.params());
-    (next as unknown as Record<string, unknown>)[group] = structuredClone(this.defaults()[group]);
-    this.changed.emit(next);
+    this.changed.emit({ kind: 'reset', group, to: this.defaults()[group] });
   }
 
   protected isDefault(group: Group): boolean {

@@ -64,7 +64,9 @@ export class PresetDetail {
   protected readonly renaming = signal(false);
   protected readonly typeName = computed(() => (this.preset.hasValue() ? (panelTypeById(this.preset.value().panelTypeId)?.name ?? '') : ''));
   protected readonly mayChange = computed(() => this.context.canEdit() && (!this.preset.hasValue() || !this.preset.value().isReference || this.context.canManage()));
-  protected readonly thumbArtwork = computed(() => (this.artworks.hasValue() ? this.artworks.value()[0]?.id : undefined));
+  /** The artwork the look and the revision compare are shown on: the newest until the user picks one. */
+  protected readonly thumbArtwork = linkedSignal<string | undefined>(() => (this.artworks.hasValue() ? this.artworks.value()[0]?.id : undefined));
+  protected readonly thumbName = computed(() => (this.artworks.hasValue() ? (this.artworks.value().find((a) => a.id === this.thumbArtwork())?.name ?? '') : ''));
   protected readonly editableStudios = computed(() => this.auth.studios().filter((s) => s.role !== 'viewer'));
   protected readonly comparison = computed(() => {
     const list = this.revisions.hasValue() ? this.revisions.value() : [];

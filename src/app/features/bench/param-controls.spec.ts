@@ -1,0 +1,58 @@
+import { Component, signal } from '@angular/core';
+import { TestBed } from '@angular/core/testing';
+import { BUILT_IN_PRESETS } from '../../../../shared/model/panel-types';
+import type { PanelParams } from '../../../../shared/model/parameters';
+import { applyParamEdit, ParamControls, type ParamEdit } from './param-controls';
+
+/** The bench's wiring, reduced to what the race needs: the parameters live here, edits apply to them. */
+@Component({
+  imports: [ParamControls],
+  template: `<em-param-controls [params]="params()" [defaults]="defaults" (changed)="apply($event)" />`,
+})
+class Host {
+  readonly defaults = BUILT_IN_PRESETS[0].parameters;
+  readonly params = signal<PanelParams>(structuredClone(BUILT_IN_PRESETS[0].parameters));
+  apply(edit: ParamEdit): void {
+    this.params.update((p) => applyParamEdit(p, edit));
+  }
+}
+
+describe('ParamControls (issue "Workflow", item 2)', () => {
+  beforeEach(() => TestBed.configureTestingModule({ imports: [Host] }));
+
+  const field = (el: HTMLElement, id: string) => el.querySelector<HTMLInputElement>(`#${id}`)!;
+  const type = (input: HTMLInputElement, value: string) => {
+    input.value = value;
+    input.dispatchEvent(new Event('change'));
+  };
+
+  test('two fields typed before the page redraws both stick: no edit is undone by a stale copy', async () => {
+    const fixture = TestBed.createComponent(Host);
+    await fixture.whenStable();
+    const el: HTMLElement = fixture.nativeElement;
+    // Both changes land before any change detection, as on a busy machine: the second field's
+    // component input still holds the parameters from before the first change.
+    type(field(el, 'glass-glowRadiusMm'), '1.1');
+    type(field(el, 'glass-glowShare'), '0.3');
+    expect(fixture.componentInstance.params().glass.glowRadiusMm).toBe(1.1);
+    expect(fixture.componentInstance.params().glass.glowShare).toBe(0.3);
+    await fixture.whenStable();
+    // The boxes show what is in force, and so would the render and a save.
+    expect(field(el, 'glass-glowRadiusMm').value).toBe('1.1');
+    expect(field(el, 'glass-glowShare').value).toBe('0.3');
+  });
+
+  test('a value outside the range is clamped to it, and a reset puts back the group only', async () => {
+    const fixture = TestBed.createComponent(Host);
+    await fixture.whenStable();
+    const el: HTMLElement = fixture.nativeElement;
+    type(field(el, 'glass-glowShare'), '5');
+    type(field(el, 'drive-grayLevels'), '4');
+    expect(fixture.componentInstance.params().glass.glowShare).toBe(0.9);
+    await fixture.whenStable();
+    const reset = [...el.querySelectorAll('button')].find((b) => b.textContent?.includes('Reset Glass'))!;
+    reset.click();
+    expect(fixture.componentInstance.params().glass).toEqual(BUILT_IN_PRESETS[0].parameters.glass);
+    expect(fixture.componentInstance.params().drive.grayLevels).toBe(4);
+  });
+});
