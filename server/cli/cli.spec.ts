@@ -2,6 +2,7 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { PNG } from 'pngjs';
+import sharp from 'sharp';
 import { main } from './main';
 import { pngOf } from '../testing/images';
 import { syntheticRom } from '../../shared/drive/sample-rom';
@@ -199,5 +200,36 @@ describe('cli rom-info and rom-patch', () => {
     const r = await cli(...argv.map((a) => (a.endsWith('.rom') ? path.join(dir, a) : a)));
     expect(r.code).toBe(code);
     expect(r.err).toContain(message);
+  });
+});
+
+describe('cli acuity and flash', () => {
+  test('acuity --json: 0.3 mm at 600 mm is 1.7189′ a cell, resolvable, blending beyond 1031.3 mm [calc from ISO 8596 1′]', async () => {
+    const r = await cli('acuity', '--pitch-mm', '0.3', '--distance-mm', '600', '--json');
+    expect(r.code).toBe(0);
+    expect(JSON.parse(r.out)).toEqual({ arcminPerCell: 1.7189, cellsPerDegree: 34.9066, resolvable: true, limitDistanceMm: 1031.324 });
+    expect((await cli('acuity', '--pitch-mm', '0', '--distance-mm', '600')).err).toContain('--pitch-mm must be a number from 0.001');
+  });
+
+  test('flash --json on a GIF: a full-panel white flash four times a second fails, twice a second passes [std WCAG 2.2 SC 2.3.1]', async () => {
+    const dir = mkdtempSync(path.join(os.tmpdir(), 'emberline-cli-flash-'));
+    const gif = async (delayMs: number) => {
+      const w = 64;
+      const h = 48;
+      const raw = Buffer.alloc(w * h * 4 * 4);
+      for (let k = 0; k < 4; k++) raw.fill(k % 2 === 0 ? 255 : 0, k * w * h * 4, (k + 1) * w * h * 4);
+      const file = path.join(dir, `flash-${delayMs}.gif`);
+      writeFileSync(file, await sharp(raw, { raw: { width: w, height: h * 4, channels: 4, pageHeight: h } }).gif({ delay: [delayMs, delayMs, delayMs, delayMs], loop: 0 }).toBuffer());
+      return file;
+    };
+    // Amber EL: no persistence to speak of, so the panel follows the art. GIF delays are whole
+    // hundredths: 120 ms frames are 4.2 flashes a second (9 transitions in a second: 4 flashes).
+    const fast = JSON.parse((await cli('flash', await gif(120), '--panel', 'el-amber-640x480', '--distance-mm', '600', '--json')).out);
+    expect(fast).toMatchObject({ maxFlashesPerSecond: 4, generalFlashFail: true, pass: false, frames: 4 });
+    const slow = JSON.parse((await cli('flash', await gif(250), '--panel', 'el-amber-640x480', '--json')).out);
+    expect(slow).toMatchObject({ maxFlashesPerSecond: 2, generalFlashFail: false, redFlashFail: false, pass: true });
+    const text = await cli('flash', await gif(250), '--panel', 'el-amber-640x480');
+    expect(text.out).toContain('it does not certify');
+    expect((await cli('flash', await gif(250), '--panel', 'lcd-9000')).err).toContain('is not a built-in panel type');
   });
 });

@@ -10,6 +10,10 @@ import { encodeFrameData, FRAME_DATA_FORMAT_INFO, FRAME_DATA_FORMATS } from '../
 import { hex2, vgaRegisters } from '../../shared/drive/registers';
 import { resolveTiming, STANDARDS, type Standard } from '../../shared/drive/resolve';
 import { figures } from '../../shared/drive/timing';
+import { acuity } from '../../shared/analysis/acuity';
+import { flashSafety } from '../../shared/analysis/flash-safety';
+import { panelEmissions } from '../../shared/pipeline/render';
+import { outputUniforms } from '../../shared/pipeline/output/uniforms';
 import { describeEntry, patchRom, readRom, RomError, type RomInfo } from '../../shared/drive/vga-rom';
 import { AppError } from '../core/app-error';
 import { issuesOf } from '../core/validate';
@@ -33,7 +37,9 @@ commands:
   rom-info <rom.bin> [--table-offset N] [--json]
   rom-patch <rom.bin> --entry N --mode 640x480@60 --standard dmt|cvt|cvt-rb|cvt-rb2
             [--table-offset N] [--checksum-at N] --out <patched.bin> [--json]
-  (N: decimal or 0x… hex)`;
+  (N: decimal or 0x… hex)
+  acuity --pitch-mm 0.3 --distance-mm 600 [--json]
+  flash <animation.gif|apng|png|webp> --panel <panel type id> [--preset <id | file.json>] [--distance-mm N] [--json]`;
 
 function number(value: string | undefined, name: string, min: number, max: number, integer = false): number {
   const n = Number(value);
@@ -265,6 +271,46 @@ async function romPatch(args: string[]): Promise<void> {
   console.log('Keep the original image, verify the burned chip against the file, and have a way to recover (a second card or a programmer) before you flash.');
 }
 
+/** Minutes of arc a cell subtends at a distance, and whether 20/20 vision resolves the cells. */
+function acuityCommand(args: string[]): void {
+  const { values } = parseArgs({ args, options: { 'pitch-mm': { type: 'string' }, 'distance-mm': { type: 'string' }, json: { type: 'boolean', default: false } } });
+  const a = acuity(number(values['pitch-mm'], 'pitch-mm', 0.001, 1000), number(values['distance-mm'], 'distance-mm', 1, 1e6));
+  const r = (v: number) => Math.round(v * 1e4) / 1e4;
+  const doc = { arcminPerCell: r(a.arcminPerCell), cellsPerDegree: r(a.cellsPerDegree), resolvable: a.resolvable, limitDistanceMm: r(a.limitDistanceMm) };
+  if (values.json) console.log(JSON.stringify(doc));
+  else console.log(`${doc.arcminPerCell}′ a cell (${doc.cellsPerDegree} cells a degree): ${a.resolvable ? 'the cells are resolvable' : 'the cells blend'} at 20/20; they blend beyond ${Math.round(a.limitDistanceMm)} mm`);
+}
+
+/** The flash check of an animation on a panel type, on the light the panel emits. */
+async function flashCommand(args: string[]): Promise<void> {
+  const { values, positionals } = parseArgs({ args, allowPositionals: true, options: { panel: { type: 'string' }, preset: { type: 'string' }, 'distance-mm': { type: 'string', default: '600' }, json: { type: 'boolean', default: false } } });
+  if (positionals.length !== 1) throw new UsageError('flash takes one animation');
+  if (!values.panel) throw new UsageError('flash needs --panel <panel type id>; `presets` lists them');
+  const type = PANEL_TYPES.find((t) => t.id === values.panel);
+  if (!type) throw new UsageError(`--panel "${values.panel}" is not a built-in panel type; \`presets\` lists them`);
+  const parameters = values.preset ? await loadPreset(values.preset) : type.defaults;
+  const distanceMm = number(values['distance-mm'], 'distance-mm', 50, 100_000);
+  const input = await readFile(positionals[0]).catch(() => {
+    throw new UsageError(`cannot read ${positionals[0]}`);
+  });
+  const { frames } = await decodeImage(input);
+  const emissions = panelEmissions(frames, parameters);
+  const v = parameters.viewing;
+  const report = flashSafety(
+    emissions.map((emission, k) => ({ emission, delayMs: frames[k].delayMs })),
+    { cols: parameters.cell.cols, rows: parameters.cell.rows, pitchXMm: parameters.cell.pitchXMm, pitchYMm: parameters.cell.pitchYMm, colour: outputUniforms(parameters, 1).colour, peakCdM2: v.peakCdM2, offCdM2: v.offCdM2, ambientCdM2: v.ambientCdM2, whiteCdM2: v.whiteCdM2 },
+    distanceMm,
+  );
+  const doc = { maxFlashesPerSecond: report.maxFlashesPerSecond, generalFlashFail: report.generalFlashFail, redFlashFail: report.redFlashFail, bt1702Fail: report.bt1702Fail, pass: report.pass, flashingSr: Math.round(report.flashingSr * 1e5) / 1e5, thresholdSr: report.thresholdSr, frames: frames.length };
+  if (values.json) {
+    console.log(JSON.stringify(doc));
+    return;
+  }
+  console.log(`${frames.length} frames on ${type.name} at ${distanceMm} mm: at most ${doc.maxFlashesPerSecond} flashes a second in one place`);
+  console.log(`  general flash (WCAG 2.2, 2.3.1): ${report.generalFlashFail ? 'FAILS' : 'passes'}; red flash: ${report.redFlashFail ? 'FAILS' : 'passes'}; ITU-R BT.1702: ${report.bt1702Fail ? 'FAILS' : 'passes'}`);
+  console.log('  This check informs; it does not certify. Content for broadcast or for people with photosensitive epilepsy needs a qualified assessment.');
+}
+
 /** Runs one CLI command; returns the process exit code. */
 export async function main(argv: string[]): Promise<number> {
   const [command, ...rest] = argv;
@@ -277,6 +323,8 @@ export async function main(argv: string[]): Promise<number> {
     else if (command === 'frame-data') await frameDataCommand(rest);
     else if (command === 'rom-info') await romInfo(rest);
     else if (command === 'rom-patch') await romPatch(rest);
+    else if (command === 'acuity') acuityCommand(rest);
+    else if (command === 'flash') await flashCommand(rest);
     else throw new UsageError(command ? `unknown command "${command}"` : 'no command given');
     return 0;
   } catch (err) {

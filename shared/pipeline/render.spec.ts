@@ -2,7 +2,7 @@ import fc from 'fast-check';
 import { BUILT_IN_PRESETS, PANEL_TYPES } from '../model/panel-types';
 import { mergeParams, type PanelParams } from '../model/parameters';
 import { outputUniforms } from './output/uniforms';
-import { panelEmission, panelGlow, renderCpu } from './render';
+import { panelEmission, panelEmissions, panelGlow, renderCpu } from './render';
 
 const small = (p: PanelParams, patch: Partial<PanelParams['cell']> = {}) => mergeParams(p, { cell: { cols: 24, rows: 16, ...patch } });
 const imageArb = fc.record({ width: fc.integer({ min: 1, max: 30 }), height: fc.integer({ min: 1, max: 20 }) }).chain(({ width, height }) =>
@@ -76,6 +76,13 @@ describe('render (property tests with fast-check)', () => {
     const tau = p.emission.decayMs;
     expect(second[0]).toBeCloseTo(Math.exp(-(1000 / 60) / tau), 5);
     expect(() => panelEmission(frames, p, 2)).toThrow(/frame must be from 0 to 1, got 2/);
+    // The one-pass sequence for analyses equals the frames one by one, with and without persistence.
+    for (const q of [p, mergeParams(p, { emission: { decayMs: 0 } })]) {
+      const all = panelEmissions([...frames, frames[0]], q);
+      expect(all).toHaveLength(3);
+      all.forEach((e, k) => expect(Array.from(e)).toEqual(Array.from(panelEmission([...frames, frames[0]], q, k))));
+      expect(all[0]).not.toBe(all[2]);
+    }
   });
 });
 

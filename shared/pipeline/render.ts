@@ -39,23 +39,39 @@ export function driveImage(frame: Frame['image'], p: PanelParams): Float32Array 
  */
 export function panelEmission(frames: readonly Frame[], p: PanelParams, index = 0): Float32Array {
   if (index < 0 || index >= frames.length) throw new RangeError(`frame must be from 0 to ${frames.length - 1}, got ${index}`);
-  const periodMs = 1000 / p.drive.refreshHz;
-  const decay = decayFactor(periodMs, p.emission.decayMs);
-  const n = p.cell.cols * p.cell.rows;
-  let emission = driveImage(frames[0].image, p);
-  if (frames.length > 1 && decay > 0) {
-    const state = new Float32Array(n);
-    const shown = new Float32Array(n);
-    for (let k = 0; k <= index; k++) {
-      const drive = k === 0 ? emission : driveImage(frames[k].image, p);
-      persist(state, drive, refreshesOf(frames[k].delayMs, p.drive.refreshHz), decay, shown);
-    }
-    emission = shown;
-  } else if (index > 0) {
-    emission = driveImage(frames[index].image, p);
+  // Without persistence a frame depends on nothing before it.
+  if (!persists(frames, p)) return withField(driveImage(frames[index].image, p), p);
+  let last: Float32Array | undefined;
+  for (const emission of emissionsThrough(frames, p, index)) last = emission;
+  return last!;
+}
+
+const decayOf = (p: PanelParams) => decayFactor(1000 / p.drive.refreshHz, p.emission.decayMs);
+const persists = (frames: readonly Frame[], p: PanelParams) => frames.length > 1 && decayOf(p) > 0;
+/** On a CRT showing one field, the other field's afterglow. */
+function withField(e: Float32Array, p: PanelParams): Float32Array {
+  if (p.cell.mode === 'crt' && p.cell.field !== 'both') interlaceField(e, p.cell.cols, p.cell.rows, p.cell.field, decayOf(p));
+  return e;
+}
+
+/** panelEmission of every frame, in one pass over the animation (for analyses of the whole sequence). */
+export function panelEmissions(frames: readonly Frame[], p: PanelParams): Float32Array[] {
+  return [...emissionsThrough(frames, p, frames.length - 1)];
+}
+
+/** The emission of frames 0 … last in order, each its own array. */
+function* emissionsThrough(frames: readonly Frame[], p: PanelParams, last: number): Generator<Float32Array> {
+  if (!persists(frames, p)) {
+    for (let k = 0; k <= last; k++) yield withField(driveImage(frames[k].image, p), p);
+    return;
   }
-  if (p.cell.mode === 'crt' && p.cell.field !== 'both') interlaceField(emission, p.cell.cols, p.cell.rows, p.cell.field, decay);
-  return emission;
+  const n = p.cell.cols * p.cell.rows;
+  const state = new Float32Array(n);
+  const shown = new Float32Array(n);
+  for (let k = 0; k <= last; k++) {
+    persist(state, driveImage(frames[k].image, p), refreshesOf(frames[k].delayMs, p.drive.refreshHz), decayOf(p), shown);
+    yield withField(Float32Array.from(shown), p);
+  }
 }
 
 /** The glow field for an emission image (panel or oversampled resolution). */

@@ -3,6 +3,8 @@ import type { Frame } from '../../../../shared/pipeline/types';
 import type { WorkerRequest, WorkerResult } from './bench-messages';
 
 export type PanelResult = Extract<WorkerResult, { type: 'result' }>;
+type Job = { req: DistributiveOmit<Exclude<WorkerRequest, { type: 'frames' }>, 'id'>; resolve: (r: WorkerResult | null) => void; reject: (e: Error) => void };
+type DistributiveOmit<T, K extends keyof T> = T extends unknown ? Omit<T, K> : never;
 
 /**
  * Talks to the bench worker: one render in flight at a time; while it runs only the newest
@@ -12,8 +14,8 @@ export class BenchEngine {
   private readonly worker = new Worker(new URL('./bench.worker', import.meta.url), { type: 'module' });
   private nextId = 1;
   private busy = false;
-  private pending?: { req: Omit<Extract<WorkerRequest, { type: 'render' }>, 'id' | 'type'>; resolve: (r: PanelResult | null) => void; reject: (e: Error) => void };
-  private current?: { id: number; resolve: (r: PanelResult | null) => void; reject: (e: Error) => void };
+  private pending?: Job;
+  private current?: { id: number; resolve: (r: WorkerResult | null) => void; reject: (e: Error) => void };
 
   constructor() {
     this.worker.addEventListener('message', ({ data }: MessageEvent<WorkerResult>) => {
@@ -35,9 +37,18 @@ export class BenchEngine {
 
   /** Resolves with the result, or null when a newer request replaced this one before it ran. */
   render(params: PanelParams, frame: number, scale: number, compose: boolean): Promise<PanelResult | null> {
+    return this.queue({ type: 'render', params, frame, scale, compose }) as Promise<PanelResult | null>;
+  }
+
+  /** The flash check of the whole animation through a look (same queue: a newer request replaces a waiting one). */
+  async flash(params: PanelParams, distanceMm: number): Promise<Extract<WorkerResult, { type: 'flash' }> | null> {
+    return (await this.queue({ type: 'flash', params, distanceMm })) as Extract<WorkerResult, { type: 'flash' }> | null;
+  }
+
+  private queue(req: Job['req']): Promise<WorkerResult | null> {
     return new Promise((resolve, reject) => {
       this.pending?.resolve(null);
-      this.pending = { req: { params, frame, scale, compose }, resolve, reject };
+      this.pending = { req, resolve, reject };
       this.startPending();
     });
   }
@@ -53,7 +64,7 @@ export class BenchEngine {
     const id = this.nextId++;
     this.busy = true;
     this.current = { id, resolve, reject };
-    this.post({ type: 'render', id, ...req });
+    this.post({ ...req, id } as WorkerRequest);
   }
 
   private post(msg: WorkerRequest, transfer: Transferable[] = []): void {

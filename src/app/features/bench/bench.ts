@@ -14,9 +14,9 @@ import { MatTooltipModule } from '@angular/material/tooltip';
 import { RouterLink } from '@angular/router';
 import pixelmatch from 'pixelmatch';
 import { pixelDiff } from '../../../../shared/analysis/pixel-diff';
-import { flashReport } from '../../../../shared/analysis/flash';
+import { acuity } from '../../../../shared/analysis/acuity';
+import type { FlashSafety } from '../../../../shared/analysis/flash-safety';
 import { withPngText } from '../../../../shared/api/png-text';
-import { REC709, SRGB_TO_LINEAR } from '../../../../shared/color/srgb';
 import { BUILT_IN_PRESETS, PANEL_TYPES, panelTypeById } from '../../../../shared/model/panel-types';
 import type { PanelParams } from '../../../../shared/model/parameters';
 import { outputUniforms } from '../../../../shared/pipeline/output/uniforms';
@@ -75,6 +75,7 @@ export class Bench {
   private readonly driftSection = viewChild<ElementRef<HTMLElement>>('driftSection');
   private readonly engine = new BenchEngine();
   private readonly engineB = new BenchEngine();
+  private readonly engineFlash = new BenchEngine();
   private gl: PanelRenderer | null | undefined;
 
   protected readonly panelTypes = PANEL_TYPES;
@@ -136,7 +137,16 @@ export class Bench {
     }
     return { width: '100%', height: 'auto' };
   });
-  protected readonly flash = computed(() => (this.frames.hasValue() && this.frames.value().length > 1 ? flashReport(this.frames.value().map(lumaOf), this.frames.value().map((f) => f.delayMs)) : null));
+  /** How far the viewer is from the panel (kept in this browser): flash areas and acuity depend on it. */
+  protected readonly distanceMm = signal(Number(localStorage.getItem('emberline.distanceMm')) || 600);
+  protected readonly sight = computed(() => {
+    const c = this.params().cell;
+    return acuity(Math.max(c.pitchXMm, c.pitchYMm), this.distanceMm(), { widthMm: c.cols * c.pitchXMm, heightMm: c.rows * c.pitchYMm });
+  });
+  /** The flash check of the animation on the light this look makes the panel emit (computed in a worker). */
+  protected readonly flashCheck = signal<{ busy: boolean; report?: FlashSafety; error?: string }>({ busy: false });
+  protected readonly flash = computed(() => this.flashCheck().report ?? null);
+  protected readonly flashFails = computed(() => this.flash()?.pass === false);
   protected readonly linkedTiming = computed(() => (this.timings.hasValue() ? this.timings.value().find((t) => t.id === this.timingId()) : undefined));
   /** While a saved timing drives the refresh rate, the Refresh control shows it read-only. */
   protected readonly locks = computed(() => {
@@ -162,6 +172,8 @@ export class Bench {
     destroy.onDestroy(() => {
       this.engine.dispose();
       this.engineB.dispose();
+      this.engineFlash.dispose();
+      clearTimeout(this.flashTimer);
       this.playing.set(false);
     });
     // A linked saved timing drives the panel's refresh rate (persistence and flicker).
@@ -189,6 +201,16 @@ export class Bench {
     });
     effect(() => void this.redrawB(this.compare(), [this.comparePresetId(), this.comparePresetIdC(), this.comparePresetIdD()], this.frame(), this.scale()));
     effect(() => this.drawOriginal(this.compare(), this.frame()));
+    // The flash check follows the look, the artwork and the distance, a moment after the last change.
+    effect(() => {
+      const frames = this.frames.hasValue() ? this.frames.value() : [];
+      const params = this.params();
+      const distance = this.distanceMm();
+      clearTimeout(this.flashTimer);
+      if (frames.length < 2) return untracked(() => this.flashCheck.set({ busy: false }));
+      untracked(() => this.flashCheck.update((f) => ({ ...f, busy: true })));
+      this.flashTimer = setTimeout(() => void this.checkFlash(frames, params, distance), 300);
+    });
   }
 
   /** Unsaved tuning is never dropped without a word: switching panel type or preset asks first. */
@@ -394,7 +416,7 @@ export class Bench {
 
   protected togglePlay(): void {
     if (this.playing()) return this.playing.set(false);
-    if (this.flash()?.exceeds && !this.flashAccepted()) return;
+    if (this.flashFails() && !this.flashAccepted()) return;
     const count = this.frames.hasValue() ? this.frames.value().length : 1;
     // Played to the end without looping: start again from the first frame.
     if (!this.loop() && this.frame() === count - 1) this.frame.set(0);
@@ -429,6 +451,25 @@ export class Bench {
     if (!delta) return;
     e.preventDefault();
     this.pxPerMm.set(clampPxPerMm(Math.round((this.pxPerMm() + delta) * 100) / 100));
+  }
+
+  private flashTimer: ReturnType<typeof setTimeout> | undefined;
+
+  private async checkFlash(frames: Frame[], params: PanelParams, distanceMm: number): Promise<void> {
+    this.sendFrames(this.engineFlash, frames);
+    try {
+      const result = await this.engineFlash.flash(params, distanceMm);
+      if (result) this.flashCheck.set({ busy: false, report: result.report });
+    } catch (err) {
+      this.flashCheck.set({ busy: false, error: (err as Error).message });
+    }
+  }
+
+  protected setDistance(value: unknown): void {
+    const n = Math.round(Number(value));
+    if (!Number.isFinite(n) || n < 50 || n > 100_000) return;
+    this.distanceMm.set(n);
+    localStorage.setItem('emberline.distanceMm', String(n));
   }
 
   protected saveCalibration(): void {
@@ -526,12 +567,4 @@ async function decodePng(blob: Blob): Promise<Uint8Array> {
   return new Uint8Array(ctx.getImageData(0, 0, bitmap.width, bitmap.height).data.buffer);
 }
 
-/** Relative luminance per pixel of a frame (Rec. 709 on linear light), for the flash check. */
-function lumaOf(f: Frame): Float32Array {
-  const { data, width, height } = f.image;
-  const out = new Float32Array(width * height);
-  const [wr, wg, wb] = REC709;
-  for (let i = 0; i < out.length; i++) out[i] = wr * SRGB_TO_LINEAR[data[i * 4]] + wg * SRGB_TO_LINEAR[data[i * 4 + 1]] + wb * SRGB_TO_LINEAR[data[i * 4 + 2]];
-  return out;
-}
 

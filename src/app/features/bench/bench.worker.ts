@@ -2,7 +2,8 @@
 import type { PanelParams } from '../../../../shared/model/parameters';
 import { compose } from '../../../../shared/pipeline/output/compose';
 import { outputUniforms } from '../../../../shared/pipeline/output/uniforms';
-import { panelEmission, panelGlow } from '../../../../shared/pipeline/render';
+import { flashSafety } from '../../../../shared/analysis/flash-safety';
+import { panelEmission, panelEmissions, panelGlow } from '../../../../shared/pipeline/render';
 import type { Frame } from '../../../../shared/pipeline/types';
 import type { WorkerRequest, WorkerResult } from './bench-messages';
 
@@ -15,6 +16,14 @@ addEventListener('message', ({ data }: MessageEvent<WorkerRequest>) => {
     return;
   }
   const started = performance.now();
+  if (data.type === 'flash') {
+    try {
+      postMessage({ type: 'flash', id: data.id, report: flashOf(data.params, data.distanceMm), ms: performance.now() - started } satisfies WorkerResult);
+    } catch (err) {
+      postMessage({ type: 'error', id: data.id, message: (err as Error).message } satisfies WorkerResult);
+    }
+    return;
+  }
   try {
     const p: PanelParams = data.params;
     const emission = panelEmission(frames, p, data.frame);
@@ -28,3 +37,14 @@ addEventListener('message', ({ data }: MessageEvent<WorkerRequest>) => {
     postMessage({ type: 'error', id: data.id, message: (err as Error).message } satisfies WorkerResult);
   }
 });
+
+/** The flash check of the whole animation on the light this look makes the panel emit. */
+function flashOf(p: PanelParams, distanceMm: number) {
+  const v = p.viewing;
+  const emissions = panelEmissions(frames, p);
+  return flashSafety(
+    emissions.map((emission, k) => ({ emission, delayMs: frames[k].delayMs })),
+    { cols: p.cell.cols, rows: p.cell.rows, pitchXMm: p.cell.pitchXMm, pitchYMm: p.cell.pitchYMm, colour: outputUniforms(p, 1).colour, peakCdM2: v.peakCdM2, offCdM2: v.offCdM2, ambientCdM2: v.ambientCdM2, whiteCdM2: v.whiteCdM2 },
+    distanceMm,
+  );
+}
