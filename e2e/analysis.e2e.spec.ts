@@ -37,3 +37,34 @@ test('the bench checks flashes on the emitted light at the viewing distance, gat
   await distance.press('Tab');
   await expect(page.getByTestId('acuity')).toContainText('1.72′ a cell · cells visible at 20/20 (they blend beyond 1.03 m)');
 });
+
+test('the analysis panel: legibility, acuity, light, burn-in, a chart of an animation, a JSON download, and a test pattern for the panel', async ({ page, guard }, testInfo) => {
+  void guard;
+  await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
+  await expect(page).toHaveURL(/\/bench/);
+  await waitForDraw(page, 0);
+  await page.getByRole('button', { name: 'Analysis' }).click();
+  const panel = page.locator('#bench-analysis');
+  // The demo artwork has one-cell detail (pixel text); the default look keeps most of it.
+  await expect(panel.getByTestId('legibility-score')).toContainText('% of one-cell contrast kept', { timeout: 30_000 });
+  await expect(panel).toContainText('1.72′ a cell');
+  await expect(panel.getByRole('spinbutton', { name: 'Hours shown' })).toHaveValue('1000');
+  await expect(panel.getByRole('img', { name: /where one-cell detail is lost/ })).toBeVisible();
+  const [download] = await Promise.all([page.waitForEvent('download'), panel.getByRole('button', { name: 'JSON' }).click()]);
+  const doc = JSON.parse(Buffer.concat(await (await download.createReadStream()).toArray()).toString('utf8'));
+  expect(doc).toMatchObject({ format: 'emberline.analysis', version: 1, distanceMm: 600, acuity: { resolvable: true } });
+  expect(doc.legibility.score).toBeGreaterThan(0);
+  expect(doc.light[0].meanCdM2).toBeGreaterThan(0);
+  // The test pattern opens on the bench at the panel's own size.
+  await panel.getByRole('button', { name: 'Add a test pattern' }).click();
+  await expect(page.getByRole('combobox', { name: 'Artwork' })).toContainText('Test pattern 640×480', { timeout: 30_000 });
+  // An animation gets the per-frame chart.
+  const name = `Pulse ${Date.now().toString(36)}`;
+  await uploadArtwork(page, studioIdOf(page.url()), name, await flashingGif(250));
+  await page.reload();
+  await choose(page, 'Artwork', name);
+  await page.getByRole('button', { name: 'Analysis' }).click();
+  await expect(page.getByRole('img', { name: /Mean luminance per frame from/ })).toBeVisible({ timeout: 30_000 });
+  await page.locator('#bench-analysis').scrollIntoViewIfNeeded();
+  await page.screenshot({ path: testInfo.outputPath('analysis.png') });
+});

@@ -6,6 +6,8 @@ import sharp from 'sharp';
 import { main } from './main';
 import { pngOf } from '../testing/images';
 import { syntheticRom } from '../../shared/drive/sample-rom';
+import { builtInPresetById } from '../../shared/model/panel-types';
+import { mergeParams } from '../../shared/model/parameters';
 
 /** Runs the CLI in-process and captures what it prints. */
 async function cli(...argv: string[]): Promise<{ code: number; out: string; err: string }> {
@@ -231,5 +233,23 @@ describe('cli acuity and flash', () => {
     const text = await cli('flash', await gif(250), '--panel', 'el-amber-640x480');
     expect(text.out).toContain('it does not certify');
     expect((await cli('flash', await gif(250), '--panel', 'lcd-9000')).err).toContain('is not a built-in panel type');
+  });
+});
+
+describe('cli legibility', () => {
+  test('--json: one-cell line pairs keep less contrast through a wider glow [calc]', async () => {
+    const dir = mkdtempSync(path.join(os.tmpdir(), 'emberline-cli-leg-'));
+    const file = path.join(dir, 'pairs.png');
+    writeFileSync(file, pngOf(640, 480, (x) => (x % 2 === 0 ? [255, 255, 255, 255] : [0, 0, 0, 255])));
+    const preset = (glowRadiusMm: number) => {
+      const p = path.join(dir, `glow-${glowRadiusMm}.json`);
+      writeFileSync(p, JSON.stringify(mergeParams(builtInPresetById('el-amber-640x480.line-art')!.parameters, { source: { fit: 'native' }, glass: { glowRadiusMm, glowShare: 0.9, haloShare: 0 } })));
+      return p;
+    };
+    const sharp0 = JSON.parse((await cli('legibility', file, '--preset', preset(0), '--json')).out);
+    const wide = JSON.parse((await cli('legibility', file, '--preset', preset(0.2), '--json')).out);
+    expect(sharp0.edges).toBe(639 * 480);
+    expect(sharp0.score).toBeGreaterThan(0.9);
+    expect(wide.score).toBeLessThan(sharp0.score);
   });
 });

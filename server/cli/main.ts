@@ -12,6 +12,7 @@ import { resolveTiming, STANDARDS, type Standard } from '../../shared/drive/reso
 import { figures } from '../../shared/drive/timing';
 import { acuity } from '../../shared/analysis/acuity';
 import { flashSafety } from '../../shared/analysis/flash-safety';
+import { legibility, LOST_CONTRAST } from '../../shared/analysis/panel-report';
 import { panelEmissions } from '../../shared/pipeline/render';
 import { outputUniforms } from '../../shared/pipeline/output/uniforms';
 import { describeEntry, patchRom, readRom, RomError, type RomInfo } from '../../shared/drive/vga-rom';
@@ -39,7 +40,8 @@ commands:
             [--table-offset N] [--checksum-at N] --out <patched.bin> [--json]
   (N: decimal or 0x… hex)
   acuity --pitch-mm 0.3 --distance-mm 600 [--json]
-  flash <animation.gif|apng|png|webp> --panel <panel type id> [--preset <id | file.json>] [--distance-mm N] [--json]`;
+  flash <animation.gif|apng|png|webp> --panel <panel type id> [--preset <id | file.json>] [--distance-mm N] [--json]
+  legibility <image> --preset <built-in id | file.json> [--frame K] [--json]`;
 
 function number(value: string | undefined, name: string, min: number, max: number, integer = false): number {
   const n = Number(value);
@@ -311,6 +313,23 @@ async function flashCommand(args: string[]): Promise<void> {
   console.log('  This check informs; it does not certify. Content for broadcast or for people with photosensitive epilepsy needs a qualified assessment.');
 }
 
+/** How much one-cell contrast an image keeps through a look, on the simulated output. */
+async function legibilityCommand(args: string[]): Promise<void> {
+  const { values, positionals } = parseArgs({ args, allowPositionals: true, options: { preset: { type: 'string' }, frame: { type: 'string', default: '0' }, json: { type: 'boolean', default: false } } });
+  if (positionals.length !== 1) throw new UsageError('legibility takes one image');
+  if (!values.preset) throw new UsageError('legibility needs --preset');
+  const parameters = await loadPreset(values.preset);
+  const input = await readFile(positionals[0]).catch(() => {
+    throw new UsageError(`cannot read ${positionals[0]}`);
+  });
+  const { frames } = await decodeImage(input);
+  const k = number(values.frame, 'frame', 0, frames.length - 1, true);
+  const l = legibility(panelEmissions(frames, parameters)[k], parameters);
+  const doc = { score: Math.round(l.score * 1e4) / 1e4, lostShare: Math.round(l.lostShare * 1e4) / 1e4, edges: l.edges };
+  if (values.json) console.log(JSON.stringify(doc));
+  else console.log(l.edges ? `${Math.round(l.score * 100)} % of one-cell contrast kept; ${(l.lostShare * 100).toFixed(1)} % of ${l.edges} detail edges below ${LOST_CONTRAST} Michelson contrast` : 'no one-cell detail in this image');
+}
+
 /** Runs one CLI command; returns the process exit code. */
 export async function main(argv: string[]): Promise<number> {
   const [command, ...rest] = argv;
@@ -325,6 +344,7 @@ export async function main(argv: string[]): Promise<number> {
     else if (command === 'rom-patch') await romPatch(rest);
     else if (command === 'acuity') acuityCommand(rest);
     else if (command === 'flash') await flashCommand(rest);
+    else if (command === 'legibility') await legibilityCommand(rest);
     else throw new UsageError(command ? `unknown command "${command}"` : 'no command given');
     return 0;
   } catch (err) {

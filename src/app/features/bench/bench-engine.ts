@@ -45,6 +45,11 @@ export class BenchEngine {
     return (await this.queue({ type: 'flash', params, distanceMm })) as Extract<WorkerResult, { type: 'flash' }> | null;
   }
 
+  /** Legibility, light and burn-in for the view (same queue). */
+  async report(params: PanelParams, frame: number, hours: number): Promise<Extract<WorkerResult, { type: 'report' }> | null> {
+    return (await this.queue({ type: 'report', params, frame, hours })) as Extract<WorkerResult, { type: 'report' }> | null;
+  }
+
   private queue(req: Job['req']): Promise<WorkerResult | null> {
     return new Promise((resolve, reject) => {
       this.pending?.resolve(null);

@@ -35,6 +35,7 @@ import { describeChange, paramDiff } from '../../../../shared/model/param-diff';
 import { RenderApi } from './render-api';
 import { downloadBlob } from '../drive/download';
 import { FrameDataExport } from '../drive/frame-data-export';
+import { AnalysisReport } from './analysis-report';
 
 /** ID-1 card width in mm (ISO/IEC 7810), the on-screen ruler for real size. */
 const CARD_MM = { width: 85.6, height: 53.98 };
@@ -45,7 +46,7 @@ const clampPxPerMm = (v: number) => Math.min(12, Math.max(2, v));
 /** The bench: artwork live on a simulated panel, tuned by hand, checked against the server. */
 @Component({
   selector: 'em-bench',
-  imports: [FormsModule, DecimalPipe, RouterLink, MatInputModule, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatSelectModule, MatSliderModule, MatSlideToggleModule, MatIconModule, MatProgressBarModule, MatTooltipModule, ParamControls, FrameDataExport],
+  imports: [FormsModule, DecimalPipe, RouterLink, MatInputModule, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatSelectModule, MatSliderModule, MatSlideToggleModule, MatIconModule, MatProgressBarModule, MatTooltipModule, ParamControls, FrameDataExport, AnalysisReport],
   templateUrl: './bench.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -158,6 +159,7 @@ export class Bench {
   /** Binds an edit from the controls to the current parameters (see ParamEdit). */
   protected readonly applyEdit = (edit: ParamEdit) => (p: PanelParams) => applyParamEdit(p, edit);
   protected readonly showFrameData = signal(false);
+  protected readonly showAnalysis = signal(false);
   /** The frame on the bench, as decoded (the frame data packs it through the current look). */
   protected readonly currentImage = computed(() => (this.frames.hasValue() ? this.frames.value()[this.frame()]?.image : undefined));
   /** Downloads are named after the artwork and the look. */
@@ -463,6 +465,12 @@ export class Bench {
     } catch (err) {
       this.flashCheck.set({ busy: false, error: (err as Error).message });
     }
+  }
+
+  /** A test pattern was added from the analysis: open it on the bench. */
+  protected openPattern(id: string): void {
+    this.artworks.reload();
+    this.artworkId.set(id);
   }
 
   protected setDistance(value: unknown): void {

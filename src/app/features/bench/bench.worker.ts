@@ -3,6 +3,7 @@ import type { PanelParams } from '../../../../shared/model/parameters';
 import { compose } from '../../../../shared/pipeline/output/compose';
 import { outputUniforms } from '../../../../shared/pipeline/output/uniforms';
 import { flashSafety } from '../../../../shared/analysis/flash-safety';
+import { burnIn, legibility, lightFigures, type PanelReport } from '../../../../shared/analysis/panel-report';
 import { panelEmission, panelEmissions, panelGlow } from '../../../../shared/pipeline/render';
 import type { Frame } from '../../../../shared/pipeline/types';
 import type { WorkerRequest, WorkerResult } from './bench-messages';
@@ -16,6 +17,15 @@ addEventListener('message', ({ data }: MessageEvent<WorkerRequest>) => {
     return;
   }
   const started = performance.now();
+  if (data.type === 'report') {
+    try {
+      const { report, lostCells, wear } = reportOf(data.params, data.frame, data.hours);
+      postMessage({ type: 'report', id: data.id, report, lostCells, wear, ms: performance.now() - started } satisfies WorkerResult, [lostCells.buffer, wear.buffer]);
+    } catch (err) {
+      postMessage({ type: 'error', id: data.id, message: (err as Error).message } satisfies WorkerResult);
+    }
+    return;
+  }
   if (data.type === 'flash') {
     try {
       postMessage({ type: 'flash', id: data.id, report: flashOf(data.params, data.distanceMm), ms: performance.now() - started } satisfies WorkerResult);
@@ -47,4 +57,12 @@ function flashOf(p: PanelParams, distanceMm: number) {
     { cols: p.cell.cols, rows: p.cell.rows, pitchXMm: p.cell.pitchXMm, pitchYMm: p.cell.pitchYMm, colour: outputUniforms(p, 1).colour, peakCdM2: v.peakCdM2, offCdM2: v.offCdM2, ambientCdM2: v.ambientCdM2, whiteCdM2: v.whiteCdM2 },
     distanceMm,
   );
+}
+
+/** Legibility of the frame on screen, light and power of every frame, and the burn-in map over `hours`. */
+function reportOf(p: PanelParams, frame: number, hours: number): { report: PanelReport; lostCells: Uint8Array; wear: Float32Array } {
+  const emissions = panelEmissions(frames, p);
+  const { lostCells, ...legible } = legibility(emissions[frame], p);
+  const b = burnIn(emissions, frames.map((f) => f.delayMs), p, hours);
+  return { report: { legibility: legible, light: lightFigures(emissions, p), burnIn: { hours: b.hours, worst: b.worst, spread: b.spread, advice: b.advice } }, lostCells, wear: b.wear };
 }
