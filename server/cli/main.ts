@@ -310,7 +310,7 @@ async function flashCommand(args: string[]): Promise<void> {
   }
   console.log(`${frames.length} frames on ${type.name} at ${distanceMm} mm: at most ${doc.maxFlashesPerSecond} flashes a second in one place`);
   console.log(`  general flash (WCAG 2.2, 2.3.1): ${report.generalFlashFail ? 'FAILS' : 'passes'}; red flash: ${report.redFlashFail ? 'FAILS' : 'passes'}; ITU-R BT.1702: ${report.bt1702Fail ? 'FAILS' : 'passes'}`);
-  console.log('  This check informs; it does not certify. Content for broadcast or for people with photosensitive epilepsy needs a qualified assessment.');
+  console.log('  This check informs; it does not certify. Avoid flashing content where you can; the figures do not replace an assessment by a specialist.');
 }
 
 /** How much one-cell contrast an image keeps through a look, on the simulated output. */
