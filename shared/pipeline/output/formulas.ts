@@ -16,7 +16,8 @@ export function apertureCoverage(p: number, c: number, s: number, f: number): nu
 }
 
 /**
- * erf by Abramowitz & Stegun 7.1.26 (|error| ≤ 1.5·10⁻⁷), the same polynomial in the shader.
+ * erf by Abramowitz & Stegun 7.1.26 (|error| ≤ 1.5·10⁻⁷). The shader does not evaluate it: it reads the
+ * coverage taps computed with it on the CPU (src/app/render/panel-renderer.ts).
  */
 export function erf(x: number): number {
   const s = x < 0 ? -1 : 1;

@@ -6,7 +6,7 @@ import { MatIconModule } from '@angular/material/icon';
   selector: 'em-flash-safety',
   imports: [MatIconModule],
   template: `
-    <aside class="notice" role="note" aria-labelledby="flash-safety-title">
+    <aside class="em-caution" role="note" aria-labelledby="flash-safety-title">
       <mat-icon aria-hidden="true">warning</mat-icon>
       <div>
         <h2 id="flash-safety-title">Before you flash</h2>
@@ -25,18 +25,8 @@ import { MatIconModule } from '@angular/material/icon';
     </aside>
   `,
   styles: `
-    .notice {
-      display: flex;
-      gap: 16px;
-      padding: 16px 20px;
-      border-radius: var(--mat-sys-corner-large);
-      background: color-mix(in srgb, var(--mat-sys-error) 10%, var(--mat-sys-surface-container-low));
-      border: 1px solid color-mix(in srgb, var(--mat-sys-error) 40%, transparent);
-    }
-    mat-icon { color: var(--mat-sys-error); flex: none; }
-    h2 { font: var(--mat-sys-title-medium); margin-bottom: 4px; }
     ul { margin: 4px 0; padding-left: 18px; display: grid; gap: 2px; }
-    .fine { color: var(--mat-sys-on-surface-variant); font: var(--mat-sys-body-small); margin: 6px 0 0; }
+    .fine { margin-top: 6px; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

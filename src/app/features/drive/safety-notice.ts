@@ -6,7 +6,7 @@ import { MatIconModule } from '@angular/material/icon';
   selector: 'em-safety-notice',
   imports: [MatIconModule],
   template: `
-    <aside class="notice" role="note" aria-labelledby="safety-title">
+    <aside class="em-caution" role="note" aria-labelledby="safety-title">
       <mat-icon aria-hidden="true">bolt</mat-icon>
       <div>
         <h2 id="safety-title">High voltage: read before you probe</h2>
@@ -23,30 +23,7 @@ import { MatIconModule } from '@angular/material/icon';
     </aside>
   `,
   styles: `
-    .notice {
-      display: flex;
-      gap: 16px;
-      padding: 16px 20px;
-      border-radius: var(--mat-sys-corner-large);
-      background: color-mix(in srgb, var(--mat-sys-error) 12%, var(--mat-sys-surface-container-low));
-      border: 1px solid color-mix(in srgb, var(--mat-sys-error) 45%, transparent);
-      margin-bottom: 24px;
-    }
-    mat-icon {
-      color: var(--mat-sys-error);
-      flex: none;
-    }
-    h2 {
-      font: var(--mat-sys-title-medium);
-      margin-bottom: 4px;
-    }
-    p {
-      margin: 4px 0;
-    }
-    .fine {
-      color: var(--mat-sys-on-surface-variant);
-      font: var(--mat-sys-body-small);
-    }
+    :host { display: block; margin-bottom: 24px; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
