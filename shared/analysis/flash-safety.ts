@@ -136,7 +136,14 @@ function maxInWindow(times: number[], windowMs: number): number {
 
 /** Which windows of one second (starting at each frame of the first loop) each block flashes too often in. */
 function overLimit(seq: number[], windowStarts: number[]): boolean[] {
-  return windowStarts.map((t0) => flashesOf(seq.filter((t) => t >= t0 - EPS_MS && t < t0 + 1000 - EPS_MS).length) > MAX_FLASHES_PER_SECOND);
+  // Both lists are in time order: two cursors, not a scan of the whole sequence per window (this runs for every block).
+  let lo = 0;
+  let hi = 0;
+  return windowStarts.map((t0) => {
+    while (lo < seq.length && seq[lo] < t0 - EPS_MS) lo++;
+    while (hi < seq.length && seq[hi] < t0 + 1000 - EPS_MS) hi++;
+    return flashesOf(hi - lo) > MAX_FLASHES_PER_SECOND;
+  });
 }
 
 /**
