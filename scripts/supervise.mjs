@@ -67,5 +67,9 @@ export function supervise(specs, { log = (line) => console.log(`[start] ${line}`
   return { stop };
 }
 
-/** Node running a TypeScript entry point in-process (no npx or tsx wrapper processes to leak). */
-export const tsNode = (entry) => ({ command: process.execPath, args: ['--import', 'tsx', entry] });
+/**
+ * Node running a TypeScript entry point in-process (no npx or tsx wrapper processes to leak),
+ * through tsx's CommonJS hook: the project is CommonJS, and the hot loops of the render stages
+ * ran about a fifth slower under the ESM loader hooks (`--import tsx`) on Node 20.
+ */
+export const tsNode = (entry) => ({ command: process.execPath, args: ['--require', 'tsx/cjs', entry] });

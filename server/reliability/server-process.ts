@@ -15,7 +15,7 @@ export interface ServerProcess {
 
 const ROOT = path.resolve(__dirname, '../..');
 
-/** Starts `server/main.ts` with node --import tsx and waits until /api/health answers. */
+/** Starts `server/main.ts` with node --require tsx/cjs (as `npm start` does) and waits until /api/health answers. */
 export async function startServer(options: { port: number; database: string; storageDir: string; seed?: boolean; env?: NodeJS.ProcessEnv; nodeArgs?: string[] }): Promise<ServerProcess> {
   const env = {
     ...process.env,
@@ -32,7 +32,7 @@ export async function startServer(options: { port: number; database: string; sto
   const url = `http://127.0.0.1:${options.port}`;
   // A server left over from an interrupted run would answer in our place: refuse to start beside it.
   if (await fetch(`${url}/api/health`).then(() => true, () => false)) throw new Error(`port ${options.port} is taken by another process; stop it first`);
-  const child = spawn(process.execPath, [...(options.nodeArgs ?? []), '--import', 'tsx', 'server/main.ts'], { cwd: ROOT, env, stdio: ['ignore', 'pipe', 'pipe'] });
+  const child = spawn(process.execPath, [...(options.nodeArgs ?? []), '--require', 'tsx/cjs', 'server/main.ts'], { cwd: ROOT, env, stdio: ['ignore', 'pipe', 'pipe'] });
   let output = '';
   child.stdout!.on('data', (d) => (output += d));
   child.stderr!.on('data', (d) => (output += d));

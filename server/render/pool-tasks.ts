@@ -1,7 +1,7 @@
 import type { PanelParams } from '../../shared/model/parameters';
 import { compose, type RowBand } from '../../shared/pipeline/output/compose';
 import { outputUniforms } from '../../shared/pipeline/output/uniforms';
-import { glowField, glowPlan } from '../../shared/pipeline/glow/glow';
+import { componentAcross, componentDown, glowComponents, glowFieldSize, glowPlan, sumComponent } from '../../shared/pipeline/glow/glow';
 import { panelEmission } from '../../shared/pipeline/render';
 import type { Field, Frame } from '../../shared/pipeline/types';
 
@@ -18,16 +18,36 @@ export function shared<T extends Float32Array | Uint8Array>(a: T): T {
   return copy;
 }
 
-/**
- * Panel-resolution stages and the glow field for one frame (stages 1–5 and 7), written into the
- * shared arrays the engine hands in (sized by glowFieldSize and the panel grid).
- */
-export function prepare(task: { frames: Frame[]; parameters: PanelParams; frame: number; emissionOut: Float32Array; glowOut: Float32Array }): { width: number; height: number } {
-  const p = task.parameters;
-  const emission = panelEmission(task.frames, p, task.frame);
-  task.emissionOut.set(emission);
-  const glow = glowField(emission, p.cell, glowPlan(p.cell, p.glass), task.glowOut);
-  return { width: glow.width, height: glow.height };
+/** Panel-resolution stages for one frame (stages 1–5), written into the shared emission array. */
+export function panel(task: { frames: Frame[]; parameters: PanelParams; frame: number; emissionOut: Float32Array }): number {
+  task.emissionOut.set(panelEmission(task.frames, task.parameters, task.frame));
+  return task.emissionOut.length;
+}
+
+/** The glow field's step for a band (glow/glow.ts): blur across (rows), blur down (columns) or sum (rows). */
+export function glowStep(task: {
+  step: 'across' | 'down' | 'sum';
+  emission: Float32Array;
+  parameters: PanelParams;
+  /** The components' shared arrays, in glowComponents order. */
+  components: Float32Array[];
+  /** Component k for across and down. */
+  k: number;
+  from: number;
+  to: number;
+  out: Float32Array;
+}): number {
+  const { cell, glass } = task.parameters;
+  const plan = glowPlan(cell, glass);
+  const c = glowComponents(plan)[task.k];
+  if (task.step === 'across') componentAcross(task.emission, cell, c, task.components[task.k], task.from, task.to);
+  else if (task.step === 'down') componentDown(cell, c, task.components[task.k], task.from, task.to);
+  else {
+    const field = { ...glowFieldSize(cell, plan), data: task.out };
+    if (task.components.length === 0) sumComponent(cell, plan, 0, new Float32Array(), field, task.from, task.to);
+    task.components.forEach((data, k) => sumComponent(cell, plan, k, data, field, task.from, task.to));
+  }
+  return task.to - task.from;
 }
 
 /** Output-resolution stages for a band of rows, written into the shared output image. */

@@ -18,14 +18,31 @@ const input = pngOf(64, 48, (x, y) => [x * 4, y * 5, (x ^ y) & 255, 255]);
 const parameters = mergeParams(builtInPresetById('el-amber-640x480.standard')!.parameters, { cell: { cols: 64, rows: 48 } });
 const sha = (b: Buffer | Uint8Array | Uint8ClampedArray) => createHash('sha256').update(b).digest('hex');
 
-test('a render split into 1, 2, 3 and 7 row bands has the same pixels as the single-thread pipeline', async () => {
-  const reference = renderCpu((await decodeImage(input)).frames, parameters, { scale: 3 });
+// Glow plans that take each path of the banded glow field: the finest component first, a coarser
+// component first (the sum starts from zeros), three times oversampled, a CRT, and no glow at all.
+const plans: [string, Parameters<typeof mergeParams>[1]][] = [
+  ['amber EL defaults (glow ×2, halo ×1)', {}],
+  ['wide glow, narrow halo (halo on the finer grid)', { glass: { glowRadiusMm: 2, haloRadiusMm: 0.2, haloShare: 0.05 } }],
+  ['glow radius 0.2 mm (×3 grid)', { glass: { glowRadiusMm: 0.2 } }],
+  ['no glow or halo', { glass: { glowShare: 0, haloShare: 0 } }],
+];
+
+test.each(plans)('%s: a render split into 1, 2, 3 and 7 bands (rows; the glow blurred down in column bands) has the same pixels as the single-thread pipeline', async (_name, patch) => {
+  const p = mergeParams(parameters, patch);
+  const reference = renderCpu((await decodeImage(input)).frames, p, { scale: 3 });
   for (const bands of [1, 2, 3, 7]) {
-    const { png, width, height } = await engine.render({ input, parameters, scale: 3, frame: 0 }, { bands });
+    const { png, width, height } = await engine.render({ input, parameters: p, scale: 3, frame: 0 }, { bands });
     expect([width, height]).toEqual([reference.width, reference.height]);
     const raw = await sharp(png).ensureAlpha().raw().toBuffer();
     expect({ bands, hash: sha(raw) }).toEqual({ bands, hash: sha(reference.data) });
   }
+});
+
+test('a CRT render on the pool has the same pixels as the single-thread pipeline', async () => {
+  const p = mergeParams(builtInPresetById('crt-green-p1.standard')!.parameters, { cell: { cols: 64, rows: 48 } });
+  const reference = renderCpu((await decodeImage(input)).frames, p, { scale: 4 });
+  const { png } = await engine.render({ input, parameters: p, scale: 4, frame: 0 }, { bands: 3 });
+  expect(sha(await sharp(png).ensureAlpha().raw().toBuffer())).toBe(sha(reference.data));
 });
 
 test('a task that throws answers 500 render_failed and the pool keeps rendering; a crashed worker is replaced', async () => {

@@ -3,7 +3,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { Piscina } from 'piscina';
 import type { PanelParams } from '../../shared/model/parameters';
-import { glowFieldSize, glowPlan } from '../../shared/pipeline/glow/glow';
+import { componentSize, glowComponents, glowFieldSize, glowPlan } from '../../shared/pipeline/glow/glow';
 import { outputUniforms } from '../../shared/pipeline/output/uniforms';
 import type { SpriteSheet } from '../../shared/pipeline/sprite-sheet';
 import type { Field, Frame } from '../../shared/pipeline/types';
@@ -12,6 +12,15 @@ import { decodeImage, framesOf } from './decode';
 import { encodePng } from './encode';
 import { shared } from './pool-tasks';
 import { SharedBufferPool } from './shared-buffers';
+
+/** The pool's tasks (pool-tasks.ts). */
+type TaskName = 'panel' | 'glowStep' | 'band' | 'fail';
+
+/** [from, to) ranges splitting 0 … n into at most `count` nearly equal bands (none empty). */
+export function bandsOf(n: number, count: number): [number, number][] {
+  const k = Math.max(1, Math.min(count, n));
+  return Array.from({ length: k }, (_, i) => [Math.floor((i * n) / k), Math.floor(((i + 1) * n) / k)]);
+}
 
 /** Largest output image a reference render may produce. */
 export const MAX_OUTPUT_PIXELS = 24_000_000;
@@ -135,23 +144,29 @@ export class RenderEngine {
       const frames = await this.frames.get(req.input, req.sheet);
       if (req.frame >= frames.length) throw new AppError(400, 'invalid_input', `frame must be from 0 to ${frames.length - 1} for this image, got ${req.frame}.`);
       const { cell, glass } = req.parameters;
-      const size = glowFieldSize(cell, glowPlan(cell, glass));
-      const buffers = [this.buffers.acquire(cell.cols * cell.rows * 4), this.buffers.acquire(size.width * size.height * 4), this.buffers.acquire(width * height * 4)];
+      const plan = glowPlan(cell, glass);
+      const size = glowFieldSize(cell, plan);
+      const components = glowComponents(plan).map((c) => componentSize(cell, c));
+      const buffers = [cell.cols * cell.rows * 4, size.width * size.height * 4, width * height * 4, ...components.map((c) => c.width * c.height * 4)].map((n) => this.buffers.acquire(n));
       try {
         const [emission, glowData] = [new Float32Array(buffers[0]), new Float32Array(buffers[1])];
         const out = new Uint8Array(buffers[2]);
-        await this.run('prepare', { frames, parameters: req.parameters, frame: req.frame, emissionOut: emission, glowOut: glowData });
+        const componentData = buffers.slice(3).map((b) => new Float32Array(b));
+        const threads = Math.max(1, options.bands ?? this.threads);
+        await this.run('panel', { frames, parameters: req.parameters, frame: req.frame, emissionOut: emission });
+        // The glow field in three steps, each split in bands across the threads: every
+        // component blurred across (row bands), then down (column bands), then summed (row bands).
+        const glowTask = { emission, parameters: req.parameters, components: componentData, out: glowData };
+        const steps = (step: 'across' | 'down', extent: (c: { width: number; height: number }) => number) =>
+          components.flatMap((c, k) => bandsOf(extent(c), threads).map(([from, to]) => ({ ...glowTask, step, k, from, to })));
+        await this.runAll('glowStep', steps('across', (c) => c.height));
+        await this.runAll('glowStep', steps('down', (c) => c.width));
+        await this.runAll('glowStep', bandsOf(size.height, threads).map(([from, to]) => ({ ...glowTask, step: 'sum', k: 0, from, to })));
         const glow: Field = { ...size, data: glowData };
-        const count = Math.max(1, Math.min(options.bands ?? this.threads, height));
-        // Every band settles before the buffers go back: a failed one must not leave another writing.
-        const bands = await Promise.allSettled(
-          Array.from({ length: count }, (_, i) => {
-            const rows = { y0: Math.floor((i * height) / count), y1: Math.floor(((i + 1) * height) / count) };
-            return this.run('band', { emission, glow, parameters: req.parameters, scale: req.scale, rows, out });
-          }),
+        await this.runAll(
+          'band',
+          bandsOf(height, threads).map(([y0, y1]) => ({ emission, glow, parameters: req.parameters, scale: req.scale, rows: { y0, y1 }, out })),
         );
-        const failed = bands.find((b) => b.status === 'rejected');
-        if (failed) throw failed.reason;
         return { png: await encodePng({ width, height, data: out }), width, height };
       } finally {
         this.buffers.release(...buffers);
@@ -161,8 +176,18 @@ export class RenderEngine {
     }
   }
 
+  /**
+   * Runs tasks at once and waits for every one to settle before answering: a failed task must not
+   * leave another still writing into buffers that go back to the pool.
+   */
+  private async runAll(name: TaskName, tasks: unknown[]): Promise<void> {
+    const settled = await Promise.allSettled(tasks.map((t) => this.run(name, t)));
+    const failed = settled.find((r) => r.status === 'rejected');
+    if (failed) throw failed.reason;
+  }
+
   /** Runs a named task; a worker's error comes back as 500 render_failed, and the pool replaces a dead worker. */
-  async run(name: 'prepare' | 'band' | 'fail', task: unknown): Promise<unknown> {
+  async run(name: TaskName, task: unknown): Promise<unknown> {
     try {
       return await this.pool.run(task, { name });
     } catch (err) {

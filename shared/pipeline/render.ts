@@ -1,11 +1,12 @@
 import type { PanelParams } from '../model/parameters';
 import { fitToGrid } from './fit/fit';
-import { glowField, glowPlan } from './glow/glow';
+import { glowField, glowFieldSize, glowPlan } from './glow/glow';
 import { quantise } from './levels/levels';
 import { compose } from './output/compose';
 import { outputUniforms } from './output/uniforms';
 import { decayFactor, interlaceField, persist } from './persistence/persistence';
 import { rowLoading } from './row-loading/row-loading';
+import { GLOW_SLOT, scratchArray } from './scratch';
 import { tone } from './tone/tone';
 import type { Field, Frame, RgbaImage } from './types';
 
@@ -82,5 +83,9 @@ export function panelGlow(emission: Float32Array, p: PanelParams): Field {
 /** The whole pipeline on the CPU: frames + parameters → the output image at `scale` px per pitch. */
 export function renderCpu(frames: readonly Frame[], p: PanelParams, options: { scale: number; frame?: number }): RgbaImage {
   const emission = panelEmission(frames, p, options.frame ?? 0);
-  return compose(emission, panelGlow(emission, p), outputUniforms(p, options.scale));
+  // The glow field lives only until compose has read it: a reused array (no page faults).
+  const plan = glowPlan(p.cell, p.glass);
+  const { width, height } = glowFieldSize(p.cell, plan);
+  const glow = glowField(emission, p.cell, plan, scratchArray(GLOW_SLOT, width * height));
+  return compose(emission, glow, outputUniforms(p, options.scale));
 }

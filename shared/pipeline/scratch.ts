@@ -6,7 +6,10 @@
  */
 const slots: Float32Array[] = [];
 
-/** Slots in use: 0–3 the blur's passes (glow/blur.ts), 4 a blurred glow component (glow/glow.ts). */
+/** Slots in use: 0–3 the blur's passes (glow/blur.ts), 4 a blurred glow component (glow/glow.ts), 5 renderCpu's glow field. */
+export const GLOW_SLOT = 5;
+
+/** A Float32Array of `length` from `slot`, grown when too short; its contents are whatever the slot last held. */
 export function scratchArray(slot: number, length: number): Float32Array {
   if (!slots[slot] || slots[slot].length < length) slots[slot] = new Float32Array(length);
   return slots[slot].subarray(0, length);

@@ -44,16 +44,17 @@ function passRow(from: Float32Array, to: Float32Array, width: number, pad: numbe
 }
 
 /**
- * The horizontal cascade: each row through all passes in two small padded buffers (they stay in
- * the processor's cache), written once to dst. `row(y, into, offset)` supplies row y.
+ * The horizontal cascade for rows [y0, y1): each row through all passes in two small padded
+ * buffers (they stay in the processor's cache), written once to dst. `row(y, into, offset)`
+ * supplies row y.
  */
-function blurRows(row: (y: number, into: Float32Array, offset: number) => void, dst: Float32Array, width: number, height: number, r: number, alpha: number): void {
+function blurRows(row: (y: number, into: Float32Array, offset: number) => void, dst: Float32Array, width: number, y0: number, y1: number, r: number, alpha: number): void {
   const pad = r + 1;
   const size = width + 2 * pad;
   // Zero margins: the passes write only the row's own samples.
   const a = scratchArray(0, size).fill(0);
   const b = scratchArray(1, size).fill(0);
-  for (let y = 0; y < height; y++) {
+  for (let y = y0; y < y1; y++) {
     row(y, a, pad);
     let from = a;
     let to = b;
@@ -65,14 +66,18 @@ function blurRows(row: (y: number, into: Float32Array, offset: number) => void, 
   }
 }
 
-/** One vertical extended-box pass: a running sum per column, walked row by row (cache friendly). */
-function passColumns(src: Float32Array, dst: Float32Array, width: number, height: number, r: number, alpha: number, sums: Float64Array): void {
+/**
+ * One vertical extended-box pass over columns [x0, x1): a running sum per column, walked row by
+ * row (cache friendly). Each column is summed on its own, so column bands done apart give the
+ * same values as one pass.
+ */
+function passColumns(src: Float32Array, dst: Float32Array, width: number, height: number, x0: number, x1: number, r: number, alpha: number, sums: Float64Array): void {
   const c = 1 / (2 * r + 1 + 2 * alpha);
   const ca = c * alpha;
   sums.fill(0);
   for (let k = 0; k <= r && k < height; k++) {
     const row = k * width;
-    for (let x = 0; x < width; x++) sums[x] += src[row + x];
+    for (let x = x0; x < x1; x++) sums[x] += src[row + x];
   }
   for (let y = 0; y < height; y++) {
     const out = y * width;
@@ -82,14 +87,24 @@ function passColumns(src: Float32Array, dst: Float32Array, width: number, height
     const hasHi = hi < height;
     const loRow = lo * width;
     const hiRow = hi * width;
-    if (hasLo && hasHi) for (let x = 0; x < width; x++) dst[out + x] = c * sums[x] + ca * (src[loRow + x] + src[hiRow + x]);
-    else if (hasLo) for (let x = 0; x < width; x++) dst[out + x] = c * sums[x] + ca * src[loRow + x];
-    else if (hasHi) for (let x = 0; x < width; x++) dst[out + x] = c * sums[x] + ca * src[hiRow + x];
-    else for (let x = 0; x < width; x++) dst[out + x] = c * sums[x];
     const leave = (y - r) * width;
-    if (hasHi && y - r >= 0) for (let x = 0; x < width; x++) sums[x] += src[hiRow + x] - src[leave + x];
-    else if (hasHi) for (let x = 0; x < width; x++) sums[x] += src[hiRow + x];
-    else if (y - r >= 0) for (let x = 0; x < width; x++) sums[x] -= src[leave + x];
+    if (hasLo && hasHi) {
+      // The common case in one sweep: the same sums as the two loops below, each sample read once.
+      for (let x = x0; x < x1; x++) {
+        const s = sums[x];
+        const enter = src[hiRow + x];
+        dst[out + x] = c * s + ca * (src[loRow + x] + enter);
+        sums[x] = s + (enter - src[leave + x]);
+      }
+      continue;
+    }
+    // Near the top or bottom edge: the window reaches past the field.
+    if (hasLo) for (let x = x0; x < x1; x++) dst[out + x] = c * sums[x] + ca * src[loRow + x];
+    else if (hasHi) for (let x = x0; x < x1; x++) dst[out + x] = c * sums[x] + ca * src[hiRow + x];
+    else for (let x = x0; x < x1; x++) dst[out + x] = c * sums[x];
+    if (hasHi && y - r >= 0) for (let x = x0; x < x1; x++) sums[x] += src[hiRow + x] - src[leave + x];
+    else if (hasHi) for (let x = x0; x < x1; x++) sums[x] += src[hiRow + x];
+    else if (y - r >= 0) for (let x = x0; x < x1; x++) sums[x] -= src[leave + x];
   }
 }
 
@@ -107,22 +122,36 @@ export function gaussianBlur(data: Float32Array, width: number, height: number, 
  * result goes into `out` when given (width × height samples), else into a new array.
  */
 export function gaussianBlurRows(row: (y: number, into: Float32Array, offset: number) => void, width: number, height: number, sigmaX: number, sigmaY: number, out: Float32Array = new Float32Array(width * height)): Float32Array {
+  blurAcross(row, out, width, 0, height, sigmaX);
+  blurDown(out, width, height, 0, width, sigmaY);
+  return out;
+}
+
+/**
+ * The first half of gaussianBlurRows for rows [y0, y1) of `out`: σx across (or the rows as they
+ * are, for σx = 0). Row bands done apart, then blurDown, give gaussianBlurRows' values.
+ */
+export function blurAcross(row: (y: number, into: Float32Array, offset: number) => void, out: Float32Array, width: number, y0: number, y1: number, sigmaX: number): void {
   if (sigmaX > 0) {
     const { r, alpha } = extendedBox(sigmaX);
-    blurRows(row, out, width, height, r, alpha);
+    blurRows(row, out, width, y0, y1, r, alpha);
   } else {
-    for (let y = 0; y < height; y++) row(y, out, y * width);
+    for (let y = y0; y < y1; y++) row(y, out, y * width);
   }
-  if (sigmaY > 0) {
-    const { r, alpha } = extendedBox(sigmaY);
-    const sums = new Float64Array(width);
-    // From out back into out: scratch arrays carry the passes between.
-    let from: Float32Array = out;
-    for (let p = 0; p < BOX_PASSES; p++) {
-      const to = p === BOX_PASSES - 1 ? out : scratchArray(2 + (p % 2), out.length);
-      passColumns(from, to, width, height, r, alpha, sums);
-      from = to;
-    }
+}
+
+/**
+ * The second half for columns [x0, x1) of `data`, in place: σy down. Scratch arrays of this
+ * thread carry the passes between, so two threads may each take a column band of one array.
+ */
+export function blurDown(data: Float32Array, width: number, height: number, x0: number, x1: number, sigmaY: number): void {
+  if (!(sigmaY > 0)) return;
+  const { r, alpha } = extendedBox(sigmaY);
+  const sums = new Float64Array(width);
+  let from: Float32Array = data;
+  for (let p = 0; p < BOX_PASSES; p++) {
+    const to = p === BOX_PASSES - 1 ? data : scratchArray(2 + (p % 2), data.length);
+    passColumns(from, to, width, height, x0, x1, r, alpha, sums);
+    from = to;
   }
-  return out;
 }

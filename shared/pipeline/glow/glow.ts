@@ -1,7 +1,7 @@
 import type { PanelParams } from '../../model/parameters';
 import type { Field } from '../types';
 import { scratchArray } from '../scratch';
-import { gaussianBlurRows } from './blur';
+import { blurAcross, blurDown } from './blur';
 
 /** Halation ring radius from faceplate thickness t and index n: r = 2·t·tan(asin(1/n)). */
 export function haloRadiusFromGlass(thicknessMm: number, n: number): number {
@@ -90,31 +90,51 @@ export function fluxRows(emission: Float32Array, cell: PanelParams['cell'], m: n
 }
 
 /**
- * Adds `share` × a field sampled m per cell into a field sampled M per cell (M a multiple of m
- * or not), bilinearly at sample centres: fine sample k sits at (k + 0.5)/M cells, which is
- * coarse coordinate (k + 0.5)·m/M − 0.5, clamped at the edges.
+ * Adds `share` × a field sampled m per cell into rows [y0, y1) of a field sampled M per cell (M a
+ * multiple of m or not), bilinearly at sample centres: fine sample k sits at (k + 0.5)/M cells,
+ * which is coarse coordinate (k + 0.5)·m/M − 0.5, clamped at the edges.
  */
-export function addUpsampled(coarse: Field, m: number, fine: Field, M: number, share: number): void {
-  const map = (n: number, size: number) =>
-    Array.from({ length: n }, (_, k) => {
+export function addUpsampled(coarse: Field, m: number, fine: Field, M: number, share: number, y0 = 0, y1 = fine.height): void {
+  const map = (n: number, size: number) => {
+    const i0 = new Int32Array(n);
+    const i1 = new Int32Array(n);
+    const t = new Float64Array(n);
+    for (let k = 0; k < n; k++) {
       const u = Math.min(Math.max(((k + 0.5) * m) / M - 0.5, 0), size - 1);
-      const i0 = Math.floor(u);
-      return { i0, i1: Math.min(i0 + 1, size - 1), t: u - i0 };
-    });
+      i0[k] = Math.floor(u);
+      i1[k] = Math.min(i0[k] + 1, size - 1);
+      t[k] = u - i0[k];
+    }
+    return { i0, i1, t };
+  };
   const xs = map(fine.width, coarse.width);
   const ys = map(fine.height, coarse.height);
-  for (let y = 0; y < fine.height; y++) {
-    const { i0, i1, t } = ys[y];
-    const r0 = i0 * coarse.width;
-    const r1 = i1 * coarse.width;
+  const src = coarse.data;
+  const dst = fine.data;
+  for (let y = y0; y < y1; y++) {
+    const t = ys.t[y];
+    const r0 = ys.i0[y] * coarse.width;
+    const r1 = ys.i1[y] * coarse.width;
     const row = y * fine.width;
     for (let x = 0; x < fine.width; x++) {
-      const c = xs[x];
-      const top = coarse.data[r0 + c.i0] * (1 - c.t) + coarse.data[r0 + c.i1] * c.t;
-      const bottom = coarse.data[r1 + c.i0] * (1 - c.t) + coarse.data[r1 + c.i1] * c.t;
-      fine.data[row + x] += share * (top * (1 - t) + bottom * t);
+      const a = xs.i0[x];
+      const b = xs.i1[x];
+      const tx = xs.t[x];
+      const top = src[r0 + a] * (1 - tx) + src[r0 + b] * tx;
+      const bottom = src[r1 + a] * (1 - tx) + src[r1 + b] * tx;
+      dst[row + x] += share * (top * (1 - t) + bottom * t);
     }
   }
+}
+
+/** into[i0 … i1) = share × from[i0 … i1) (0 + x is exactly x: the same values as adding into zeros). */
+function scaleInto(into: Float32Array, from: Float32Array, share: number, i0: number, i1: number): void {
+  for (let i = i0; i < i1; i++) into[i] = share * from[i];
+}
+
+/** into[i0 … i1) += share × from[i0 … i1). */
+function addScaled(into: Float32Array, from: Float32Array, share: number, i0: number, i1: number): void {
+  for (let i = i0; i < i1; i++) into[i] += share * from[i];
 }
 
 /** Samples across and down of the glow field for these parameters. */
@@ -122,27 +142,69 @@ export function glowFieldSize(cell: PanelParams['cell'], plan: GlowPlan): { widt
   return { width: cell.cols * plan.oversample, height: cell.rows * plan.oversample };
 }
 
+/** The components of a plan that carry light, in the order they are summed. */
+export function glowComponents(plan: GlowPlan): GlowComponent[] {
+  return [plan.glow, plan.halo].filter((c) => c.share > 0);
+}
+
+/** Samples across and down of one component's grid. */
+export function componentSize(cell: PanelParams['cell'], c: GlowComponent): { width: number; height: number } {
+  return { width: cell.cols * c.oversample, height: cell.rows * c.oversample };
+}
+
+/**
+ * Step 1 of a component, rows [y0, y1): the cell flux on its grid, blurred across, into `out`
+ * (componentSize samples). The flux rows go straight into the blur: the flux image is never stored.
+ */
+export function componentAcross(emission: Float32Array, cell: PanelParams['cell'], c: GlowComponent, out: Float32Array, y0: number, y1: number): void {
+  blurAcross(fluxRows(emission, cell, c.oversample), out, cell.cols * c.oversample, y0, y1, c.sigmaX);
+}
+
+/** Step 2 of a component, columns [x0, x1), in place: blurred down. */
+export function componentDown(cell: PanelParams['cell'], c: GlowComponent, data: Float32Array, x0: number, x1: number): void {
+  const { width, height } = componentSize(cell, c);
+  blurDown(data, width, height, x0, x1, c.sigmaY);
+}
+
+/**
+ * Step 3, rows [y0, y1) of the glow field: adds component k (of glowComponents) × its share,
+ * upsampled onto the finest grid when coarser. Component 0 is written, not added (a field with
+ * no components is zeros). Components are summed in order, so bands summed apart agree.
+ */
+export function sumComponent(cell: PanelParams['cell'], plan: GlowPlan, k: number, blurred: Float32Array, out: Field, y0: number, y1: number): void {
+  const c = glowComponents(plan)[k];
+  const [i0, i1] = [y0 * out.width, y1 * out.width];
+  if (!c) {
+    out.data.fill(0, i0, i1);
+    return;
+  }
+  if (c.oversample === plan.oversample) {
+    if (k === 0) scaleInto(out.data, blurred, c.share, i0, i1);
+    else addScaled(out.data, blurred, c.share, i0, i1);
+    return;
+  }
+  if (k === 0) out.data.fill(0, i0, i1);
+  addUpsampled({ ...componentSize(cell, c), data: blurred }, c.oversample, out, plan.oversample, c.share, y0, y1);
+}
+
 /**
  * The glow field: glowShare·G(flux, σ_glow) + haloShare·G(flux, σ_halo). Each component is
  * blurred on the grid that samples it well, then the coarser is upsampled onto the finer. Into
- * `into` when given (glowFieldSize samples; its contents are replaced), else a new array.
+ * `into` when given (glowFieldSize samples; its contents are replaced), else a new array. The
+ * render pool runs the same three steps in row and column bands across its threads.
  */
 export function glowField(emission: Float32Array, cell: PanelParams['cell'], plan: GlowPlan, into?: Float32Array): Field {
-  const M = plan.oversample;
   const { width, height } = glowFieldSize(cell, plan);
-  const out: Field = { width, height, data: into ? into.fill(0) : new Float32Array(width * height) };
-  for (const part of [plan.glow, plan.halo]) {
-    if (part.share <= 0) continue;
-    const m = part.oversample;
-    // The flux rows go straight into the blur: the flux image itself is never stored.
-    const blurred = gaussianBlurRows(fluxRows(emission, cell, m), cell.cols * m, cell.rows * m, part.sigmaX, part.sigmaY, scratchArray(4, cell.cols * m * cell.rows * m));
-    if (m === M) {
-      const data = out.data;
-      const share = part.share;
-      for (let i = 0; i < data.length; i++) data[i] += share * blurred[i];
-    } else {
-      addUpsampled({ width: cell.cols * m, height: cell.rows * m, data: blurred }, m, out, M, part.share);
-    }
-  }
+  const out: Field = { width, height, data: into ?? new Float32Array(width * height) };
+  const components = glowComponents(plan);
+  if (components.length === 0) sumComponent(cell, plan, 0, new Float32Array(), out, 0, height);
+  // One component at a time in this thread's scratch array 4: blurred, then summed in.
+  components.forEach((c, k) => {
+    const size = componentSize(cell, c);
+    const data = scratchArray(4, size.width * size.height);
+    componentAcross(emission, cell, c, data, 0, size.height);
+    componentDown(cell, c, data, 0, size.width);
+    sumComponent(cell, plan, k, data, out, 0, height);
+  });
   return out;
 }

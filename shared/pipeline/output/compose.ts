@@ -111,21 +111,28 @@ const LITTLE_ENDIAN = new Uint8Array(new Uint32Array([1]).buffer)[0] === 1;
 /**
  * The three channel coders behind one table: for relative luminance v it gives the whole RGBA
  * pixel as one 32-bit word (little-endian byte order: R, G, B, 255). The table cuts [0, vMax)
- * into equal cells; a cell holds a word when no channel's threshold falls in it or in a cell
- * either side (so the rounding of v·cells can never pick a cell whose word is wrong); 0 marks the
- * others, and for those, and for v outside the table, the channel coders decide. Same bytes as
- * the coders, at one lookup a pixel. Built in time proportional to the 765 thresholds plus a
- * memory fill, so a new exposure costs next to nothing.
+ * into equal cells. A cell holds the final word when no channel's threshold falls in it or in a
+ * cell either side (so the rounding of v·cells can never pick a cell whose word is wrong). The
+ * others hold a lower bound, marked by alpha 0: each channel's code one cell below, which the
+ * channel then steps up past the thresholds v has reached (one step, rarely two). v outside the
+ * table goes to the channel coders. Same bytes as the coders, at one lookup a pixel. Built in
+ * time proportional to the 765 thresholds plus a memory fill, so a new exposure costs next to
+ * nothing.
  */
 export class PixelCoder {
   readonly channels: readonly ChannelCoder[];
-  private readonly table: Uint32Array;
-  private readonly perV: number;
-  private readonly vMax: number;
+  /** Words by cell of [0, vMax): final (alpha 255) or a lower bound (alpha 0). */
+  readonly table: Uint32Array;
+  readonly perV: number;
+  readonly vMax: number;
   private readonly zero: number;
+  private readonly r: Float64Array;
+  private readonly g: Float64Array;
+  private readonly b: Float64Array;
 
   constructor(u: OutputUniforms, cells = 1 << 18) {
     this.channels = u.colour.map((c) => new ChannelCoder(c, u));
+    [this.r, this.g, this.b] = this.channels.map((c) => c.v);
     const vMax = Math.max(...this.channels.map((c) => c.vMax));
     this.vMax = vMax;
     this.perV = cells / vMax;
@@ -136,15 +143,19 @@ export class PixelCoder {
       .filter((t) => t >= 0 && t < vMax)
       .map((t) => Math.floor(t * this.perV));
     cuts.sort((a, b) => a - b);
-    // One cell more, left 0: v·perV may round up to `cells` for v just under vMax.
+    // One cell more: v·perV may round up to `cells` for v just under vMax.
     this.table = new Uint32Array(cells + 1);
-    // Between two cuts a and b, cells a + 2 … b − 2 have no threshold within one cell.
+    // Between two cuts a and b, cells a + 2 … b − 2 have no threshold within one cell; the
+    // cells from a − 1 to a + 1 get the lower bound of cell a − 1 (at least 0).
     let previous = -Infinity;
     for (const cut of [...cuts, Infinity]) {
       const lo = previous === -Infinity ? 0 : previous + 2;
-      const hi = cut === Infinity ? cells : cut - 1;
+      const hi = cut === Infinity ? cells + 1 : cut - 1;
       if (hi > lo) this.table.fill(this.slow((lo + 0.5) / this.perV), lo, hi);
       previous = cut;
+    }
+    for (const cut of cuts) {
+      for (let i = Math.max(0, cut - 1); i <= Math.min(cells, cut + 1); i++) this.table[i] = (this.slow(Math.max(0, (i - 1) / this.perV)) & 0xffffff) >>> 0;
     }
   }
 
@@ -157,11 +168,20 @@ export class PixelCoder {
   word(v: number): number {
     if (v === 0) return this.zero;
     // In range first: v·perV past 2³¹ would wrap in the integer conversion.
-    if (v > 0 && v < this.vMax) {
-      const w = this.table[(v * this.perV) | 0];
-      if (w !== 0) return w;
-    }
-    return this.slow(v);
+    if (!(v > 0 && v < this.vMax)) return this.slow(v);
+    const w = this.table[(v * this.perV) | 0];
+    return w >>> 24 === 255 ? w : this.refine(v, w);
+  }
+
+  /** From a lower bound (alpha 0), each channel's code stepped up to the thresholds v has reached. */
+  private refine(v: number, w: number): number {
+    let r = w & 255;
+    let g = (w >>> 8) & 255;
+    let b = (w >>> 16) & 255;
+    while (r < 255 && v >= this.r[r + 1]) r++;
+    while (g < 255 && v >= this.g[g + 1]) g++;
+    while (b < 255 && v >= this.b[b + 1]) b++;
+    return (r | (g << 8) | (b << 16) | (255 << 24)) >>> 0;
   }
 }
 
@@ -174,6 +194,23 @@ function rowProfile(emission: Float32Array, row: number, cols: number, xs: Taps,
     for (let j = 0; j < stride; j++) s += emission[base + index[x * stride + j]] * weight[x * stride + j];
     out[x] = s;
   }
+}
+
+/**
+ * A cache of the `size` most recently used rows, each computed by `fill(index, into)` into one
+ * of `size` reused buffers: for rows asked for in (mostly) increasing order.
+ */
+function recentRows<T>(size: number, make: () => T, fill: (index: number, into: T) => void): (index: number) => T {
+  const held = Array.from({ length: size }, make);
+  const indexOf = new Int32Array(size).fill(-1);
+  return (index) => {
+    const slot = index % size;
+    if (indexOf[slot] !== index) {
+      fill(index, held[slot]);
+      indexOf[slot] = index;
+    }
+    return held[slot];
+  };
 }
 
 /** A band of output rows [y0, y1): one share of a render split across threads. */
@@ -195,38 +232,29 @@ export function compose(emission: Float32Array, glow: Field, u: OutputUniforms, 
   const ys = u.crt ? lineTaps(height, rows, u.cellH, u.spotSigmaPx) : apertureTaps(height, rows, u.cellH, u.fillY);
   const gx = glowTaps(width, glow.width, u.cellW, u.glowOversample);
   const gy = glowTaps(height, glow.height, u.cellH, u.glowOversample);
-  // Each panel row's horizontal profile is computed once and reused by every output row it touches.
-  const profiles = new Map<number, Float32Array>();
-  const profileOf = (r: number) => {
-    let p = profiles.get(r);
-    if (!p) {
-      p = new Float32Array(width);
-      rowProfile(emission, r, cols, xs, p);
-      profiles.set(r, p);
-      profiles.delete(r - 2 * ys.stride - 2);
-    }
-    return p;
-  };
-  // Each glow-grid row interpolated across to output width once, in double precision: the same
-  // sums as interpolating both ways per pixel, a third of the work.
-  const glowRows = new Map<number, Float64Array>();
-  const glowRowOf = (g: number) => {
-    let row = glowRows.get(g);
-    if (!row) {
-      row = new Float64Array(width);
-      const base = g * glow.width;
-      for (let x = 0; x < width; x++) row[x] = glow.data[base + gx.index[x * 2]] * gx.weight[x * 2] + glow.data[base + gx.index[x * 2 + 1]] * gx.weight[x * 2 + 1];
-      glowRows.set(g, row);
-      glowRows.delete(g - 4);
-    }
-    return row;
-  };
+  // Each panel row's horizontal profile is computed once and reused by every output row it
+  // touches; each glow-grid row is interpolated across to output width once, in double
+  // precision (the same sums as interpolating both ways per pixel, a third of the work). Rows
+  // are needed in order, so a few reused buffers hold the recent ones.
+  const profileOf = recentRows(ys.stride + 2, () => new Float32Array(width), (r, into) => rowProfile(emission, r, cols, xs, into));
+  const glowRowOf = recentRows(4, () => new Float64Array(width), (g, row) => {
+    const base = g * glow.width;
+    const gi = gx.index;
+    const gw = gx.weight;
+    const data = glow.data;
+    for (let x = 0; x < width; x++) row[x] = data[base + gi[x * 2]] * gw[x * 2] + data[base + gi[x * 2 + 1]] * gw[x * 2 + 1];
+  });
   const coder = new PixelCoder(u);
   const directShare = u.directShare;
   const direct = new Float32Array(width);
   const data = image.data;
-  const words = LITTLE_ENDIAN && data.byteOffset % 4 === 0 ? new Uint32Array(data.buffer, data.byteOffset, data.length / 4) : null;
+  // Output rows are encoded into `words`: the image itself where its bytes line up as
+  // little-endian words, else a row buffer copied out byte by byte.
+  const view = LITTLE_ENDIAN && data.byteOffset % 4 === 0 ? new Uint32Array(data.buffer, data.byteOffset, data.length / 4) : null;
+  const rowWords = new Uint32Array(width);
+  const { table, perV, vMax } = coder;
   for (let y = band.y0; y < band.y1; y++) {
+    // The direct light: the panel rows (or CRT lines) this output row sees, weighted.
     direct.fill(0);
     for (let k = 0; k < ys.stride; k++) {
       const wy = ys.weight[y * ys.stride + k];
@@ -238,16 +266,21 @@ export function compose(emission: Float32Array, glow: Field, u: OutputUniforms, 
     const h1 = glowRowOf(gy.index[y * 2 + 1]);
     const ty0 = gy.weight[y * 2];
     const ty1 = gy.weight[y * 2 + 1];
-    const o = y * width;
-    if (words) {
-      for (let x = 0; x < width; x++) words[o + x] = coder.word(directShare * direct[x] + (h0[x] * ty0 + h1[x] * ty1));
-    } else {
+    const words = view ? view.subarray(y * width, (y + 1) * width) : rowWords;
+    for (let x = 0; x < width; x++) {
+      const v = directShare * direct[x] + (h0[x] * ty0 + h1[x] * ty1);
+      // PixelCoder.word's fast path inline; the rest (alpha 0, or v off the table) through it.
+      const w = v > 0 && v < vMax ? table[(v * perV) | 0] : 0;
+      words[x] = w >>> 24 === 255 ? w : coder.word(v);
+    }
+    if (!view) {
+      const o = y * width * 4;
       for (let x = 0; x < width; x++) {
-        const w = coder.word(directShare * direct[x] + (h0[x] * ty0 + h1[x] * ty1));
-        data[(o + x) * 4] = w & 255;
-        data[(o + x) * 4 + 1] = (w >>> 8) & 255;
-        data[(o + x) * 4 + 2] = (w >>> 16) & 255;
-        data[(o + x) * 4 + 3] = 255;
+        const w = rowWords[x];
+        data[o + x * 4] = w & 255;
+        data[o + x * 4 + 1] = (w >>> 8) & 255;
+        data[o + x * 4 + 2] = (w >>> 16) & 255;
+        data[o + x * 4 + 3] = 255;
       }
     }
   }
