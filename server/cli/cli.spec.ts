@@ -3,6 +3,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { PNG } from 'pngjs';
 import sharp from 'sharp';
+import { bandChromaticity } from '../../shared/testing/band-chromaticity';
 import { main } from './main';
 import { pngOf } from '../testing/images';
 import { syntheticRom } from '../../shared/drive/sample-rom';
@@ -31,11 +32,12 @@ describe('cli', () => {
     expect(JSON.parse(r.out)).toEqual({ x: 0.54479, y: 0.45443, hex: '#FF9E00' });
   });
 
-  test('emission with a width gives the band chromaticity', async () => {
+  test('emission with a width gives the band chromaticity [calc from the CIE table, summed in shared/testing]', async () => {
     const r = await cli('emission', '--peak', '585', '--fwhm', '50', '--json');
     const { x, y } = JSON.parse(r.out);
-    expect(x).toBeCloseTo(0.526, 3);
-    expect(y).toBeCloseTo(0.472, 3);
+    const expected = bandChromaticity(585, 50);
+    expect(x).toBeCloseTo(expected.x, 4);
+    expect(y).toBeCloseTo(expected.y, 4);
   });
 
   test.each([

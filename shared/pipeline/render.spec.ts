@@ -10,7 +10,7 @@ const imageArb = fc.record({ width: fc.integer({ min: 1, max: 30 }), height: fc.
 );
 
 describe('render (property tests with fast-check)', () => {
-  test('every built-in preset: output bytes in range, opaque, of the stated size', () => {
+  test('every built-in preset: output bytes in range, opaque, of the stated size [calc]', () => {
     fc.assert(
       fc.property(imageArb, fc.constantFrom(...BUILT_IN_PRESETS), fc.integer({ min: 1, max: 4 }), (image, preset, scale) => {
         const p = small(preset.parameters);
@@ -23,7 +23,7 @@ describe('render (property tests with fast-check)', () => {
     );
   });
 
-  test('identical inputs give identical bytes', () => {
+  test('identical inputs give identical bytes [calc]', () => {
     fc.assert(
       fc.property(imageArb, fc.constantFrom(...BUILT_IN_PRESETS), (image, preset) => {
         const p = small(preset.parameters);
@@ -35,7 +35,7 @@ describe('render (property tests with fast-check)', () => {
     );
   });
 
-  test('the glow field conserves the light of cells away from the edges', () => {
+  test('the glow field conserves the light of cells away from the edges [calc]', () => {
     fc.assert(
       fc.property(fc.double({ min: 0.05, max: 1.2, noNaN: true }), fc.double({ min: 0, max: 0.5, noNaN: true }), fc.double({ min: 0.3, max: 1, noNaN: true }), (radius, share, fill) => {
         const p = mergeParams(PANEL_TYPES[0].defaults, { cell: { cols: 64, rows: 64, fillX: fill, fillY: fill }, glass: { glowRadiusMm: radius, glowShare: share, haloShare: 0 } });
@@ -95,7 +95,7 @@ describe('luminance of a flat full-on panel equals peak / white', () => {
     const c = code / 255;
     return c <= 0.04045 ? c / 12.92 : ((c + 0.055) / 1.055) ** 2.4;
   };
-  test.each(PANEL_TYPES.map((t) => [t.id, t] as const))('%s', (_id, type) => {
+  test.each(PANEL_TYPES.map((t) => [t.id, t] as const))('%s: relative luminance of a flat full-on field is peak/white within 1 %% [calc] from the light formula', (_id, type) => {
     const white = 200;
     const peak = 0.15 * white; // low enough that every built-in colour fits under display white
     const p = mergeParams(type.defaults, {

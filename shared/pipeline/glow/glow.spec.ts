@@ -4,14 +4,14 @@ import { fluxField, glowPlan, haloRadiusFromGlass } from './glow';
 import { PANEL_TYPES } from '../../model/panel-types';
 
 describe('extended box cascade', () => {
-  test.each([0.3, 0.8, 1.5, 2.7, 5, 12.5])('three passes at σ = %f have variance exactly σ²', (sigma) => {
+  test.each([0.3, 0.8, 1.5, 2.7, 5, 12.5])('three passes at σ = %f have variance exactly σ² [paper] Gwosdek et al. 2011, from memory; [calc]', (sigma) => {
     const { r, alpha } = extendedBox(sigma);
     expect(3 * extendedBoxVariance(r, alpha)).toBeCloseTo(sigma * sigma, 9);
     expect(alpha).toBeGreaterThanOrEqual(0);
     expect(alpha).toBeLessThan(1);
   });
 
-  test('an impulse blurred far from the edges keeps its energy and its variance is σ² per axis', () => {
+  test('an impulse blurred far from the edges keeps its energy and its variance is σ² per axis [calc]', () => {
     const w = 101;
     const data = new Float32Array(w * w);
     data[50 * w + 50] = 1;
@@ -34,7 +34,7 @@ describe('extended box cascade', () => {
   // Both see an 8-bit pattern far from the edges. Tolerance: worst pixel 6/255 (2.4 % of full
   // scale: three boxes are a Gaussian of the right variance, not of exactly its shape, plus
   // sharp's 8-bit rounding) and mean absolute difference 0.75/255.
-  test.each([1.5, 3, 6])('matches sharp/libvips blur(σ = %f) on a bar and square pattern', async (sigma) => {
+  test.each([1.5, 3, 6])('matches sharp/libvips blur(σ = %f) on a bar and square pattern [calc] against the sharp/libvips library', async (sigma) => {
     const w = 96;
     const src = new Uint8Array(w * w);
     for (let y = 30; y < 66; y++) for (let x = 30; x < 66; x++) if (x < 40 || (x > 50 && x < 53) || (y > 58 && x > 56)) src[y * w + x] = 255;
@@ -53,12 +53,12 @@ describe('extended box cascade', () => {
 });
 
 describe('glass', () => {
-  test('halation ring radius r = 2·t·tan(asin(1/n)): n = 1.52 → 1.747·t [classical CRT optics, from memory]', () => {
+  test('halation ring radius r = 2·t·tan(asin(1/n)): n = 1.52 → 1.747·t [mem] classical CRT faceplate optics', () => {
     expect(haloRadiusFromGlass(1, 1.52)).toBeCloseTo(1.747, 3);
     expect(haloRadiusFromGlass(10, 1.52)).toBeCloseTo(17.47, 2);
   });
 
-  test('a glow narrower than 1.5 cells is computed on an oversampled grid', () => {
+  test('a glow narrower than 1.5 cells is computed on an oversampled grid [calc] the model’s sampling rule', () => {
     const el = PANEL_TYPES[0].defaults;
     const plan = glowPlan(el.cell, { ...el.glass, glowRadiusMm: 0.3 * 0.5 });
     expect(plan.oversample).toBe(3);
@@ -66,7 +66,7 @@ describe('glass', () => {
     expect(glowPlan(el.cell, { ...el.glass, glowRadiusMm: 3, haloRadiusMm: 6 }).oversample).toBe(1);
   });
 
-  test('the flux field holds each cell’s light times its aperture area', () => {
+  test('the flux field holds each cell’s light times its aperture area [calc]', () => {
     const cell = { ...PANEL_TYPES[0].defaults.cell, cols: 3, rows: 2, fillX: 0.5, fillY: 0.75 };
     const flux = fluxField(new Float32Array([1, 0, 0.5, 0, 0, 1]), cell, 4);
     const total = flux.data.reduce((a, b) => a + b, 0) / 16;

@@ -4,23 +4,23 @@ import type { PanelParams } from '../../model/parameters';
 const drive = (over: Partial<PanelParams['drive']>): PanelParams['drive'] => ({ grayLevels: 2, dither: 'none', serpentine: false, rowLoading: 0, refreshHz: 60, ...over });
 
 describe('Bayer ordered dither (Bayer, IEEE ICC 1973) [paper]', () => {
-  test('M₂ = [[0,2],[3,1]] and M₄ as published', () => {
+  test('M₂ = [[0,2],[3,1]] and M₄ as published [paper] Bayer 1973', () => {
     expect(bayerMatrix(2)).toEqual([[0, 2], [3, 1]]);
     expect(bayerMatrix(4)).toEqual([[0, 8, 2, 10], [12, 4, 14, 6], [3, 11, 1, 9], [15, 7, 13, 5]]);
   });
 
-  test('M₈ holds each of 0…63 once', () => {
+  test('M₈ holds each of 0…63 once [paper] Bayer 1973', () => {
     expect(bayerMatrix(8).flat().sort((a, b) => a - b)).toEqual(Array.from({ length: 64 }, (_, i) => i));
   });
 
-  test('a flat 0.5 field through M₄ lights exactly 8 of 16 cells, in a checkerboard', () => {
+  test('a flat 0.5 field through M₄ lights exactly 8 of 16 cells, in a checkerboard [calc]', () => {
     const out = quantise(new Float32Array(16).fill(0.5), 4, 4, drive({ dither: 'bayer4' }));
     expect(out.reduce((a, b) => a + b, 0)).toBe(8);
     for (let y = 0; y < 4; y++) for (let x = 0; x < 4; x++) expect(out[y * 4 + x]).toBe(out[((y + 1) % 4) * 4 + ((x + 1) % 4)]);
     expect(out[0]).not.toBe(out[1]);
   });
 
-  test.each([0, 0.125, 0.25, 0.5, 0.75, 1])('flat %f through M₈ lights that share of 64 cells', (level) => {
+  test.each([0, 0.125, 0.25, 0.5, 0.75, 1])('flat %f through M₈ lights that share of 64 cells [calc]', (level) => {
     const out = quantise(new Float32Array(64).fill(level), 8, 8, drive({ dither: 'bayer8' }));
     expect(out.reduce((a, b) => a + b, 0)).toBe(level * 64);
   });
@@ -34,11 +34,11 @@ describe('clustered dot (Ulichney 1987, from memory)', () => {
 });
 
 describe('Floyd–Steinberg error diffusion (Proc. SID 17(2), 1976) [paper]', () => {
-  test('weights 7/16, 3/16, 5/16, 1/16 summing to 1', () => {
+  test('weights 7/16, 3/16, 5/16, 1/16 summing to 1 [paper] Floyd & Steinberg 1976', () => {
     expect(FLOYD_STEINBERG).toEqual({ right: 7 / 16, belowLeft: 3 / 16, below: 5 / 16, belowRight: 1 / 16 });
   });
 
-  test('the first cell of 0.4 passes its error 7/16 right, 3/16, 5/16, 1/16 below', () => {
+  test('the first cell of 0.4 passes its error 7/16 right, 3/16, 5/16, 1/16 below [paper] Floyd & Steinberg 1976', () => {
     // 0.4 → 0 (error 0.4); the right neighbour becomes 0.4 + 0.175 = 0.575 → 1.
     const demand = new Float32Array([0.4, 0.4, 0, 0, 0, 0]);
     const out = quantise(demand, 3, 2, drive({ dither: 'floyd-steinberg' }));
@@ -49,7 +49,7 @@ describe('Floyd–Steinberg error diffusion (Proc. SID 17(2), 1976) [paper]', ()
     ['2 levels, raster', 2, false],
     ['2 levels, serpentine', 2, true],
     ['4 levels, serpentine', 4, true],
-  ])('%s preserves the mean of a gradient within one cell of light', (_name, grayLevels, serpentine) => {
+  ])('%s preserves the mean of a gradient within one cell of light [calc]', (_name, grayLevels, serpentine) => {
     const cols = 128;
     const rows = 64;
     const demand = Float32Array.from({ length: cols * rows }, (_, i) => ((i % cols) / (cols - 1)) * 0.9 + 0.05);
@@ -61,7 +61,7 @@ describe('Floyd–Steinberg error diffusion (Proc. SID 17(2), 1976) [paper]', ()
 });
 
 describe('levels without dither', () => {
-  test('rounds to the nearest of n levels', () => {
+  test('rounds to the nearest of n levels [calc]', () => {
     const out = quantise(new Float32Array([0, 0.16, 0.17, 0.5, 0.84, 1]), 6, 1, drive({ grayLevels: 4 }));
     expect(Array.from(out).map((v) => Math.round(v * 3))).toEqual([0, 0, 1, 2, 3, 3]);
   });

@@ -1,14 +1,14 @@
 import { apertureCoverage, erf, lineCoverage, softKnee } from './formulas';
 
 describe('cell aperture coverage (exact box overlap)', () => {
-  test('pixels fully inside, outside and across an aperture edge', () => {
+  test('pixels fully inside, outside and across an aperture edge [calc]', () => {
     // Cell 0 at 4 px per cell with fill 0.5 spans [1, 3].
     expect([0, 1, 2, 3].map((p) => apertureCoverage(p, 0, 4, 0.5))).toEqual([0, 1, 1, 0]);
     // Fill 0.75 spans [0.5, 3.5]: half pixels at both ends.
     expect([0, 1, 2, 3].map((p) => apertureCoverage(p, 0, 4, 0.75))).toEqual([0.5, 1, 1, 0.5]);
   });
 
-  test('coverage of a cell summed over pixels is its aperture width', () => {
+  test('coverage of a cell summed over pixels is its aperture width [calc]', () => {
     for (const [s, f] of [[3, 0.72], [2.5, 0.6], [7, 1]] as const) {
       let sum = 0;
       for (let p = -2; p < 20; p++) sum += apertureCoverage(p, 1, s, f);
@@ -25,7 +25,7 @@ describe('CRT scan lines', () => {
     expect(Math.abs(erf(-2) + 0.995322265)).toBeLessThan(1.5e-7);
   });
 
-  test('a line integrates to one line pitch', () => {
+  test('a line integrates to one line pitch [calc]', () => {
     let sum = 0;
     for (let p = -40; p < 60; p++) sum += lineCoverage(p, 1, 8, 2.4);
     expect(sum).toBeCloseTo(8, 5);
@@ -52,7 +52,7 @@ describe('CRT scan lines', () => {
 });
 
 describe('soft knee', () => {
-  test('identity below the knee, continuous at it, approaching 1 above', () => {
+  test('identity below the knee, continuous at it, approaching 1 above [calc]', () => {
     expect(softKnee(0.5, 0.8)).toBe(0.5);
     expect(softKnee(0.8 + 1e-9, 0.8)).toBeCloseTo(0.8, 8);
     expect(softKnee(5, 0.8)).toBeLessThan(1);
@@ -74,7 +74,7 @@ describe('ChannelCoder (light → knee → sRGB as thresholds)', () => {
     ['exposure +2 EV into the knee', { viewing: { exposureEv: 2, knee: 0.7 } }],
     ['bright ambient, no knee', { viewing: { ambientCdM2: 40, knee: 1 } }],
     ['white CRT', { emission: { peak1Nm: 460, fwhm1Nm: 40, peak2Nm: 565, fwhm2Nm: 60, band2Weight: 1.6 } }],
-  ])('%s: equals evaluating the formulas for 20 000 luminances', (_name, patch) => {
+  ])('%s: equals evaluating the formulas for 20 000 luminances [regression] against the formulas', (_name, patch) => {
     const u = outputUniforms(mergeParams(PANEL_TYPES[0].defaults, patch), 3);
     const coders = u.colour.map((c) => new ChannelCoder(c, u));
     const ambient = u.colourY * u.ambientCdM2;
@@ -94,7 +94,7 @@ describe('ChannelCoder (light → knee → sRGB as thresholds)', () => {
     ['amber EL defaults', {}],
     ['exposure +2 EV into the knee', { viewing: { exposureEv: 2, knee: 0.7 } }],
     ['bright ambient, no knee', { viewing: { ambientCdM2: 40, knee: 1 } }],
-  ])('%s: the one-lookup pixel table gives the channel coders’ bytes, at every threshold and one ulp either side', (_name, patch) => {
+  ])('%s: the one-lookup pixel table gives the channel coders’ bytes, at every threshold and one ulp either side [regression] against the channel coders', (_name, patch) => {
     const { PixelCoder } = jest.requireActual('./compose') as typeof import('./compose');
     const u = outputUniforms(mergeParams(PANEL_TYPES[0].defaults, patch), 3);
     const pixel = new PixelCoder(u);

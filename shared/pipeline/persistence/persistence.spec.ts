@@ -4,7 +4,7 @@ describe('persistence', () => {
   test.each([
     ['P1-like, τ = 8.69 ms (≈ 20 ms to 10 %)', 8.69],
     ['P39-like, τ = 65.1 ms (≈ 150 ms to 10 %)', 65.1],
-  ])('%s: a cell switched off decays as exp(−t/τ) [phosphor tables, from memory]', (_name, tau) => {
+  ])('%s: a cell switched off decays as exp(−t/τ) [mem] phosphor tables', (_name, tau) => {
     const period = 1000 / 60;
     const a = decayFactor(period, tau);
     const state = new Float32Array([0]);
@@ -17,11 +17,11 @@ describe('persistence', () => {
     }
   });
 
-  test('time to 10 % is τ·ln 10', () => {
+  test('time to 10 % is τ·ln 10 [calc]', () => {
     expect(decayFactor(20, 20 / Math.LN10)).toBeCloseTo(0.1, 12);
   });
 
-  test('a frame lasting several refreshes leaves the afterglow decayed over all of them', () => {
+  test('a frame lasting several refreshes leaves the afterglow decayed over all of them [calc]', () => {
     const a = 0.5;
     const state = new Float32Array([1]);
     const shown = new Float32Array(1);
@@ -30,7 +30,7 @@ describe('persistence', () => {
     expect(state[0]).toBe(0.125);
   });
 
-  test('interlace: the field being drawn is at full drive, the other shows its afterglow', () => {
+  test('interlace: the field being drawn is at full drive, the other shows its afterglow [calc]', () => {
     const e = new Float32Array([1, 1, 1, 1, 1, 1]);
     interlaceField(e, 2, 3, 'odd', 0.25);
     expect(Array.from(e)).toEqual([1, 1, 0.25, 0.25, 1, 1]);

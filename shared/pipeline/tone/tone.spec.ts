@@ -18,7 +18,7 @@ describe('tone', () => {
     expect(out[0]).toBeCloseTo(((0.299 + 0.055) / 1.055) ** 2.4, 5);
   });
 
-  test('neutral settings leave luminance unchanged; invert gives the negative in perceptual terms', () => {
+  test('neutral settings leave luminance unchanged; invert gives the negative in perceptual terms [calc]', () => {
     const out = tone(cells([0.2158605, 0.2158605, 0.2158605]), source);
     expect(out[0]).toBeCloseTo(0.2158605, 5);
     const inv = tone(cells([1, 1, 1], [0, 0, 0]), { ...source, invert: true });
@@ -26,7 +26,7 @@ describe('tone', () => {
     expect(inv[1]).toBeCloseTo(1, 9);
   });
 
-  test('black clip drives low tones off and stretches the rest', () => {
+  test('black clip drives low tones off and stretches the rest [calc]', () => {
     const out = tone(cells([0.01, 0.01, 0.01], [1, 1, 1]), { ...source, threshold: 0.2 });
     expect(out[0]).toBe(0);
     expect(out[1]).toBeCloseTo(1, 6);
