@@ -1,6 +1,8 @@
-import { spawn, type ChildProcess } from 'node:child_process';
+import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
+import { Client } from 'pg';
+import { loadConfig } from '../config';
 
 /** A real server process for the reliability drills: its own port, database and storage folder. */
 export interface ServerProcess {
@@ -113,9 +115,6 @@ export class ApiSession {
 
 /** Drops and recreates a database on the project's loopback PostgreSQL (started if needed), so a drill starts empty. */
 export async function freshDatabase(name: string): Promise<void> {
-  const { spawnSync } = await import('node:child_process');
-  const { Client } = await import('pg');
-  const { loadConfig } = await import('../config');
   const run = (...args: string[]) => {
     const r = spawnSync(process.execPath, ['scripts/db.mjs', ...args], { cwd: ROOT, encoding: 'utf8' });
     if (r.status !== 0) throw new Error(`scripts/db.mjs ${args.join(' ')} failed: ${r.stdout}${r.stderr}`);
