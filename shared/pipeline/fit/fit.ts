@@ -82,6 +82,8 @@ export function fitToGrid(image: RgbaImage, cell: PanelParams['cell'], fit: Pane
   const ys = spans(rows, p.scaleY, p.offsetY, image.height);
   const src = image.data;
   const dst = result.data;
+  // A local, not the module's import: no property load per pixel once compiled to CommonJS.
+  const decode = SRGB_TO_LINEAR;
   for (let r = 0; r < rows; r++) {
     const sy = ys[r];
     if (!sy.idx.length) continue;
@@ -97,9 +99,9 @@ export function fitToGrid(image: RgbaImage, cell: PanelParams['cell'], fit: Pane
         for (let k = 0; k < sx.idx.length; k++) {
           const o = (row + sx.idx[k]) * 4;
           const w = wy * sx.w[k] * (src[o + 3] / 255);
-          R += w * SRGB_TO_LINEAR[src[o]];
-          G += w * SRGB_TO_LINEAR[src[o + 1]];
-          B += w * SRGB_TO_LINEAR[src[o + 2]];
+          R += w * decode[src[o]];
+          G += w * decode[src[o + 1]];
+          B += w * decode[src[o + 2]];
         }
       }
       const d = (r * cols + c) * 3;

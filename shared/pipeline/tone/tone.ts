@@ -13,7 +13,10 @@ export function tone(rgb: CellRgb, source: PanelParams['source'], out?: Float32A
   const result = out ?? new Float32Array(n);
   const { brightness, contrast, gamma, invert, threshold } = source;
   const rec601 = source.luma === 'rec601';
-  // Locals for the hot loop: no property loads per cell.
+  // Locals for the hot loop: no property loads per cell (an imported function is a property of
+  // the module object once compiled to CommonJS).
+  const encode = srgbEncode;
+  const decode = srgbDecode;
   const data = rgb.data;
   const [r601, g601, b601] = REC601;
   const [r709, g709, b709] = REC709;
@@ -21,13 +24,13 @@ export function tone(rgb: CellRgb, source: PanelParams['source'], out?: Float32A
     const R = data[i * 3];
     const G = data[i * 3 + 1];
     const B = data[i * 3 + 2];
-    let p = rec601 ? r601 * srgbEncode(R) + g601 * srgbEncode(G) + b601 * srgbEncode(B) : srgbEncode(r709 * R + g709 * G + b709 * B);
+    let p = rec601 ? r601 * encode(R) + g601 * encode(G) + b601 * encode(B) : encode(r709 * R + g709 * G + b709 * B);
     p = (p - 0.5) * contrast + 0.5 + brightness;
     p = Math.min(1, Math.max(0, p));
     if (gamma !== 1) p = p ** gamma;
     if (invert) p = 1 - p;
     p = p <= threshold ? 0 : (p - threshold) / (1 - threshold);
-    result[i] = srgbDecode(p);
+    result[i] = decode(p);
   }
   return result;
 }
