@@ -84,7 +84,7 @@ export const PARAMS: readonly ParamSpec[] = [
 
   n('glass', 'glowRadiusMm', 'Glow radius', 0, 20, 'mm', 0.01, 'Gaussian σ of light scattered in the glass near the cell'),
   n('glass', 'glowShare', 'Glow share', 0, 0.9, '', 0.005, 'Share of emitted light that leaves as glow'),
-  n('glass', 'haloRadiusMm', 'Halo radius', 0, 40, 'mm', 0.01, 'Gaussian σ of the wide halo (light reflected inside the faceplate)'),
+  n('glass', 'haloRadiusMm', 'Halo radius', 0, 40, 'mm', 0.01, 'Radius of the halo ring: light reflected back by the glass–air surface of the faceplate'),
   n('glass', 'haloShare', 'Halo share', 0, 0.5, '', 0.005, 'Share of emitted light that leaves as halo'),
   b('glass', 'haloFromGlass', 'Halo from glass', 'Derive the halo radius from glass thickness and index: r = 2·t·tan(asin(1/n))'),
   n('glass', 'glassThicknessMm', 'Glass thickness', 0.1, 20, 'mm', 0.05, 'Front glass (faceplate) thickness t'),

@@ -11,7 +11,7 @@ import { tone } from './tone/tone';
 import type { Field, Frame, RgbaImage } from './types';
 
 /** Bumped whenever a stage's output can change for the same input; part of the render cache key. */
-export const PIPELINE_VERSION = 3;
+export const PIPELINE_VERSION = 4;
 
 /** Panel refreshes an animation frame lasts at the panel's refresh rate (at least one). */
 export function refreshesOf(delayMs: number, refreshHz: number): number {

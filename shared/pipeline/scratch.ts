@@ -6,8 +6,9 @@
  */
 const slots: Float32Array[] = [];
 
-/** Slots in use: 0–3 the blur's passes (glow/blur.ts), 4 a blurred glow component (glow/glow.ts), 5 renderCpu's glow field. */
+/** Slots in use: 0–3 the blur's passes (glow/blur.ts), 4 a blurred glow component and 6 its ring (glow/glow.ts), 5 renderCpu's glow field. */
 export const GLOW_SLOT = 5;
+export const RING_SLOT = 6;
 
 /** A Float32Array of `length` from `slot`, grown when too short; its contents are whatever the slot last held. */
 export function scratchArray(slot: number, length: number): Float32Array {

@@ -1,6 +1,6 @@
 import sharp from 'sharp';
 import { extendedBox, extendedBoxVariance, gaussianBlur } from './blur';
-import { fluxField, glowPlan, haloRadiusFromGlass } from './glow';
+import { fluxField, glowField, glowPlan, haloRadiusFromGlass } from './glow';
 import { PANEL_TYPES } from '../../model/panel-types';
 
 describe('extended box cascade', () => {
@@ -71,5 +71,47 @@ describe('glass', () => {
     const flux = fluxField(new Float32Array([1, 0, 0.5, 0, 0, 1]), cell, 4);
     const total = flux.data.reduce((a, b) => a + b, 0) / 16;
     expect(total).toBeCloseTo((1 + 0.5 + 1) * 0.5 * 0.75, 9);
+  });
+});
+
+describe('the halo is a ring (light reflected back by the glass–air surface)', () => {
+  // One lit cell in the middle of a 121 × 121 panel, fill 1, halo only: radius r = 3 mm at a
+  // 0.3 mm pitch = 10 cells. Total internal reflection returns the light as an annulus from the
+  // critical angle on, darker inside it (classical faceplate optics [mem]); the model spreads it
+  // evenly over a ring of radius r, softened by σ = RING_SOFTNESS · r [calc].
+  const n = 121;
+  const c = 60;
+  const cell = { ...PANEL_TYPES[0].defaults.cell, cols: n, rows: n, pitchXMm: 0.3, pitchYMm: 0.3, fillX: 1, fillY: 1 };
+  const glass = { ...PANEL_TYPES[0].defaults.glass, glowShare: 0, haloShare: 0.2, haloRadiusMm: 3, haloFromGlass: false };
+  const emission = new Float32Array(n * n);
+  emission[c * n + c] = 1;
+  const field = glowField(emission, cell, glowPlan(cell, glass));
+  const m = field.width / n;
+
+  test('its radial profile peaks at the ring radius ± one sample, in every direction [calc]', () => {
+    const r = (3 / 0.3) * m;
+    const centre = c * m + (m - 1) / 2;
+    for (const [dx, dy] of [[1, 0], [0, 1], [-1, 0], [Math.SQRT1_2, Math.SQRT1_2]]) {
+      let best = 0;
+      let at = 0;
+      for (let d = 0; d < 2 * r; d++) {
+        const x = Math.round(centre + d * dx);
+        const y = Math.round(centre + d * dy);
+        const v = field.data[y * field.width + x];
+        if (v > best) [best, at] = [v, d];
+      }
+      expect({ dx, dy, near: Math.abs(at - r) <= 1 }).toEqual({ dx, dy, near: true });
+    }
+  });
+
+  test('inside the ring the glass is darker: the centre holds under a tenth of the ring’s light [calc]', () => {
+    const centre = Math.round(c * m + (m - 1) / 2);
+    const ringAt = field.data[centre * field.width + centre + Math.round(10 * m)];
+    expect(field.data[centre * field.width + centre]).toBeLessThan(ringAt / 10);
+  });
+
+  test('it keeps the halo share of the cell’s light [calc]', () => {
+    const total = field.data.reduce((a, b) => a + b, 0) / (m * m);
+    expect(total).toBeCloseTo(0.2, 4);
   });
 });

@@ -1,6 +1,6 @@
 import type { PanelParams } from '../../model/parameters';
 import type { Field } from '../types';
-import { scratchArray } from '../scratch';
+import { RING_SLOT, scratchArray } from '../scratch';
 import { blurAcross, blurDown } from './blur';
 
 /** Halation ring radius from faceplate thickness t and index n: r = 2·t·tan(asin(1/n)). */
@@ -14,7 +14,15 @@ export interface GlowComponent {
   oversample: number;
   sigmaX: number;
   sigmaY: number;
+  /**
+   * A ring (the halo): the Gaussian-softened light is spread evenly over these offsets, in whole
+   * samples (dx, dy pairs), points on the circle of the ring radius; none for a centred Gaussian.
+   */
+  ring?: Int32Array;
 }
+
+/** Width (Gaussian σ) of the halo ring, as a share of its radius: a soft annulus, not a hairline. */
+export const RING_SOFTNESS = 0.25;
 
 /** The glow parameters resolved to grids: each component where it is sampled well, summed on the finest. */
 export interface GlowPlan {
@@ -32,19 +40,70 @@ export const MAX_OVERSAMPLE = 4;
 /** Chooses the glow grid and σ in its samples for these parameters (pure; shared with the shader side). */
 export function glowPlan(cell: PanelParams['cell'], glass: PanelParams['glass']): GlowPlan {
   const haloMm = glass.haloFromGlass ? haloRadiusFromGlass(glass.glassThicknessMm, glass.refractiveIndex) : glass.haloRadiusMm;
-  const parts = [
-    { share: glass.glowShare, mm: glass.glowRadiusMm },
-    { share: glass.haloShare, mm: haloMm },
-  ];
-  const resolve = (p: { share: number; mm: number }): GlowComponent => {
-    const narrowest = Math.min(p.mm / cell.pitchXMm, p.mm / cell.pitchYMm);
-    const oversample = !(p.share > 0 && p.mm > 0) || narrowest >= MIN_SIGMA_CELLS ? 1 : Math.min(MAX_OVERSAMPLE, Math.ceil(MIN_SIGMA_CELLS / narrowest));
-    return { share: p.share, oversample, sigmaX: (p.mm / cell.pitchXMm) * oversample, sigmaY: (p.mm / cell.pitchYMm) * oversample };
+  const resolve = (share: number, sigmaMm: number): GlowComponent => {
+    const narrowest = Math.min(sigmaMm / cell.pitchXMm, sigmaMm / cell.pitchYMm);
+    const oversample = !(share > 0 && sigmaMm > 0) || narrowest >= MIN_SIGMA_CELLS ? 1 : Math.min(MAX_OVERSAMPLE, Math.ceil(MIN_SIGMA_CELLS / narrowest));
+    return { share, oversample, sigmaX: (sigmaMm / cell.pitchXMm) * oversample, sigmaY: (sigmaMm / cell.pitchYMm) * oversample };
   };
-  const glow = resolve(parts[0]);
-  const halo = resolve(parts[1]);
+  const glow = resolve(glass.glowShare, glass.glowRadiusMm);
+  // The halo: light reflected back from the glass–air surface lands on a ring of radius r around
+  // its cell (darker glass inside it), softened by a Gaussian of σ = RING_SOFTNESS · r.
+  const halo = resolve(glass.haloShare, RING_SOFTNESS * haloMm);
+  if (halo.share > 0 && haloMm > 0) halo.ring = ringOffsets((haloMm / cell.pitchXMm) * halo.oversample, (haloMm / cell.pitchYMm) * halo.oversample, Math.min(halo.sigmaX, halo.sigmaY));
   const used = [glow, halo].filter((c) => c.share > 0).map((c) => c.oversample);
   return { oversample: Math.max(1, ...used), glow, halo };
+}
+
+/**
+ * Points on an ellipse of radii rx, ry samples, rounded to whole samples: as many as keep
+ * neighbours within 1.5 σ of each other, so the σ-softened points blend into a smooth ring
+ * (at least 8). Whole-sample offsets move each point by at most half a sample [calc].
+ */
+export function ringOffsets(rx: number, ry: number, sigma: number): Int32Array {
+  const circumference = 2 * Math.PI * Math.max(rx, ry);
+  const n = Math.max(8, Math.ceil(circumference / (1.5 * Math.max(sigma, 0.5))));
+  const out = new Int32Array(2 * n);
+  for (let k = 0; k < n; k++) {
+    const t = (2 * Math.PI * (k + 0.5)) / n;
+    out[2 * k] = Math.round(rx * Math.cos(t));
+    out[2 * k + 1] = Math.round(ry * Math.sin(t));
+  }
+  return out;
+}
+
+/**
+ * Rows [y0, y1) of a field spread over a ring: out = (1/n) Σ_k field[y + dy_k, x + dx_k] (0
+ * outside the field), summed in offset order in double precision, so bands done apart agree.
+ * Into `out`, whose row 0 is field row y0.
+ */
+export function ringRows(field: Field, ring: Int32Array, y0: number, y1: number, out: Float32Array): void {
+  const { width, height, data } = field;
+  const n = ring.length / 2;
+  const scale = 1 / n;
+  const bases = new Int32Array(n);
+  const shifts = new Int32Array(n);
+  for (let y = y0; y < y1; y++) {
+    // The offsets whose row lies inside the field, and the columns where all of them do too.
+    let taps = 0;
+    let lo = 0;
+    let hi = width;
+    for (let k = 0; k < n; k++) {
+      const sy = y + ring[2 * k + 1];
+      if (sy < 0 || sy >= height) continue;
+      const dx = ring[2 * k];
+      shifts[taps] = dx;
+      bases[taps++] = sy * width + dx;
+      lo = Math.max(lo, -dx);
+      hi = Math.min(hi, width - dx);
+    }
+    const o = (y - y0) * width;
+    for (let x = 0; x < width; x++) {
+      let sum = 0;
+      if (x >= lo && x < hi) for (let k = 0; k < taps; k++) sum += data[bases[k] + x];
+      else for (let k = 0; k < taps; k++) if (x + shifts[k] >= 0 && x + shifts[k] < width) sum += data[bases[k] + x];
+      out[o + x] = sum * scale;
+    }
+  }
 }
 
 /** Overlap of the centred aperture [(1−f)/2, (1+f)/2] with sub-sample k of m, as a share of the sub-sample. */
@@ -92,9 +151,10 @@ export function fluxRows(emission: Float32Array, cell: PanelParams['cell'], m: n
 /**
  * Adds `share` × a field sampled m per cell into rows [y0, y1) of a field sampled M per cell (M a
  * multiple of m or not), bilinearly at sample centres: fine sample k sits at (k + 0.5)/M cells,
- * which is coarse coordinate (k + 0.5)·m/M − 0.5, clamped at the edges.
+ * which is coarse coordinate (k + 0.5)·m/M − 0.5, clamped at the edges. `coarse` may hold only
+ * the rows from coarseRow0 on that those fine rows read (coarse.height stays the whole field's).
  */
-export function addUpsampled(coarse: Field, m: number, fine: Field, M: number, share: number, y0 = 0, y1 = fine.height): void {
+export function addUpsampled(coarse: Field, m: number, fine: Field, M: number, share: number, y0 = 0, y1 = fine.height, coarseRow0 = 0): void {
   const map = (n: number, size: number) => {
     const i0 = new Int32Array(n);
     const i1 = new Int32Array(n);
@@ -113,8 +173,8 @@ export function addUpsampled(coarse: Field, m: number, fine: Field, M: number, s
   const dst = fine.data;
   for (let y = y0; y < y1; y++) {
     const t = ys.t[y];
-    const r0 = ys.i0[y] * coarse.width;
-    const r1 = ys.i1[y] * coarse.width;
+    const r0 = (ys.i0[y] - coarseRow0) * coarse.width;
+    const r1 = (ys.i1[y] - coarseRow0) * coarse.width;
     const row = y * fine.width;
     for (let x = 0; x < fine.width; x++) {
       const a = xs.i0[x];
@@ -127,14 +187,14 @@ export function addUpsampled(coarse: Field, m: number, fine: Field, M: number, s
   }
 }
 
-/** into[i0 … i1) = share × from[i0 … i1) (0 + x is exactly x: the same values as adding into zeros). */
-function scaleInto(into: Float32Array, from: Float32Array, share: number, i0: number, i1: number): void {
-  for (let i = i0; i < i1; i++) into[i] = share * from[i];
+/** into[i] = share × from[i + shift] for i in [i0, i1) (0 + x is exactly x: the same values as adding into zeros). */
+function scaleInto(into: Float32Array, from: Float32Array, share: number, i0: number, i1: number, shift: number): void {
+  for (let i = i0; i < i1; i++) into[i] = share * from[i + shift];
 }
 
-/** into[i0 … i1) += share × from[i0 … i1). */
-function addScaled(into: Float32Array, from: Float32Array, share: number, i0: number, i1: number): void {
-  for (let i = i0; i < i1; i++) into[i] += share * from[i];
+/** into[i] += share × from[i + shift] for i in [i0, i1). */
+function addScaled(into: Float32Array, from: Float32Array, share: number, i0: number, i1: number, shift: number): void {
+  for (let i = i0; i < i1; i++) into[i] += share * from[i + shift];
 }
 
 /** Samples across and down of the glow field for these parameters. */
@@ -178,17 +238,35 @@ export function sumComponent(cell: PanelParams['cell'], plan: GlowPlan, k: numbe
     out.data.fill(0, i0, i1);
     return;
   }
-  if (c.oversample === plan.oversample) {
-    if (k === 0) scaleInto(out.data, blurred, c.share, i0, i1);
-    else addScaled(out.data, blurred, c.share, i0, i1);
+  const size = componentSize(cell, c);
+  const M = plan.oversample;
+  // The component's rows these output rows read, spread over the ring when it has one.
+  const [r0, r1] = c.oversample === M ? [y0, y1] : coarseRowsFor(size.height, c.oversample, M, y0, y1);
+  let source = blurred;
+  let row0 = 0;
+  if (c.ring) {
+    source = scratchArray(RING_SLOT, (r1 - r0) * size.width);
+    ringRows({ ...size, data: blurred }, c.ring, r0, r1, source);
+    row0 = r0;
+  }
+  if (c.oversample === M) {
+    const at = (y0 - row0) * out.width;
+    if (k === 0) scaleInto(out.data, source, c.share, i0, i1, at - i0);
+    else addScaled(out.data, source, c.share, i0, i1, at - i0);
     return;
   }
   if (k === 0) out.data.fill(0, i0, i1);
-  addUpsampled({ ...componentSize(cell, c), data: blurred }, c.oversample, out, plan.oversample, c.share, y0, y1);
+  addUpsampled({ ...size, data: source }, c.oversample, out, M, c.share, y0, y1, row0);
+}
+
+/** The coarse rows [r0, r1) that bilinear upsampling (addUpsampled) of fine rows [y0, y1) reads. */
+function coarseRowsFor(height: number, m: number, M: number, y0: number, y1: number): [number, number] {
+  const at = (y: number) => Math.min(Math.max(((y + 0.5) * m) / M - 0.5, 0), height - 1);
+  return [Math.floor(at(y0)), Math.min(Math.floor(at(y1 - 1)) + 2, height)];
 }
 
 /**
- * The glow field: glowShare·G(flux, σ_glow) + haloShare·G(flux, σ_halo). Each component is
+ * The glow field: glowShare·G(flux, σ_glow) + haloShare·Ring(G(flux, σ_ring)). Each component is
  * blurred on the grid that samples it well, then the coarser is upsampled onto the finer. Into
  * `into` when given (glowFieldSize samples; its contents are replaced), else a new array. The
  * render pool runs the same three steps in row and column bands across its threads.
