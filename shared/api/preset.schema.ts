@@ -1,6 +1,6 @@
 import '../model/zod-config';
 import { z } from 'zod';
-import { panelParamsSchema } from '../model/parameters';
+import { panelParamsSchema, withAddedKeys } from '../model/parameters';
 import { nameSchema, noteSchema } from './text.schema';
 
 const name = nameSchema(80);
@@ -34,7 +34,8 @@ export const presetDocumentSchema = z.strictObject({
   version: z.literal(1, { message: 'version must be 1' }),
   name,
   panelTypeId: z.string().max(100),
-  parameters: panelParamsSchema,
+  // A file written before a parameter existed gets that parameter's stated value.
+  parameters: z.preprocess(withAddedKeys, panelParamsSchema),
 });
 export type PresetDocument = z.infer<typeof presetDocumentSchema>;
 

@@ -46,6 +46,9 @@ export const DITHERS = ['none', 'bayer2', 'bayer4', 'bayer8', 'cluster4', 'floyd
 export const CELL_MODES = ['matrix', 'crt'] as const;
 export const COLOUR_SOURCES = ['spectrum', 'chromaticity'] as const;
 export const FIELDS = ['both', 'odd', 'even'] as const;
+export const LINE_SAMPLINGS = ['auto', 'area', 'centred'] as const;
+/** Below this many output pixels a line pitch, automatic line sampling centres each line on a pixel row. */
+export const LINE_CENTRED_BELOW_PX = 4;
 
 export const PARAMS: readonly ParamSpec[] = [
   e('source', 'fit', 'Fit', FIT_MODES, { native: 'Native, 1:1 centred', integer: 'Whole-number scale', area: 'Fit, area average' }, 'How artwork pixels map onto panel cells: 1:1 centred, whole-number scale, or fit with area averaging'),
@@ -70,6 +73,7 @@ export const PARAMS: readonly ParamSpec[] = [
   n('cell', 'fillX', 'Fill across', 0.05, 1, '', 0.01, 'Share of the pitch the lit aperture covers across'),
   n('cell', 'fillY', 'Fill down', 0.05, 1, '', 0.01, 'Share of the pitch the lit aperture covers down (matrix cells)'),
   n('cell', 'spotSigma', 'Spot size', 0.1, 1, 'line pitch', 0.01, 'CRT beam spot: Gaussian σ of the line profile as a share of the line pitch'),
+  e('cell', 'lineSampling', 'Scan-line sampling', LINE_SAMPLINGS, { auto: 'Automatic: centred below 4 px a line', area: 'Area-true', centred: 'Centred on pixel rows' }, 'CRT: area-true sampling of the line profile, or each line moved (by under half a pixel) onto the centre of a pixel row so small previews keep the line structure'),
   e('cell', 'field', 'Interlace field', FIELDS, { both: 'Both (progressive)', odd: 'Odd field', even: 'Even field' }, 'CRT: both fields (progressive) or the moment one field is drawn over the fading other'),
 
   e('emission', 'colourSource', 'Colour from', COLOUR_SOURCES, { spectrum: 'Spectrum bands', chromaticity: 'CIE 1931 x, y' }, 'Emission colour from a spectrum of bands, or from stated CIE 1931 x, y'),
@@ -102,7 +106,7 @@ export const PARAMS: readonly ParamSpec[] = [
 export interface PanelParams {
   source: { fit: (typeof FIT_MODES)[number]; luma: (typeof LUMA_MODES)[number]; brightness: number; contrast: number; gamma: number; invert: boolean; threshold: number };
   drive: { grayLevels: number; dither: (typeof DITHERS)[number]; serpentine: boolean; rowLoading: number; refreshHz: number };
-  cell: { mode: (typeof CELL_MODES)[number]; cols: number; rows: number; pitchXMm: number; pitchYMm: number; fillX: number; fillY: number; spotSigma: number; field: (typeof FIELDS)[number] };
+  cell: { mode: (typeof CELL_MODES)[number]; cols: number; rows: number; pitchXMm: number; pitchYMm: number; fillX: number; fillY: number; spotSigma: number; lineSampling: (typeof LINE_SAMPLINGS)[number]; field: (typeof FIELDS)[number] };
   emission: { colourSource: (typeof COLOUR_SOURCES)[number]; peak1Nm: number; fwhm1Nm: number; peak2Nm: number; fwhm2Nm: number; band2Weight: number; chromaX: number; chromaY: number; decayMs: number };
   glass: { glowRadiusMm: number; glowShare: number; haloRadiusMm: number; haloShare: number; haloFromGlass: boolean; glassThicknessMm: number; refractiveIndex: number };
   viewing: { peakCdM2: number; offCdM2: number; ambientCdM2: number; whiteCdM2: number; exposureEv: number; knee: number };
@@ -135,6 +139,23 @@ export const panelParamsPatchSchema = z.strictObject(
   ),
 );
 export type PanelParamsPatch = { [G in Group]?: Partial<PanelParams[G]> };
+
+/**
+ * Parameters added to the table after version 1 of the preset document, with the value a file
+ * written before them gets on import (a database migration gives stored sets the same).
+ */
+export const ADDED_SINCE_VERSION_1: readonly { group: Group; key: string; value: unknown }[] = [{ group: 'cell', key: 'lineSampling', value: 'auto' }];
+
+/** A parameter object from an older file with the keys added since filled in (anything else is left for the schema to judge). */
+export function withAddedKeys(raw: unknown): unknown {
+  if (!raw || typeof raw !== 'object') return raw;
+  const out = { ...(raw as Record<string, unknown>) };
+  for (const { group, key, value } of ADDED_SINCE_VERSION_1) {
+    const g = out[group];
+    if (g && typeof g === 'object' && !(key in g)) out[group] = { ...(g as Record<string, unknown>), [key]: value };
+  }
+  return out;
+}
 
 /** Applies a patch to full parameters (a new object; the inputs are not changed). */
 export function mergeParams(base: PanelParams, patch: PanelParamsPatch): PanelParams {

@@ -28,7 +28,7 @@ export function apertureTaps(pixels: number, cells: number, size: number, fill: 
 }
 
 /** CRT line-profile weights of each output row (lines within 4σ). */
-export function lineTaps(pixels: number, rows: number, size: number, sigma: number): Taps {
+export function lineTaps(pixels: number, rows: number, size: number, sigma: number, centred = false): Taps {
   // Lines within 4σ of the pixel contribute (erf beyond 4σ is below 2·10⁻⁸).
   const reach = Math.ceil((4 * sigma + 1) / size) + 1;
   const stride = 2 * reach + 1;
@@ -40,7 +40,7 @@ export function lineTaps(pixels: number, rows: number, size: number, sigma: numb
       const r = centre - reach + k;
       const valid = r >= 0 && r < rows;
       index[p * stride + k] = valid ? r : 0;
-      weight[p * stride + k] = valid ? lineCoverage(p, r, size, sigma) : 0;
+      weight[p * stride + k] = valid ? lineCoverage(p, r, size, sigma, centred) : 0;
     }
   }
   return { index, weight, stride };
@@ -229,7 +229,7 @@ export function compose(emission: Float32Array, glow: Field, u: OutputUniforms, 
   const { width, height, cols, rows } = u;
   const image = out ?? { width, height, data: new Uint8Array(width * height * 4) };
   const xs = apertureTaps(width, cols, u.cellW, u.fillX);
-  const ys = u.crt ? lineTaps(height, rows, u.cellH, u.spotSigmaPx) : apertureTaps(height, rows, u.cellH, u.fillY);
+  const ys = u.crt ? lineTaps(height, rows, u.cellH, u.spotSigmaPx, u.lineCentred) : apertureTaps(height, rows, u.cellH, u.fillY);
   const gx = glowTaps(width, glow.width, u.cellW, u.glowOversample);
   const gy = glowTaps(height, glow.height, u.cellH, u.glowOversample);
   // Each panel row's horizontal profile is computed once and reused by every output row it

@@ -30,12 +30,35 @@ export function erf(x: number): number {
 /**
  * A CRT line's light falling on output row [p, p+1]: the line (centre of row `r`, pitch s px)
  * has a Gaussian profile of σ px whose integral is one line pitch, so a flat field of lines
- * averages to a fully lit aperture.
+ * averages to a fully lit aperture. Area-true: the profile integrated over the row. Centred:
+ * the line's centre is moved onto the centre of the pixel row it falls in (by at most half a
+ * pixel) and the profile is sampled at row centres, normalised so the line keeps exactly its
+ * light — at 2–3 px a line each line then shows as a bright row between darker ones, where area
+ * sampling of a centre on a pixel boundary shows a flat field.
  */
-export function lineCoverage(p: number, r: number, s: number, sigma: number): number {
-  const centre = (r + 0.5) * s;
-  const k = 1 / (Math.SQRT2 * sigma);
-  return (s / 2) * (erf((p + 1 - centre) * k) - erf((p - centre) * k));
+export function lineCoverage(p: number, r: number, s: number, sigma: number, centred = false): number {
+  if (!centred) {
+    const centre = (r + 0.5) * s;
+    const k = 1 / (Math.SQRT2 * sigma);
+    return (s / 2) * (erf((p + 1 - centre) * k) - erf((p - centre) * k));
+  }
+  const d = p + 0.5 - lineCentre(r, s, true);
+  const reach = centredReach(sigma);
+  if (Math.abs(d) > reach) return 0;
+  let z = 0;
+  for (let j = -reach; j <= reach; j++) z += Math.exp(-(j * j) / (2 * sigma * sigma));
+  return (s * Math.exp(-(d * d) / (2 * sigma * sigma))) / z;
+}
+
+/** Rows either side of its own that a centred line lights: within 4σ + 1 px (the taps' reach). */
+function centredReach(sigma: number): number {
+  return Math.floor(4 * sigma + 1);
+}
+
+/** Where line r's centre sits, in output pixels: (r + ½)·s, or the centre of the pixel row holding it. */
+export function lineCentre(r: number, s: number, centred: boolean): number {
+  const c = (r + 0.5) * s;
+  return centred ? Math.floor(c) + 0.5 : c;
 }
 
 /** Soft knee: identity up to k, then k + (1−k)(1 − e^(−(x−k)/(1−k))), approaching 1 smoothly (C¹). */

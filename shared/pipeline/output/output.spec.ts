@@ -116,3 +116,49 @@ describe('ChannelCoder (light → knee → sRGB as thresholds)', () => {
     expect(mismatches).toBe(0);
   });
 });
+
+describe('scan-line sampling (area-true or centred on pixel rows)', () => {
+  const { renderCpu } = jest.requireActual('../render') as typeof import('../render');
+  const { outputUniforms } = jest.requireActual('./uniforms') as typeof import('./uniforms');
+  const { mergeParams } = jest.requireActual('../../model/parameters') as typeof import('../../model/parameters');
+  const { PANEL_TYPES } = jest.requireActual('../../model/panel-types') as typeof import('../../model/panel-types');
+  const crt = PANEL_TYPES.find((t) => t.id === 'crt-green-p1')!.defaults;
+  const flat = (lineSampling: 'auto' | 'area' | 'centred') =>
+    mergeParams(crt, { cell: { cols: 16, rows: 16, lineSampling, fillX: 1 }, glass: { glowShare: 0, haloShare: 0 }, drive: { dither: 'none', rowLoading: 0 } });
+  const lit = { width: 16, height: 16, data: new Uint8Array(16 * 16 * 4).fill(255) };
+  /** Green channel down the middle column, rows 8 lines from the top. */
+  const column = (lineSampling: 'auto' | 'area' | 'centred', scale: number) => {
+    const out = renderCpu([{ image: lit, delayMs: 0 }], flat(lineSampling), { scale });
+    const x = 8 * scale;
+    return Array.from({ length: 4 * scale }, (_, k) => out.data[((6 * scale + k) * out.width + x) * 4 + 1]);
+  };
+
+  test('at 2 px a line, area-true sampling shows a flat field: each line centre falls on a pixel boundary [calc]', () => {
+    const g = column('area', 2);
+    expect(Math.max(...g) - Math.min(...g)).toBeLessThanOrEqual(1);
+  });
+
+  test('at 2 px a line, centred sampling (the automatic choice) shows bright rows between dark ones [calc]', () => {
+    for (const mode of ['centred', 'auto'] as const) {
+      const g = column(mode, 2);
+      // P1 spot σ = 0.36 pitch: rows on a line about 1.3× the light of rows between (≈ 20 codes apart) [calc].
+      expect({ mode, apart: Math.max(...g) - Math.min(...g) >= 10 }).toEqual({ mode, apart: true });
+    }
+  });
+
+  test('centring keeps each line’s light: the coverage of one line summed over rows is its pitch, for narrow and wide spots [calc]', () => {
+    for (const [s, sigma] of [[2, 0.76], [3, 0.3], [4.5, 1.7], [2, 0.15]]) {
+      let sum = 0;
+      for (let p = 0; p < 60; p++) sum += lineCoverage(p, 5, s, sigma, true);
+      expect(sum).toBeCloseTo(s, 6);
+    }
+  });
+
+  test('automatic is centred below 4 px a line and area-true from 4 on; matrix panels are never moved [calc]', () => {
+    expect(outputUniforms(flat('auto'), 3).lineCentred).toBe(true);
+    expect(outputUniforms(flat('auto'), 4).lineCentred).toBe(false);
+    expect(outputUniforms(flat('area'), 2).lineCentred).toBe(false);
+    expect(outputUniforms(flat('centred'), 6).lineCentred).toBe(true);
+    expect(outputUniforms(mergeParams(PANEL_TYPES[0].defaults, { cell: { lineSampling: 'centred' } }), 2).lineCentred).toBe(false);
+  });
+});

@@ -1,6 +1,6 @@
 import { chromaticityToXyz, emissionColour, spectrumToXyz, type EmissionBand } from '../../color/emission';
 import { REC709 } from '../../color/srgb';
-import type { PanelParams } from '../../model/parameters';
+import { LINE_CENTRED_BELOW_PX, type PanelParams } from '../../model/parameters';
 import { glowPlan } from '../glow/glow';
 
 /**
@@ -20,6 +20,8 @@ export interface OutputUniforms {
   crt: boolean;
   /** CRT line profile σ in output pixels. */
   spotSigmaPx: number;
+  /** CRT: each line's centre moved onto the centre of the pixel row it falls in (else area-true). */
+  lineCentred: boolean;
   /** Share of light leaving the cell directly (1 − glow − halo). */
   directShare: number;
   /** Glow grid samples per cell. */
@@ -63,6 +65,7 @@ export function outputUniforms(p: PanelParams, scale: number): OutputUniforms {
     fillY: p.cell.fillY,
     crt: p.cell.mode === 'crt',
     spotSigmaPx: p.cell.spotSigma * cellH,
+    lineCentred: p.cell.mode === 'crt' && (p.cell.lineSampling === 'centred' || (p.cell.lineSampling === 'auto' && cellH < LINE_CENTRED_BELOW_PX)),
     directShare: 1 - (plan.glow.share + plan.halo.share),
     glowOversample: plan.oversample,
     colour,

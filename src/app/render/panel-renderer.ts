@@ -84,7 +84,7 @@ export class PanelRenderer {
 
   /** Per-column and per-row taps (coverage and glow coordinates), rebuilt when the geometry changes. */
   private uploadTaps(u: OutputUniforms): void {
-    const key = JSON.stringify([u.width, u.height, u.cellW, u.cellH, u.fillX, u.fillY, u.crt, u.spotSigmaPx, u.glowOversample, this.glowSize, this.grid]);
+    const key = JSON.stringify([u.width, u.height, u.cellW, u.cellH, u.fillX, u.fillY, u.crt, u.spotSigmaPx, u.lineCentred, u.glowOversample, this.glowSize, this.grid]);
     if (key === this.tapsKey) return;
     this.tapsKey = key;
     const gl = this.gl;
@@ -105,7 +105,7 @@ export class PanelRenderer {
     gl.texImage2D(gl.TEXTURE_2D, 0, gl.RGBA32F, u.width, 1, 0, gl.RGBA, gl.FLOAT, columns);
     gl.bindTexture(gl.TEXTURE_2D, this.rowTex);
     gl.texImage2D(gl.TEXTURE_2D, 0, gl.RGBA32F, u.height, 1, 0, gl.RGBA, gl.FLOAT, rows);
-    const lines = u.crt ? lineTaps(u.height, u.rows, u.cellH, u.spotSigmaPx) : { index: new Int32Array(u.height), weight: new Float32Array(u.height), stride: 1 };
+    const lines = u.crt ? lineTaps(u.height, u.rows, u.cellH, u.spotSigmaPx, u.lineCentred) : { index: new Int32Array(u.height), weight: new Float32Array(u.height), stride: 1 };
     const pairs = new Float32Array(u.height * lines.stride * 2);
     for (let i = 0; i < u.height * lines.stride; i++) {
       pairs[i * 2] = lines.index[i];
