@@ -73,7 +73,7 @@ export const PARAMS: readonly ParamSpec[] = [
   n('cell', 'fillX', 'Fill across', 0.05, 1, '', 0.01, 'Share of the pitch the lit aperture covers across'),
   n('cell', 'fillY', 'Fill down', 0.05, 1, '', 0.01, 'Share of the pitch the lit aperture covers down (matrix cells)'),
   n('cell', 'spotSigma', 'Spot size', 0.1, 1, 'line pitch', 0.01, 'CRT beam spot: Gaussian σ of the line profile as a share of the line pitch'),
-  e('cell', 'lineSampling', 'Scan-line sampling', LINE_SAMPLINGS, { auto: 'Automatic: centred below 4 px a line', area: 'Area-true', centred: 'Centred on pixel rows' }, 'CRT: area-true sampling of the line profile, or each line moved (by under half a pixel) onto the centre of a pixel row so small previews keep the line structure'),
+  e('cell', 'lineSampling', 'Scan-line sampling', LINE_SAMPLINGS, { auto: 'Automatic', area: 'Area-true', centred: 'Centred on pixel rows' }, 'CRT: automatic (centred below 4 px a line, area-true from 4), area-true sampling of the line profile, or each line moved (by under half a pixel) onto the centre of a pixel row so small previews keep the line structure'),
   e('cell', 'field', 'Interlace field', FIELDS, { both: 'Both (progressive)', odd: 'Odd field', even: 'Even field' }, 'CRT: both fields (progressive) or the moment one field is drawn over the fading other'),
 
   e('emission', 'colourSource', 'Colour from', COLOUR_SOURCES, { spectrum: 'Spectrum bands', chromaticity: 'CIE 1931 x, y' }, 'Emission colour from a spectrum of bands, or from stated CIE 1931 x, y'),
