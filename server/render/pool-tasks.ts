@@ -1,7 +1,7 @@
 import type { PanelParams } from '../../shared/model/parameters';
 import { compose, type RowBand } from '../../shared/pipeline/output/compose';
 import { outputUniforms } from '../../shared/pipeline/output/uniforms';
-import { componentAcross, componentDown, glowComponents, glowFieldSize, glowPlan, sumComponent } from '../../shared/pipeline/glow/glow';
+import { componentAcross, componentDown, glowComponents, glowFieldSize, glowPlan, sumComponents } from '../../shared/pipeline/glow/glow';
 import { panelEmission } from '../../shared/pipeline/render';
 import type { Field, Frame } from '../../shared/pipeline/types';
 
@@ -43,9 +43,7 @@ export function glowStep(task: {
   if (task.step === 'across') componentAcross(task.emission, cell, c, task.components[task.k], task.from, task.to);
   else if (task.step === 'down') componentDown(cell, c, task.components[task.k], task.from, task.to);
   else {
-    const field = { ...glowFieldSize(cell, plan), data: task.out };
-    if (task.components.length === 0) sumComponent(cell, plan, 0, new Float32Array(), field, task.from, task.to);
-    task.components.forEach((data, k) => sumComponent(cell, plan, k, data, field, task.from, task.to));
+    sumComponents(cell, plan, task.components, { ...glowFieldSize(cell, plan), data: task.out }, task.from, task.to);
   }
   return task.to - task.from;
 }

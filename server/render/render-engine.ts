@@ -17,7 +17,7 @@ import { SharedBufferPool } from './shared-buffers';
 type TaskName = 'panel' | 'glowStep' | 'band' | 'fail';
 
 /** [from, to) ranges splitting 0 … n into at most `count` nearly equal bands (none empty). */
-export function bandsOf(n: number, count: number): [number, number][] {
+function bandsOf(n: number, count: number): [number, number][] {
   const k = Math.max(1, Math.min(count, n));
   return Array.from({ length: k }, (_, i) => [Math.floor((i * n) / k), Math.floor(((i + 1) * n) / k)]);
 }

@@ -228,16 +228,12 @@ export function componentDown(cell: PanelParams['cell'], c: GlowComponent, data:
 
 /**
  * Step 3, rows [y0, y1) of the glow field: adds component k (of glowComponents) × its share,
- * upsampled onto the finest grid when coarser. Component 0 is written, not added (a field with
- * no components is zeros). Components are summed in order, so bands summed apart agree.
+ * upsampled onto the finest grid when coarser. Component 0 is written, not added. Components are
+ * summed in order, so bands summed apart agree.
  */
 export function sumComponent(cell: PanelParams['cell'], plan: GlowPlan, k: number, blurred: Float32Array, out: Field, y0: number, y1: number): void {
   const c = glowComponents(plan)[k];
   const [i0, i1] = [y0 * out.width, y1 * out.width];
-  if (!c) {
-    out.data.fill(0, i0, i1);
-    return;
-  }
   const size = componentSize(cell, c);
   const M = plan.oversample;
   // The component's rows these output rows read, spread over the ring when it has one.
@@ -265,6 +261,12 @@ function coarseRowsFor(height: number, m: number, M: number, y0: number, y1: num
   return [Math.floor(at(y0)), Math.min(Math.floor(at(y1 - 1)) + 2, height)];
 }
 
+/** Step 3 for every component at once, rows [y0, y1): `blurred` in glowComponents order (none: zeros). */
+export function sumComponents(cell: PanelParams['cell'], plan: GlowPlan, blurred: readonly Float32Array[], out: Field, y0: number, y1: number): void {
+  if (blurred.length === 0) out.data.fill(0, y0 * out.width, y1 * out.width);
+  blurred.forEach((data, k) => sumComponent(cell, plan, k, data, out, y0, y1));
+}
+
 /**
  * The glow field: glowShare·G(flux, σ_glow) + haloShare·Ring(G(flux, σ_ring)). Each component is
  * blurred on the grid that samples it well, then the coarser is upsampled onto the finer. Into
@@ -275,7 +277,7 @@ export function glowField(emission: Float32Array, cell: PanelParams['cell'], pla
   const { width, height } = glowFieldSize(cell, plan);
   const out: Field = { width, height, data: into ?? new Float32Array(width * height) };
   const components = glowComponents(plan);
-  if (components.length === 0) sumComponent(cell, plan, 0, new Float32Array(), out, 0, height);
+  if (components.length === 0) out.data.fill(0);
   // One component at a time in this thread's scratch array 4: blurred, then summed in.
   components.forEach((c, k) => {
     const size = componentSize(cell, c);
