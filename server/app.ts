@@ -37,6 +37,9 @@ import { StudiosService } from './features/studios/studios.service';
 import type { Mailer } from './mail/mailer';
 import { MailOutbox } from './mail/outbox';
 import { FileStore } from './storage/file-store';
+import { exportsRoutes } from './features/exports/exports.routes';
+import { exportsService, type ExportsService } from './features/exports/exports.service';
+import type { JobQueue } from './jobs/job-queue';
 
 /** What the app needs from outside: configuration and live connections. */
 export interface AppDeps {
@@ -47,10 +50,12 @@ export interface AppDeps {
   mailer: Mailer;
   /** The render pool; one is made (and owned by the caller through app.renderEngine) when absent. */
   renderEngine?: RenderEngine;
+  /** The background job queue (started by the caller). */
+  jobs: JobQueue;
 }
 
 /** The Express app with every route; `listen` is the caller's business (server/main.ts, tests). */
-export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; artworks: ArtworksService; renders: RendersService; renderEngine: RenderEngine } {
+export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; artworks: ArtworksService; renders: RendersService; renderEngine: RenderEngine; exports: ExportsService } {
   const { config, sequelize, mailer } = deps;
   const app = express();
   app.disable('x-powered-by');
@@ -76,9 +81,13 @@ export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; art
   const renders = new RendersService(new RenderStore(config.storageDir), renderEngine, sequelize, config.studioRenderBudgetBytes);
   const artworks = new ArtworksService(new FileStore(config.storageDir), (bytes, sheet) => renderEngine.decodedFrames(bytes, sheet));
   const presets = new PresetsService();
-  const studios = new StudiosService(outbox, config.appUrl, (_studioId, artworkIds) => artworks.removeFiles(artworkIds), (studioId) => renders.removeFor({ studioId }));
+  const exports = exportsService(config, artworks, renderEngine, deps.jobs);
+  const studios = new StudiosService(outbox, config.appUrl, (_studioId, artworkIds) => artworks.removeFiles(artworkIds), async (studioId) => {
+    await renders.removeFor({ studioId });
+    await exports.removeFor(studioId);
+  });
   const timings = new TimingsService();
-  const routers: ApiRouter[] = [health, authRoutes(auth, passport), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renders), timingsRoutes(timings), romsRoutes(new RomsService(timings)), artworksRoutes(artworks, renders, presets), presetsRoutes(presets, config.appUrl, artworks, renders), shareRoutes(presets, artworks), activityRoutes()];
+  const routers: ApiRouter[] = [health, authRoutes(auth, passport), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renders), timingsRoutes(timings), romsRoutes(new RomsService(timings)), artworksRoutes(artworks, renders, presets), presetsRoutes(presets, config.appUrl, artworks, renders), shareRoutes(presets, artworks), exportsRoutes(exports), activityRoutes()];
   const docs = new ApiRouter('/docs', 'Service');
   const specs = routers.flatMap((r) => r.specs);
   docs.route('get', '/', { policy: publicAccess, summary: 'This OpenAPI document' }, (_req, res) => {
@@ -90,7 +99,7 @@ export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; art
 
   serveSpa(app, config.staticDir);
   app.use(errorHandler);
-  return Object.assign(app, { apiSpecs: routers.flatMap((r) => r.specs), artworks, renders, renderEngine });
+  return Object.assign(app, { apiSpecs: routers.flatMap((r) => r.specs), artworks, renders, renderEngine, exports });
 }
 
 /** Serves the built Angular app with a per-request CSP nonce in index.html. */

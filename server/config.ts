@@ -13,6 +13,8 @@ export interface Config {
   storageDir: string;
   /** Most bytes of stored renders one studio keeps; the least recently used go first. */
   studioRenderBudgetBytes: number;
+  /** Background jobs (exports): expiry of an active job, the queue's maintenance interval, retries, and whether this process runs jobs too. */
+  jobs: { expireSeconds: number; maintenanceSeconds: number; retries: number; inProcessWorker: boolean };
 }
 
 function num(name: string, fallback: number): number {
@@ -52,5 +54,11 @@ export function loadConfig(): Config {
     // One storage folder per database: start-up reconciliation must never see another database's files.
     storageDir: process.env.STORAGE_DIR ?? `.data/storage/${database}`,
     studioRenderBudgetBytes: num('STUDIO_RENDER_BUDGET_MB', 2048) * 1024 * 1024,
+    jobs: {
+      expireSeconds: num('JOB_EXPIRE_SECONDS', 600),
+      maintenanceSeconds: num('JOB_MAINTENANCE_SECONDS', 30),
+      retries: 2,
+      inProcessWorker: process.env.JOB_WORKER_IN_PROCESS !== '0',
+    },
   };
 }

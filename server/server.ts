@@ -7,6 +7,8 @@ import { migrate } from './db/migrate';
 import { initModels } from './db/models';
 import { seedDemo } from './db/seed';
 import { Mailer } from './mail/mailer';
+import type { ExportJob } from './features/exports/exports.service';
+import { JobQueue, QUEUES } from './jobs/job-queue';
 
 /** Running server handles, for a clean shutdown. */
 export interface Running {
@@ -33,12 +35,17 @@ export async function start(config: Config = loadConfig()): Promise<Running> {
   });
   sessionPool.on('error', (err) => console.error(`[db] idle session-pool client failed: ${err.message}`));
   const mailer = new Mailer(config.smtp);
-  const app = createApp({ config, sequelize, sessionPool, mailer });
+  const jobs = await JobQueue.start(config.db, config.jobs);
+  const app = createApp({ config, sequelize, sessionPool, mailer, jobs });
   if (process.env.SEED_DEMO === '1' && (await seedDemo(sequelize, app.artworks))) console.log('[seed] demo studio Kiln & Quartz created');
   const orphans = await app.artworks.reconcile();
   if (orphans) console.log(`[storage] removed ${orphans} artwork folder(s) left without a database row`);
   const staleRenders = await app.renders.reconcile();
   if (staleRenders) console.log(`[storage] removed ${staleRenders} render file(s) left without a database row`);
+  const staleExports = await app.exports.reconcile();
+  if (staleExports) console.log(`[storage] removed ${staleExports} export folder(s) left without a database row`);
+  // Exports run here too unless JOB_WORKER_IN_PROCESS=0 (then only `npm run worker` processes run them).
+  if (config.jobs.inProcessWorker) await jobs.work<ExportJob>(QUEUES.exports, (job) => app.exports.run(job));
   const host = process.env.HOST ?? '127.0.0.1';
   const server = await new Promise<Server>((resolve) => {
     const s = app.listen(config.port, host, () => resolve(s));
@@ -46,6 +53,7 @@ export async function start(config: Config = loadConfig()): Promise<Running> {
   console.log(`[server] Emberline at http://${host}:${config.port}/`);
   const close = async () => {
     await new Promise<void>((resolve) => server.close(() => resolve()));
+    await jobs.stop();
     mailer.close();
     await sessionPool.end();
     await app.renderEngine.close();

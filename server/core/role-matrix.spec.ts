@@ -4,6 +4,8 @@ import { BUILT_IN_PRESETS } from '../../shared/model/panel-types';
 import { EmailVerification } from '../features/auth/email-verification.model';
 import { PasswordReset } from '../features/auth/password-reset.model';
 import { Invite } from '../features/studios/invite.model';
+import { Export } from '../features/exports/export.model';
+import { FileStore } from '../storage/file-store';
 import { Membership } from '../features/studios/membership.model';
 import { createHarness, TestClient, uniqueEmail, type Harness } from '../testing/harness';
 import { pngOf } from '../testing/images';
@@ -29,6 +31,8 @@ interface Cell {
   otherStudioId: string;
   /** A stored render of the world's artwork (made only for the rows that read one). */
   studioRenderKey: string;
+  /** An export the editor asked for (made only for the rows that name one), in the row's state. */
+  exportId: string;
 }
 interface Row {
   method: 'get' | 'post' | 'patch' | 'delete';
@@ -38,6 +42,8 @@ interface Row {
   /** Multipart upload instead of JSON: text fields plus a file. */
   upload?: () => { fields: Record<string, string>; file: { name: string; bytes: Buffer } };
   expect: [owner: number, editor: number, viewer: number, other: number, anonymous: number];
+  /** For rows on one export: the state it is in (default: done, with its file). */
+  exportStatus?: 'queued' | 'failed';
 }
 
 const S = (c: Cell) => `/api/studios/${c.studioId}`;
@@ -150,6 +156,14 @@ const ROWS: Row[] = [
   { method: 'get', path: '/api/share/:token', url: (c) => `/api/share/${c.shareToken}`, expect: [200, 200, 200, 200, 200] },
   { method: 'get', path: '/api/share/:token/frames', url: (c) => `/api/share/${c.shareToken}/frames`, expect: [200, 200, 200, 200, 200] },
   { method: 'get', path: '/api/studios/:studioId/activity', url: (c) => `${S(c)}/activity`, expect: [200, 200, 200, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/exports', url: (c) => `${S(c)}/exports`, expect: [200, 200, 200, 404, 401] },
+  { method: 'post', path: '/api/studios/:studioId/exports', url: (c) => `${S(c)}/exports`, body: (c) => ({ layout: 'grid', artworkIds: [c.artworkId], looks: ['vfd-bluegreen-256x64.standard'], scale: 1 }), expect: [202, 202, 403, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/exports/:exportId', url: (c) => `${S(c)}/exports/${c.exportId}`, expect: [200, 200, 200, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/exports/:exportId/file', url: (c) => `${S(c)}/exports/${c.exportId}/file`, expect: [200, 200, 200, 404, 401] },
+  // The editor asked for the export: the editor and owners may change it, a viewer may not.
+  { method: 'post', path: '/api/studios/:studioId/exports/:exportId/cancel', url: (c) => `${S(c)}/exports/${c.exportId}/cancel`, exportStatus: 'queued', expect: [200, 200, 403, 404, 401] },
+  { method: 'post', path: '/api/studios/:studioId/exports/:exportId/retry', url: (c) => `${S(c)}/exports/${c.exportId}/retry`, exportStatus: 'failed', expect: [200, 200, 403, 404, 401] },
+  { method: 'delete', path: '/api/studios/:studioId/exports/:exportId', url: (c) => `${S(c)}/exports/${c.exportId}`, expect: [204, 204, 403, 404, 401] },
   { method: 'get', path: '/api/panel-types', url: () => '/api/panel-types', expect: [200, 200, 200, 200, 200] },
   {
     method: 'post',
@@ -177,6 +191,14 @@ const ROWS: Row[] = [
 let h: Harness;
 let users: WorldUsers;
 let renderKey: string;
+
+/** An export of the world's artwork that the editor asked for, in the given state (a done one with its file). */
+async function worldExport(studioId: string, artworkId: string, status: 'queued' | 'failed' | 'done'): Promise<string> {
+  const look = BUILT_IN_PRESETS[0];
+  const row = await Export.create({ studioId, createdById: users.editor.id, title: 'World sheet', kind: 'sheet', layout: 'grid', status, spec: { studioName: 'World', layout: 'grid', scale: 1, frame: 0, artworks: [{ id: artworkId, name: 'tile' }], looks: [{ id: look.id, name: look.name, revision: null, panelTypeName: 'Amber EL', parameters: look.parameters }] } });
+  if (status === 'done') await new FileStore(h.config.storageDir).write('exports', row.id, 'sheet.png', pngOf(4, 4, () => [1, 2, 3, 255]));
+  return row.id;
+}
 
 beforeAll(async () => {
   h = await createHarness();
@@ -217,7 +239,8 @@ describe.each(ROWS)('$method $path', (row) => {
     const studioRenderKey = row.path.endsWith('/renders/:key') && row.path.startsWith('/api/studios')
       ? (await h.app.renders.render({ studioId: world.studio.id, artworkId: world.artworkId, userId: users.owner.id }, { input: await h.app.artworks.original(world.artworkId), parameters: BUILT_IN_PRESETS[0].parameters, scale: 1, frame: 0 })).key
       : '';
-    const cell: Cell = { studioId: world.studio.id, users, actor, inviteId: world.invite.id, inviteToken: world.inviteToken, timingId: world.timing.id, romId: world.romId, artworkId: world.artworkId, presetId: world.presetId, linkId: world.linkId, shareToken: world.shareToken, otherStudioId: world.studio.id, studioRenderKey };
+    const exportId = row.path.includes(':exportId') ? await worldExport(world.studio.id, world.artworkId, row.exportStatus ?? 'done') : '';
+    const cell: Cell = { studioId: world.studio.id, users, actor, inviteId: world.invite.id, inviteToken: world.inviteToken, timingId: world.timing.id, romId: world.romId, artworkId: world.artworkId, presetId: world.presetId, linkId: world.linkId, shareToken: world.shareToken, otherStudioId: world.studio.id, studioRenderKey, exportId };
     const client = new TestClient(h.app);
     if (actor !== 'anonymous') {
       const signIn = await client.post('/api/auth/sign-in', { email: users[actor].email, password: WORLD_PASSWORD });

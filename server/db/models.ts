@@ -9,6 +9,7 @@ import { presetListCache } from '../features/presets/presets.service';
 import { initRender } from '../features/renders/render.model';
 import { initSavedTiming } from '../features/timings/timing.model';
 import { initVideoRom } from '../features/roms/rom.model';
+import { initExport } from '../features/exports/export.model';
 import { initInvite, Invite } from '../features/studios/invite.model';
 import { initMembership, Membership } from '../features/studios/membership.model';
 import { roleCache } from '../features/studios/membership-lookup';
@@ -29,6 +30,7 @@ export function initModels(sequelize: Sequelize): void {
   initActivity(sequelize);
   initSavedTiming(sequelize);
   initVideoRom(sequelize);
+  initExport(sequelize);
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
   Membership.belongsTo(Studio, { foreignKey: 'studioId', as: 'studio' });
   Invite.belongsTo(Studio, { foreignKey: 'studioId', as: 'studio' });

@@ -6,7 +6,7 @@ import type { PanelParams } from '../../shared/model/parameters';
 import { componentSize, glowComponents, glowFieldSize, glowPlan } from '../../shared/pipeline/glow/glow';
 import { outputUniforms } from '../../shared/pipeline/output/uniforms';
 import type { SpriteSheet } from '../../shared/pipeline/sprite-sheet';
-import type { Field, Frame } from '../../shared/pipeline/types';
+import type { Field, Frame, RgbaImage } from '../../shared/pipeline/types';
 import { AppError } from '../core/app-error';
 import { decodeImage, framesOf } from './decode';
 import { encodePng } from './encode';
@@ -135,6 +135,16 @@ export class RenderEngine {
 
   /** A full render: decode (cached), panel stages and glow, output stages in bands, PNG. */
   async render(req: RenderRequest, options: { bands?: number } = {}): Promise<RenderedPng> {
+    return this.withRender(req, options, async (image) => ({ png: await encodePng(image), width: image.width, height: image.height }));
+  }
+
+  /** A full render as raw RGBA (its own copy), for work that puts renders together (comparison sheets). */
+  async renderImage(req: RenderRequest, options: { bands?: number } = {}): Promise<RgbaImage> {
+    return this.withRender(req, options, async (image) => ({ width: image.width, height: image.height, data: new Uint8Array(image.data) }));
+  }
+
+  /** Renders into reused shared buffers and hands the output image to `use` before the buffers go back. */
+  private async withRender<T>(req: RenderRequest, options: { bands?: number }, use: (image: RgbaImage) => Promise<T>): Promise<T> {
     const { width, height } = RenderEngine.check(req);
     if (this.pending >= this.maxPending) {
       throw new AppError(503, 'render_busy', `The renderer has ${this.pending} renders in hand, its limit. Try again in a few seconds.`, { retryAfterSeconds: 2 });
@@ -167,7 +177,7 @@ export class RenderEngine {
           'band',
           bandsOf(height, threads).map(([y0, y1]) => ({ emission, glow, parameters: req.parameters, scale: req.scale, rows: { y0, y1 }, out })),
         );
-        return { png: await encodePng({ width, height, data: out }), width, height };
+        return await use({ width, height, data: out });
       } finally {
         this.buffers.release(...buffers);
       }

@@ -12,6 +12,7 @@ import { initModels } from '../db/models';
 import { MailCatcher } from '../mail/catcher';
 import { Mailer } from '../mail/mailer';
 import { RenderEngine } from '../render/render-engine';
+import { JobQueue } from '../jobs/job-queue';
 
 /** A real app on the test database with a real SMTP catcher; one per spec file. */
 export interface Harness {
@@ -19,6 +20,8 @@ export interface Harness {
   config: Config;
   sequelize: Sequelize;
   mail: MailCatcher;
+  /** The job queue the app sends to; a spec that needs jobs run calls jobs.work itself. */
+  jobs: JobQueue;
   /** A second app on the same database, as after a process restart (in-memory state is new). */
   restartedApp(): Harness['app'];
   close(): Promise<void>;
@@ -41,7 +44,8 @@ export async function createHarness(overrides: Partial<Config> = {}): Promise<Ha
   const mailer = new Mailer(config.smtp);
   // One pool for the spec file, shared by restartedApp(): two small threads keep parallel spec files light.
   const renderEngine = new RenderEngine({ threads: 2 });
-  const deps = { config, sequelize, sessionPool, mailer, renderEngine };
+  const jobs = await JobQueue.start(config.db, config.jobs);
+  const deps = { config, sequelize, sessionPool, mailer, renderEngine, jobs };
   const app = createApp(deps);
   return {
     app,
@@ -49,7 +53,9 @@ export async function createHarness(overrides: Partial<Config> = {}): Promise<Ha
     sequelize,
     mail,
     restartedApp: () => createApp(deps),
+    jobs,
     async close() {
+      await jobs.stop(2_000);
       mailer.close();
       await renderEngine.close();
       await mail.stop();

@@ -1,0 +1,39 @@
+import type { QueryInterface } from 'sequelize';
+
+/**
+ * Exports: comparison sheets (and later animations) made as background jobs. A row is the
+ * request, frozen when it was made (the looks' parameters at their revision then), and the job's
+ * state; the file lives in storage under the row's id. The job queue (pg-boss) keeps its own
+ * schema; this table is what people see and what a retried job reads.
+ */
+export async function up(qi: QueryInterface): Promise<void> {
+  await qi.sequelize.query(`
+    CREATE TABLE exports (
+      id uuid PRIMARY KEY,
+      studio_id uuid NOT NULL REFERENCES studios(id) ON DELETE CASCADE,
+      created_by_id uuid REFERENCES users(id) ON DELETE SET NULL,
+      title varchar(120) NOT NULL,
+      kind varchar(20) NOT NULL,
+      layout varchar(20) NOT NULL,
+      spec jsonb NOT NULL,
+      status varchar(12) NOT NULL DEFAULT 'queued' CHECK (status IN ('queued', 'running', 'done', 'failed', 'cancelled')),
+      progress real NOT NULL DEFAULT 0,
+      step text NOT NULL DEFAULT '',
+      error text,
+      attempts integer NOT NULL DEFAULT 0,
+      worked_by varchar(120),
+      width integer,
+      height integer,
+      bytes integer,
+      figures jsonb,
+      created_at timestamptz NOT NULL DEFAULT now(),
+      updated_at timestamptz NOT NULL DEFAULT now(),
+      finished_at timestamptz
+    );
+    CREATE INDEX exports_studio_idx ON exports(studio_id, created_at DESC);
+  `);
+}
+
+export async function down(qi: QueryInterface): Promise<void> {
+  await qi.sequelize.query('DROP TABLE exports');
+}

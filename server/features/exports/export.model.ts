@@ -1,0 +1,66 @@
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import type { ExportDto, ExportStatus } from '../../../shared/api/export.schema';
+import type { SheetLayout } from '../../../shared/export/sheet';
+import type { PanelParams } from '../../../shared/model/parameters';
+
+/** A sheet request frozen when it was made: the looks' parameters at their revision then. */
+export interface SheetSpec {
+  studioName: string;
+  layout: SheetLayout;
+  scale: number;
+  frame: number;
+  artworks: { id: string; name: string }[];
+  looks: { id: string; name: string; revision: number | null; panelTypeName: string; parameters: PanelParams }[];
+}
+
+/** An export (a comparison sheet) and its job's state. */
+export class Export extends Model<InferAttributes<Export>, InferCreationAttributes<Export>> {
+  declare id: CreationOptional<string>;
+  declare studioId: string;
+  declare createdById: string | null;
+  declare title: string;
+  declare kind: 'sheet';
+  declare layout: SheetLayout;
+  declare spec: SheetSpec;
+  declare status: ExportStatus;
+  declare progress: CreationOptional<number>;
+  declare step: CreationOptional<string>;
+  declare error: CreationOptional<string | null>;
+  declare attempts: CreationOptional<number>;
+  declare workedBy: CreationOptional<string | null>;
+  declare width: CreationOptional<number | null>;
+  declare height: CreationOptional<number | null>;
+  declare bytes: CreationOptional<number | null>;
+  declare figures: CreationOptional<ExportDto['figures']>;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+  declare finishedAt: CreationOptional<Date | null>;
+}
+
+export function initExport(sequelize: Sequelize): void {
+  Export.init(
+    {
+      id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
+      studioId: { type: DataTypes.UUID, allowNull: false },
+      createdById: { type: DataTypes.UUID, allowNull: true },
+      title: { type: DataTypes.STRING(120), allowNull: false },
+      kind: { type: DataTypes.STRING(20), allowNull: false },
+      layout: { type: DataTypes.STRING(20), allowNull: false },
+      spec: { type: DataTypes.JSONB, allowNull: false },
+      status: { type: DataTypes.STRING(12), allowNull: false, defaultValue: 'queued' },
+      progress: { type: DataTypes.REAL, allowNull: false, defaultValue: 0 },
+      step: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
+      error: { type: DataTypes.TEXT, allowNull: true },
+      attempts: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+      workedBy: { type: DataTypes.STRING(120), allowNull: true },
+      width: { type: DataTypes.INTEGER, allowNull: true },
+      height: { type: DataTypes.INTEGER, allowNull: true },
+      bytes: { type: DataTypes.INTEGER, allowNull: true },
+      figures: { type: DataTypes.JSONB, allowNull: true },
+      createdAt: DataTypes.DATE,
+      updatedAt: DataTypes.DATE,
+      finishedAt: { type: DataTypes.DATE, allowNull: true },
+    },
+    { sequelize, tableName: 'exports' },
+  );
+}

@@ -1,0 +1,39 @@
+import type { RequestHandler } from 'express';
+import { sheetRequestSchema } from '../../../shared/api/export.schema';
+import { ApiRouter } from '../../core/api-router';
+import { idParam, studioRole } from '../../core/policy';
+import type { ExportsService } from './exports.service';
+
+/** /api/studios/:studioId/exports: comparison sheets made as background jobs. Viewers download, editors ask, owners delete anyone's. */
+export function exportsRoutes(exports: ExportsService): ApiRouter {
+  const api = new ApiRouter('/studios/:studioId/exports', 'Exports');
+  const exportId = (req: Parameters<RequestHandler>[0]) => idParam(req, 'exportId', 'The export');
+  const actor = (req: Parameters<RequestHandler>[0]) => req.membership!;
+
+  api.route('get', '/', { policy: studioRole('viewer'), summary: "The studio's exports, newest first, with each job's progress" }, async (req, res) => {
+    res.json({ exports: await exports.list(req.membership!.studioId) });
+  });
+  api.route('post', '/', { policy: studioRole('editor'), summary: 'Ask for a comparison sheet (artworks × looks, a layout, a scale); checked in full, then queued', body: sheetRequestSchema, status: 202 }, async (req, res) => {
+    res.status(202).json({ export: await exports.create(actor(req), req.body) });
+  });
+  api.route('get', '/:exportId', { policy: studioRole('viewer'), summary: 'One export and its progress' }, async (req, res) => {
+    res.json({ export: await exports.get(req.membership!.studioId, exportId(req)) });
+  });
+  api.route('get', '/:exportId/file', { policy: studioRole('viewer'), summary: 'The finished sheet as a PNG download (409 until it is ready)' }, async (req, res) => {
+    const { name, bytes } = await exports.file(req.membership!.studioId, exportId(req));
+    const safeName = name.replace(/[^\w .-]/g, '_').slice(0, 100);
+    res.set({ 'Content-Type': 'image/png', 'X-Content-Type-Options': 'nosniff', 'Content-Disposition': `attachment; filename="${safeName}.png"`, 'Cache-Control': 'private, no-store' });
+    res.send(bytes);
+  });
+  api.route('post', '/:exportId/cancel', { policy: studioRole('editor'), summary: 'Stop a waiting or running export (your own, or anyone\'s as an owner); partial output is removed' }, async (req, res) => {
+    res.json({ export: await exports.cancel(actor(req), exportId(req)) });
+  });
+  api.route('post', '/:exportId/retry', { policy: studioRole('editor'), summary: 'Queue a failed or cancelled export again' }, async (req, res) => {
+    res.json({ export: await exports.retry(actor(req), exportId(req)) });
+  });
+  api.route('delete', '/:exportId', { policy: studioRole('editor'), summary: 'Delete an export and its file (your own, or anyone\'s as an owner)', status: 204 }, async (req, res) => {
+    await exports.remove(actor(req), exportId(req));
+    res.status(204).end();
+  });
+  return api;
+}

@@ -1,0 +1,288 @@
+import { Op } from 'sequelize';
+import { EXPORT_STATUS_LABELS, type ExportDto, type SheetRequest } from '../../../shared/api/export.schema';
+import { composeSheet, MAX_SHEET_PIXELS, SHEET_LAYOUT_LABELS, sheetGeometry } from '../../../shared/export/sheet';
+import { builtInPresetById, panelTypeById } from '../../../shared/model/panel-types';
+import type { Role } from '../../../shared/model/roles';
+import type { RgbaImage } from '../../../shared/pipeline/types';
+import { AppError, forbidden, notFound } from '../../core/app-error';
+import { QUEUES, WORKER_NAME, type JobQueue } from '../../jobs/job-queue';
+import { encodePng } from '../../render/encode';
+import { RenderEngine, type RenderRequest } from '../../render/render-engine';
+import type { Config } from '../../config';
+import { FileStore } from '../../storage/file-store';
+import { record } from '../activity/activity.model';
+import { Artwork } from '../artworks/artwork.model';
+import type { ArtworksService } from '../artworks/artworks.service';
+import { User } from '../auth/user.model';
+import { Preset } from '../presets/preset.model';
+import { Studio } from '../studios/studio.model';
+import { Export, type SheetSpec } from './export.model';
+import { sheetInput } from './sheet-cells';
+
+const FOLDER = 'exports';
+const SHEET_FILE = 'sheet.png';
+/** Newest exports a studio's list shows. */
+const LIST_LIMIT = 100;
+
+export interface ExportActor {
+  studioId: string;
+  userId: string;
+  role: Role;
+}
+
+/** What the export job carries: the row is the whole request. */
+export interface ExportJob {
+  exportId: string;
+}
+
+/** The service as the app and the workers make it: files in the storage folder, stale after the job's every attempt has expired. */
+export function exportsService(config: Config, artworks: ArtworksService, engine: RenderEngine, jobs: JobQueue): ExportsService {
+  return new ExportsService(new FileStore(config.storageDir), artworks, engine, jobs, (config.jobs.retries + 1) * config.jobs.expireSeconds * 1000 + 60_000);
+}
+
+/**
+ * Comparison sheets as background jobs. A request is checked in full (artworks and looks of the
+ * studio, frame, sheet size) and frozen into a row before a job is queued; the job renders each
+ * cell on the render pool, reporting progress in the row, and writes the file once, under the
+ * row's id, so running a job twice (a worker killed mid-job, then the retry) leaves one result.
+ * A job stops between cells when its row is cancelled or deleted, and removes what it wrote.
+ */
+export class ExportsService {
+  constructor(
+    private readonly files: FileStore,
+    private readonly artworks: ArtworksService,
+    private readonly engine: RenderEngine,
+    private readonly jobs: JobQueue,
+    /** An export still running this long after its last word is taken as lost (its worker died and the retries ran out). */
+    private readonly staleAfterMs: number,
+  ) {}
+
+  async create(actor: ExportActor, body: SheetRequest): Promise<ExportDto> {
+    const studio = await Studio.findByPk(actor.studioId);
+    if (!studio) throw notFound('The studio');
+    const found = await Artwork.findAll({ where: { id: body.artworkIds, studioId: actor.studioId } });
+    const missing = body.artworkIds.filter((id) => !found.some((a) => a.id === id));
+    if (missing.length) throw new AppError(400, 'invalid_input', `${missing.length === 1 ? 'One chosen artwork is' : `${missing.length} chosen artworks are`} not in this studio's library (deleted, or another studio's). Choose again from the list.`, { issues: missing.map((id) => ({ path: 'artworkIds', message: `no artwork ${id} in this studio` })) });
+    const artworks = body.artworkIds.map((id) => found.find((a) => a.id === id)!);
+    const short = artworks.find((a) => body.frame >= a.frameCount);
+    if (short) throw new AppError(400, 'invalid_input', `Frame ${body.frame + 1} is past the end of “${short.name}”, which has ${short.frameCount === 1 ? 'one frame' : `${short.frameCount} frames`}. Choose frame 1 to ${Math.min(...artworks.map((a) => a.frameCount))}.`);
+    const looks = await Promise.all(body.looks.map((ref) => this.look(actor.studioId, ref)));
+
+    // The whole sheet's size, from the renders' sizes, before anything is queued.
+    const sizes = looks.map((l) => RenderEngine.check({ parameters: l.parameters, scale: body.scale }));
+    if (body.layout === 'ab-diff' && (sizes[0].width !== sizes[1].width || sizes[0].height !== sizes[1].height)) {
+      throw new AppError(400, 'invalid_input', `An A/B sheet compares two renders of one size, and these differ: “${looks[0].name}” renders at ${sizes[0].width} × ${sizes[0].height} px, “${looks[1].name}” at ${sizes[1].width} × ${sizes[1].height} px. Choose two looks of one panel type.`);
+    }
+    const row = (cells: { width: number; height: number }[]) => (body.layout === 'grid' ? cells : body.layout === 'side-by-side' ? [cells[0], ...cells] : [...cells, cells[0]]);
+    const geometry = sheetGeometry(artworks.map(() => row(sizes)));
+    if (geometry.width * geometry.height > MAX_SHEET_PIXELS) {
+      throw new AppError(400, 'output_too_large', `The sheet would be ${geometry.width} × ${geometry.height} pixels; the limit is ${MAX_SHEET_PIXELS / 1e6} million. Lower the scale or choose fewer artworks or looks.`);
+    }
+
+    const spec: SheetSpec = { studioName: studio.name, layout: body.layout, scale: body.scale, frame: body.frame, artworks: artworks.map((a) => ({ id: a.id, name: a.name })), looks };
+    const title = body.title ?? `${studio.name}: ${SHEET_LAYOUT_LABELS[body.layout].split(':')[0].toLowerCase()} of ${looks.length === 1 ? 'one look' : `${looks.length} looks`}`;
+    const created = await Export.create({ studioId: actor.studioId, createdById: actor.userId, title, kind: 'sheet', layout: body.layout, spec, status: 'queued', step: 'Waiting for a worker' });
+    try {
+      await this.jobs.send(QUEUES.exports, { exportId: created.id } satisfies ExportJob);
+    } catch (err) {
+      await created.destroy();
+      throw err;
+    }
+    await record(actor.studioId, actor.userId, 'export.created', `asked for the comparison sheet “${title}” (${artworks.length * looks.length} cells)`);
+    return this.dto(created, await this.names([created.createdById]));
+  }
+
+  /** A look of the request: a studio preset ("studio:<id>") at its current revision, or a built-in preset. */
+  private async look(studioId: string, ref: string): Promise<SheetSpec['looks'][number]> {
+    if (ref.startsWith('studio:')) {
+      const id = ref.slice('studio:'.length);
+      const preset = /^[0-9a-f-]{36}$/i.test(id) ? await Preset.findOne({ where: { id, studioId } }) : null;
+      if (!preset) throw new AppError(400, 'invalid_input', 'A chosen preset is not in this studio (deleted, or another studio\'s). Choose again from the list.', { issues: [{ path: 'looks', message: `no preset ${id} in this studio` }] });
+      return { id: ref, name: preset.name, revision: preset.revision, panelTypeName: panelTypeById(preset.panelTypeId)?.name ?? preset.panelTypeId, parameters: preset.parameters };
+    }
+    const builtIn = builtInPresetById(ref);
+    if (!builtIn) throw new AppError(400, 'invalid_input', `There is no look “${ref.slice(0, 100)}”: give a studio preset as studio:<id> or a built-in preset id (GET /api/panel-types lists them).`, { issues: [{ path: 'looks', message: 'unknown look' }] });
+    return { id: ref, name: builtIn.name, revision: null, panelTypeName: panelTypeById(builtIn.panelTypeId)!.name, parameters: builtIn.parameters };
+  }
+
+  async list(studioId: string): Promise<ExportDto[]> {
+    await this.failStale(studioId);
+    const rows = await Export.findAll({ where: { studioId }, order: [['createdAt', 'DESC']], limit: LIST_LIMIT });
+    const who = await this.names(rows.map((r) => r.createdById));
+    return rows.map((r) => this.dto(r, who));
+  }
+
+  async get(studioId: string, id: string): Promise<ExportDto> {
+    await this.failStale(studioId);
+    const row = await this.row(studioId, id);
+    return this.dto(row, await this.names([row.createdById]));
+  }
+
+  /** The finished file (409 while it is being made). */
+  async file(studioId: string, id: string): Promise<{ name: string; bytes: Buffer }> {
+    const row = await this.row(studioId, id);
+    if (row.status !== 'done') throw new AppError(409, 'not_ready', `“${row.title}” is ${EXPORT_STATUS_LABELS[row.status].toLowerCase()}, not ready: it can be downloaded once it is.`);
+    return { name: row.title, bytes: await this.files.read(FOLDER, row.id, SHEET_FILE) };
+  }
+
+  /** Stops a waiting or running export; what it wrote is removed. */
+  async cancel(actor: ExportActor, id: string): Promise<ExportDto> {
+    const row = await this.row(actor.studioId, id);
+    this.mayChange(actor, row);
+    const [count] = await Export.update({ status: 'cancelled', step: 'Cancelled', finishedAt: new Date() }, { where: { id: row.id, status: { [Op.in]: ['queued', 'running'] } } });
+    if (!count) throw new AppError(409, 'conflict', `“${row.title}” is ${EXPORT_STATUS_LABELS[row.status].toLowerCase()}: only a waiting or running export can be cancelled.`);
+    await this.files.remove(FOLDER, row.id);
+    await record(actor.studioId, actor.userId, 'export.cancelled', `cancelled the comparison sheet “${row.title}”`);
+    return this.get(actor.studioId, id);
+  }
+
+  /** Queues a failed or cancelled export again, as it was asked for. */
+  async retry(actor: ExportActor, id: string): Promise<ExportDto> {
+    const row = await this.row(actor.studioId, id);
+    this.mayChange(actor, row);
+    const [count] = await Export.update({ status: 'queued', progress: 0, step: 'Waiting for a worker', error: null, finishedAt: null }, { where: { id: row.id, status: { [Op.in]: ['failed', 'cancelled'] } } });
+    if (!count) throw new AppError(409, 'conflict', `“${row.title}” is ${EXPORT_STATUS_LABELS[row.status].toLowerCase()}: only a failed or cancelled export can be tried again.`);
+    await this.jobs.send(QUEUES.exports, { exportId: row.id } satisfies ExportJob);
+    return this.get(actor.studioId, id);
+  }
+
+  /** Deletes an export and its file (a running one stops); editors their own, owners anyone's. */
+  async remove(actor: ExportActor, id: string): Promise<void> {
+    const row = await this.row(actor.studioId, id);
+    this.mayChange(actor, row);
+    await row.destroy();
+    await this.files.remove(FOLDER, row.id);
+    await record(actor.studioId, actor.userId, 'export.deleted', `deleted the comparison sheet “${row.title}”`);
+  }
+
+  /** Editors act on their own exports; owners on anyone's. */
+  private mayChange(actor: ExportActor, row: Export): void {
+    if (actor.role !== 'owner' && row.createdById !== actor.userId) throw forbidden('Only the person who asked for this export, or a studio owner, can change or delete it.');
+  }
+
+  /**
+   * The job: renders every cell on the pool, puts the sheet together, writes it, marks the row
+   * done. Safe to run again for the same export: a finished one is left alone, a half-done one
+   * (its worker was killed) starts over and writes the same file.
+   */
+  async run(job: ExportJob): Promise<void> {
+    const row = await Export.findByPk(job.exportId);
+    if (!row || row.status === 'done' || row.status === 'cancelled') return;
+    await row.update({ status: 'running', attempts: row.attempts + 1, workedBy: WORKER_NAME, progress: 0, step: 'Starting', error: null });
+    const spec = row.spec;
+    const cells = spec.artworks.length * spec.looks.length;
+    const stillWanted = async () => (await Export.count({ where: { id: row.id, status: 'running' } })) === 1;
+    const report = (done: number, step: string) => Export.update({ progress: done / (cells + 1), step }, { where: { id: row.id, status: 'running' } });
+    try {
+      const renders: RgbaImage[][] = [];
+      const originals: RgbaImage[] = [];
+      let done = 0;
+      for (const a of spec.artworks) {
+        const artwork = await Artwork.findOne({ where: { id: a.id, studioId: row.studioId } });
+        if (!artwork) throw new AppError(409, 'conflict', `“${a.name}” was deleted after the sheet was asked for. Ask for a new sheet without it.`);
+        const input = await this.artworks.original(artwork.id);
+        originals.push((await this.engine.decodedFrames(input, artwork.sheet))[spec.frame].image);
+        const cellsOfRow: RgbaImage[] = [];
+        for (const look of spec.looks) {
+          if (!(await stillWanted())) return;
+          await report(done, `Cell ${done + 1} of ${cells}: “${a.name}” through “${look.name}”`);
+          cellsOfRow.push(await this.renderPatiently({ input, sheet: artwork.sheet, parameters: look.parameters, scale: spec.scale, frame: spec.frame }));
+          done++;
+        }
+        renders.push(cellsOfRow);
+      }
+      await report(done, 'Putting the sheet together');
+      const by = row.createdById ? ((await User.findByPk(row.createdById))?.displayName ?? 'a former member') : 'a former member';
+      const { input, figures } = sheetInput(spec, row.title, renders, originals, { at: row.createdAt, by });
+      const { image } = composeSheet(input);
+      const png = await encodePng(image);
+      if (!(await stillWanted())) return;
+      await this.files.write(FOLDER, row.id, SHEET_FILE, png);
+      const [count] = await Export.update({ status: 'done', progress: 1, step: 'Ready', width: image.width, height: image.height, bytes: png.length, figures, finishedAt: new Date() }, { where: { id: row.id, status: 'running' } });
+      // Cancelled or deleted while the file was being written: nothing may stay behind.
+      if (!count) await this.files.remove(FOLDER, row.id);
+    } catch (err) {
+      const message = err instanceof AppError && err.status < 500 ? err.message : 'The sheet could not be made because of an error on our side, which was logged. Try again; if it fails again, tell us which artworks and looks.';
+      if (!(err instanceof AppError && err.status < 500)) console.error(`[exports] ${row.id} failed: ${(err as Error).stack ?? err}`);
+      await Export.update({ status: 'failed', step: 'Failed', error: message, finishedAt: new Date() }, { where: { id: row.id, status: 'running' } });
+      await this.files.remove(FOLDER, row.id);
+    }
+  }
+
+  /** A render on the pool; when the pool is full (interactive renders come first) it waits its turn instead of failing. */
+  private async renderPatiently(req: RenderRequest): Promise<RgbaImage> {
+    for (let attempt = 0; ; attempt++) {
+      try {
+        return await this.engine.renderImage(req);
+      } catch (err) {
+        if (!(err instanceof AppError && err.code === 'render_busy') || attempt >= 120) throw err;
+        await new Promise((resolve) => setTimeout(resolve, 500));
+      }
+    }
+  }
+
+  /** Exports that stopped reporting long ago (their worker died and the queue gave up) are marked failed. */
+  private async failStale(studioId: string): Promise<void> {
+    await Export.update(
+      { status: 'failed', step: 'Failed', error: 'The worker making this export stopped answering. Try again.', finishedAt: new Date() },
+      { where: { studioId, status: 'running', updatedAt: { [Op.lt]: new Date(Date.now() - this.staleAfterMs) } } },
+    );
+  }
+
+  /** Removes a studio's exports, rows then files (a running job finds its row gone and stops). */
+  async removeFor(studioId: string): Promise<number> {
+    const rows = await Export.findAll({ attributes: ['id'], where: { studioId } });
+    await Export.destroy({ where: { studioId } });
+    for (const r of rows) await this.files.remove(FOLDER, r.id);
+    return rows.length;
+  }
+
+  /** Removes export folders without a row (a crash between file and row, or a deleted studio's). */
+  async reconcile(): Promise<number> {
+    const ids = (await this.files.ids(FOLDER)).filter((i) => /^[0-9a-f-]{36}$/.test(i));
+    if (!ids.length) return 0;
+    const known = new Set((await Export.findAll({ attributes: ['id'], where: { id: ids } })).map((e) => e.id));
+    const orphans = ids.filter((i) => !known.has(i));
+    for (const id of orphans) await this.files.remove(FOLDER, id);
+    return orphans.length;
+  }
+
+  private async row(studioId: string, id: string): Promise<Export> {
+    const row = await Export.findOne({ where: { id, studioId } });
+    if (!row) throw notFound('The export');
+    return row;
+  }
+
+  private async names(ids: (string | null)[]): Promise<Map<string, string>> {
+    const list = [...new Set(ids.filter((i): i is string => !!i))];
+    const users = list.length ? await User.findAll({ where: { id: list }, attributes: ['id', 'displayName'] }) : [];
+    return new Map(users.map((u) => [u.id, u.displayName]));
+  }
+
+  private dto(r: Export, names: Map<string, string>): ExportDto {
+    const { spec } = r;
+    return {
+      id: r.id,
+      title: r.title,
+      kind: r.kind,
+      layout: r.layout,
+      status: r.status,
+      progress: r.progress,
+      step: r.step,
+      error: r.error,
+      artworks: spec.artworks,
+      looks: spec.looks.map((l) => ({ id: l.id, name: l.name, revision: l.revision, panelTypeName: l.panelTypeName })),
+      scale: spec.scale,
+      frame: spec.frame,
+      cells: spec.artworks.length * spec.looks.length,
+      width: r.width,
+      height: r.height,
+      bytes: r.bytes,
+      figures: r.figures,
+      createdBy: { id: r.createdById, name: r.createdById ? (names.get(r.createdById) ?? 'a former member') : 'a former member' },
+      createdAt: r.createdAt.toISOString(),
+      finishedAt: r.finishedAt ? r.finishedAt.toISOString() : null,
+      downloadUrl: r.status === 'done' ? `/api/studios/${r.studioId}/exports/${r.id}/file` : null,
+    };
+  }
+}

@@ -1,0 +1,204 @@
+import sharp from 'sharp';
+import pixelmatch from 'pixelmatch';
+import { sheetGeometry } from '../../../shared/export/sheet';
+import { QUEUES } from '../../jobs/job-queue';
+import { createHarness, TestClient, type Harness } from '../../testing/harness';
+import { pngOf } from '../../testing/images';
+import { Membership } from '../studios/membership.model';
+import { Export } from './export.model';
+import type { ExportJob } from './exports.service';
+
+let h: Harness;
+let owner: TestClient;
+let editor: TestClient;
+let viewer: TestClient;
+let studioId: string;
+let artworkIds: string[];
+let otherArtworkId: string;
+
+const url = (rest = '') => `/api/studios/${studioId}/exports${rest}`;
+const raw = async (png: Buffer) => {
+  const { data, info } = await sharp(png).ensureAlpha().raw().toBuffer({ resolveWithObject: true });
+  return { width: info.width, height: info.height, data: new Uint8Array(data) };
+};
+
+/** Polls an export until it leaves the queue and the renderer, noting each progress figure seen. */
+async function finished(client: TestClient, id: string, seen: number[] = []): Promise<Record<string, unknown> & { status: string }> {
+  const until = Date.now() + 60_000;
+  for (;;) {
+    const res = await client.get(url(`/${id}`));
+    expect(res.status).toBe(200);
+    seen.push(res.body.export.progress);
+    if (!['queued', 'running'].includes(res.body.export.status)) return res.body.export;
+    if (Date.now() > until) throw new Error(`export ${id} still ${res.body.export.status} after 60 s`);
+    await new Promise((r) => setTimeout(r, 150));
+  }
+}
+
+beforeAll(async () => {
+  h = await createHarness();
+  // This process runs the jobs, as `npm start` does.
+  await h.jobs.work<ExportJob>(QUEUES.exports, (job) => h.app.exports.run(job));
+  owner = new TestClient(h.app);
+  editor = new TestClient(h.app);
+  viewer = new TestClient(h.app);
+  await owner.signUp('correct horse battery', 'owner');
+  const e = await editor.signUp('correct horse battery', 'editor');
+  const v = await viewer.signUp('correct horse battery', 'viewer');
+  studioId = (await owner.post('/api/studios', { name: 'Sheet Studio' })).body.studio.id;
+  await Membership.bulkCreate([
+    { studioId, userId: e.id, role: 'editor' },
+    { studioId, userId: v.id, role: 'viewer' },
+  ]);
+  const up = async (name: string, px: (x: number, y: number) => [number, number, number, number]) =>
+    (await owner.upload(`/api/studios/${studioId}/artworks`, { name }, { name: `${name}.png`, bytes: pngOf(64, 48, px) })).body.artwork.id as string;
+  artworkIds = [await up('Ramp', (x) => [x * 4, x * 4, x * 4, 255]), await up('Checker', (x, y) => ((x >> 2) + (y >> 2)) % 2 ? [255, 255, 255, 255] : [0, 0, 0, 255])];
+  const other = new TestClient(h.app);
+  await other.signUp('correct horse battery', 'other');
+  const otherStudio = (await other.post('/api/studios', { name: 'Elsewhere' })).body.studio.id;
+  otherArtworkId = (await other.upload(`/api/studios/${otherStudio}/artworks`, {}, { name: 'x.png', bytes: pngOf(8, 8, () => [9, 9, 9, 255]) })).body.artwork.id;
+}, 60_000);
+afterAll(() => h.close());
+
+test('a 2 × 2 grid is queued, reports progress to 100 %, and its cells equal single reference renders', async () => {
+  const looks = ['el-amber-320x240.standard', 'vfd-bluegreen-256x64.standard'];
+  const res = await editor.post(url(), { layout: 'grid', artworkIds, looks, scale: 1 });
+  expect(res.status).toBe(202);
+  expect(res.body.export).toMatchObject({ status: 'queued', cells: 4, layout: 'grid', downloadUrl: null });
+  const seen: number[] = [];
+  const done = await finished(editor, res.body.export.id, seen);
+  expect(done).toMatchObject({ status: 'done', progress: 1, step: 'Ready', error: null });
+  // Progress never goes back.
+  expect(seen).toEqual([...seen].sort((a, b) => a - b));
+  expect((await Export.findByPk(res.body.export.id))!.attempts).toBe(1);
+
+  const file = await viewer.get(done.downloadUrl as string);
+  expect(file.status).toBe(200);
+  expect(file.headers['content-type']).toBe('image/png');
+  expect(file.headers['content-disposition']).toMatch(/^attachment/);
+  const sheet = await raw(file.body);
+  expect([sheet.width, sheet.height]).toEqual([done.width, done.height]);
+
+  // Each cell, cut out of the sheet, is the studio's reference render of that artwork and look, pixel for pixel.
+  const renders: { width: number; height: number; data: Uint8Array }[][] = [];
+  for (const artworkId of artworkIds) {
+    const row = [];
+    for (const presetId of looks) {
+      const r = await editor.post(`/api/studios/${studioId}/renders`, { artworkId, presetId, scale: 1 });
+      row.push(await raw((await editor.get(r.body.render.url)).body));
+    }
+    renders.push(row);
+  }
+  const g = sheetGeometry(renders.map((row) => row.map((r) => ({ width: r.width, height: r.height }))));
+  expect([g.width, g.height]).toEqual([sheet.width, sheet.height]);
+  renders.forEach((row, r) =>
+    row.forEach((render, c) => {
+      const at = g.cells[r][c].image;
+      const cut = new Uint8Array(render.width * render.height * 4);
+      for (let y = 0; y < render.height; y++) cut.set(sheet.data.subarray(((at.y + y) * sheet.width + at.x) * 4, ((at.y + y) * sheet.width + at.x + render.width) * 4), y * render.width * 4);
+      expect(pixelmatch(cut, render.data, undefined, render.width, render.height, { threshold: 0 })).toBe(0);
+    }),
+  );
+});
+
+test('an A/B sheet states how two looks differ, as pixelmatch counts it', async () => {
+  const looks = ['el-amber-640x480.standard', 'el-amber-640x480.ordered'];
+  const res = await editor.post(url(), { layout: 'ab-diff', artworkIds: [artworkIds[0]], looks, scale: 1, title: 'Dither or not' });
+  expect(res.status).toBe(202);
+  const done = await finished(editor, res.body.export.id);
+  expect(done.status).toBe('done');
+  const [a, b] = await Promise.all(looks.map(async (presetId) => raw((await editor.get((await editor.post(`/api/studios/${studioId}/renders`, { artworkId: artworkIds[0], presetId, scale: 1 })).body.render.url)).body)));
+  const count = pixelmatch(a.data, b.data, undefined, a.width, a.height, { threshold: 0, includeAA: true });
+  expect(count).toBeGreaterThan(0);
+  expect(done.figures).toEqual([{ artworkName: 'Ramp', differing: count, pixels: a.width * a.height, maxChannel: expect.any(Number) }]);
+  // Three columns: A, B and the map.
+  const sheet = await raw((await editor.get(done.downloadUrl as string)).body);
+  expect(sheet.width).toBe(sheetGeometry([[a, b, a]]).width);
+});
+
+test('side by side puts the original before the looks', async () => {
+  const res = await editor.post(url(), { layout: 'side-by-side', artworkIds: [artworkIds[1]], looks: ['el-amber-320x240.standard'], scale: 1 });
+  const done = await finished(editor, res.body.export.id);
+  expect(done.status).toBe('done');
+  const sheet = await raw((await editor.get(done.downloadUrl as string)).body);
+  const g = sheetGeometry([[{ width: 320, height: 240 }, { width: 320, height: 240 }]]);
+  expect([sheet.width, sheet.height]).toEqual([g.width, g.height]);
+  // The 64 × 48 checker enlarged 5× (the largest whole number within 320 × 240), with hard edges: 4 × 5 = 20 px squares.
+  const at = g.cells[0][0].image;
+  const px = (x: number, y: number) => sheet.data[((at.y + y) * sheet.width + at.x + x) * 4];
+  expect(at.width).toBe(320);
+  expect([px(0, 0), px(19, 19), px(20, 0), px(39, 0), px(40, 0)]).toEqual([0, 0, 255, 255, 0]);
+});
+
+describe('bad requests are refused before anything is queued, saying what to change', () => {
+  const cases: [string, () => object, RegExp][] = [
+    ['no artwork', () => ({ layout: 'grid', artworkIds: [], looks: ['el-amber-640x480.standard'] }), /at least one artwork/],
+    ['seven artworks', () => ({ layout: 'grid', artworkIds: Array.from({ length: 7 }, () => crypto.randomUUID()), looks: ['el-amber-640x480.standard'] }), /at most 6 artworks/],
+    ['no look', () => ({ layout: 'grid', artworkIds, looks: [] }), /at least one look/],
+    ['seven looks', () => ({ layout: 'grid', artworkIds, looks: Array.from({ length: 7 }, (_, k) => `look-${k}`) }), /at most 6 looks/],
+    ["another studio's artwork", () => ({ layout: 'grid', artworkIds: [otherArtworkId], looks: ['el-amber-640x480.standard'] }), /not in this studio's library/],
+    ['an unknown look', () => ({ layout: 'grid', artworkIds, looks: ['no-such-look'] }), /There is no look “no-such-look”/],
+    ["another studio's preset", () => ({ layout: 'grid', artworkIds, looks: [`studio:${crypto.randomUUID()}`] }), /not in this studio/],
+    ['A/B of three looks', () => ({ layout: 'ab-diff', artworkIds, looks: ['el-amber-640x480.standard', 'el-amber-640x480.ordered', 'el-amber-640x480.line-art'] }), /exactly two looks/],
+    ['A/B of two sizes', () => ({ layout: 'ab-diff', artworkIds, looks: ['el-amber-640x480.standard', 'el-amber-320x240.standard'] }), /Choose two looks of one panel type/],
+    ['scale 5', () => ({ layout: 'grid', artworkIds, looks: ['el-amber-640x480.standard'], scale: 5 }), /scale must be a whole number from 1 to 4/],
+    ['a frame past the end', () => ({ layout: 'grid', artworkIds, looks: ['el-amber-640x480.standard'], frame: 3 }), /Frame 4 is past the end of “Ramp”/],
+    ['a sheet too large', () => ({ layout: 'side-by-side', artworkIds, looks: ['crt-amber-p3.standard', 'crt-green-p1.standard', 'crt-green-p39.standard', 'crt-white-p4.standard', 'el-amber-640x480.standard', 'el-amber-640x480.ordered'], scale: 4 }), /limit is 50 million/],
+    ['an unknown key', () => ({ layout: 'grid', artworkIds, looks: ['el-amber-640x480.standard'], studioId: crypto.randomUUID() }), /studioId/],
+  ];
+  it.each(cases)('%s', async (_what, body, message) => {
+    const before = await Export.count({ where: { studioId } });
+    const res = await editor.post(url(), body());
+    expect(res.status).toBe(400);
+    expect(JSON.stringify(res.body.error)).toMatch(message);
+    expect(await Export.count({ where: { studioId } })).toBe(before);
+  });
+});
+
+test('roles: viewers list and download, editors ask and change their own, owners delete anyone’s', async () => {
+  const mine = (await editor.post(url(), { layout: 'grid', artworkIds: [artworkIds[0]], looks: ['vfd-bluegreen-256x64.standard'], scale: 1 })).body.export;
+  expect((await viewer.post(url(), { layout: 'grid', artworkIds, looks: ['vfd-bluegreen-256x64.standard'] })).status).toBe(403);
+  expect((await viewer.get(url())).body.exports.map((e: { id: string }) => e.id)).toContain(mine.id);
+  await finished(viewer, mine.id);
+  expect((await viewer.delete(url(`/${mine.id}`))).status).toBe(403);
+  const owners = (await owner.post(url(), { layout: 'grid', artworkIds: [artworkIds[0]], looks: ['vfd-bluegreen-256x64.standard'], scale: 1 })).body.export;
+  await finished(owner, owners.id);
+  expect((await editor.delete(url(`/${owners.id}`))).status).toBe(403);
+  expect((await owner.delete(url(`/${mine.id}`))).status).toBe(204);
+  expect((await editor.get(url(`/${mine.id}`))).status).toBe(404);
+  expect((await editor.get(url(`/${mine.id}/file`))).status).toBe(404);
+});
+
+test('cancel stops an export and leaves no file; retry makes it again; a sheet not ready answers 409', async () => {
+  // Six cells at scale 4 keep the job busy long enough to be caught running.
+  const res = await editor.post(url(), { layout: 'grid', artworkIds, looks: ['el-amber-640x480.standard', 'el-amber-640x480.ordered', 'el-amber-640x480.line-art'], scale: 3 });
+  const id = res.body.export.id;
+  const early = await editor.get(url(`/${id}/file`));
+  expect(early.status).toBe(409);
+  expect(early.body.error.message).toMatch(/not ready/);
+  const cancelled = await editor.post(url(`/${id}/cancel`));
+  expect(cancelled.status).toBe(200);
+  expect(cancelled.body.export.status).toBe('cancelled');
+  expect((await editor.post(url(`/${id}/cancel`))).status).toBe(409);
+  // Whatever the worker was doing, it stops and nothing is left to download.
+  await new Promise((r) => setTimeout(r, 1500));
+  expect((await editor.get(url(`/${id}`))).body.export.status).toBe('cancelled');
+  expect((await editor.get(url(`/${id}/file`))).status).toBe(409);
+  const again = await editor.post(url(`/${id}/retry`));
+  expect(again.status).toBe(200);
+  expect(again.body.export.status).toBe('queued');
+  const done = await finished(editor, id);
+  expect(done.status).toBe('done');
+  expect((await editor.get(done.downloadUrl as string)).status).toBe(200);
+  expect((await editor.post(url(`/${id}/retry`))).status).toBe(409);
+}, 90_000);
+
+test('an artwork deleted before its job runs fails the export with the reason, and no file', async () => {
+  const doomed = (await owner.upload(`/api/studios/${studioId}/artworks`, { name: 'Doomed' }, { name: 'd.png', bytes: pngOf(16, 16, () => [200, 0, 0, 255]) })).body.artwork.id;
+  const res = await editor.post(url(), { layout: 'grid', artworkIds: [artworkIds[0], doomed], looks: ['el-amber-640x480.standard'], scale: 3 });
+  expect((await owner.delete(`/api/studios/${studioId}/artworks/${doomed}`)).status).toBe(204);
+  const done = await finished(editor, res.body.export.id);
+  expect(done.status).toBe('failed');
+  expect(done.error).toMatch(/“Doomed” was deleted after the sheet was asked for/);
+  expect((await editor.get(url(`/${res.body.export.id}/file`))).status).toBe(409);
+});

@@ -1,0 +1,57 @@
+import { differenceMap, fitNearest, SHEET_LAYOUT_LABELS, type SheetCell, type SheetInput } from '../../../shared/export/sheet';
+import { PARAMS, type EnumSpec } from '../../../shared/model/parameters';
+import { PIPELINE_VERSION } from '../../../shared/pipeline/render';
+import type { RgbaImage } from '../../../shared/pipeline/types';
+import type { ExportDto } from '../../../shared/api/export.schema';
+import type { SheetSpec } from './export.model';
+
+const ditherLabel = (PARAMS.find((p) => p.key === 'dither') as EnumSpec).optionLabels;
+const plural = (n: number, one: string) => `${n} ${one}${n === 1 ? '' : 's'}`;
+
+/** The words under a render: the look and its revision, the artwork and panel type, the key parameters. */
+function renderLines(look: SheetSpec['looks'][number], artworkName: string): string[] {
+  const { cell, drive, glass } = look.parameters;
+  return [
+    `${look.name}${look.revision ? ` · r${look.revision}` : ''}`,
+    `${artworkName} · ${look.panelTypeName}`,
+    `${cell.cols} × ${cell.rows} · ${drive.grayLevels} levels · ${ditherLabel[drive.dither]} · glow ${glass.glowRadiusMm} mm`,
+  ];
+}
+
+/** Image pixels per millimetre of panel at the sheet's scale (scale pixels a cell pitch across). */
+const pxPerMm = (look: SheetSpec['looks'][number], scale: number) => scale / look.parameters.cell.pitchXMm;
+
+/**
+ * The cells of a sheet from its renders (renders[artwork][look]) and the artworks' frames, by
+ * layout: a grid of renders; the original then each look; or A, B and their difference map.
+ */
+export function sheetInput(spec: SheetSpec, title: string, renders: RgbaImage[][], originals: RgbaImage[], made: { at: Date; by: string }): { input: SheetInput; figures: ExportDto['figures'] } {
+  const figures: NonNullable<ExportDto['figures']> = [];
+  const rows: SheetCell[][] = spec.artworks.map((artwork, r) => {
+    const rendered = spec.looks.map((look, l): SheetCell => ({ image: renders[r][l], lines: renderLines(look, artwork.name), pxPerMm: pxPerMm(look, spec.scale) }));
+    if (spec.layout === 'grid') return rendered;
+    if (spec.layout === 'side-by-side') {
+      const box = renders[r][0];
+      const original = originals[r];
+      return [{ image: fitNearest(original, box.width, box.height), lines: ['Original', artwork.name, `${original.width} × ${original.height} px, as drawn`] }, ...rendered];
+    }
+    const { image, diff } = differenceMap(renders[r][0], renders[r][1]);
+    figures.push({ artworkName: artwork.name, differing: diff.differing, pixels: diff.pixels, maxChannel: diff.maxChannel });
+    const share = (100 * diff.differing) / diff.pixels;
+    return [
+      { ...rendered[0], lines: [`A: ${rendered[0].lines[0]}`, ...rendered[0].lines.slice(1)] },
+      { ...rendered[1], lines: [`B: ${rendered[1].lines[0]}`, ...rendered[1].lines.slice(1)] },
+      { image, lines: ['Difference A/B', `${diff.differing} pixels differ (${share.toFixed(share < 1 ? 3 : 1)} %)`, `largest channel difference ${diff.maxChannel}`], pxPerMm: pxPerMm(spec.looks[0], spec.scale) },
+    ];
+  });
+  const date = made.at.toISOString().slice(0, 16).replace('T', ' ');
+  return {
+    input: {
+      title,
+      subtitle: `${SHEET_LAYOUT_LABELS[spec.layout]} · ${plural(spec.artworks.length, 'artwork')} × ${plural(spec.looks.length, 'look')} · frame ${spec.frame + 1} · ${spec.scale} px a cell pitch`,
+      footer: [`${spec.studioName} · ${date} UTC · made by ${made.by}`, `Emberline panel model v${PIPELINE_VERSION} · scale bars in mm of panel`],
+      rows,
+    },
+    figures: spec.layout === 'ab-diff' ? figures : null,
+  };
+}

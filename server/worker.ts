@@ -1,0 +1,40 @@
+import { loadConfig } from './config';
+import { createSequelize } from './db/connection';
+import { migrate } from './db/migrate';
+import { initModels } from './db/models';
+import { ArtworksService } from './features/artworks/artworks.service';
+import { exportsService, type ExportJob } from './features/exports/exports.service';
+import { JobQueue, QUEUES, WORKER_NAME } from './jobs/job-queue';
+import { RenderEngine } from './render/render-engine';
+import { FileStore } from './storage/file-store';
+
+/**
+ * `npm run worker`: a process that only runs background jobs (exports) on its own render pool. It
+ * needs what the app needs and nothing else — the database and the storage — so more of them can
+ * run beside `npm start`, or on other machines that share both.
+ */
+async function main(): Promise<void> {
+  const config = loadConfig();
+  const sequelize = createSequelize(config.db);
+  initModels(sequelize);
+  await sequelize.authenticate();
+  await migrate(sequelize);
+  const engine = new RenderEngine();
+  const artworks = new ArtworksService(new FileStore(config.storageDir), (bytes, sheet) => engine.decodedFrames(bytes, sheet));
+  const jobs = await JobQueue.start(config.db, config.jobs);
+  const exports = exportsService(config, artworks, engine, jobs);
+  await jobs.work<ExportJob>(QUEUES.exports, (job) => exports.run(job));
+  console.log(`[worker] ${WORKER_NAME} runs exports on ${engine.threads} render threads`);
+  const stop = async () => {
+    await jobs.stop();
+    await engine.close();
+    await sequelize.close();
+    process.exit(0);
+  };
+  for (const signal of ['SIGINT', 'SIGTERM'] as const) process.once(signal, () => void stop());
+}
+
+main().catch((err) => {
+  console.error(`[worker] could not start: ${err instanceof Error ? err.message : err}`);
+  process.exit(1);
+});

@@ -1,0 +1,63 @@
+import '../model/zod-config';
+import { z } from 'zod';
+import { MAX_SHEET_ARTWORKS, MAX_SHEET_CELLS, MAX_SHEET_LOOKS, SHEET_LAYOUTS, type SheetLayout } from '../export/sheet';
+import { nameSchema } from './text.schema';
+
+/**
+ * A comparison sheet request: artworks of the studio × looks (a studio preset as "studio:<id>" at
+ * its current revision, or a built-in preset id), a layout, the render scale and the animation
+ * frame. An A/B sheet takes exactly two looks.
+ */
+export const sheetRequestSchema = z
+  .strictObject({
+    title: nameSchema(120).optional(),
+    layout: z.enum(SHEET_LAYOUTS, { message: `layout must be one of ${SHEET_LAYOUTS.join(', ')}` }),
+    artworkIds: z
+      .array(z.uuid({ message: 'each artwork must be an artwork id' }))
+      .min(1, { message: 'choose at least one artwork' })
+      .max(MAX_SHEET_ARTWORKS, { message: `choose at most ${MAX_SHEET_ARTWORKS} artworks` })
+      .refine((ids) => new Set(ids).size === ids.length, { message: 'each artwork may be chosen once' }),
+    looks: z
+      .array(z.string().min(1).max(100))
+      .min(1, { message: 'choose at least one look' })
+      .max(MAX_SHEET_LOOKS, { message: `choose at most ${MAX_SHEET_LOOKS} looks` })
+      .refine((ids) => new Set(ids).size === ids.length, { message: 'each look may be chosen once' }),
+    scale: z.int({ message: 'scale must be a whole number from 1 to 4' }).min(1, { message: 'scale must be a whole number from 1 to 4' }).max(4, { message: 'scale must be a whole number from 1 to 4' }).default(2),
+    frame: z.int({ message: 'frame must be a whole number from 0' }).min(0, { message: 'frame must be a whole number from 0' }).default(0),
+  })
+  .refine((r) => r.artworkIds.length * r.looks.length <= MAX_SHEET_CELLS, { message: `a sheet holds at most ${MAX_SHEET_CELLS} cells (artworks × looks)`, path: ['looks'] })
+  .refine((r) => r.layout !== 'ab-diff' || r.looks.length === 2, { message: 'an A/B sheet compares exactly two looks', path: ['looks'] });
+export type SheetRequest = z.infer<typeof sheetRequestSchema>;
+
+export const EXPORT_STATUSES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
+export type ExportStatus = (typeof EXPORT_STATUSES)[number];
+export const EXPORT_STATUS_LABELS: Readonly<Record<ExportStatus, string>> = { queued: 'Waiting', running: 'Rendering', done: 'Ready', failed: 'Failed', cancelled: 'Cancelled' };
+
+/** One export as the studio sees it. */
+export interface ExportDto {
+  id: string;
+  title: string;
+  kind: 'sheet';
+  layout: SheetLayout;
+  status: ExportStatus;
+  /** 0–1. */
+  progress: number;
+  /** What the job is doing now, in words ("Cell 3 of 4: Walk cycle through Soft glow"). */
+  step: string;
+  error: string | null;
+  artworks: { id: string; name: string }[];
+  looks: { id: string; name: string; revision: number | null; panelTypeName: string }[];
+  scale: number;
+  frame: number;
+  cells: number;
+  width: number | null;
+  height: number | null;
+  bytes: number | null;
+  /** A/B sheets: per artwork, pixels differing and the largest channel difference. */
+  figures: { artworkName: string; differing: number; pixels: number; maxChannel: number }[] | null;
+  createdBy: { id: string | null; name: string };
+  createdAt: string;
+  finishedAt: string | null;
+  /** Present once done. */
+  downloadUrl: string | null;
+}
