@@ -5,7 +5,7 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { PresetApi } from '../presets/preset-api';
 import { StudioContext } from './studio-context';
 
-const ICONS: Record<string, string> = { preset: 'tune', member: 'group', link: 'link', invite: 'mail', artwork: 'image' };
+const ICONS: Record<string, string> = { preset: 'tune', member: 'group', link: 'link', invite: 'mail', artwork: 'image', export: 'collections' };
 
 /** The studio's activity feed: who did what, when. */
 @Component({
@@ -13,7 +13,7 @@ const ICONS: Record<string, string> = { preset: 'tune', member: 'group', link: '
   imports: [DatePipe, MatIconModule, MatProgressBarModule],
   template: `
     <h1>Activity</h1>
-    <p class="sub">Changes to presets, artworks, people and share links in {{ context.studio()?.name }}.</p>
+    <p class="sub">Changes to presets, artworks, exports, people and share links in {{ context.studio()?.name }}.</p>
     @if (feed.isLoading()) {
       <mat-progress-bar mode="indeterminate" aria-label="Loading activity" />
     } @else if (feed.hasValue() && feed.value().length === 0) {

@@ -40,6 +40,7 @@ export class StudioShell {
     { path: 'bench', label: 'Bench', icon: 'blur_on' },
     { path: 'presets', label: 'Presets', icon: 'tune' },
     { path: 'artworks', label: 'Artworks', icon: 'photo_library' },
+    { path: 'exports', label: 'Exports', icon: 'collections' },
     { path: 'drive', label: 'Drive timing', icon: 'timeline' },
     { path: 'bios', label: 'Video BIOS', icon: 'memory' },
     { path: 'members', label: 'Members', icon: 'group' },
