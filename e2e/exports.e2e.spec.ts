@@ -92,3 +92,19 @@ test('the Exports page on a phone: the form and the list fit 390 px', async ({ p
   expect(overflow).toBeLessThanOrEqual(0);
   await page.screenshot({ path: testInfo.outputPath('exports-phone.png'), fullPage: true });
 });
+
+test('Add to sheet on the bench starts a sheet with the artwork and look on the bench', async ({ page, guard }) => {
+  void guard;
+  await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
+  await expect(page).toHaveURL(/\/bench/);
+  await choose(page, 'Artwork', 'Walk cycle');
+  await page.getByRole('link', { name: 'Add to sheet' }).click();
+  await expect(page).toHaveURL(/\/exports\?artwork=.+&look=/);
+  await expect(page.getByRole('combobox', { name: /^Artworks/ })).toContainText('Walk cycle');
+  await expect(page.getByRole('combobox', { name: /^Looks/ })).toContainText('Standard');
+  await expect(page.getByText(/1 cell · a sheet of/)).toBeVisible();
+  // An animation: the frame can be chosen, and a frame past its end is refused before sending.
+  await page.getByLabel('Animation frame').fill('9');
+  await expect(page.getByText('Choose a frame from 1 to 4.')).toBeVisible();
+  await expect(page.getByRole('button', { name: 'Make sheet' })).toBeDisabled();
+});

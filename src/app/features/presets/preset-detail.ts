@@ -8,6 +8,7 @@ import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
+import { MatTooltipModule } from '@angular/material/tooltip';
 import { Router, RouterLink } from '@angular/router';
 import type { PresetRevisionDto } from '../../../../shared/api/dto';
 import { changeLabel, describeChange, describeValue, paramDiff, type ParamChange } from '../../../../shared/model/param-diff';
@@ -24,7 +25,7 @@ import { RenderThumb } from './render-thumb';
 /** One preset: its history (compare two revisions, restore one), sharing and housekeeping. */
 @Component({
   selector: 'em-preset-detail',
-  imports: [FormsModule, RouterLink, DatePipe, MatButtonModule, MatIconModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatProgressBarModule, RenderThumb],
+  imports: [FormsModule, RouterLink, DatePipe, MatButtonModule, MatIconModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatProgressBarModule, MatTooltipModule, RenderThumb],
   templateUrl: './preset-detail.html',
   styleUrl: './preset-detail.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
