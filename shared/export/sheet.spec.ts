@@ -17,15 +17,15 @@ const inked = (img: RgbaImage, r: Rect) => {
 };
 
 describe('sheet geometry [calc: the layout rules written in sheet.ts, worked by hand here]', () => {
-  it('puts a 2 × 2 grid of 300 × 200 cells where the rules say', () => {
+  it('puts a 2 × 2 grid of 400 × 200 cells where the rules say', () => {
     const g = sheetGeometry([
-      [{ width: 300, height: 200 }, { width: 300, height: 200 }],
-      [{ width: 300, height: 200 }, { width: 300, height: 200 }],
+      [{ width: 400, height: 200 }, { width: 400, height: 200 }],
+      [{ width: 400, height: 200 }, { width: 400, height: 200 }],
     ]);
     // width = 2 margins + 2 columns + 1 gap
-    expect(g.width).toBe(2 * SHEET_MARGIN + 2 * 300 + SHEET_GAP);
-    expect(g.cells[0][0].image).toEqual({ x: SHEET_MARGIN, y: g.title.y + g.title.height + SHEET_GAP, width: 300, height: 200 });
-    expect(g.cells[0][1].image.x).toBe(SHEET_MARGIN + 300 + SHEET_GAP);
+    expect(g.width).toBe(2 * SHEET_MARGIN + 2 * 400 + SHEET_GAP);
+    expect(g.cells[0][0].image).toEqual({ x: SHEET_MARGIN, y: g.title.y + g.title.height + SHEET_GAP, width: 400, height: 200 });
+    expect(g.cells[0][1].image.x).toBe(SHEET_MARGIN + 400 + SHEET_GAP);
     // Row 2 starts below row 1's image, label block and scale-bar line, and a gap.
     expect(g.cells[1][0].image.y).toBe(g.cells[0][0].bar.y + g.cells[0][0].bar.height + SHEET_GAP);
     expect(g.cells[0][0].label.y).toBeGreaterThan(g.cells[0][0].image.y + 200);

@@ -1,12 +1,11 @@
 import { Op } from 'sequelize';
 import { EXPORT_STATUS_LABELS, type ExportDto, type SheetRequest } from '../../../shared/api/export.schema';
-import { composeSheet, MAX_SHEET_PIXELS, SHEET_LAYOUT_LABELS, sheetGeometry } from '../../../shared/export/sheet';
+import { MAX_SHEET_PIXELS, SHEET_LAYOUT_LABELS, sheetGeometry } from '../../../shared/export/sheet';
 import { builtInPresetById, panelTypeById } from '../../../shared/model/panel-types';
 import type { Role } from '../../../shared/model/roles';
 import type { RgbaImage } from '../../../shared/pipeline/types';
 import { AppError, forbidden, notFound } from '../../core/app-error';
 import { QUEUES, WORKER_NAME, type JobQueue } from '../../jobs/job-queue';
-import { encodePng } from '../../render/encode';
 import { RenderEngine, type RenderRequest } from '../../render/render-engine';
 import type { Config } from '../../config';
 import { FileStore } from '../../storage/file-store';
@@ -17,7 +16,7 @@ import { User } from '../auth/user.model';
 import { Preset } from '../presets/preset.model';
 import { Studio } from '../studios/studio.model';
 import { Export, type SheetSpec } from './export.model';
-import { sheetInput } from './sheet-cells';
+import { makeSheet } from './sheet-cells';
 
 const FOLDER = 'exports';
 const SHEET_FILE = 'sheet.png';
@@ -172,33 +171,30 @@ export class ExportsService {
     const spec = row.spec;
     const cells = spec.artworks.length * spec.looks.length;
     const stillWanted = async () => (await Export.count({ where: { id: row.id, status: 'running' } })) === 1;
-    const report = (done: number, step: string) => Export.update({ progress: done / (cells + 1), step }, { where: { id: row.id, status: 'running' } });
     try {
-      const renders: RgbaImage[][] = [];
-      const originals: RgbaImage[] = [];
-      let done = 0;
+      const sources = [];
       for (const a of spec.artworks) {
         const artwork = await Artwork.findOne({ where: { id: a.id, studioId: row.studioId } });
         if (!artwork) throw new AppError(409, 'conflict', `“${a.name}” was deleted after the sheet was asked for. Ask for a new sheet without it.`);
-        const input = await this.artworks.original(artwork.id);
-        originals.push((await this.engine.decodedFrames(input, artwork.sheet))[spec.frame].image);
-        const cellsOfRow: RgbaImage[] = [];
-        for (const look of spec.looks) {
-          if (!(await stillWanted())) return;
-          await report(done, `Cell ${done + 1} of ${cells}: “${a.name}” through “${look.name}”`);
-          cellsOfRow.push(await this.renderPatiently({ input, sheet: artwork.sheet, parameters: look.parameters, scale: spec.scale, frame: spec.frame }));
-          done++;
-        }
-        renders.push(cellsOfRow);
+        sources.push({ input: await this.artworks.original(artwork.id), sheet: artwork.sheet });
       }
-      await report(done, 'Putting the sheet together');
       const by = row.createdById ? ((await User.findByPk(row.createdById))?.displayName ?? 'a former member') : 'a former member';
-      const { input, figures } = sheetInput(spec, row.title, renders, originals, { at: row.createdAt, by });
-      const { image } = composeSheet(input);
-      const png = await encodePng(image);
-      if (!(await stillWanted())) return;
-      await this.files.write(FOLDER, row.id, SHEET_FILE, png);
-      const [count] = await Export.update({ status: 'done', progress: 1, step: 'Ready', width: image.width, height: image.height, bytes: png.length, figures, finishedAt: new Date() }, { where: { id: row.id, status: 'running' } });
+      const sheet = await makeSheet({
+        spec,
+        title: row.title,
+        made: { at: row.createdAt, by },
+        sources,
+        render: (req) => this.renderPatiently(req),
+        frames: (input, sheet) => this.engine.decodedFrames(input, sheet),
+        beforeStep: async (done, step) => {
+          if (!(await stillWanted())) return false;
+          await Export.update({ progress: done / (cells + 1), step }, { where: { id: row.id, status: 'running' } });
+          return true;
+        },
+      });
+      if (!sheet || !(await stillWanted())) return;
+      await this.files.write(FOLDER, row.id, SHEET_FILE, sheet.png);
+      const [count] = await Export.update({ status: 'done', progress: 1, step: 'Ready', width: sheet.width, height: sheet.height, bytes: sheet.png.length, figures: sheet.figures, finishedAt: new Date() }, { where: { id: row.id, status: 'running' } });
       // Cancelled or deleted while the file was being written: nothing may stay behind.
       if (!count) await this.files.remove(FOLDER, row.id);
     } catch (err) {

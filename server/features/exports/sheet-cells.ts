@@ -1,7 +1,10 @@
-import { differenceMap, fitNearest, SHEET_LAYOUT_LABELS, type SheetCell, type SheetInput } from '../../../shared/export/sheet';
+import { composeSheet, differenceMap, fitNearest, SHEET_LAYOUT_LABELS, type SheetCell, type SheetInput } from '../../../shared/export/sheet';
 import { PARAMS, type EnumSpec } from '../../../shared/model/parameters';
 import { PIPELINE_VERSION } from '../../../shared/pipeline/render';
-import type { RgbaImage } from '../../../shared/pipeline/types';
+import type { SpriteSheet } from '../../../shared/pipeline/sprite-sheet';
+import type { Frame, RgbaImage } from '../../../shared/pipeline/types';
+import { encodePng } from '../../render/encode';
+import type { RenderRequest } from '../../render/render-engine';
 import type { ExportDto } from '../../../shared/api/export.schema';
 import type { SheetSpec } from './export.model';
 
@@ -54,4 +57,41 @@ export function sheetInput(spec: SheetSpec, title: string, renders: RgbaImage[][
     },
     figures: spec.layout === 'ab-diff' ? figures : null,
   };
+}
+
+/** What making a sheet needs from outside: renders, decoded frames, and a word before each step. */
+export interface SheetWork {
+  spec: SheetSpec;
+  title: string;
+  made: { at: Date; by: string };
+  /** Each artwork's stored file, in spec order. */
+  sources: { input: Buffer; sheet: SpriteSheet | null }[];
+  render(req: RenderRequest): Promise<RgbaImage>;
+  frames(input: Buffer, sheet: SpriteSheet | null): Promise<Frame[]>;
+  /** Called before cell `done` (0-based; `done` = cells before putting the sheet together); false stops the work. */
+  beforeStep(done: number, step: string): Promise<boolean>;
+}
+
+/** Renders every cell in order and puts the sheet together as PNG; null when beforeStep said stop. */
+export async function makeSheet(work: SheetWork): Promise<{ png: Buffer; width: number; height: number; figures: ExportDto['figures'] } | null> {
+  const { spec } = work;
+  const cells = spec.artworks.length * spec.looks.length;
+  const renders: RgbaImage[][] = [];
+  const originals: RgbaImage[] = [];
+  let done = 0;
+  for (const [r, artwork] of spec.artworks.entries()) {
+    const { input, sheet } = work.sources[r];
+    originals.push((await work.frames(input, sheet))[spec.frame].image);
+    const row: RgbaImage[] = [];
+    for (const look of spec.looks) {
+      if (!(await work.beforeStep(done, `Cell ${done + 1} of ${cells}: “${artwork.name}” through “${look.name}”`))) return null;
+      row.push(await work.render({ input, sheet, parameters: look.parameters, scale: spec.scale, frame: spec.frame }));
+      done++;
+    }
+    renders.push(row);
+  }
+  if (!(await work.beforeStep(done, 'Putting the sheet together'))) return null;
+  const { input, figures } = sheetInput(spec, work.title, renders, originals, work.made);
+  const { image } = composeSheet(input);
+  return { png: await encodePng(image), width: image.width, height: image.height, figures };
 }
