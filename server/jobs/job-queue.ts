@@ -2,6 +2,9 @@ import os from 'node:os';
 import PgBoss from 'pg-boss';
 import type { Config } from '../config';
 
+/** The PostgreSQL schema of the job queue's tables (made by migration 0010). */
+export const JOBS_SCHEMA = 'pgboss';
+
 /** The queues the app runs work on. */
 export const QUEUES = { exports: 'exports' } as const;
 export type QueueName = (typeof QUEUES)[keyof typeof QUEUES];
@@ -34,7 +37,7 @@ export class JobQueue {
       database: db.database,
       user: db.user,
       password: db.password,
-      schema: 'pgboss',
+      schema: JOBS_SCHEMA,
       max: 3,
       application_name: 'emberline-jobs',
       maintenanceIntervalSeconds: timing.maintenanceSeconds,

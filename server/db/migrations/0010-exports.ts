@@ -1,12 +1,16 @@
+import PgBoss from 'pg-boss';
 import type { QueryInterface } from 'sequelize';
+import { JOBS_SCHEMA } from '../../jobs/job-queue';
 
 /**
  * Exports: comparison sheets (and later animations) made as background jobs. A row is the
  * request, frozen when it was made (the looks' parameters at their revision then), and the job's
  * state; the file lives in storage under the row's id. The job queue (pg-boss) keeps its own
- * schema; this table is what people see and what a retried job reads.
+ * schema, made here with the rest (under the migrations' lock: processes starting together must not
+ * race to create it); this table is what people see and what a retried job reads.
  */
 export async function up(qi: QueryInterface): Promise<void> {
+  await qi.sequelize.query(PgBoss.getConstructionPlans(JOBS_SCHEMA));
   await qi.sequelize.query(`
     CREATE TABLE exports (
       id uuid PRIMARY KEY,
@@ -36,4 +40,5 @@ export async function up(qi: QueryInterface): Promise<void> {
 
 export async function down(qi: QueryInterface): Promise<void> {
   await qi.sequelize.query('DROP TABLE exports');
+  await qi.sequelize.query(`DROP SCHEMA ${JOBS_SCHEMA} CASCADE`);
 }
