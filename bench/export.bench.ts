@@ -32,7 +32,7 @@ async function main() {
   ];
   const looks = ['el-amber-640x480.standard', 'el-amber-640x480.ordered', 'crt-green-p1.standard'].map((id) => {
     const p = builtInPresetById(id)!;
-    return { id, name: p.name, revision: null, panelTypeName: panelTypeById(p.panelTypeId)!.name, parameters: p.parameters };
+    return { id, name: p.name, revision: null, panelTypeId: p.panelTypeId, panelTypeName: panelTypeById(p.panelTypeId)!.name, parameters: p.parameters };
   });
   const scale = 2;
   const spec: SheetSpec = { studioName: 'Bench studio', layout: 'grid', scale, frame: 0, artworks: cards.map((_, k) => ({ id: String(k), name: `Card ${k + 1}` })), looks };
@@ -44,7 +44,7 @@ async function main() {
   let size = { width: 0, height: 0, bytes: 0 };
   const sheetMs = await time(async () => {
     const sheet = await makeSheet({ spec, title: 'Benchmark sheet', made: { at: new Date(0), by: 'bench' }, sources, render: (req) => engine.renderImage(req), frames: (input, sheet) => engine.decodedFrames(input, sheet), beforeStep: async () => true });
-    size = { width: sheet!.width, height: sheet!.height, bytes: sheet!.png.length };
+    size = { width: sheet!.width, height: sheet!.height, bytes: sheet!.files.png.length };
   });
   await engine.close();
 
@@ -53,7 +53,7 @@ async function main() {
   console.log(`median of ${RUNS} runs after ${WARM_UPS} warm-ups, ${process.version}, ${os.cpus().length} cores, ${engine.threads} render threads`);
   console.log('| step | ms |\n| --- | ---: |');
   console.log(`| one pooled reference render, 640×480 → 1280×960 PNG | ${pooledRenderMs.toFixed(1)} |`);
-  console.log(`| 3 × 3 sheet, ${size.width} × ${size.height} px PNG (${(size.bytes / 1024 / 1024).toFixed(1)} MiB) | ${sheetMs.toFixed(1)} |`);
+  console.log(`| 3 × 3 sheet, ${size.width} × ${size.height} px: PNG (${(size.bytes / 1024 / 1024).toFixed(1)} MiB), PDF and ZIP of the single renders | ${sheetMs.toFixed(1)} |`);
   console.log(`| per cell (sheet / 9) | ${perCellMs.toFixed(1)} |`);
   console.log(`| per cell ÷ pooled render | ${(perCellMs / pooledRenderMs).toFixed(3)} |`);
   console.log(JSON.stringify({ sheetMs: +sheetMs.toFixed(1), perCellMs: +perCellMs.toFixed(1), pooledRenderMs: +pooledRenderMs.toFixed(1), perCellToRender: +(perCellMs / pooledRenderMs).toFixed(3), sheetWidth: size.width, sheetHeight: size.height }));

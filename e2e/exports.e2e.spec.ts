@@ -44,7 +44,7 @@ test('a 2 × 2 comparison sheet: asked for on the Exports page, followed to Read
   // A reload keeps it (the jobs and their state live on the server).
   await page.reload();
   await expect(page.getByRole('listitem').filter({ hasText: title }).getByText('Ready', { exact: true })).toBeVisible();
-  const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: `Download ${title} as PNG` }).click()]);
+  const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: new RegExp(`^Download ${title}: Sheet \\(PNG\\)`) }).click()]);
   expect(download.suggestedFilename()).toBe(`${title}.png`);
   const sheet = PNG.sync.read(Buffer.concat(await (await download.createReadStream()).toArray()));
 

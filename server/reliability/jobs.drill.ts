@@ -61,9 +61,9 @@ interface Row {
   progress: number;
   attempts: number;
   worked_by: string | null;
-  bytes: number | null;
+  files: Record<string, number> | null;
 }
-const rowOf = async (id: string) => (await query<Row>('SELECT id, status, progress, attempts, worked_by, bytes FROM exports WHERE id = $1', [id]))[0];
+const rowOf = async (id: string) => (await query<Row>('SELECT id, status, progress, attempts, worked_by, files FROM exports WHERE id = $1', [id]))[0];
 
 async function until(what: string, check: () => Promise<boolean>, ms = 90_000): Promise<void> {
   const deadline = Date.now() + ms;
@@ -125,12 +125,12 @@ test('a worker killed in the middle of a sheet: another runs the job again and e
   const done = await rowOf(id);
   expect(done).toMatchObject({ status: 'done', progress: 1, attempts: 2, worked_by: second.name });
   // Exactly one result: one file, of the size the row states, no temp file; and it downloads.
-  const files = readdirSync(path.join(storageDir, 'exports', id));
-  expect(files).toEqual(['sheet.png']);
-  expect(statSync(path.join(storageDir, 'exports', id, 'sheet.png')).size).toBe(done.bytes);
+  const files = readdirSync(path.join(storageDir, 'exports', id)).sort();
+  expect(files).toEqual(['renders.zip', 'sheet.pdf', 'sheet.png']);
+  for (const [format, name] of [['png', 'sheet.png'], ['pdf', 'sheet.pdf'], ['zip', 'renders.zip']]) expect(statSync(path.join(storageDir, 'exports', id, name)).size).toBe(done.files![format]);
   const file = await owner.send('GET', `/api/studios/${DEMO_STUDIO_ID}/exports/${id}/file`);
   expect(file.status).toBe(200);
-  expect(Buffer.from(await file.arrayBuffer()).length).toBe(done.bytes);
+  expect(Buffer.from(await file.arrayBuffer()).length).toBe(done.files!.png);
 });
 
 test('two workers on one database share a batch of jobs, each done once', async () => {
@@ -141,5 +141,5 @@ test('two workers on one database share a batch of jobs, each done once', async 
   const rows = await Promise.all(ids.map(rowOf));
   expect(rows.map((r) => r.attempts)).toEqual(Array(6).fill(1));
   expect(new Set(rows.map((r) => r.worked_by))).toEqual(new Set([a.name, b.name]));
-  for (const r of rows) expect(readdirSync(path.join(storageDir, 'exports', r.id))).toEqual(['sheet.png']);
+  for (const r of rows) expect(readdirSync(path.join(storageDir, 'exports', r.id)).sort()).toEqual(['renders.zip', 'sheet.pdf', 'sheet.png']);
 });

@@ -109,6 +109,17 @@ export class TestClient {
     return req.attach('file', file.bytes, file.name);
   }
 
+  /** A GET whose body is read as bytes, whatever its content type. */
+  async getBytes(path: string): Promise<request.Response & { body: Buffer }> {
+    let req = request(this.app).get(path).set(this.headers);
+    if (this.cookies.size) req = req.set('Cookie', [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; '));
+    return req.buffer(true).parse((res, done) => {
+      const chunks: Buffer[] = [];
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.on('end', () => done(null, Buffer.concat(chunks)));
+    });
+  }
+
   cookie(name: string): string | undefined {
     return this.cookies.get(name);
   }

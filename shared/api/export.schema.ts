@@ -52,12 +52,11 @@ export interface ExportDto {
   cells: number;
   width: number | null;
   height: number | null;
-  bytes: number | null;
   /** A/B sheets: per artwork, pixels differing and the largest channel difference. */
   figures: { artworkName: string; differing: number; pixels: number; maxChannel: number }[] | null;
   createdBy: { id: string | null; name: string };
   createdAt: string;
   finishedAt: string | null;
-  /** Present once done. */
-  downloadUrl: string | null;
+  /** The files to download once done: the sheet as PNG and PDF, the single renders with a manifest as ZIP. */
+  files: { format: 'png' | 'pdf' | 'zip'; label: string; url: string; bytes: number }[];
 }

@@ -28,7 +28,7 @@ export async function up(qi: QueryInterface): Promise<void> {
       worked_by varchar(120),
       width integer,
       height integer,
-      bytes integer,
+      files jsonb,
       figures jsonb,
       created_at timestamptz NOT NULL DEFAULT now(),
       updated_at timestamptz NOT NULL DEFAULT now(),

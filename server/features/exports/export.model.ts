@@ -10,7 +10,7 @@ export interface SheetSpec {
   scale: number;
   frame: number;
   artworks: { id: string; name: string }[];
-  looks: { id: string; name: string; revision: number | null; panelTypeName: string; parameters: PanelParams }[];
+  looks: { id: string; name: string; revision: number | null; panelTypeId: string; panelTypeName: string; parameters: PanelParams }[];
 }
 
 /** An export (a comparison sheet) and its job's state. */
@@ -30,7 +30,8 @@ export class Export extends Model<InferAttributes<Export>, InferCreationAttribut
   declare workedBy: CreationOptional<string | null>;
   declare width: CreationOptional<number | null>;
   declare height: CreationOptional<number | null>;
-  declare bytes: CreationOptional<number | null>;
+  /** Bytes of each file made, by format (png, pdf, zip), once done. */
+  declare files: CreationOptional<Record<string, number> | null>;
   declare figures: CreationOptional<ExportDto['figures']>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -55,7 +56,7 @@ export function initExport(sequelize: Sequelize): void {
       workedBy: { type: DataTypes.STRING(120), allowNull: true },
       width: { type: DataTypes.INTEGER, allowNull: true },
       height: { type: DataTypes.INTEGER, allowNull: true },
-      bytes: { type: DataTypes.INTEGER, allowNull: true },
+      files: { type: DataTypes.JSONB, allowNull: true },
       figures: { type: DataTypes.JSONB, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,

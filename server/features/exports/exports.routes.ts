@@ -1,7 +1,9 @@
 import type { RequestHandler } from 'express';
 import { sheetRequestSchema } from '../../../shared/api/export.schema';
 import { ApiRouter } from '../../core/api-router';
+import { AppError } from '../../core/app-error';
 import { idParam, studioRole } from '../../core/policy';
+import { EXPORT_FILES, EXPORT_FORMATS } from './sheet-files';
 import type { ExportsService } from './exports.service';
 
 /** /api/studios/:studioId/exports: comparison sheets made as background jobs. Viewers download, editors ask, owners delete anyone's. */
@@ -19,10 +21,13 @@ export function exportsRoutes(exports: ExportsService): ApiRouter {
   api.route('get', '/:exportId', { policy: studioRole('viewer'), summary: 'One export and its progress' }, async (req, res) => {
     res.json({ export: await exports.get(req.membership!.studioId, exportId(req)) });
   });
-  api.route('get', '/:exportId/file', { policy: studioRole('viewer'), summary: 'The finished sheet as a PNG download (409 until it is ready)' }, async (req, res) => {
-    const { name, bytes } = await exports.file(req.membership!.studioId, exportId(req));
+  api.route('get', '/:exportId/file', { policy: studioRole('viewer'), summary: 'A finished file as a download: ?format=png (the sheet, the default), pdf (the sheet with its text) or zip (single renders and a manifest); 409 until it is ready' }, async (req, res) => {
+    const raw = req.query.format ?? 'png';
+    const format = EXPORT_FORMATS.find((f) => f === raw);
+    if (!format) throw new AppError(400, 'invalid_input', `format must be one of ${EXPORT_FORMATS.join(', ')}, got “${String(raw).slice(0, 20)}”.`);
+    const { name, bytes } = await exports.file(req.membership!.studioId, exportId(req), format);
     const safeName = name.replace(/[^\w .-]/g, '_').slice(0, 100);
-    res.set({ 'Content-Type': 'image/png', 'X-Content-Type-Options': 'nosniff', 'Content-Disposition': `attachment; filename="${safeName}.png"`, 'Cache-Control': 'private, no-store' });
+    res.set({ 'Content-Type': EXPORT_FILES[format].type, 'X-Content-Type-Options': 'nosniff', 'Content-Disposition': `attachment; filename="${safeName}.${format}"`, 'Cache-Control': 'private, no-store' });
     res.send(bytes);
   });
   api.route('post', '/:exportId/cancel', { policy: studioRole('editor'), summary: 'Stop a waiting or running export (your own, or anyone\'s as an owner); partial output is removed' }, async (req, res) => {

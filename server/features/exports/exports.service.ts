@@ -17,9 +17,9 @@ import { Preset } from '../presets/preset.model';
 import { Studio } from '../studios/studio.model';
 import { Export, type SheetSpec } from './export.model';
 import { makeSheet } from './sheet-cells';
+import { EXPORT_FILES, EXPORT_FORMATS, type ExportFormat } from './sheet-files';
 
 const FOLDER = 'exports';
-const SHEET_FILE = 'sheet.png';
 /** Newest exports a studio's list shows. */
 const LIST_LIMIT = 100;
 
@@ -97,11 +97,11 @@ export class ExportsService {
       const id = ref.slice('studio:'.length);
       const preset = /^[0-9a-f-]{36}$/i.test(id) ? await Preset.findOne({ where: { id, studioId } }) : null;
       if (!preset) throw new AppError(400, 'invalid_input', 'A chosen preset is not in this studio (deleted, or another studio\'s). Choose again from the list.', { issues: [{ path: 'looks', message: `no preset ${id} in this studio` }] });
-      return { id: ref, name: preset.name, revision: preset.revision, panelTypeName: panelTypeById(preset.panelTypeId)?.name ?? preset.panelTypeId, parameters: preset.parameters };
+      return { id: ref, name: preset.name, revision: preset.revision, panelTypeId: preset.panelTypeId, panelTypeName: panelTypeById(preset.panelTypeId)?.name ?? preset.panelTypeId, parameters: preset.parameters };
     }
     const builtIn = builtInPresetById(ref);
     if (!builtIn) throw new AppError(400, 'invalid_input', `There is no look “${ref.slice(0, 100)}”: give a studio preset as studio:<id> or a built-in preset id (GET /api/panel-types lists them).`, { issues: [{ path: 'looks', message: 'unknown look' }] });
-    return { id: ref, name: builtIn.name, revision: null, panelTypeName: panelTypeById(builtIn.panelTypeId)!.name, parameters: builtIn.parameters };
+    return { id: ref, name: builtIn.name, revision: null, panelTypeId: builtIn.panelTypeId, panelTypeName: panelTypeById(builtIn.panelTypeId)!.name, parameters: builtIn.parameters };
   }
 
   async list(studioId: string): Promise<ExportDto[]> {
@@ -117,11 +117,11 @@ export class ExportsService {
     return this.dto(row, await this.names([row.createdById]));
   }
 
-  /** The finished file (409 while it is being made). */
-  async file(studioId: string, id: string): Promise<{ name: string; bytes: Buffer }> {
+  /** A finished file, by format (409 while it is being made). */
+  async file(studioId: string, id: string, format: ExportFormat): Promise<{ name: string; bytes: Buffer }> {
     const row = await this.row(studioId, id);
     if (row.status !== 'done') throw new AppError(409, 'not_ready', `“${row.title}” is ${EXPORT_STATUS_LABELS[row.status].toLowerCase()}, not ready: it can be downloaded once it is.`);
-    return { name: row.title, bytes: await this.files.read(FOLDER, row.id, SHEET_FILE) };
+    return { name: row.title, bytes: await this.files.read(FOLDER, row.id, EXPORT_FILES[format].name) };
   }
 
   /** Stops a waiting or running export; what it wrote is removed. */
@@ -193,8 +193,9 @@ export class ExportsService {
         },
       });
       if (!sheet || !(await stillWanted())) return;
-      await this.files.write(FOLDER, row.id, SHEET_FILE, sheet.png);
-      const [count] = await Export.update({ status: 'done', progress: 1, step: 'Ready', width: sheet.width, height: sheet.height, bytes: sheet.png.length, figures: sheet.figures, finishedAt: new Date() }, { where: { id: row.id, status: 'running' } });
+      for (const format of EXPORT_FORMATS) await this.files.write(FOLDER, row.id, EXPORT_FILES[format].name, sheet.files[format]);
+      const sizes = Object.fromEntries(EXPORT_FORMATS.map((f) => [f, sheet.files[f].length]));
+      const [count] = await Export.update({ status: 'done', progress: 1, step: 'Ready', width: sheet.width, height: sheet.height, files: sizes, figures: sheet.figures, finishedAt: new Date() }, { where: { id: row.id, status: 'running' } });
       // Cancelled or deleted while the file was being written: nothing may stay behind.
       if (!count) await this.files.remove(FOLDER, row.id);
     } catch (err) {
@@ -273,12 +274,11 @@ export class ExportsService {
       cells: spec.artworks.length * spec.looks.length,
       width: r.width,
       height: r.height,
-      bytes: r.bytes,
       figures: r.figures,
       createdBy: { id: r.createdById, name: r.createdById ? (names.get(r.createdById) ?? 'a former member') : 'a former member' },
       createdAt: r.createdAt.toISOString(),
       finishedAt: r.finishedAt ? r.finishedAt.toISOString() : null,
-      downloadUrl: r.status === 'done' ? `/api/studios/${r.studioId}/exports/${r.id}/file` : null,
+      files: r.status === 'done' && r.files ? EXPORT_FORMATS.map((format) => ({ format, label: EXPORT_FILES[format].label, url: `/api/studios/${r.studioId}/exports/${r.id}/file?format=${format}`, bytes: r.files![format] })) : [],
     };
   }
 }

@@ -1,3 +1,4 @@
+import { strFromU8, unzipSync } from 'fflate';
 import sharp from 'sharp';
 import pixelmatch from 'pixelmatch';
 import { sheetGeometry } from '../../../shared/export/sheet';
@@ -22,8 +23,13 @@ const raw = async (png: Buffer) => {
   return { width: info.width, height: info.height, data: new Uint8Array(data) };
 };
 
+type Done = Record<string, unknown> & { status: string; files: { format: string; url: string; bytes: number; label: string }[] };
+/** The URL of a finished export's file of a format. */
+const fileUrl = (e: Done, format: string) => e.files.find((f) => f.format === format)!.url;
+const png = (e: Done) => fileUrl(e, 'png');
+
 /** Polls an export until it leaves the queue and the renderer, noting each progress figure seen. */
-async function finished(client: TestClient, id: string, seen: number[] = []): Promise<Record<string, unknown> & { status: string }> {
+async function finished(client: TestClient, id: string, seen: number[] = []): Promise<Done> {
   const until = Date.now() + 60_000;
   for (;;) {
     const res = await client.get(url(`/${id}`));
@@ -64,7 +70,7 @@ test('a 2 × 2 grid is queued, reports progress to 100 %, and its cells equal si
   const looks = ['el-amber-320x240.standard', 'vfd-bluegreen-256x64.standard'];
   const res = await editor.post(url(), { layout: 'grid', artworkIds, looks, scale: 1 });
   expect(res.status).toBe(202);
-  expect(res.body.export).toMatchObject({ status: 'queued', cells: 4, layout: 'grid', downloadUrl: null });
+  expect(res.body.export).toMatchObject({ status: 'queued', cells: 4, layout: 'grid', files: [] });
   const seen: number[] = [];
   const done = await finished(editor, res.body.export.id, seen);
   expect(done).toMatchObject({ status: 'done', progress: 1, step: 'Ready', error: null });
@@ -72,7 +78,7 @@ test('a 2 × 2 grid is queued, reports progress to 100 %, and its cells equal si
   expect(seen).toEqual([...seen].sort((a, b) => a - b));
   expect((await Export.findByPk(res.body.export.id))!.attempts).toBe(1);
 
-  const file = await viewer.get(done.downloadUrl as string);
+  const file = await viewer.get(png(done));
   expect(file.status).toBe(200);
   expect(file.headers['content-type']).toBe('image/png');
   expect(file.headers['content-disposition']).toMatch(/^attachment/);
@@ -99,6 +105,44 @@ test('a 2 × 2 grid is queued, reports progress to 100 %, and its cells equal si
       expect(pixelmatch(cut, render.data, undefined, render.width, render.height, { threshold: 0 })).toBe(0);
     }),
   );
+
+  // The same sheet as a PDF, and the single renders with a manifest as a ZIP.
+  expect(done.files.map((f) => [f.format, f.label])).toEqual([['png', 'Sheet (PNG)'], ['pdf', 'Sheet (PDF)'], ['zip', 'Single renders and manifest (ZIP)']]);
+  const pdf = await viewer.getBytes(fileUrl(done, 'pdf'));
+  expect(pdf.headers['content-type']).toBe('application/pdf');
+  const pdfText = pdf.body.toString('latin1');
+  // [std: ISO 32000-1 §7.5.2 header, §8.9.5 image dictionaries, §9.6.2 font subsets named AAAAAA+Name]
+  expect(pdfText.startsWith('%PDF-1.')).toBe(true);
+  expect(pdfText.match(/\/Type \/Page\b/g)).toHaveLength(1);
+  expect(pdfText).toContain(`/Width ${sheet.width}`);
+  expect(pdfText).toContain(`/Height ${sheet.height}`);
+  expect(pdfText).toMatch(/\/BaseFont \/[A-Z]{6}\+Inter/);
+  expect(pdf.body.length).toBe(done.files.find((f) => f.format === 'pdf')!.bytes);
+
+  const zipRes = await viewer.getBytes(fileUrl(done, 'zip'));
+  expect(zipRes.headers['content-type']).toBe('application/zip');
+  // Read with fflate, an unzip that shares nothing with the archiver that wrote it.
+  const entries = unzipSync(new Uint8Array(zipRes.body));
+  const manifest = JSON.parse(strFromU8(entries['manifest.json']));
+  expect(manifest).toMatchObject({ format: 'emberline.sheet-manifest', version: 1, layout: 'grid', scale: 1, frame: 0 });
+  expect(manifest.cells).toHaveLength(4);
+  for (const cell of manifest.cells) {
+    // Each look is a preset document that the import route accepts as it is.
+    expect(cell.look.preset).toMatchObject({ format: 'emberline.preset', version: 1, panelTypeId: expect.any(String) });
+    const decoded = await raw(Buffer.from(entries[cell.file]));
+    const render = renders[cell.row][cell.column];
+    expect([decoded.width, decoded.height]).toEqual([render.width, render.height]);
+    expect(pixelmatch(decoded.data, render.data, undefined, render.width, render.height, { threshold: 0 })).toBe(0);
+  }
+  const imported = await editor.post(`/api/studios/${studioId}/presets/import`, { ...manifest.cells[0].look.preset, name: 'From a sheet' });
+  expect(imported.status).toBe(201);
+});
+
+test('a file format the export does not have is refused with the list', async () => {
+  const id = (await Export.findOne({ where: { studioId, status: 'done' } }))!.id;
+  const res = await viewer.get(url(`/${id}/file?format=gif`));
+  expect(res.status).toBe(400);
+  expect(res.body.error.message).toMatch(/format must be one of png, pdf, zip/);
 });
 
 test('an A/B sheet states how two looks differ, as pixelmatch counts it', async () => {
@@ -112,7 +156,7 @@ test('an A/B sheet states how two looks differ, as pixelmatch counts it', async 
   expect(count).toBeGreaterThan(0);
   expect(done.figures).toEqual([{ artworkName: 'Ramp', differing: count, pixels: a.width * a.height, maxChannel: expect.any(Number) }]);
   // Three columns: A, B and the map.
-  const sheet = await raw((await editor.get(done.downloadUrl as string)).body);
+  const sheet = await raw((await editor.get(png(done))).body);
   expect(sheet.width).toBe(sheetGeometry([[a, b, a]]).width);
 });
 
@@ -120,7 +164,7 @@ test('side by side puts the original before the looks', async () => {
   const res = await editor.post(url(), { layout: 'side-by-side', artworkIds: [artworkIds[1]], looks: ['el-amber-320x240.standard'], scale: 1 });
   const done = await finished(editor, res.body.export.id);
   expect(done.status).toBe('done');
-  const sheet = await raw((await editor.get(done.downloadUrl as string)).body);
+  const sheet = await raw((await editor.get(png(done))).body);
   const g = sheetGeometry([[{ width: 320, height: 240 }, { width: 320, height: 240 }]]);
   expect([sheet.width, sheet.height]).toEqual([g.width, g.height]);
   // The 64 × 48 checker enlarged 5× (the largest whole number within 320 × 240), with hard edges: 4 × 5 = 20 px squares.
@@ -189,7 +233,7 @@ test('cancel stops an export and leaves no file; retry makes it again; a sheet n
   expect(again.body.export.status).toBe('queued');
   const done = await finished(editor, id);
   expect(done.status).toBe('done');
-  expect((await editor.get(done.downloadUrl as string)).status).toBe(200);
+  expect((await editor.get(png(done))).status).toBe(200);
   expect((await editor.post(url(`/${id}/retry`))).status).toBe(409);
 }, 90_000);
 

@@ -7,6 +7,7 @@ import { encodePng } from '../../render/encode';
 import type { RenderRequest } from '../../render/render-engine';
 import type { ExportDto } from '../../../shared/api/export.schema';
 import type { SheetSpec } from './export.model';
+import { rendersZip, sheetPdf, type ExportFormat } from './sheet-files';
 
 const ditherLabel = (PARAMS.find((p) => p.key === 'dither') as EnumSpec).optionLabels;
 const plural = (n: number, one: string) => `${n} ${one}${n === 1 ? '' : 's'}`;
@@ -72,26 +73,37 @@ export interface SheetWork {
   beforeStep(done: number, step: string): Promise<boolean>;
 }
 
-/** Renders every cell in order and puts the sheet together as PNG; null when beforeStep said stop. */
-export async function makeSheet(work: SheetWork): Promise<{ png: Buffer; width: number; height: number; figures: ExportDto['figures'] } | null> {
+/** Renders every cell in order and puts the sheet together: its files by format; null when beforeStep said stop. */
+export async function makeSheet(work: SheetWork): Promise<{ files: Record<ExportFormat, Buffer>; width: number; height: number; figures: ExportDto['figures'] } | null> {
   const { spec } = work;
   const cells = spec.artworks.length * spec.looks.length;
   const renders: RgbaImage[][] = [];
+  // Each cell's own PNG (for the ZIP) is encoded by sharp's threads while the pool renders the next.
+  const singles: Promise<{ png: Buffer; width: number; height: number }>[][] = [];
   const originals: RgbaImage[] = [];
   let done = 0;
   for (const [r, artwork] of spec.artworks.entries()) {
     const { input, sheet } = work.sources[r];
     originals.push((await work.frames(input, sheet))[spec.frame].image);
     const row: RgbaImage[] = [];
+    const encoded: Promise<{ png: Buffer; width: number; height: number }>[] = [];
     for (const look of spec.looks) {
-      if (!(await work.beforeStep(done, `Cell ${done + 1} of ${cells}: “${artwork.name}” through “${look.name}”`))) return null;
-      row.push(await work.render({ input, sheet, parameters: look.parameters, scale: spec.scale, frame: spec.frame }));
+      if (!(await work.beforeStep(done, `Cell ${done + 1} of ${cells}: “${artwork.name}” through “${look.name}”`))) {
+        await Promise.allSettled(singles.flat().concat(encoded));
+        return null;
+      }
+      const image = await work.render({ input, sheet, parameters: look.parameters, scale: spec.scale, frame: spec.frame });
+      row.push(image);
+      encoded.push(encodePng(image).then((png) => ({ png, width: image.width, height: image.height })));
       done++;
     }
     renders.push(row);
+    singles.push(encoded);
   }
   if (!(await work.beforeStep(done, 'Putting the sheet together'))) return null;
   const { input, figures } = sheetInput(spec, work.title, renders, originals, work.made);
   const { image } = composeSheet(input);
-  return { png: await encodePng(image), width: image.width, height: image.height, figures };
+  const png = await encodePng(image);
+  const [pdf, zip] = await Promise.all([sheetPdf(spec, work.title, work.made, { png, width: image.width, height: image.height }, figures), Promise.all(singles.map((row) => Promise.all(row))).then((cells) => rendersZip(spec, work.title, work.made.at, cells, figures))]);
+  return { files: { png, pdf, zip }, width: image.width, height: image.height, figures };
 }

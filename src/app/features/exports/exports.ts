@@ -9,6 +9,7 @@ import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
+import { MatTooltipModule } from '@angular/material/tooltip';
 import { ActivatedRoute, RouterLink } from '@angular/router';
 import { catchError, filter, from, merge, of, Subject, switchMap, timer } from 'rxjs';
 import { EXPORT_STATUS_LABELS, type ExportDto, type ExportStatus } from '../../../../shared/api/export.schema';
@@ -43,7 +44,7 @@ const STATUS_ICONS: Readonly<Record<ExportStatus, string>> = { queued: 'schedule
  */
 @Component({
   selector: 'em-exports',
-  imports: [FormsModule, RouterLink, DatePipe, DecimalPipe, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, MatSelectModule],
+  imports: [FormsModule, RouterLink, DatePipe, DecimalPipe, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, MatSelectModule, MatTooltipModule],
   templateUrl: './exports.html',
   styleUrl: './exports.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
