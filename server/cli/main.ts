@@ -11,10 +11,9 @@ import { hex2, vgaRegisters } from '../../shared/drive/registers';
 import { resolveTiming, STANDARDS, type Standard } from '../../shared/drive/resolve';
 import { figures } from '../../shared/drive/timing';
 import { acuity } from '../../shared/analysis/acuity';
-import { flashSafety } from '../../shared/analysis/flash-safety';
+import { flashCheck } from '../../shared/analysis/flash-check';
 import { legibility, LOST_CONTRAST } from '../../shared/analysis/panel-report';
 import { panelEmissions } from '../../shared/pipeline/render';
-import { outputUniforms } from '../../shared/pipeline/output/uniforms';
 import { describeEntry, patchRom, readRom, RomError, type RomInfo } from '../../shared/drive/vga-rom';
 import { AppError } from '../core/app-error';
 import { issuesOf } from '../core/validate';
@@ -296,13 +295,7 @@ async function flashCommand(args: string[]): Promise<void> {
     throw new UsageError(`cannot read ${positionals[0]}`);
   });
   const { frames } = await decodeImage(input);
-  const emissions = panelEmissions(frames, parameters);
-  const v = parameters.viewing;
-  const report = flashSafety(
-    emissions.map((emission, k) => ({ emission, delayMs: frames[k].delayMs })),
-    { cols: parameters.cell.cols, rows: parameters.cell.rows, pitchXMm: parameters.cell.pitchXMm, pitchYMm: parameters.cell.pitchYMm, colour: outputUniforms(parameters, 1).colour, peakCdM2: v.peakCdM2, offCdM2: v.offCdM2, ambientCdM2: v.ambientCdM2, whiteCdM2: v.whiteCdM2 },
-    distanceMm,
-  );
+  const report = flashCheck(frames, parameters, distanceMm);
   const doc = { maxFlashesPerSecond: report.maxFlashesPerSecond, generalFlashFail: report.generalFlashFail, redFlashFail: report.redFlashFail, bt1702Fail: report.bt1702Fail, pass: report.pass, flashingSr: Math.round(report.flashingSr * 1e5) / 1e5, thresholdSr: report.thresholdSr, frames: frames.length };
   if (values.json) {
     console.log(JSON.stringify(doc));

@@ -1,3 +1,4 @@
+import sharp from 'sharp';
 import { newToken } from './tokens';
 import { POLICY } from './policy';
 import { BUILT_IN_PRESETS } from '../../shared/model/panel-types';
@@ -158,6 +159,14 @@ const ROWS: Row[] = [
   { method: 'get', path: '/api/studios/:studioId/activity', url: (c) => `${S(c)}/activity`, expect: [200, 200, 200, 404, 401] },
   { method: 'get', path: '/api/studios/:studioId/exports', url: (c) => `${S(c)}/exports`, expect: [200, 200, 200, 404, 401] },
   { method: 'post', path: '/api/studios/:studioId/exports', url: (c) => `${S(c)}/exports`, body: (c) => ({ layout: 'grid', artworkIds: [c.artworkId], looks: ['vfd-bluegreen-256x64.standard'], scale: 1 }), expect: [202, 202, 403, 404, 401] },
+  {
+    method: 'post',
+    path: '/api/studios/:studioId/exports/animations',
+    url: (c) => `${S(c)}/exports/animations`,
+    // An animation of the world's studio, uploaded for this row.
+    body: async (c) => ({ artworkId: (await h.app.artworks.upload(c.studioId, c.users.owner.id, await twoFrameGif(), 'blink.gif', {})).id, look: 'vfd-bluegreen-256x64.standard', scale: 1 }),
+    expect: [202, 202, 403, 404, 401],
+  },
   { method: 'get', path: '/api/studios/:studioId/exports/:exportId', url: (c) => `${S(c)}/exports/${c.exportId}`, expect: [200, 200, 200, 404, 401] },
   { method: 'get', path: '/api/studios/:studioId/exports/:exportId/file', url: (c) => `${S(c)}/exports/${c.exportId}/file`, expect: [200, 200, 200, 404, 401] },
   // The editor asked for the export: the editor and owners may change it, a viewer may not.
@@ -191,6 +200,9 @@ const ROWS: Row[] = [
 let h: Harness;
 let users: WorldUsers;
 let renderKey: string;
+
+/** A two-frame 8 × 8 GIF (dark, then light). */
+const twoFrameGif = () => sharp(Buffer.from([...Array(64).fill([20, 20, 20, 255]).flat(), ...Array(64).fill([220, 220, 220, 255]).flat()]), { raw: { width: 8, height: 16, channels: 4, pageHeight: 8 } }).gif({ delay: [200, 200] }).toBuffer();
 
 /** An export of the world's artwork that the editor asked for, in the given state (a done one with its file). */
 async function worldExport(studioId: string, artworkId: string, status: 'queued' | 'failed' | 'done'): Promise<string> {

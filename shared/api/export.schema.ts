@@ -29,6 +29,34 @@ export const sheetRequestSchema = z
   .refine((r) => r.layout !== 'ab-diff' || r.looks.length === 2, { message: 'an A/B sheet compares exactly two looks', path: ['looks'] });
 export type SheetRequest = z.infer<typeof sheetRequestSchema>;
 
+/** Most frames an animated export renders. */
+export const MAX_ANIMATION_FRAMES = 240;
+
+/** An animated export: one animation of the studio through one look (with its persistence), as APNG and GIF. */
+export const animationRequestSchema = z.strictObject({
+  title: nameSchema(120).optional(),
+  artworkId: z.uuid({ message: 'artworkId must be an artwork id' }),
+  look: z.string().min(1, { message: 'choose a look' }).max(100),
+  scale: z.int({ message: 'scale must be a whole number from 1 to 4' }).min(1, { message: 'scale must be a whole number from 1 to 4' }).max(4, { message: 'scale must be a whole number from 1 to 4' }).default(2),
+  distanceMm: z.number({ message: 'distanceMm must be a number from 50 to 100000' }).min(50, { message: 'distanceMm must be a number from 50 to 100000' }).max(100_000, { message: 'distanceMm must be a number from 50 to 100000' }).default(600),
+});
+export type AnimationRequest = z.infer<typeof animationRequestSchema>;
+
+/** The flash check of an animated export, as its manifest and the list state it. */
+export interface ExportFlash {
+  distanceMm: number;
+  maxFlashesPerSecond: number;
+  generalFlashFail: boolean;
+  redFlashFail: boolean;
+  bt1702Fail: boolean;
+  pass: boolean;
+}
+
+export const EXPORT_KINDS = ['sheet', 'animation'] as const;
+export type ExportKind = (typeof EXPORT_KINDS)[number];
+export const EXPORT_FORMATS = ['png', 'pdf', 'zip', 'apng', 'gif', 'json'] as const;
+export type ExportFormat = (typeof EXPORT_FORMATS)[number];
+
 export const EXPORT_STATUSES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
 export type ExportStatus = (typeof EXPORT_STATUSES)[number];
 export const EXPORT_STATUS_LABELS: Readonly<Record<ExportStatus, string>> = { queued: 'Waiting', running: 'Rendering', done: 'Ready', failed: 'Failed', cancelled: 'Cancelled' };
@@ -37,8 +65,9 @@ export const EXPORT_STATUS_LABELS: Readonly<Record<ExportStatus, string>> = { qu
 export interface ExportDto {
   id: string;
   title: string;
-  kind: 'sheet';
-  layout: SheetLayout;
+  kind: ExportKind;
+  /** How a sheet is laid out; null for an animation. */
+  layout: SheetLayout | null;
   status: ExportStatus;
   /** 0–1. */
   progress: number;
@@ -54,9 +83,11 @@ export interface ExportDto {
   height: number | null;
   /** A/B sheets: per artwork, pixels differing and the largest channel difference. */
   figures: { artworkName: string; differing: number; pixels: number; maxChannel: number }[] | null;
+  /** Animations: frames rendered, and the flash check of what the panel emits. */
+  animation: { frames: number; durationMs: number; flash: ExportFlash | null } | null;
   createdBy: { id: string | null; name: string };
   createdAt: string;
   finishedAt: string | null;
   /** The files to download once done: the sheet as PNG and PDF, the single renders with a manifest as ZIP. */
-  files: { format: 'png' | 'pdf' | 'zip'; label: string; url: string; bytes: number }[];
+  files: { format: ExportFormat; label: string; url: string; bytes: number }[];
 }

@@ -3,7 +3,7 @@ import type { QueryInterface } from 'sequelize';
 import { JOBS_SCHEMA } from '../../jobs/job-queue';
 
 /**
- * Exports: comparison sheets (and later animations) made as background jobs. A row is the
+ * Exports: comparison sheets and animations made as background jobs. A row is the
  * request, frozen when it was made (the looks' parameters at their revision then), and the job's
  * state; the file lives in storage under the row's id. The job queue (pg-boss) keeps its own
  * schema, made here with the rest (under the migrations' lock: processes starting together must not
@@ -30,6 +30,7 @@ export async function up(qi: QueryInterface): Promise<void> {
       height integer,
       files jsonb,
       figures jsonb,
+      flash jsonb,
       created_at timestamptz NOT NULL DEFAULT now(),
       updated_at timestamptz NOT NULL DEFAULT now(),
       finished_at timestamptz

@@ -1,16 +1,38 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import type { ExportDto, ExportStatus } from '../../../shared/api/export.schema';
+import type { ExportDto, ExportFlash, ExportKind, ExportStatus } from '../../../shared/api/export.schema';
 import type { SheetLayout } from '../../../shared/export/sheet';
 import type { PanelParams } from '../../../shared/model/parameters';
 
-/** A sheet request frozen when it was made: the looks' parameters at their revision then. */
+/** A look as a request froze it: a preset's parameters at its revision then. */
+export interface LookSpec {
+  id: string;
+  name: string;
+  revision: number | null;
+  panelTypeId: string;
+  panelTypeName: string;
+  parameters: PanelParams;
+}
+
+/** A sheet request frozen when it was made. */
 export interface SheetSpec {
   studioName: string;
   layout: SheetLayout;
   scale: number;
   frame: number;
   artworks: { id: string; name: string }[];
-  looks: { id: string; name: string; revision: number | null; panelTypeId: string; panelTypeName: string; parameters: PanelParams }[];
+  looks: LookSpec[];
+}
+
+/** An animation request frozen when it was made. */
+export interface AnimationSpec {
+  studioName: string;
+  artwork: { id: string; name: string };
+  look: LookSpec;
+  scale: number;
+  /** Viewing distance of the flash check, mm. */
+  distanceMm: number;
+  frames: number;
+  durationMs: number;
 }
 
 /** An export (a comparison sheet) and its job's state. */
@@ -19,9 +41,10 @@ export class Export extends Model<InferAttributes<Export>, InferCreationAttribut
   declare studioId: string;
   declare createdById: string | null;
   declare title: string;
-  declare kind: 'sheet';
-  declare layout: SheetLayout;
-  declare spec: SheetSpec;
+  declare kind: ExportKind;
+  /** A sheet's layout, or "animation". */
+  declare layout: SheetLayout | 'animation';
+  declare spec: SheetSpec | AnimationSpec;
   declare status: ExportStatus;
   declare progress: CreationOptional<number>;
   declare step: CreationOptional<string>;
@@ -33,6 +56,7 @@ export class Export extends Model<InferAttributes<Export>, InferCreationAttribut
   /** Bytes of each file made, by format (png, pdf, zip), once done. */
   declare files: CreationOptional<Record<string, number> | null>;
   declare figures: CreationOptional<ExportDto['figures']>;
+  declare flash: CreationOptional<ExportFlash | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare finishedAt: CreationOptional<Date | null>;
@@ -58,6 +82,7 @@ export function initExport(sequelize: Sequelize): void {
       height: { type: DataTypes.INTEGER, allowNull: true },
       files: { type: DataTypes.JSONB, allowNull: true },
       figures: { type: DataTypes.JSONB, allowNull: true },
+      flash: { type: DataTypes.JSONB, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
       finishedAt: { type: DataTypes.DATE, allowNull: true },

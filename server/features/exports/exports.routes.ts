@@ -1,9 +1,9 @@
 import type { RequestHandler } from 'express';
-import { sheetRequestSchema } from '../../../shared/api/export.schema';
+import { animationRequestSchema, EXPORT_FORMATS, sheetRequestSchema } from '../../../shared/api/export.schema';
 import { ApiRouter } from '../../core/api-router';
 import { AppError } from '../../core/app-error';
 import { idParam, studioRole } from '../../core/policy';
-import { EXPORT_FILES, EXPORT_FORMATS } from './sheet-files';
+import { EXPORT_FILES } from './export-files';
 import type { ExportsService } from './exports.service';
 
 /** /api/studios/:studioId/exports: comparison sheets made as background jobs. Viewers download, editors ask, owners delete anyone's. */
@@ -18,16 +18,19 @@ export function exportsRoutes(exports: ExportsService): ApiRouter {
   api.route('post', '/', { policy: studioRole('editor'), summary: 'Ask for a comparison sheet (artworks × looks, a layout, a scale); checked in full, then queued', body: sheetRequestSchema, status: 202 }, async (req, res) => {
     res.status(202).json({ export: await exports.create(actor(req), req.body) });
   });
+  api.route('post', '/animations', { policy: studioRole('editor'), summary: 'Ask for an animated export (one animation through one look, as APNG and GIF with a flash check); checked in full, then queued', body: animationRequestSchema, status: 202 }, async (req, res) => {
+    res.status(202).json({ export: await exports.createAnimation(actor(req), req.body) });
+  });
   api.route('get', '/:exportId', { policy: studioRole('viewer'), summary: 'One export and its progress' }, async (req, res) => {
     res.json({ export: await exports.get(req.membership!.studioId, exportId(req)) });
   });
-  api.route('get', '/:exportId/file', { policy: studioRole('viewer'), summary: 'A finished file as a download: ?format=png (the sheet, the default), pdf (the sheet with its text) or zip (single renders and a manifest); 409 until it is ready' }, async (req, res) => {
+  api.route('get', '/:exportId/file', { policy: studioRole('viewer'), summary: 'A finished file as a download: a sheet as ?format=png (the default), pdf or zip (single renders and a manifest); an animation as apng, gif or json (its manifest with the flash check); 409 until it is ready' }, async (req, res) => {
     const raw = req.query.format ?? 'png';
     const format = EXPORT_FORMATS.find((f) => f === raw);
     if (!format) throw new AppError(400, 'invalid_input', `format must be one of ${EXPORT_FORMATS.join(', ')}, got “${String(raw).slice(0, 20)}”.`);
     const { name, bytes } = await exports.file(req.membership!.studioId, exportId(req), format);
     const safeName = name.replace(/[^\w .-]/g, '_').slice(0, 100);
-    res.set({ 'Content-Type': EXPORT_FILES[format].type, 'X-Content-Type-Options': 'nosniff', 'Content-Disposition': `attachment; filename="${safeName}.${format}"`, 'Cache-Control': 'private, no-store' });
+    res.set({ 'Content-Type': EXPORT_FILES[format].type, 'X-Content-Type-Options': 'nosniff', 'Content-Disposition': `attachment; filename="${safeName}.${EXPORT_FILES[format].extension}"`, 'Cache-Control': 'private, no-store' });
     res.send(bytes);
   });
   api.route('post', '/:exportId/cancel', { policy: studioRole('editor'), summary: 'Stop a waiting or running export (your own, or anyone\'s as an owner); partial output is removed' }, async (req, res) => {

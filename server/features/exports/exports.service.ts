@@ -1,5 +1,6 @@
 import { Op } from 'sequelize';
-import { EXPORT_STATUS_LABELS, type ExportDto, type SheetRequest } from '../../../shared/api/export.schema';
+import { EXPORT_STATUS_LABELS, MAX_ANIMATION_FRAMES, type AnimationRequest, type ExportDto, type ExportFlash, type ExportFormat, type SheetRequest } from '../../../shared/api/export.schema';
+import type { SpriteSheet } from '../../../shared/pipeline/sprite-sheet';
 import { MAX_SHEET_PIXELS, SHEET_LAYOUT_LABELS, sheetGeometry } from '../../../shared/export/sheet';
 import { builtInPresetById, panelTypeById } from '../../../shared/model/panel-types';
 import type { Role } from '../../../shared/model/roles';
@@ -15,13 +16,16 @@ import type { ArtworksService } from '../artworks/artworks.service';
 import { User } from '../auth/user.model';
 import { Preset } from '../presets/preset.model';
 import { Studio } from '../studios/studio.model';
-import { Export, type SheetSpec } from './export.model';
+import { Export, type AnimationSpec, type LookSpec, type SheetSpec } from './export.model';
 import { makeSheet } from './sheet-cells';
-import { EXPORT_FILES, EXPORT_FORMATS, type ExportFormat } from './sheet-files';
+import { makeAnimation } from './animation';
+import { EXPORT_FILES, FORMATS_OF } from './export-files';
 
 const FOLDER = 'exports';
 /** Newest exports a studio's list shows. */
 const LIST_LIMIT = 100;
+/** Most pixels of all an animation's frames together (about 400 MB of RGBA while they are encoded). */
+const MAX_ANIMATION_PIXELS = 100_000_000;
 
 export interface ExportActor {
   studioId: string;
@@ -80,19 +84,43 @@ export class ExportsService {
 
     const spec: SheetSpec = { studioName: studio.name, layout: body.layout, scale: body.scale, frame: body.frame, artworks: artworks.map((a) => ({ id: a.id, name: a.name })), looks };
     const title = body.title ?? `${studio.name}: ${SHEET_LAYOUT_LABELS[body.layout].split(':')[0].toLowerCase()} of ${looks.length === 1 ? 'one look' : `${looks.length} looks`}`;
-    const created = await Export.create({ studioId: actor.studioId, createdById: actor.userId, title, kind: 'sheet', layout: body.layout, spec, status: 'queued', step: 'Waiting for a worker' });
+    return this.queue(actor, { title, kind: 'sheet', layout: body.layout, spec }, `asked for the comparison sheet “${title}” (${artworks.length * looks.length} cells)`);
+  }
+
+  /** An animated export: every frame of one animation through one look, checked in full before it is queued. */
+  async createAnimation(actor: ExportActor, body: AnimationRequest): Promise<ExportDto> {
+    const studio = await Studio.findByPk(actor.studioId);
+    if (!studio) throw notFound('The studio');
+    const artwork = await Artwork.findOne({ where: { id: body.artworkId, studioId: actor.studioId } });
+    if (!artwork) throw new AppError(400, 'invalid_input', "The chosen artwork is not in this studio's library (deleted, or another studio's). Choose again from the list.", { issues: [{ path: 'artworkId', message: 'no such artwork in this studio' }] });
+    if (artwork.frameCount < 2) throw new AppError(400, 'invalid_input', `“${artwork.name}” is a still (one frame): an animated export needs an animation (GIF, APNG, animated WebP or a sprite sheet). For stills, make a comparison sheet.`);
+    if (artwork.frameCount > MAX_ANIMATION_FRAMES) throw new AppError(400, 'invalid_input', `“${artwork.name}” has ${artwork.frameCount} frames; an animated export takes at most ${MAX_ANIMATION_FRAMES}. Shorten the animation.`);
+    const look = await this.look(actor.studioId, body.look);
+    const { width, height } = RenderEngine.check({ parameters: look.parameters, scale: body.scale });
+    if (width * height * artwork.frameCount > MAX_ANIMATION_PIXELS) {
+      throw new AppError(400, 'output_too_large', `${artwork.frameCount} frames of ${width} × ${height} pixels are over the limit of ${MAX_ANIMATION_PIXELS / 1e6} million pixels in all. Lower the scale.`);
+    }
+    const durationMs = artwork.delaysMs.reduce((a, b) => a + b, 0);
+    const spec: AnimationSpec = { studioName: studio.name, artwork: { id: artwork.id, name: artwork.name }, look, scale: body.scale, distanceMm: body.distanceMm, frames: artwork.frameCount, durationMs };
+    const title = body.title ?? `${artwork.name} through ${look.name} (${look.panelTypeName})`.slice(0, 120);
+    return this.queue(actor, { title, kind: 'animation', layout: 'animation', spec }, `asked for the animation “${title}” (${artwork.frameCount} frames)`);
+  }
+
+  /** Writes the request's row, then queues its job (a row whose job could not be queued is taken back). */
+  private async queue(actor: ExportActor, what: Pick<Export, 'title' | 'kind' | 'layout' | 'spec'>, summary: string): Promise<ExportDto> {
+    const created = await Export.create({ studioId: actor.studioId, createdById: actor.userId, ...what, status: 'queued', step: 'Waiting for a worker' });
     try {
       await this.jobs.send(QUEUES.exports, { exportId: created.id } satisfies ExportJob);
     } catch (err) {
       await created.destroy();
       throw err;
     }
-    await record(actor.studioId, actor.userId, 'export.created', `asked for the comparison sheet “${title}” (${artworks.length * looks.length} cells)`);
+    await record(actor.studioId, actor.userId, 'export.created', summary);
     return this.dto(created, await this.names([created.createdById]));
   }
 
   /** A look of the request: a studio preset ("studio:<id>") at its current revision, or a built-in preset. */
-  private async look(studioId: string, ref: string): Promise<SheetSpec['looks'][number]> {
+  private async look(studioId: string, ref: string): Promise<LookSpec> {
     if (ref.startsWith('studio:')) {
       const id = ref.slice('studio:'.length);
       const preset = /^[0-9a-f-]{36}$/i.test(id) ? await Preset.findOne({ where: { id, studioId } }) : null;
@@ -121,6 +149,7 @@ export class ExportsService {
   async file(studioId: string, id: string, format: ExportFormat): Promise<{ name: string; bytes: Buffer }> {
     const row = await this.row(studioId, id);
     if (row.status !== 'done') throw new AppError(409, 'not_ready', `“${row.title}” is ${EXPORT_STATUS_LABELS[row.status].toLowerCase()}, not ready: it can be downloaded once it is.`);
+    if (!FORMATS_OF[row.kind].includes(format)) throw new AppError(400, 'invalid_input', `${row.kind === 'sheet' ? 'A comparison sheet' : 'An animation'} is made as ${FORMATS_OF[row.kind].join(', ')}, not ${format}.`);
     return { name: row.title, bytes: await this.files.read(FOLDER, row.id, EXPORT_FILES[format].name) };
   }
 
@@ -131,7 +160,7 @@ export class ExportsService {
     const [count] = await Export.update({ status: 'cancelled', step: 'Cancelled', finishedAt: new Date() }, { where: { id: row.id, status: { [Op.in]: ['queued', 'running'] } } });
     if (!count) throw new AppError(409, 'conflict', `“${row.title}” is ${EXPORT_STATUS_LABELS[row.status].toLowerCase()}: only a waiting or running export can be cancelled.`);
     await this.files.remove(FOLDER, row.id);
-    await record(actor.studioId, actor.userId, 'export.cancelled', `cancelled the comparison sheet “${row.title}”`);
+    await record(actor.studioId, actor.userId, 'export.cancelled', `cancelled the export “${row.title}”`);
     return this.get(actor.studioId, id);
   }
 
@@ -151,7 +180,7 @@ export class ExportsService {
     this.mayChange(actor, row);
     await row.destroy();
     await this.files.remove(FOLDER, row.id);
-    await record(actor.studioId, actor.userId, 'export.deleted', `deleted the comparison sheet “${row.title}”`);
+    await record(actor.studioId, actor.userId, 'export.deleted', `deleted the export “${row.title}”`);
   }
 
   /** Editors act on their own exports; owners on anyone's. */
@@ -160,46 +189,53 @@ export class ExportsService {
   }
 
   /**
-   * The job: renders every cell on the pool, puts the sheet together, writes it, marks the row
-   * done. Safe to run again for the same export: a finished one is left alone, a half-done one
-   * (its worker was killed) starts over and writes the same file.
+   * The job: renders every cell (or frame) on the pool, puts the files together, writes them,
+   * marks the row done. Safe to run again for the same export: a finished one is left alone, a
+   * half-done one (its worker was killed) starts over and writes the same files.
    */
   async run(job: ExportJob): Promise<void> {
     const row = await Export.findByPk(job.exportId);
     if (!row || row.status === 'done' || row.status === 'cancelled') return;
     await row.update({ status: 'running', attempts: row.attempts + 1, workedBy: WORKER_NAME, progress: 0, step: 'Starting', error: null });
-    const spec = row.spec;
-    const cells = spec.artworks.length * spec.looks.length;
     const stillWanted = async () => (await Export.count({ where: { id: row.id, status: 'running' } })) === 1;
     try {
-      const sources = [];
-      for (const a of spec.artworks) {
-        const artwork = await Artwork.findOne({ where: { id: a.id, studioId: row.studioId } });
-        if (!artwork) throw new AppError(409, 'conflict', `“${a.name}” was deleted after the sheet was asked for. Ask for a new sheet without it.`);
-        sources.push({ input: await this.artworks.original(artwork.id), sheet: artwork.sheet });
-      }
       const by = row.createdById ? ((await User.findByPk(row.createdById))?.displayName ?? 'a former member') : 'a former member';
-      const sheet = await makeSheet({
-        spec,
+      const source = async (a: { id: string; name: string }) => {
+        const artwork = await Artwork.findOne({ where: { id: a.id, studioId: row.studioId } });
+        if (!artwork) throw new AppError(409, 'conflict', `“${a.name}” was deleted after the export was asked for. Ask again without it.`);
+        return { input: await this.artworks.original(artwork.id), sheet: artwork.sheet };
+      };
+      const steps = row.kind === 'sheet' ? (row.spec as SheetSpec).artworks.length * (row.spec as SheetSpec).looks.length : (row.spec as AnimationSpec).frames;
+      const common = {
         title: row.title,
         made: { at: row.createdAt, by },
-        sources,
-        render: (req) => this.renderPatiently(req),
-        frames: (input, sheet) => this.engine.decodedFrames(input, sheet),
-        beforeStep: async (done, step) => {
+        render: (req: RenderRequest) => this.renderPatiently(req),
+        frames: (input: Buffer, sheet: SpriteSheet | null) => this.engine.decodedFrames(input, sheet),
+        beforeStep: async (done: number, step: string) => {
           if (!(await stillWanted())) return false;
-          await Export.update({ progress: done / (cells + 1), step }, { where: { id: row.id, status: 'running' } });
+          await Export.update({ progress: done / (steps + 1), step }, { where: { id: row.id, status: 'running' } });
           return true;
         },
-      });
-      if (!sheet || !(await stillWanted())) return;
-      for (const format of EXPORT_FORMATS) await this.files.write(FOLDER, row.id, EXPORT_FILES[format].name, sheet.files[format]);
-      const sizes = Object.fromEntries(EXPORT_FORMATS.map((f) => [f, sheet.files[f].length]));
-      const [count] = await Export.update({ status: 'done', progress: 1, step: 'Ready', width: sheet.width, height: sheet.height, files: sizes, figures: sheet.figures, finishedAt: new Date() }, { where: { id: row.id, status: 'running' } });
+      };
+      let made: { files: Partial<Record<ExportFormat, Buffer>>; width: number; height: number; figures?: ExportDto['figures']; flash?: ExportFlash } | null;
+      if (row.kind === 'sheet') {
+        const spec = row.spec as SheetSpec;
+        const sources = [];
+        for (const a of spec.artworks) sources.push(await source(a));
+        made = await makeSheet({ ...common, spec, sources });
+      } else {
+        const spec = row.spec as AnimationSpec;
+        made = await makeAnimation({ ...common, spec, source: await source(spec.artwork) });
+      }
+      if (!made || !(await stillWanted())) return;
+      const formats = FORMATS_OF[row.kind];
+      for (const format of formats) await this.files.write(FOLDER, row.id, EXPORT_FILES[format].name, made.files[format]!);
+      const sizes = Object.fromEntries(formats.map((f) => [f, made.files[f]!.length]));
+      const [count] = await Export.update({ status: 'done', progress: 1, step: 'Ready', width: made.width, height: made.height, files: sizes, figures: made.figures ?? null, flash: made.flash ?? null, finishedAt: new Date() }, { where: { id: row.id, status: 'running' } });
       // Cancelled or deleted while the file was being written: nothing may stay behind.
       if (!count) await this.files.remove(FOLDER, row.id);
     } catch (err) {
-      const message = err instanceof AppError && err.status < 500 ? err.message : 'The sheet could not be made because of an error on our side, which was logged. Try again; if it fails again, tell us which artworks and looks.';
+      const message = err instanceof AppError && err.status < 500 ? err.message : 'The export could not be made because of an error on our side, which was logged. Try again; if it fails again, tell us which artworks and looks.';
       if (!(err instanceof AppError && err.status < 500)) console.error(`[exports] ${row.id} failed: ${(err as Error).stack ?? err}`);
       await Export.update({ status: 'failed', step: 'Failed', error: message, finishedAt: new Date() }, { where: { id: row.id, status: 'running' } });
       await this.files.remove(FOLDER, row.id);
@@ -257,28 +293,31 @@ export class ExportsService {
   }
 
   private dto(r: Export, names: Map<string, string>): ExportDto {
-    const { spec } = r;
+    const sheet = r.kind === 'sheet' ? (r.spec as SheetSpec) : null;
+    const animation = r.kind === 'animation' ? (r.spec as AnimationSpec) : null;
+    const looks = sheet ? sheet.looks : [animation!.look];
     return {
       id: r.id,
       title: r.title,
       kind: r.kind,
-      layout: r.layout,
+      layout: sheet ? sheet.layout : null,
       status: r.status,
       progress: r.progress,
       step: r.step,
       error: r.error,
-      artworks: spec.artworks,
-      looks: spec.looks.map((l) => ({ id: l.id, name: l.name, revision: l.revision, panelTypeName: l.panelTypeName })),
-      scale: spec.scale,
-      frame: spec.frame,
-      cells: spec.artworks.length * spec.looks.length,
+      artworks: sheet ? sheet.artworks : [animation!.artwork],
+      looks: looks.map((l) => ({ id: l.id, name: l.name, revision: l.revision, panelTypeName: l.panelTypeName })),
+      scale: r.spec.scale,
+      frame: sheet ? sheet.frame : 0,
+      cells: sheet ? sheet.artworks.length * sheet.looks.length : animation!.frames,
       width: r.width,
       height: r.height,
       figures: r.figures,
+      animation: animation ? { frames: animation.frames, durationMs: animation.durationMs, flash: r.flash } : null,
       createdBy: { id: r.createdById, name: r.createdById ? (names.get(r.createdById) ?? 'a former member') : 'a former member' },
       createdAt: r.createdAt.toISOString(),
       finishedAt: r.finishedAt ? r.finishedAt.toISOString() : null,
-      files: r.status === 'done' && r.files ? EXPORT_FORMATS.map((format) => ({ format, label: EXPORT_FILES[format].label, url: `/api/studios/${r.studioId}/exports/${r.id}/file?format=${format}`, bytes: r.files![format] })) : [],
+      files: r.status === 'done' && r.files ? FORMATS_OF[r.kind].map((format) => ({ format, label: EXPORT_FILES[format].label, url: `/api/studios/${r.studioId}/exports/${r.id}/file?format=${format}`, bytes: r.files![format] })) : [],
     };
   }
 }

@@ -138,11 +138,11 @@ test('a 2 × 2 grid is queued, reports progress to 100 %, and its cells equal si
   expect(imported.status).toBe(201);
 });
 
-test('a file format the export does not have is refused with the list', async () => {
+test('a file format there is none of is refused with the list', async () => {
   const id = (await Export.findOne({ where: { studioId, status: 'done' } }))!.id;
-  const res = await viewer.get(url(`/${id}/file?format=gif`));
+  const res = await viewer.get(url(`/${id}/file?format=tiff`));
   expect(res.status).toBe(400);
-  expect(res.body.error.message).toMatch(/format must be one of png, pdf, zip/);
+  expect(res.body.error.message).toMatch(/format must be one of png, pdf, zip, apng, gif, json/);
 });
 
 test('an A/B sheet states how two looks differ, as pixelmatch counts it', async () => {
@@ -243,6 +243,90 @@ test('an artwork deleted before its job runs fails the export with the reason, a
   expect((await owner.delete(`/api/studios/${studioId}/artworks/${doomed}`)).status).toBe(204);
   const done = await finished(editor, res.body.export.id);
   expect(done.status).toBe('failed');
-  expect(done.error).toMatch(/“Doomed” was deleted after the sheet was asked for/);
+  expect(done.error).toMatch(/“Doomed” was deleted after the export was asked for/);
   expect((await editor.get(url(`/${res.body.export.id}/file`))).status).toBe(409);
+});
+
+/** An animated GIF of full-panel frames, written by sharp: `levels` per frame, `delays` in ms. */
+const gifOf = (width: number, height: number, levels: number[], delays: number[]) => {
+  const raw = Buffer.alloc(width * height * 4 * levels.length);
+  levels.forEach((v, k) => {
+    for (let i = 0; i < width * height; i++) raw.set([v, v, v, 255], (k * width * height + i) * 4);
+  });
+  return sharp(raw, { raw: { width, height: height * levels.length, channels: 4, pageHeight: height } }).gif({ delay: delays, loop: 0 }).toBuffer();
+};
+
+/** The frames and delays an APNG states in its chunks [std: APNG specification 1.0, acTL and fcTL]. */
+function apngFrames(png: Buffer): { frames: number; delaysMs: number[] } {
+  let at = 8;
+  let frames = 0;
+  const delaysMs: number[] = [];
+  while (at < png.length) {
+    const length = png.readUInt32BE(at);
+    const type = png.toString('latin1', at + 4, at + 8);
+    const data = png.subarray(at + 8, at + 8 + length);
+    if (type === 'acTL') frames = data.readUInt32BE(0);
+    if (type === 'fcTL') delaysMs.push((1000 * data.readUInt16BE(20)) / (data.readUInt16BE(22) || 100));
+    at += 12 + length;
+  }
+  return { frames, delaysMs };
+}
+
+describe('animated exports', () => {
+  let walkId: string;
+  let strobeId: string;
+  beforeAll(async () => {
+    const walk = await gifOf(64, 48, [40, 120, 200, 255], [100, 200, 300, 400]);
+    walkId = (await owner.upload(`/api/studios/${studioId}/artworks`, { name: 'Steps' }, { name: 'steps.gif', bytes: walk })).body.artwork.id;
+    const strobe = await gifOf(640, 480, [255, 0, 255, 0, 255, 0, 255, 0], Array(8).fill(100));
+    strobeId = (await owner.upload(`/api/studios/${studioId}/artworks`, { name: 'Strobe' }, { name: 'strobe.gif', bytes: strobe })).body.artwork.id;
+  });
+
+  test('APNG and GIF with every frame and its delay, decoded by other code than wrote them; frame 1 equals its reference render', async () => {
+    const res = await editor.post(url('/animations'), { artworkId: walkId, look: 'el-amber-320x240.standard', scale: 1 });
+    expect(res.status).toBe(202);
+    expect(res.body.export).toMatchObject({ kind: 'animation', layout: null, cells: 4, status: 'queued' });
+    const done = await finished(editor, res.body.export.id);
+    expect(done.status).toBe('done');
+    expect(done.files.map((f) => f.format)).toEqual(['apng', 'gif', 'json']);
+    expect(done.animation).toMatchObject({ frames: 4, durationMs: 1000, flash: { pass: true, distanceMm: 600 } });
+
+    // GIF, decoded by sharp (libvips), not by gifenc: four pages, the delays as given.
+    const gif = await viewer.getBytes(fileUrl(done, 'gif'));
+    expect(gif.headers['content-type']).toBe('image/gif');
+    const meta = await sharp(gif.body, { animated: true }).metadata();
+    expect([meta.pages, meta.pageHeight, meta.width]).toEqual([4, 240, 320]);
+    expect(meta.delay).toEqual([100, 200, 300, 400]);
+
+    // APNG: its animation chunks read here, frame 1 decoded by sharp.
+    const apng = await viewer.getBytes(fileUrl(done, 'apng'));
+    expect(apngFrames(apng.body)).toEqual({ frames: 4, delaysMs: [100, 200, 300, 400] });
+    const first = await raw(apng.body);
+    const reference = await raw((await editor.get((await editor.post(`/api/studios/${studioId}/renders`, { artworkId: walkId, presetId: 'el-amber-320x240.standard', scale: 1, frame: 0 })).body.render.url)).body);
+    expect(pixelmatch(first.data, reference.data, undefined, 320, 240, { threshold: 0 })).toBe(0);
+
+    const manifest = JSON.parse((await viewer.getBytes(fileUrl(done, 'json'))).body.toString('utf8'));
+    expect(manifest).toMatchObject({ format: 'emberline.animation-manifest', frames: 4, delaysMs: [100, 200, 300, 400], look: { preset: { format: 'emberline.preset', panelTypeId: 'el-amber-320x240' } }, flashCheck: { pass: true, note: expect.stringMatching(/informs; it does not certify/) } });
+  });
+
+  test('the manifest prints the flash check: a full-panel strobe at 100 ms a frame fails it [std: WCAG 2.2 SC 2.3.1, five flashes a second over the whole 192 × 144 mm panel at 600 mm]', async () => {
+    const res = await editor.post(url('/animations'), { artworkId: strobeId, look: 'el-amber-640x480.line-art', scale: 1 });
+    const done = await finished(editor, res.body.export.id);
+    expect(done.status).toBe('done');
+    const manifest = JSON.parse((await viewer.getBytes(fileUrl(done, 'json'))).body.toString('utf8'));
+    expect(manifest.flashCheck).toMatchObject({ generalFlashFail: true, pass: false, maxFlashesPerSecond: 5 });
+    expect(done.animation).toMatchObject({ flash: { pass: false, generalFlashFail: true } });
+  });
+
+  test('a still, an unknown look and another kind\'s format are refused with what to do', async () => {
+    const still = await editor.post(url('/animations'), { artworkId: artworkIds[0], look: 'el-amber-640x480.standard' });
+    expect(still.status).toBe(400);
+    expect(still.body.error.message).toMatch(/“Ramp” is a still \(one frame\)/);
+    const look = await editor.post(url('/animations'), { artworkId: walkId, look: 'nope' });
+    expect(look.status).toBe(400);
+    const sheet = await Export.findOne({ where: { studioId, kind: 'sheet', status: 'done' } });
+    const wrong = await viewer.get(url(`/${sheet!.id}/file?format=gif`));
+    expect(wrong.status).toBe(400);
+    expect(wrong.body.error.message).toMatch(/A comparison sheet is made as png, pdf, zip, not gif/);
+  });
 });

@@ -5,9 +5,9 @@ import type { SpriteSheet } from '../../../shared/pipeline/sprite-sheet';
 import type { Frame, RgbaImage } from '../../../shared/pipeline/types';
 import { encodePng } from '../../render/encode';
 import type { RenderRequest } from '../../render/render-engine';
-import type { ExportDto } from '../../../shared/api/export.schema';
+import type { ExportDto, ExportFormat } from '../../../shared/api/export.schema';
 import type { SheetSpec } from './export.model';
-import { rendersZip, sheetPdf, type ExportFormat } from './sheet-files';
+import { rendersZip, sheetPdf } from './sheet-files';
 
 const ditherLabel = (PARAMS.find((p) => p.key === 'dither') as EnumSpec).optionLabels;
 const plural = (n: number, one: string) => `${n} ${one}${n === 1 ? '' : 's'}`;
@@ -74,7 +74,7 @@ export interface SheetWork {
 }
 
 /** Renders every cell in order and puts the sheet together: its files by format; null when beforeStep said stop. */
-export async function makeSheet(work: SheetWork): Promise<{ files: Record<ExportFormat, Buffer>; width: number; height: number; figures: ExportDto['figures'] } | null> {
+export async function makeSheet(work: SheetWork): Promise<{ files: Partial<Record<ExportFormat, Buffer>>; width: number; height: number; figures: ExportDto['figures'] } | null> {
   const { spec } = work;
   const cells = spec.artworks.length * spec.looks.length;
   const renders: RgbaImage[][] = [];

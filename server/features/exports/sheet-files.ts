@@ -3,20 +3,11 @@ import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { inflateSync } from 'node:zlib';
 import PDFDocument from 'pdfkit';
-import { PRESET_FORMAT } from '../../../shared/api/preset.schema';
 import type { ExportDto } from '../../../shared/api/export.schema';
 import { SHEET_LAYOUT_LABELS } from '../../../shared/export/sheet';
 import { PIPELINE_VERSION } from '../../../shared/pipeline/render';
 import type { SheetSpec } from './export.model';
-
-/** The files an export leaves, by format, with what people read for each. */
-export const EXPORT_FILES = {
-  png: { name: 'sheet.png', type: 'image/png', label: 'Sheet (PNG)' },
-  pdf: { name: 'sheet.pdf', type: 'application/pdf', label: 'Sheet (PDF)' },
-  zip: { name: 'renders.zip', type: 'application/zip', label: 'Single renders and manifest (ZIP)' },
-} as const;
-export type ExportFormat = keyof typeof EXPORT_FILES;
-export const EXPORT_FORMATS = Object.keys(EXPORT_FILES) as ExportFormat[];
+import { lookManifest } from './export-files';
 
 /** The manifest's own format name, beside the preset documents it holds. */
 export const MANIFEST_FORMAT = 'emberline.sheet-manifest';
@@ -96,7 +87,7 @@ export async function rendersZip(spec: SheetSpec, title: string, createdAt: Date
         artwork,
         width: renders[r][c].width,
         height: renders[r][c].height,
-        look: { id: look.id, revision: look.revision, panelTypeName: look.panelTypeName, preset: { format: PRESET_FORMAT, version: 1, name: look.name, panelTypeId: look.panelTypeId, parameters: look.parameters } },
+        look: lookManifest(look),
       })),
     ),
     figures,

@@ -2,7 +2,7 @@
 import type { PanelParams } from '../../../../shared/model/parameters';
 import { compose } from '../../../../shared/pipeline/output/compose';
 import { outputUniforms } from '../../../../shared/pipeline/output/uniforms';
-import { flashSafety } from '../../../../shared/analysis/flash-safety';
+import { flashCheck } from '../../../../shared/analysis/flash-check';
 import { burnIn, legibility, lightFigures, type PanelReport } from '../../../../shared/analysis/panel-report';
 import { panelEmission, panelEmissions, panelGlow } from '../../../../shared/pipeline/render';
 import type { Frame } from '../../../../shared/pipeline/types';
@@ -50,13 +50,7 @@ addEventListener('message', ({ data }: MessageEvent<WorkerRequest>) => {
 
 /** The flash check of the whole animation on the light this look makes the panel emit. */
 function flashOf(p: PanelParams, distanceMm: number) {
-  const v = p.viewing;
-  const emissions = panelEmissions(frames, p);
-  return flashSafety(
-    emissions.map((emission, k) => ({ emission, delayMs: frames[k].delayMs })),
-    { cols: p.cell.cols, rows: p.cell.rows, pitchXMm: p.cell.pitchXMm, pitchYMm: p.cell.pitchYMm, colour: outputUniforms(p, 1).colour, peakCdM2: v.peakCdM2, offCdM2: v.offCdM2, ambientCdM2: v.ambientCdM2, whiteCdM2: v.whiteCdM2 },
-    distanceMm,
-  );
+  return flashCheck(frames, p, distanceMm);
 }
 
 /** Legibility of the frame on screen, light and power of every frame, and the burn-in map over `hours`. */
