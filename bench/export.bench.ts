@@ -44,7 +44,7 @@ async function main() {
   let size = { width: 0, height: 0, bytes: 0 };
   const sheetMs = await time(async () => {
     const sheet = await makeSheet({ spec, title: 'Benchmark sheet', made: { at: new Date(0), by: 'bench' }, sources, render: (req) => engine.renderImage(req), frames: (input, sheet) => engine.decodedFrames(input, sheet), beforeStep: async () => true });
-    size = { width: sheet!.width, height: sheet!.height, bytes: sheet!.files.png.length };
+    size = { width: sheet!.width, height: sheet!.height, bytes: sheet!.files.png!.length };
   });
   await engine.close();
 

@@ -1,4 +1,5 @@
 import { PNG } from 'pngjs';
+import sharp from 'sharp';
 import type { Page } from '@playwright/test';
 import { sheetGeometry } from '../shared/export/sheet';
 import { choose, studioIdOf } from './bench-helpers';
@@ -107,4 +108,28 @@ test('Add to sheet on the bench starts a sheet with the artwork and look on the 
   await page.getByLabel('Animation frame').fill('9');
   await expect(page.getByText('Choose a frame from 1 to 4.')).toBeVisible();
   await expect(page.getByRole('button', { name: 'Make sheet' })).toBeDisabled();
+});
+
+test('an animation through a look: made in the background, with its flash check, downloaded as GIF with every frame', async ({ page, guard }) => {
+  void guard;
+  await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
+  await expect(page).toHaveURL(/\/bench/);
+  await page.getByRole('link', { name: 'Exports' }).click();
+  await page.getByRole('radio', { name: 'Animation' }).click();
+  await expect(page.getByText('Choose an animation.')).toBeVisible();
+  const title = `Walk ${Date.now().toString(36)}`;
+  await page.getByLabel('Title (optional)').fill(title);
+  await choose(page, 'Animation', /^Walk cycle · 4 frames/);
+  await choose(page, 'Look', /^Standard · Amber EL 320 × 240/);
+  await choose(page, 'Scale', '1 px a cell pitch');
+  await expect(page.getByText(/4 frames of 320 × 240 px/)).toBeVisible();
+  await page.getByRole('button', { name: 'Make animation' }).click();
+  const item = page.getByRole('listitem').filter({ hasText: title });
+  await expect(item.getByText('Ready', { exact: true })).toBeVisible({ timeout: 30_000 });
+  await expect(item).toContainText('Animation · 4 frames');
+  await expect(item).toContainText(/Flash check at 600 mm: passes/);
+  const [download] = await Promise.all([page.waitForEvent('download'), item.getByRole('link', { name: /Animation \(GIF/ }).click()]);
+  expect(download.suggestedFilename()).toBe(`${title}.gif`);
+  const meta = await sharp(Buffer.concat(await (await download.createReadStream()).toArray()), { animated: true }).metadata();
+  expect([meta.pages, meta.width, meta.pageHeight]).toEqual([4, 320, 240]);
 });

@@ -1,7 +1,7 @@
 import { HttpClient } from '@angular/common/http';
 import { inject, Injectable } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
-import type { ExportDto, SheetRequest } from '../../../../shared/api/export.schema';
+import type { AnimationRequest, ExportDto, SheetRequest } from '../../../../shared/api/export.schema';
 
 /** HTTP calls for a studio's exports (comparison sheets made in the background). */
 @Injectable({ providedIn: 'root' })
@@ -14,6 +14,9 @@ export class ExportApi {
   }
   async create(studioId: string, body: Partial<SheetRequest>): Promise<ExportDto> {
     return (await firstValueFrom(this.http.post<{ export: ExportDto }>(this.base(studioId), body))).export;
+  }
+  async createAnimation(studioId: string, body: Partial<AnimationRequest>): Promise<ExportDto> {
+    return (await firstValueFrom(this.http.post<{ export: ExportDto }>(`${this.base(studioId)}/animations`, body))).export;
   }
   async cancel(studioId: string, id: string): Promise<ExportDto> {
     return (await firstValueFrom(this.http.post<{ export: ExportDto }>(`${this.base(studioId)}/${id}/cancel`, {}))).export;

@@ -3,6 +3,7 @@ import { ChangeDetectionStrategy, Component, computed, inject, resource, signal 
 import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
+import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
@@ -12,7 +13,7 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTooltipModule } from '@angular/material/tooltip';
 import { ActivatedRoute, RouterLink } from '@angular/router';
 import { catchError, filter, from, merge, of, Subject, switchMap, timer } from 'rxjs';
-import { EXPORT_STATUS_LABELS, type ExportDto, type ExportStatus } from '../../../../shared/api/export.schema';
+import { EXPORT_STATUS_LABELS, type ExportDto, type ExportKind, type ExportStatus } from '../../../../shared/api/export.schema';
 import { MAX_SHEET_ARTWORKS, MAX_SHEET_CELLS, MAX_SHEET_LOOKS, MAX_SHEET_PIXELS, SHEET_LAYOUT_LABELS, SHEET_LAYOUTS, sheetGeometry, type SheetLayout } from '../../../../shared/export/sheet';
 import { BUILT_IN_PRESETS, panelTypeById } from '../../../../shared/model/panel-types';
 import type { PanelParams } from '../../../../shared/model/parameters';
@@ -44,7 +45,7 @@ const STATUS_ICONS: Readonly<Record<ExportStatus, string>> = { queued: 'schedule
  */
 @Component({
   selector: 'em-exports',
-  imports: [FormsModule, RouterLink, DatePipe, DecimalPipe, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, MatSelectModule, MatTooltipModule],
+  imports: [FormsModule, RouterLink, DatePipe, DecimalPipe, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, MatSelectModule, MatTooltipModule],
   templateUrl: './exports.html',
   styleUrl: './exports.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -65,6 +66,8 @@ export class Exports {
   protected readonly scales = [1, 2, 3, 4];
   protected readonly size = formatBytes;
 
+  /** What the form makes: a comparison sheet, or an animation through one look. */
+  protected readonly kind = signal<ExportKind>('sheet');
   protected readonly title = signal('');
   protected readonly layout = signal<SheetLayout>('grid');
   protected readonly artworkIds = signal<string[]>([]);
@@ -72,6 +75,10 @@ export class Exports {
   protected readonly scale = signal(2);
   /** Counted from 1, as people count frames. */
   protected readonly frame = signal(1);
+  /** Animation: the one animation and the one look, and the flash check's viewing distance. */
+  protected readonly animationId = signal<string | undefined>(undefined);
+  protected readonly animationLook = signal<string | undefined>(undefined);
+  protected readonly distanceMm = signal(600);
   protected readonly submitting = signal(false);
   protected readonly submitError = signal('');
 
@@ -91,6 +98,20 @@ export class Exports {
     return counts.length ? Math.min(...counts) : 1;
   });
   protected readonly cells = computed(() => this.artworkIds().length * this.lookIds().length);
+  protected readonly animations = computed(() => (this.artworks.hasValue() ? this.artworks.value() : []).filter((a) => a.frameCount > 1));
+
+  /** An animation's frames and their size, and what stops it (empty when it can go). */
+  protected readonly animationPlan = computed(() => {
+    const artwork = this.animations().find((a) => a.id === this.animationId());
+    const look = this.lookOptions().find((l) => l.id === this.animationLook());
+    if (!this.animations().length) return { problem: 'The library has no animation: upload a GIF, APNG, animated WebP or sprite sheet first.', summary: '' };
+    if (!artwork) return { problem: 'Choose an animation.', summary: '' };
+    if (!look) return { problem: 'Choose a look.', summary: '' };
+    if (!(this.distanceMm() >= 50 && this.distanceMm() <= 100_000)) return { problem: 'Give a viewing distance from 50 to 100,000 mm.', summary: '' };
+    const u = outputUniforms(look.parameters, this.scale());
+    const seconds = artwork.delaysMs.reduce((a, b) => a + b, 0) / 1000;
+    return { problem: '', summary: `${artwork.frameCount} frames of ${u.width} × ${u.height} px · ${seconds.toFixed(1)} s a loop` };
+  });
 
   /** The sheet's pixel size, as the server will lay it out. */
   protected readonly sheetSize = computed(() => {
@@ -136,6 +157,8 @@ export class Exports {
     const query = inject(ActivatedRoute).snapshot.queryParamMap;
     if (query.get('artwork')) this.artworkIds.set([query.get('artwork')!]);
     if (query.get('look')) this.lookIds.set([query.get('look')!]);
+    this.animationId.set(query.get('artwork') ?? undefined);
+    this.animationLook.set(query.get('look') ?? undefined);
     // The list: at once, after each action, and every second while a job waits or runs.
     merge(this.refresh, timer(0, 1000).pipe(filter(() => this.exports() === null || this.busy())))
       .pipe(
@@ -168,13 +191,18 @@ export class Exports {
     return e.looks.map((l) => `${l.name}${l.revision ? ` r${l.revision}` : ''} (${l.panelTypeName})`).join(', ');
   }
 
-  protected async makeSheet(): Promise<void> {
-    if (this.problem() || this.submitting()) return;
+  protected async make(): Promise<void> {
+    const sheet = this.kind() === 'sheet';
+    if ((sheet ? this.problem() : this.animationPlan().problem) || this.submitting()) return;
     this.submitting.set(true);
     this.submitError.set('');
     try {
       const title = this.title().trim();
-      const made = await this.api.create(this.context.studioId(), { ...(title ? { title } : {}), layout: this.layout(), artworkIds: this.artworkIds(), looks: this.lookIds(), scale: this.scale(), frame: this.frame() - 1 });
+      const named = title ? { title } : {};
+      const studioId = this.context.studioId();
+      const made = sheet
+        ? await this.api.create(studioId, { ...named, layout: this.layout(), artworkIds: this.artworkIds(), looks: this.lookIds(), scale: this.scale(), frame: this.frame() - 1 })
+        : await this.api.createAnimation(studioId, { ...named, artworkId: this.animationId(), look: this.animationLook(), scale: this.scale(), distanceMm: this.distanceMm() });
       this.exports.update((list) => [made, ...(list ?? [])]);
       this.snackBar.open(`“${made.title}” is queued: its progress shows below.`, undefined, { duration: 4000 });
     } catch (err) {
