@@ -1,7 +1,7 @@
 import { Op } from 'sequelize';
 import { EXPORT_STATUS_LABELS, MAX_ANIMATION_FRAMES, type AnimationRequest, type ExportDto, type ExportFlash, type ExportFormat, type SheetRequest } from '../../../shared/api/export.schema';
 import type { SpriteSheet } from '../../../shared/pipeline/sprite-sheet';
-import { MAX_SHEET_PIXELS, SHEET_LAYOUT_LABELS, sheetGeometry } from '../../../shared/export/sheet';
+import { MAX_SHEET_PIXELS, sheetGeometry, type SheetLayout } from '../../../shared/export/sheet';
 import { builtInPresetById, panelTypeById } from '../../../shared/model/panel-types';
 import type { Role } from '../../../shared/model/roles';
 import type { RgbaImage } from '../../../shared/pipeline/types';
@@ -24,6 +24,12 @@ import { EXPORT_FILES, FORMATS_OF } from './export-files';
 const FOLDER = 'exports';
 /** Newest exports a studio's list shows. */
 const LIST_LIMIT = 100;
+/** What a sheet is called when its title is left empty (after the studio's name). */
+const DEFAULT_TITLES: Readonly<Record<SheetLayout, (looks: number) => string>> = {
+  grid: (n) => `${n === 1 ? 'one look' : `${n} looks`} side by side`,
+  'side-by-side': (n) => `originals beside ${n === 1 ? 'one look' : `${n} looks`}`,
+  'ab-diff': () => 'A/B of two looks',
+};
 /** Most pixels of all an animation's frames together (about 400 MB of RGBA while they are encoded). */
 const MAX_ANIMATION_PIXELS = 100_000_000;
 
@@ -83,7 +89,7 @@ export class ExportsService {
     }
 
     const spec: SheetSpec = { studioName: studio.name, layout: body.layout, scale: body.scale, frame: body.frame, artworks: artworks.map((a) => ({ id: a.id, name: a.name })), looks };
-    const title = body.title ?? `${studio.name}: ${SHEET_LAYOUT_LABELS[body.layout].split(':')[0].toLowerCase()} of ${looks.length === 1 ? 'one look' : `${looks.length} looks`}`;
+    const title = body.title ?? `${studio.name}: ${DEFAULT_TITLES[body.layout](looks.length)}`;
     return this.queue(actor, { title, kind: 'sheet', layout: body.layout, spec }, `asked for the comparison sheet “${title}” (${artworks.length * looks.length} cells)`);
   }
 

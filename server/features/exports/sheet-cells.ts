@@ -45,7 +45,7 @@ export function sheetInput(spec: SheetSpec, title: string, renders: RgbaImage[][
     return [
       { ...rendered[0], lines: [`A: ${rendered[0].lines[0]}`, ...rendered[0].lines.slice(1)] },
       { ...rendered[1], lines: [`B: ${rendered[1].lines[0]}`, ...rendered[1].lines.slice(1)] },
-      { image, lines: ['Difference A/B', `${diff.differing} pixels differ (${share.toFixed(share < 1 ? 3 : 1)} %)`, `largest channel difference ${diff.maxChannel}`], pxPerMm: pxPerMm(spec.looks[0], spec.scale) },
+      { image, lines: ['Difference A/B', `${diff.differing.toLocaleString('en')} pixels differ (${share.toFixed(share < 1 ? 3 : 1)} %)`, `largest channel difference ${diff.maxChannel}`], pxPerMm: pxPerMm(spec.looks[0], spec.scale) },
     ];
   });
   const date = made.at.toISOString().slice(0, 16).replace('T', ' ');
