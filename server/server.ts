@@ -35,7 +35,7 @@ export async function start(config: Config = loadConfig()): Promise<Running> {
   });
   sessionPool.on('error', (err) => console.error(`[db] idle session-pool client failed: ${err.message}`));
   const mailer = new Mailer(config.smtp);
-  const jobs = await JobQueue.start(config.db, config.jobs);
+  const jobs = JobQueue.create(config.db, config.jobs);
   const app = createApp({ config, sequelize, sessionPool, mailer, jobs });
   if (process.env.SEED_DEMO === '1' && (await seedDemo(sequelize, app.artworks))) console.log('[seed] demo studio Kiln & Quartz created');
   const orphans = await app.artworks.reconcile();

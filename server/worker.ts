@@ -21,7 +21,7 @@ async function main(): Promise<void> {
   await migrate(sequelize);
   const engine = new RenderEngine();
   const artworks = new ArtworksService(new FileStore(config.storageDir), (bytes, sheet) => engine.decodedFrames(bytes, sheet));
-  const jobs = await JobQueue.start(config.db, config.jobs);
+  const jobs = JobQueue.create(config.db, config.jobs);
   const exports = exportsService(config, artworks, engine, jobs);
   await jobs.work<ExportJob>(QUEUES.exports, (job) => exports.run(job));
   console.log(`[worker] ${WORKER_NAME} runs exports on ${engine.threads} render threads`);

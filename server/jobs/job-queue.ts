@@ -28,9 +28,18 @@ export const WORKER_NAME = `${os.hostname()}:${process.pid}`;
  * that running one twice leaves one result.
  */
 export class JobQueue {
-  private constructor(private readonly boss: PgBoss) {}
+  private started: Promise<void> | null = null;
 
-  static async start(db: Config['db'], timing: JobTiming): Promise<JobQueue> {
+  private constructor(
+    private readonly boss: PgBoss,
+    private readonly timing: JobTiming,
+  ) {}
+
+  /**
+   * A queue on the app's database. It connects on first use (and again after a failed attempt),
+   * so a process starts, and answers 503, while the database is away.
+   */
+  static create(db: Config['db'], timing: JobTiming): JobQueue {
     const boss = new PgBoss({
       host: db.host,
       port: db.port,
@@ -45,32 +54,39 @@ export class JobQueue {
       schedule: false,
     });
     boss.on('error', (err) => console.error(`[jobs] ${err.message}`));
-    await boss.start();
-    for (const name of Object.values(QUEUES)) {
-      await boss.createQueue(name, { name, retryLimit: timing.retries, retryDelay: 1, expireInSeconds: timing.expireSeconds });
-    }
-    return new JobQueue(boss);
+    return new JobQueue(boss, timing);
+  }
+
+  private ready(): Promise<void> {
+    this.started ??= (async () => {
+      await this.boss.start();
+      for (const name of Object.values(QUEUES)) {
+        await this.boss.createQueue(name, { name, retryLimit: this.timing.retries, retryDelay: 1, expireInSeconds: this.timing.expireSeconds });
+      }
+    })().catch((err) => {
+      this.started = null;
+      throw err;
+    });
+    return this.started;
   }
 
   /** Queues a job; answers its id. */
   async send(queue: QueueName, data: object): Promise<string> {
+    await this.ready();
     const id = await this.boss.send(queue, data);
     if (!id) throw new Error(`the ${queue} queue refused a job`);
     return id;
   }
 
-  /** Takes a queued job out of the queue (a running one is stopped by its handler, which watches its row). */
-  async cancel(queue: QueueName, id: string): Promise<void> {
-    await this.boss.cancel(queue, id).catch(() => undefined);
-  }
-
   /** Runs jobs of a queue in this process, one at a time; a handler that throws fails the attempt (retried while retries last). */
   async work<T extends object>(queue: QueueName, handler: (data: T, jobId: string) => Promise<void>): Promise<void> {
+    await this.ready();
     await this.boss.work<T>(queue, { batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => handler(job.data, job.id));
   }
 
   /** Stops taking jobs, lets the one running finish (up to `timeoutMs`), and closes the connections. */
   async stop(timeoutMs = 10_000): Promise<void> {
+    if (!this.started || !(await this.started.then(() => true, () => false))) return;
     await this.boss.stop({ graceful: true, timeout: timeoutMs, wait: true });
   }
 }

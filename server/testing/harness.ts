@@ -44,7 +44,7 @@ export async function createHarness(overrides: Partial<Config> = {}): Promise<Ha
   const mailer = new Mailer(config.smtp);
   // One pool for the spec file, shared by restartedApp(): two small threads keep parallel spec files light.
   const renderEngine = new RenderEngine({ threads: 2 });
-  const jobs = await JobQueue.start(config.db, config.jobs);
+  const jobs = JobQueue.create(config.db, config.jobs);
   const deps = { config, sequelize, sessionPool, mailer, renderEngine, jobs };
   const app = createApp(deps);
   return {
