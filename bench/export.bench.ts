@@ -35,7 +35,7 @@ async function main() {
     return { id, name: p.name, revision: null, panelTypeId: p.panelTypeId, panelTypeName: panelTypeById(p.panelTypeId)!.name, parameters: p.parameters };
   });
   const scale = 2;
-  const spec: SheetSpec = { studioName: 'Bench studio', layout: 'grid', scale, frame: 0, artworks: cards.map((_, k) => ({ id: String(k), name: `Card ${k + 1}` })), looks };
+  const spec: SheetSpec = { studioName: 'Bench studio', layout: 'grid', scale, frame: 0, report: false, artworks: cards.map((_, k) => ({ id: String(k), name: `Card ${k + 1}` })), looks };
   const engine = new RenderEngine();
   const sources = cards.map((input) => ({ input, sheet: null }));
 

@@ -108,6 +108,15 @@ test('Add to sheet on the bench starts a sheet with the artwork and look on the 
   await page.getByLabel('Animation frame').fill('9');
   await expect(page.getByText('Choose a frame from 1 to 4.')).toBeVisible();
   await expect(page.getByRole('button', { name: 'Make sheet' })).toBeDisabled();
+  await expect(page.getByRole('checkbox', { name: /^Analysis under each render/ })).not.toBeChecked();
+
+  // From the bench's Analysis: the same, with the analysis under each render.
+  await page.goBack();
+  await choose(page, 'Artwork', 'Walk cycle');
+  await page.getByRole('button', { name: 'Analysis' }).click();
+  await page.getByRole('link', { name: 'Add to sheet with this analysis' }).click();
+  await expect(page.getByRole('checkbox', { name: /^Analysis under each render/ })).toBeChecked();
+  await expect(page.getByRole('combobox', { name: /^Artworks/ })).toContainText('Walk cycle');
 });
 
 test('an animation through a look: made in the background, with its flash check, downloaded as GIF with every frame', async ({ page, guard }) => {

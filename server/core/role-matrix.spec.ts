@@ -207,7 +207,7 @@ const twoFrameGif = () => sharp(Buffer.from([...Array(64).fill([20, 20, 20, 255]
 /** An export of the world's artwork that the editor asked for, in the given state (a done one with its file). */
 async function worldExport(studioId: string, artworkId: string, status: 'queued' | 'failed' | 'done'): Promise<string> {
   const look = BUILT_IN_PRESETS[0];
-  const row = await Export.create({ studioId, createdById: users.editor.id, title: 'World sheet', kind: 'sheet', layout: 'grid', status, files: status === 'done' ? { png: 1 } : null, spec: { studioName: 'World', layout: 'grid', scale: 1, frame: 0, artworks: [{ id: artworkId, name: 'tile' }], looks: [{ id: look.id, name: look.name, revision: null, panelTypeId: look.panelTypeId, panelTypeName: 'Amber EL', parameters: look.parameters }] } });
+  const row = await Export.create({ studioId, createdById: users.editor.id, title: 'World sheet', kind: 'sheet', layout: 'grid', status, files: status === 'done' ? { png: 1 } : null, spec: { studioName: 'World', layout: 'grid', scale: 1, frame: 0, report: false, artworks: [{ id: artworkId, name: 'tile' }], looks: [{ id: look.id, name: look.name, revision: null, panelTypeId: look.panelTypeId, panelTypeName: 'Amber EL', parameters: look.parameters }] } });
   if (status === 'done') await new FileStore(h.config.storageDir).write('exports', row.id, 'sheet.png', pngOf(4, 4, () => [1, 2, 3, 255]));
   return row.id;
 }

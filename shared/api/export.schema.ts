@@ -24,6 +24,8 @@ export const sheetRequestSchema = z
       .refine((ids) => new Set(ids).size === ids.length, { message: 'each look may be chosen once' }),
     scale: z.int({ message: 'scale must be a whole number from 1 to 4' }).min(1, { message: 'scale must be a whole number from 1 to 4' }).max(4, { message: 'scale must be a whole number from 1 to 4' }).default(2),
     frame: z.int({ message: 'frame must be a whole number from 0' }).min(0, { message: 'frame must be a whole number from 0' }).default(0),
+    /** Under each render: its legibility, light and power, as the bench's analysis computes them. */
+    report: z.boolean({ message: 'report must be true or false' }).default(false),
   })
   .refine((r) => r.artworkIds.length * r.looks.length <= MAX_SHEET_CELLS, { message: `a sheet holds at most ${MAX_SHEET_CELLS} cells (artworks × looks)`, path: ['looks'] })
   .refine((r) => r.layout !== 'ab-diff' || r.looks.length === 2, { message: 'an A/B sheet compares exactly two looks', path: ['looks'] });
@@ -81,6 +83,8 @@ export interface ExportDto {
   cells: number;
   width: number | null;
   height: number | null;
+  /** Whether each render carries its analysis (legibility, light and power). */
+  report: boolean;
   /** A/B sheets: per artwork, pixels differing and the largest channel difference. */
   figures: { artworkName: string; differing: number; pixels: number; maxChannel: number }[] | null;
   /** Animations: frames rendered, and the flash check of what the panel emits. */

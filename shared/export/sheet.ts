@@ -30,10 +30,11 @@ export const LABEL_SCALE = 2;
 export const TITLE_SCALE = 3;
 const LINE = textHeight(LABEL_SCALE) + 6;
 const TITLE_LINE = textHeight(TITLE_SCALE) + 9;
-/** Label lines under every cell, and the scale-bar line after them. */
+/** Label lines under every cell (more when cells carry their analysis), and the scale-bar line after them. */
 export const LABEL_LINES = 3;
+/** Lines a cell's analysis adds under its label. */
+export const REPORT_LINES = 2;
 const LABEL_GAP = 10;
-const LABEL_HEIGHT = LABEL_GAP + LABEL_LINES * LINE + LINE;
 const HEADER_HEIGHT = TITLE_LINE + LINE;
 const FOOTER_LINES = 2;
 /** Narrowest column, so that a small panel still gets a readable label. */
@@ -54,7 +55,7 @@ export interface Rect {
   height: number;
 }
 
-/** One cell of a sheet: its image, up to LABEL_LINES lines of label, and its scale (image pixels per mm of panel) for the bar. */
+/** One cell of a sheet: its image, its lines of label (the first bright), and its scale (image pixels per mm of panel) for the bar. */
 export interface SheetCell {
   image: RgbaImage;
   lines: string[];
@@ -80,8 +81,12 @@ export interface SheetGeometry {
   footer: Rect;
 }
 
-/** The layout of a sheet for cells of the given sizes: columns as wide as their widest image, rows as tall as their tallest. */
-export function sheetGeometry(sizes: { width: number; height: number }[][]): SheetGeometry {
+/**
+ * The layout of a sheet for cells of the given sizes: columns as wide as their widest image, rows
+ * as tall as their tallest, `labelLines` lines of label under each.
+ */
+export function sheetGeometry(sizes: { width: number; height: number }[][], labelLines = LABEL_LINES): SheetGeometry {
+  const labelHeight = LABEL_GAP + labelLines * LINE + LINE;
   const rows = sizes.length;
   const cols = rows ? sizes[0].length : 0;
   if (!rows || !cols || sizes.some((r) => r.length !== cols)) throw new RangeError('a sheet needs at least one cell and rows of equal length');
@@ -95,12 +100,12 @@ export function sheetGeometry(sizes: { width: number; height: number }[][]): She
     const row = r.map((s, c) => {
       const slot = { x, y, width: colWidth[c], height: rowImage[ri] };
       const image = { x: x + Math.floor((colWidth[c] - s.width) / 2), y: y + Math.floor((rowImage[ri] - s.height) / 2), width: s.width, height: s.height };
-      const label = { x, y: y + rowImage[ri] + LABEL_GAP, width: colWidth[c], height: LABEL_LINES * LINE };
+      const label = { x, y: y + rowImage[ri] + LABEL_GAP, width: colWidth[c], height: labelLines * LINE };
       const bar = { x, y: label.y + label.height, width: colWidth[c], height: LINE };
       x += colWidth[c] + SHEET_GAP;
       return { slot, image, label, bar };
     });
-    y += rowImage[ri] + LABEL_HEIGHT + SHEET_GAP;
+    y += rowImage[ri] + labelHeight + SHEET_GAP;
     return row;
   });
   y -= SHEET_GAP;
@@ -122,7 +127,8 @@ export function scaleBarMm(pxPerMm: number, maxPx: number): number {
 
 /** The sheet as an opaque RGBA image, and where everything went. */
 export function composeSheet(input: SheetInput): { image: RgbaImage; geometry: SheetGeometry } {
-  const geometry = sheetGeometry(input.rows.map((r) => r.map((c) => ({ width: c.image.width, height: c.image.height }))));
+  const labelLines = Math.max(LABEL_LINES, ...input.rows.flat().map((c) => c.lines.length));
+  const geometry = sheetGeometry(input.rows.map((r) => r.map((c) => ({ width: c.image.width, height: c.image.height }))), labelLines);
   const image: RgbaImage = { width: geometry.width, height: geometry.height, data: new Uint8Array(geometry.width * geometry.height * 4) };
   const { background, text, muted, bar } = SHEET_COLOURS;
   fillRect(image, 0, 0, image.width, image.height, background);
@@ -133,7 +139,7 @@ export function composeSheet(input: SheetInput): { image: RgbaImage; geometry: S
     row.forEach((cell, c) => {
       const g = geometry.cells[r][c];
       blit(image, cell.image, g.image.x, g.image.y);
-      cell.lines.slice(0, LABEL_LINES).forEach((line, k) => drawText(image, fitText(line, LABEL_SCALE, g.label.width), g.label.x, g.label.y + k * LINE, LABEL_SCALE, k === 0 ? text : muted));
+      cell.lines.forEach((line, k) => drawText(image, fitText(line, LABEL_SCALE, g.label.width), g.label.x, g.label.y + k * LINE, LABEL_SCALE, k === 0 ? text : muted));
       if (cell.pxPerMm) {
         const mm = scaleBarMm(cell.pxPerMm, Math.min(200, g.bar.width / 3));
         const px = Math.round(mm * cell.pxPerMm);

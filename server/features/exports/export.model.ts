@@ -21,6 +21,8 @@ export interface SheetSpec {
   frame: number;
   artworks: { id: string; name: string }[];
   looks: LookSpec[];
+  /** Each render's analysis under its label and in the manifest. */
+  report: boolean;
 }
 
 /** An animation request frozen when it was made. */

@@ -1,7 +1,7 @@
 import { Op } from 'sequelize';
 import { EXPORT_STATUS_LABELS, MAX_ANIMATION_FRAMES, type AnimationRequest, type ExportDto, type ExportFlash, type ExportFormat, type SheetRequest } from '../../../shared/api/export.schema';
 import type { SpriteSheet } from '../../../shared/pipeline/sprite-sheet';
-import { MAX_SHEET_PIXELS, sheetGeometry, type SheetLayout } from '../../../shared/export/sheet';
+import { LABEL_LINES, MAX_SHEET_PIXELS, REPORT_LINES, sheetGeometry, type SheetLayout } from '../../../shared/export/sheet';
 import { builtInPresetById, panelTypeById } from '../../../shared/model/panel-types';
 import type { Role } from '../../../shared/model/roles';
 import type { RgbaImage } from '../../../shared/pipeline/types';
@@ -83,12 +83,12 @@ export class ExportsService {
       throw new AppError(400, 'invalid_input', `An A/B sheet compares two renders of one size, and these differ: “${looks[0].name}” renders at ${sizes[0].width} × ${sizes[0].height} px, “${looks[1].name}” at ${sizes[1].width} × ${sizes[1].height} px. Choose two looks of one panel type.`);
     }
     const row = (cells: { width: number; height: number }[]) => (body.layout === 'grid' ? cells : body.layout === 'side-by-side' ? [cells[0], ...cells] : [...cells, cells[0]]);
-    const geometry = sheetGeometry(artworks.map(() => row(sizes)));
+    const geometry = sheetGeometry(artworks.map(() => row(sizes)), body.report ? LABEL_LINES + REPORT_LINES : LABEL_LINES);
     if (geometry.width * geometry.height > MAX_SHEET_PIXELS) {
       throw new AppError(400, 'output_too_large', `The sheet would be ${geometry.width} × ${geometry.height} pixels; the limit is ${MAX_SHEET_PIXELS / 1e6} million. Lower the scale or choose fewer artworks or looks.`);
     }
 
-    const spec: SheetSpec = { studioName: studio.name, layout: body.layout, scale: body.scale, frame: body.frame, artworks: artworks.map((a) => ({ id: a.id, name: a.name })), looks };
+    const spec: SheetSpec = { studioName: studio.name, layout: body.layout, scale: body.scale, frame: body.frame, artworks: artworks.map((a) => ({ id: a.id, name: a.name })), looks, report: body.report };
     const title = body.title ?? `${studio.name}: ${DEFAULT_TITLES[body.layout](looks.length)}`;
     return this.queue(actor, { title, kind: 'sheet', layout: body.layout, spec }, `asked for the comparison sheet “${title}” (${artworks.length * looks.length} cells)`);
   }
@@ -315,6 +315,7 @@ export class ExportsService {
       looks: looks.map((l) => ({ id: l.id, name: l.name, revision: l.revision, panelTypeName: l.panelTypeName })),
       scale: r.spec.scale,
       frame: sheet ? sheet.frame : 0,
+      report: sheet ? sheet.report : false,
       cells: sheet ? sheet.artworks.length * sheet.looks.length : animation!.frames,
       width: r.width,
       height: r.height,

@@ -7,6 +7,8 @@ import { createHarness, TestClient, type Harness } from '../../testing/harness';
 import { pngOf } from '../../testing/images';
 import { Membership } from '../studios/membership.model';
 import { Export } from './export.model';
+import { cellReport } from './sheet-cells';
+import { builtInPresetById } from '../../../shared/model/panel-types';
 import type { ExportJob } from './exports.service';
 
 let h: Harness;
@@ -136,6 +138,26 @@ test('a 2 × 2 grid is queued, reports progress to 100 %, and its cells equal si
   }
   const imported = await editor.post(`/api/studios/${studioId}/presets/import`, { ...manifest.cells[0].look.preset, name: 'From a sheet' });
   expect(imported.status).toBe(201);
+});
+
+test('with the analysis asked for, each render carries its legibility and light under its label and in the manifest', async () => {
+  const res = await editor.post(url(), { layout: 'grid', artworkIds: [artworkIds[1]], looks: ['el-amber-320x240.standard'], scale: 1, report: true });
+  expect(res.status).toBe(202);
+  const done = await finished(editor, res.body.export.id);
+  expect(done).toMatchObject({ status: 'done', report: true });
+  const sheet = await raw((await viewer.getBytes(png(done))).body);
+  // Two more label lines than a sheet without the analysis.
+  expect(sheet.height).toBe(sheetGeometry([[{ width: 320, height: 240 }]], 5).height);
+  expect(sheet.height - sheetGeometry([[{ width: 320, height: 240 }]]).height).toBe(2 * 20);
+  const entries = unzipSync(new Uint8Array((await viewer.getBytes(fileUrl(done, 'zip'))).body));
+  const [cell] = JSON.parse(strFromU8(entries['manifest.json'])).cells;
+  // The checker has one-cell detail everywhere; its figures are the analysis of that frame through that look.
+  const frames = (await h.app.artworks.frames({ id: artworkIds[1], sheet: null }));
+  const look = { id: 'el-amber-320x240.standard', name: 'Standard', revision: null, panelTypeId: 'el-amber-320x240', panelTypeName: '', parameters: builtInPresetById('el-amber-320x240.standard')!.parameters };
+  expect(cell.report).toEqual(JSON.parse(JSON.stringify(cellReport(frames, look, 0))));
+  expect(cell.report.legibility.edges).toBeGreaterThan(0);
+  expect(cell.report.legibility.score).toBeGreaterThan(0);
+  expect(cell.report.legibility.score).toBeLessThanOrEqual(1);
 });
 
 test('a file format there is none of is refused with the list', async () => {

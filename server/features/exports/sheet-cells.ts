@@ -1,6 +1,7 @@
 import { composeSheet, differenceMap, fitNearest, SHEET_LAYOUT_LABELS, type SheetCell, type SheetInput } from '../../../shared/export/sheet';
 import { PARAMS, type EnumSpec } from '../../../shared/model/parameters';
-import { PIPELINE_VERSION } from '../../../shared/pipeline/render';
+import { legibility, lightFigures, type LightFrame } from '../../../shared/analysis/panel-report';
+import { panelEmission, PIPELINE_VERSION } from '../../../shared/pipeline/render';
 import type { SpriteSheet } from '../../../shared/pipeline/sprite-sheet';
 import type { Frame, RgbaImage } from '../../../shared/pipeline/types';
 import { encodePng } from '../../render/encode';
@@ -22,6 +23,28 @@ function renderLines(look: SheetSpec['looks'][number], artworkName: string): str
   ];
 }
 
+/** A render's analysis, as the bench's report computes it: legibility of one-cell detail, and light and power. */
+export interface CellReport {
+  legibility: { score: number; lostShare: number; edges: number };
+  light: LightFrame;
+}
+
+/** The analysis of one cell (the frame's emission through the look). */
+export function cellReport(frames: readonly Frame[], look: SheetSpec['looks'][number], frame: number): CellReport {
+  const emission = panelEmission(frames, look.parameters, frame);
+  const { score, lostShare, edges } = legibility(emission, look.parameters);
+  return { legibility: { score, lostShare, edges }, light: lightFigures([emission], look.parameters)[0] };
+}
+
+/** The two label lines of a cell's analysis. */
+function reportLines(r: CellReport): string[] {
+  const { legibility: l, light } = r;
+  return [
+    l.edges ? `legibility ${Math.round(l.score * 100)} % of one-cell contrast · ${(l.lostShare * 100).toFixed(1)} % of detail lost` : 'legibility: no one-cell detail in this frame',
+    `${light.meanCdM2.toFixed(1)} cd/m² mean · ${light.peakCdM2.toFixed(0)} peak · ${(light.litShare * 100).toFixed(1)} % lit · power ${(light.relativePower * 100).toFixed(1)} %`,
+  ];
+}
+
 /** Image pixels per millimetre of panel at the sheet's scale (scale pixels a cell pitch across). */
 const pxPerMm = (look: SheetSpec['looks'][number], scale: number) => scale / look.parameters.cell.pitchXMm;
 
@@ -29,10 +52,10 @@ const pxPerMm = (look: SheetSpec['looks'][number], scale: number) => scale / loo
  * The cells of a sheet from its renders (renders[artwork][look]) and the artworks' frames, by
  * layout: a grid of renders; the original then each look; or A, B and their difference map.
  */
-export function sheetInput(spec: SheetSpec, title: string, renders: RgbaImage[][], originals: RgbaImage[], made: { at: Date; by: string }): { input: SheetInput; figures: ExportDto['figures'] } {
+export function sheetInput(spec: SheetSpec, title: string, renders: RgbaImage[][], originals: RgbaImage[], made: { at: Date; by: string }, reports: CellReport[][] | null = null): { input: SheetInput; figures: ExportDto['figures'] } {
   const figures: NonNullable<ExportDto['figures']> = [];
   const rows: SheetCell[][] = spec.artworks.map((artwork, r) => {
-    const rendered = spec.looks.map((look, l): SheetCell => ({ image: renders[r][l], lines: renderLines(look, artwork.name), pxPerMm: pxPerMm(look, spec.scale) }));
+    const rendered = spec.looks.map((look, l): SheetCell => ({ image: renders[r][l], lines: [...renderLines(look, artwork.name), ...(reports ? reportLines(reports[r][l]) : [])], pxPerMm: pxPerMm(look, spec.scale) }));
     if (spec.layout === 'grid') return rendered;
     if (spec.layout === 'side-by-side') {
       const box = renders[r][0];
@@ -81,10 +104,13 @@ export async function makeSheet(work: SheetWork): Promise<{ files: Partial<Recor
   // Each cell's own PNG (for the ZIP) is encoded by sharp's threads while the pool renders the next.
   const singles: Promise<{ png: Buffer; width: number; height: number }>[][] = [];
   const originals: RgbaImage[] = [];
+  const reports: CellReport[][] = [];
   let done = 0;
   for (const [r, artwork] of spec.artworks.entries()) {
     const { input, sheet } = work.sources[r];
-    originals.push((await work.frames(input, sheet))[spec.frame].image);
+    const frames = await work.frames(input, sheet);
+    originals.push(frames[spec.frame].image);
+    if (spec.report) reports.push(spec.looks.map((look) => cellReport(frames, look, spec.frame)));
     const row: RgbaImage[] = [];
     const encoded: Promise<{ png: Buffer; width: number; height: number }>[] = [];
     for (const look of spec.looks) {
@@ -101,9 +127,9 @@ export async function makeSheet(work: SheetWork): Promise<{ files: Partial<Recor
     singles.push(encoded);
   }
   if (!(await work.beforeStep(done, 'Putting the sheet together'))) return null;
-  const { input, figures } = sheetInput(spec, work.title, renders, originals, work.made);
+  const { input, figures } = sheetInput(spec, work.title, renders, originals, work.made, spec.report ? reports : null);
   const { image } = composeSheet(input);
   const png = await encodePng(image);
-  const [pdf, zip] = await Promise.all([sheetPdf(spec, work.title, work.made, { png, width: image.width, height: image.height }, figures), Promise.all(singles.map((row) => Promise.all(row))).then((cells) => rendersZip(spec, work.title, work.made.at, cells, figures))]);
+  const [pdf, zip] = await Promise.all([sheetPdf(spec, work.title, work.made, { png, width: image.width, height: image.height }, figures), Promise.all(singles.map((row) => Promise.all(row))).then((cells) => rendersZip(spec, work.title, work.made.at, cells, figures, spec.report ? reports : null))]);
   return { files: { png, pdf, zip }, width: image.width, height: image.height, figures };
 }

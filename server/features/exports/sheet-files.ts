@@ -7,6 +7,7 @@ import type { ExportDto } from '../../../shared/api/export.schema';
 import { SHEET_LAYOUT_LABELS } from '../../../shared/export/sheet';
 import { PIPELINE_VERSION } from '../../../shared/pipeline/render';
 import type { SheetSpec } from './export.model';
+import type { CellReport } from './sheet-cells';
 import { lookManifest } from './export-files';
 
 /** The manifest's own format name, beside the preset documents it holds. */
@@ -67,7 +68,7 @@ export function renderFileNames(spec: SheetSpec): string[][] {
  * The single renders as PNG files and a manifest.json that says what each is: artwork, look (a
  * preset document, the format of preset export and import) and size, with the sheet's figures.
  */
-export async function rendersZip(spec: SheetSpec, title: string, createdAt: Date, renders: { png: Buffer; width: number; height: number }[][], figures: ExportDto['figures']): Promise<Buffer> {
+export async function rendersZip(spec: SheetSpec, title: string, createdAt: Date, renders: { png: Buffer; width: number; height: number }[][], figures: ExportDto['figures'], reports: CellReport[][] | null = null): Promise<Buffer> {
   const names = renderFileNames(spec);
   const manifest = {
     format: MANIFEST_FORMAT,
@@ -88,6 +89,7 @@ export async function rendersZip(spec: SheetSpec, title: string, createdAt: Date
         width: renders[r][c].width,
         height: renders[r][c].height,
         look: lookManifest(look),
+        ...(reports ? { report: reports[r][c] } : {}),
       })),
     ),
     figures,

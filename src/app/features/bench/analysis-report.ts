@@ -1,6 +1,7 @@
 import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, DestroyRef, effect, type ElementRef, inject, input, output, signal, untracked, viewChild } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
+import { RouterLink } from '@angular/router';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
@@ -25,7 +26,7 @@ import { BenchEngine } from './bench-engine';
  */
 @Component({
   selector: 'em-analysis-report',
-  imports: [DecimalPipe, MatButtonModule, MatIconModule, MatProgressBarModule, BaseChartDirective],
+  imports: [DecimalPipe, RouterLink, MatButtonModule, MatIconModule, MatProgressBarModule, BaseChartDirective],
   providers: [provideCharts(withDefaultRegisterables())],
   templateUrl: './analysis-report.html',
   styleUrl: './analysis-report.scss',
@@ -45,6 +46,8 @@ export class AnalysisReport {
   readonly flash = input<FlashSafety | null>(null);
   /** What the downloads are called after. */
   readonly name = input('view');
+  /** The artwork and look on the bench, for a comparison sheet that carries this analysis (editors only). */
+  readonly sheetLink = input<{ artwork: string; look: string } | null>(null);
   /** A test pattern was added to the library (its artwork id). */
   readonly patternAdded = output<string>();
 

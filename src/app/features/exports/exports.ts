@@ -4,6 +4,7 @@ import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
+import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
@@ -14,7 +15,7 @@ import { MatTooltipModule } from '@angular/material/tooltip';
 import { ActivatedRoute, RouterLink } from '@angular/router';
 import { catchError, filter, from, merge, of, Subject, switchMap, timer } from 'rxjs';
 import { EXPORT_STATUS_LABELS, type ExportDto, type ExportKind, type ExportStatus } from '../../../../shared/api/export.schema';
-import { MAX_SHEET_ARTWORKS, MAX_SHEET_CELLS, MAX_SHEET_LOOKS, MAX_SHEET_PIXELS, SHEET_LAYOUT_LABELS, SHEET_LAYOUTS, sheetGeometry, type SheetLayout } from '../../../../shared/export/sheet';
+import { LABEL_LINES, MAX_SHEET_ARTWORKS, MAX_SHEET_CELLS, MAX_SHEET_LOOKS, MAX_SHEET_PIXELS, REPORT_LINES, SHEET_LAYOUT_LABELS, SHEET_LAYOUTS, sheetGeometry, type SheetLayout } from '../../../../shared/export/sheet';
 import { BUILT_IN_PRESETS, panelTypeById } from '../../../../shared/model/panel-types';
 import type { PanelParams } from '../../../../shared/model/parameters';
 import { outputUniforms } from '../../../../shared/pipeline/output/uniforms';
@@ -45,7 +46,7 @@ const STATUS_ICONS: Readonly<Record<ExportStatus, string>> = { queued: 'schedule
  */
 @Component({
   selector: 'em-exports',
-  imports: [FormsModule, RouterLink, DatePipe, DecimalPipe, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, MatSelectModule, MatTooltipModule],
+  imports: [FormsModule, RouterLink, DatePipe, DecimalPipe, MatButtonModule, MatButtonToggleModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, MatSelectModule, MatTooltipModule],
   templateUrl: './exports.html',
   styleUrl: './exports.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -75,6 +76,8 @@ export class Exports {
   protected readonly scale = signal(2);
   /** Counted from 1, as people count frames. */
   protected readonly frame = signal(1);
+  /** Each render's analysis (legibility, light and power) under its label. */
+  protected readonly withReport = signal(false);
   /** Animation: the one animation and the one look, and the flash check's viewing distance. */
   protected readonly animationId = signal<string | undefined>(undefined);
   protected readonly animationLook = signal<string | undefined>(undefined);
@@ -123,7 +126,7 @@ export class Exports {
       return { width: u.width, height: u.height };
     });
     const row = this.layout() === 'grid' ? sizes : this.layout() === 'side-by-side' ? [sizes[0], ...sizes] : [...sizes, sizes[0]];
-    const g = sheetGeometry(Array.from({ length: rows }, () => row));
+    const g = sheetGeometry(Array.from({ length: rows }, () => row), this.withReport() ? LABEL_LINES + REPORT_LINES : LABEL_LINES);
     return { width: g.width, height: g.height, sizes };
   });
 
@@ -157,6 +160,7 @@ export class Exports {
     const query = inject(ActivatedRoute).snapshot.queryParamMap;
     if (query.get('artwork')) this.artworkIds.set([query.get('artwork')!]);
     if (query.get('look')) this.lookIds.set([query.get('look')!]);
+    this.withReport.set(query.get('report') === '1');
     this.animationId.set(query.get('artwork') ?? undefined);
     this.animationLook.set(query.get('look') ?? undefined);
     // The list: at once, after each action, and every second while a job waits or runs.
@@ -201,7 +205,7 @@ export class Exports {
       const named = title ? { title } : {};
       const studioId = this.context.studioId();
       const made = sheet
-        ? await this.api.create(studioId, { ...named, layout: this.layout(), artworkIds: this.artworkIds(), looks: this.lookIds(), scale: this.scale(), frame: this.frame() - 1 })
+        ? await this.api.create(studioId, { ...named, layout: this.layout(), artworkIds: this.artworkIds(), looks: this.lookIds(), scale: this.scale(), frame: this.frame() - 1, report: this.withReport() })
         : await this.api.createAnimation(studioId, { ...named, artworkId: this.animationId(), look: this.animationLook(), scale: this.scale(), distanceMm: this.distanceMm() });
       this.exports.update((list) => [made, ...(list ?? [])]);
       this.snackBar.open(`“${made.title}” is queued: its progress shows below.`, undefined, { duration: 4000 });
