@@ -37,7 +37,8 @@ import { StudiosService } from './features/studios/studios.service';
 import type { Mailer } from './mail/mailer';
 import { MailOutbox } from './mail/outbox';
 import { FileStore } from './storage/file-store';
-import { exportsRoutes } from './features/exports/exports.routes';
+import { createBlobStore, type BlobStore } from './storage/blob-store';
+import { downloadRoutes, exportsRoutes } from './features/exports/exports.routes';
 import { exportsService, type ExportsService } from './features/exports/exports.service';
 import type { JobQueue } from './jobs/job-queue';
 
@@ -55,7 +56,7 @@ export interface AppDeps {
 }
 
 /** The Express app with every route; `listen` is the caller's business (server/main.ts, tests). */
-export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; artworks: ArtworksService; renders: RendersService; renderEngine: RenderEngine; exports: ExportsService } {
+export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; artworks: ArtworksService; renders: RendersService; renderEngine: RenderEngine; exports: ExportsService; blobs: BlobStore } {
   const { config, sequelize, mailer } = deps;
   const app = express();
   app.disable('x-powered-by');
@@ -78,16 +79,17 @@ export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; art
   app.use(csrfProtection);
 
   const renderEngine = deps.renderEngine ?? new RenderEngine();
-  const renders = new RendersService(new RenderStore(config.storageDir), renderEngine, sequelize, config.studioRenderBudgetBytes);
-  const artworks = new ArtworksService(new FileStore(config.storageDir), (bytes, sheet) => renderEngine.decodedFrames(bytes, sheet));
+  const blobs = createBlobStore(config);
+  const renders = new RendersService(new RenderStore(blobs), renderEngine, sequelize, config.studioRenderBudgetBytes);
+  const artworks = new ArtworksService(new FileStore(blobs), (bytes, sheet) => renderEngine.decodedFrames(bytes, sheet));
   const presets = new PresetsService();
-  const exports = exportsService(config, artworks, renderEngine, deps.jobs);
+  const exports = exportsService(config, blobs, artworks, renderEngine, deps.jobs);
   const studios = new StudiosService(outbox, config.appUrl, (_studioId, artworkIds) => artworks.removeFiles(artworkIds), async (studioId) => {
     await renders.removeFor({ studioId });
     await exports.removeFor(studioId);
   });
   const timings = new TimingsService();
-  const routers: ApiRouter[] = [health, authRoutes(auth, passport), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renders), timingsRoutes(timings), romsRoutes(new RomsService(timings)), artworksRoutes(artworks, renders, presets), presetsRoutes(presets, config.appUrl, artworks, renders), shareRoutes(presets, artworks), exportsRoutes(exports), activityRoutes()];
+  const routers: ApiRouter[] = [health, authRoutes(auth, passport), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renders), timingsRoutes(timings), romsRoutes(new RomsService(timings)), artworksRoutes(artworks, renders, presets), presetsRoutes(presets, config.appUrl, artworks, renders), shareRoutes(presets, artworks), exportsRoutes(exports, config.sessionSecret), downloadRoutes(blobs, config.sessionSecret), activityRoutes()];
   const docs = new ApiRouter('/docs', 'Service');
   const specs = routers.flatMap((r) => r.specs);
   docs.route('get', '/', { policy: publicAccess, summary: 'This OpenAPI document' }, (_req, res) => {
@@ -99,7 +101,7 @@ export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; art
 
   serveSpa(app, config.staticDir);
   app.use(errorHandler);
-  return Object.assign(app, { apiSpecs: routers.flatMap((r) => r.specs), artworks, renders, renderEngine, exports });
+  return Object.assign(app, { apiSpecs: routers.flatMap((r) => r.specs), artworks, renders, renderEngine, exports, blobs });
 }
 
 /** Serves the built Angular app with a per-request CSP nonce in index.html. */

@@ -9,8 +9,10 @@ export interface Config {
   sessionSecret: string;
   /** Where the built Angular app lives (served as static files when present). */
   staticDir: string;
-  /** Folder for uploaded originals, thumbnails and renders (outside the web root), one per database. */
+  /** Folder for uploaded originals, thumbnails, renders and exports (outside the web root), one per database. */
   storageDir: string;
+  /** Where files live: that folder, or an S3-compatible bucket (STORAGE=s3). */
+  storage: { kind: 'disk' } | { kind: 's3'; bucket: string; endpoint?: string; region: string; forcePathStyle: boolean };
   /** Most bytes of stored renders one studio keeps; the least recently used go first. */
   studioRenderBudgetBytes: number;
   /** Background jobs (exports): expiry of an active job, the queue's maintenance interval, retries, and whether this process runs jobs too. */
@@ -23,6 +25,16 @@ function num(name: string, fallback: number): number {
   const value = Number(raw);
   if (!Number.isInteger(value) || value <= 0) throw new Error(`${name} must be a positive integer, got "${raw}"`);
   return value;
+}
+
+function storageConfig(): Config['storage'] {
+  const kind = process.env.STORAGE ?? 'disk';
+  if (kind === 'disk') return { kind };
+  if (kind !== 's3') throw new Error(`STORAGE must be disk or s3, got "${kind}"`);
+  const bucket = process.env.S3_BUCKET;
+  if (!bucket) throw new Error('STORAGE=s3 needs S3_BUCKET (the bucket must exist)');
+  const endpoint = process.env.S3_ENDPOINT || undefined;
+  return { kind, bucket, endpoint, region: process.env.S3_REGION ?? 'us-east-1', forcePathStyle: process.env.S3_FORCE_PATH_STYLE ? process.env.S3_FORCE_PATH_STYLE === 'true' : !!endpoint };
 }
 
 /** Builds the configuration from process.env; throws with the variable's name on bad values. */
@@ -53,6 +65,7 @@ export function loadConfig(): Config {
     staticDir: process.env.STATIC_DIR ?? 'dist/emberline/browser',
     // One storage folder per database: start-up reconciliation must never see another database's files.
     storageDir: process.env.STORAGE_DIR ?? `.data/storage/${database}`,
+    storage: storageConfig(),
     studioRenderBudgetBytes: num('STUDIO_RENDER_BUDGET_MB', 2048) * 1024 * 1024,
     jobs: {
       expireSeconds: num('JOB_EXPIRE_SECONDS', 600),

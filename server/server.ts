@@ -7,6 +7,7 @@ import { migrate } from './db/migrate';
 import { initModels } from './db/models';
 import { seedDemo } from './db/seed';
 import { Mailer } from './mail/mailer';
+import { DiskBlobStore } from './storage/blob-store';
 import type { ExportJob } from './features/exports/exports.service';
 import { JobQueue, QUEUES } from './jobs/job-queue';
 
@@ -40,6 +41,10 @@ export async function start(config: Config = loadConfig()): Promise<Running> {
   if (process.env.SEED_DEMO === '1' && (await seedDemo(sequelize, app.artworks))) console.log('[seed] demo studio Kiln & Quartz created');
   const orphans = await app.artworks.reconcile();
   if (orphans) console.log(`[storage] removed ${orphans} artwork folder(s) left without a database row`);
+  if (app.blobs instanceof DiskBlobStore) {
+    const temps = await app.blobs.sweepTemp();
+    if (temps) console.log(`[storage] removed ${temps} temp file(s) left by interrupted writes`);
+  }
   const staleRenders = await app.renders.reconcile();
   if (staleRenders) console.log(`[storage] removed ${staleRenders} render file(s) left without a database row`);
   const staleExports = await app.exports.reconcile();

@@ -6,6 +6,7 @@ import { ArtworksService } from './features/artworks/artworks.service';
 import { exportsService, type ExportJob } from './features/exports/exports.service';
 import { JobQueue, QUEUES, WORKER_NAME } from './jobs/job-queue';
 import { RenderEngine } from './render/render-engine';
+import { createBlobStore } from './storage/blob-store';
 import { FileStore } from './storage/file-store';
 
 /**
@@ -20,9 +21,10 @@ async function main(): Promise<void> {
   await sequelize.authenticate();
   await migrate(sequelize);
   const engine = new RenderEngine();
-  const artworks = new ArtworksService(new FileStore(config.storageDir), (bytes, sheet) => engine.decodedFrames(bytes, sheet));
+  const blobs = createBlobStore(config);
+  const artworks = new ArtworksService(new FileStore(blobs), (bytes, sheet) => engine.decodedFrames(bytes, sheet));
   const jobs = JobQueue.create(config.db, config.jobs);
-  const exports = exportsService(config, artworks, engine, jobs);
+  const exports = exportsService(config, blobs, artworks, engine, jobs);
   await jobs.work<ExportJob>(QUEUES.exports, (job) => exports.run(job));
   console.log(`[worker] ${WORKER_NAME} runs exports on ${engine.threads} render threads`);
   const stop = async () => {

@@ -1,5 +1,6 @@
 import sharp from 'sharp';
 import { newToken } from './tokens';
+import { signDownload } from './signed-links';
 import { POLICY } from './policy';
 import { BUILT_IN_PRESETS } from '../../shared/model/panel-types';
 import { EmailVerification } from '../features/auth/email-verification.model';
@@ -44,7 +45,7 @@ interface Row {
   upload?: () => { fields: Record<string, string>; file: { name: string; bytes: Buffer } };
   expect: [owner: number, editor: number, viewer: number, other: number, anonymous: number];
   /** For rows on one export: the state it is in (default: done, with its file). */
-  exportStatus?: 'queued' | 'failed';
+  exportStatus?: 'queued' | 'failed' | 'done';
 }
 
 const S = (c: Cell) => `/api/studios/${c.studioId}`;
@@ -168,7 +169,9 @@ const ROWS: Row[] = [
     expect: [202, 202, 403, 404, 401],
   },
   { method: 'get', path: '/api/studios/:studioId/exports/:exportId', url: (c) => `${S(c)}/exports/${c.exportId}`, expect: [200, 200, 200, 404, 401] },
-  { method: 'get', path: '/api/studios/:studioId/exports/:exportId/file', url: (c) => `${S(c)}/exports/${c.exportId}/file`, expect: [200, 200, 200, 404, 401] },
+  // A member is sent on to a signed download link (303); the link itself needs no session.
+  { method: 'get', path: '/api/studios/:studioId/exports/:exportId/file', url: (c) => `${S(c)}/exports/${c.exportId}/file`, expect: [303, 303, 303, 404, 401] },
+  { method: 'get', path: '/api/downloads/:token', url: (c) => `/api/downloads/${signDownload(h.config.sessionSecret, { key: `exports/${c.exportId}/sheet.png`, fileName: 'World sheet.png', contentType: 'image/png', expiresAt: Date.now() + 60_000 })}`, exportStatus: 'done', expect: [200, 200, 200, 200, 200] },
   // The editor asked for the export: the editor and owners may change it, a viewer may not.
   { method: 'post', path: '/api/studios/:studioId/exports/:exportId/cancel', url: (c) => `${S(c)}/exports/${c.exportId}/cancel`, exportStatus: 'queued', expect: [200, 200, 403, 404, 401] },
   { method: 'post', path: '/api/studios/:studioId/exports/:exportId/retry', url: (c) => `${S(c)}/exports/${c.exportId}/retry`, exportStatus: 'failed', expect: [200, 200, 403, 404, 401] },
@@ -208,7 +211,7 @@ const twoFrameGif = () => sharp(Buffer.from([...Array(64).fill([20, 20, 20, 255]
 async function worldExport(studioId: string, artworkId: string, status: 'queued' | 'failed' | 'done'): Promise<string> {
   const look = BUILT_IN_PRESETS[0];
   const row = await Export.create({ studioId, createdById: users.editor.id, title: 'World sheet', kind: 'sheet', layout: 'grid', status, files: status === 'done' ? { png: 1 } : null, spec: { studioName: 'World', layout: 'grid', scale: 1, frame: 0, report: false, artworks: [{ id: artworkId, name: 'tile' }], looks: [{ id: look.id, name: look.name, revision: null, panelTypeId: look.panelTypeId, panelTypeName: 'Amber EL', parameters: look.parameters }] } });
-  if (status === 'done') await new FileStore(h.config.storageDir).write('exports', row.id, 'sheet.png', pngOf(4, 4, () => [1, 2, 3, 255]));
+  if (status === 'done') await new FileStore(h.app.blobs).write('exports', row.id, 'sheet.png', pngOf(4, 4, () => [1, 2, 3, 255]));
   return row.id;
 }
 
@@ -251,7 +254,7 @@ describe.each(ROWS)('$method $path', (row) => {
     const studioRenderKey = row.path.endsWith('/renders/:key') && row.path.startsWith('/api/studios')
       ? (await h.app.renders.render({ studioId: world.studio.id, artworkId: world.artworkId, userId: users.owner.id }, { input: await h.app.artworks.original(world.artworkId), parameters: BUILT_IN_PRESETS[0].parameters, scale: 1, frame: 0 })).key
       : '';
-    const exportId = row.path.includes(':exportId') ? await worldExport(world.studio.id, world.artworkId, row.exportStatus ?? 'done') : '';
+    const exportId = row.path.includes(':exportId') || row.path.includes('/downloads/') ? await worldExport(world.studio.id, world.artworkId, row.exportStatus ?? 'done') : '';
     const cell: Cell = { studioId: world.studio.id, users, actor, inviteId: world.invite.id, inviteToken: world.inviteToken, timingId: world.timing.id, romId: world.romId, artworkId: world.artworkId, presetId: world.presetId, linkId: world.linkId, shareToken: world.shareToken, otherStudioId: world.studio.id, studioRenderKey, exportId };
     const client = new TestClient(h.app);
     if (actor !== 'anonymous') {

@@ -1,45 +1,36 @@
-import { mkdir, readdir, readFile, rename, rm, writeFile, access } from 'node:fs/promises';
-import path from 'node:path';
-import { randomBytes } from 'node:crypto';
+import type { BlobStore } from './blob-store';
 
 /**
- * Files outside the web root under generated names (ids and fixed names only, never a name a
- * user gave). Writes are atomic (temp file, then rename).
+ * Files of a record under generated names: `<folder>/<id>/<name>` in the blob store (ids and fixed
+ * names only, never a name a user gave).
  */
 export class FileStore {
-  constructor(private readonly root: string) {}
+  constructor(readonly blobs: BlobStore) {}
 
-  private file(folder: string, id: string, name: string): string {
+  key(folder: string, id: string, name: string): string {
     if (!/^[0-9a-f-]{36}$/.test(id) || !/^[a-z0-9.-]+$/.test(name)) throw new Error('bad storage key');
-    return path.join(this.root, folder, id, name);
+    return `${folder}/${id}/${name}`;
   }
 
-  async write(folder: string, id: string, name: string, bytes: Buffer): Promise<void> {
-    const target = this.file(folder, id, name);
-    await mkdir(path.dirname(target), { recursive: true });
-    const tmp = `${target}.${randomBytes(8).toString('hex')}.tmp`;
-    await writeFile(tmp, bytes);
-    await rename(tmp, target);
+  write(folder: string, id: string, name: string, bytes: Buffer): Promise<void> {
+    return this.blobs.put(this.key(folder, id, name), bytes);
   }
 
   read(folder: string, id: string, name: string): Promise<Buffer> {
-    return readFile(this.file(folder, id, name));
+    return this.blobs.get(this.key(folder, id, name));
   }
 
-  async exists(folder: string, id: string, name: string): Promise<boolean> {
-    return access(this.file(folder, id, name)).then(
-      () => true,
-      () => false,
-    );
+  exists(folder: string, id: string, name: string): Promise<boolean> {
+    return this.blobs.has(this.key(folder, id, name));
   }
 
   async remove(folder: string, id: string): Promise<void> {
     if (!/^[0-9a-f-]{36}$/.test(id)) throw new Error('bad storage key');
-    await rm(path.join(this.root, folder, id), { recursive: true, force: true });
+    await this.blobs.removePrefix(`${folder}/${id}/`);
   }
 
-  /** Ids that have a folder (for reconciling storage with the database). */
+  /** Ids that have files (for reconciling storage with the database). */
   async ids(folder: string): Promise<string[]> {
-    return readdir(path.join(this.root, folder)).catch(() => []);
+    return [...new Set((await this.blobs.list(`${folder}/`)).map((key) => key.split('/')[1]))];
   }
 }

@@ -1,49 +1,37 @@
-import { randomBytes } from 'node:crypto';
-import { access, mkdir, readdir, readFile, rename, rm, writeFile } from 'node:fs/promises';
-import path from 'node:path';
 import { AppError } from '../core/app-error';
+import type { BlobStore } from './blob-store';
 
-/** Render PNGs on disk, named by cache key, outside the web root; written atomically. */
+/** Render PNGs in the blob store, named by cache key (`renders/<key>.png`). */
 export class RenderStore {
-  constructor(private readonly dir: string) {}
+  constructor(private readonly blobs: BlobStore) {}
 
-  fileOf(key: string): string {
+  private keyOf(key: string): string {
     if (!/^[0-9a-f]{64}$/.test(key)) throw new AppError(404, 'not_found', 'The render was not found.');
-    return path.join(this.dir, 'renders', `${key}.png`);
+    return `renders/${key}.png`;
   }
 
-  async write(key: string, png: Buffer): Promise<void> {
-    const file = this.fileOf(key);
-    await mkdir(path.dirname(file), { recursive: true });
-    // A random suffix: two writers of one key in the same millisecond must not share a temp file.
-    const tmp = `${file}.${randomBytes(8).toString('hex')}.tmp`;
-    await writeFile(tmp, png);
-    await rename(tmp, file);
+  write(key: string, png: Buffer): Promise<void> {
+    return this.blobs.put(this.keyOf(key), png);
   }
 
-  async exists(key: string): Promise<boolean> {
-    return access(this.fileOf(key)).then(
-      () => true,
-      () => false,
-    );
+  exists(key: string): Promise<boolean> {
+    return this.blobs.has(this.keyOf(key));
   }
 
   read(key: string): Promise<Buffer> {
-    return readFile(this.fileOf(key));
+    return this.blobs.get(this.keyOf(key));
   }
 
-  async remove(keys: string[]): Promise<void> {
-    for (const key of keys) await rm(this.fileOf(key), { force: true });
+  remove(keys: string[]): Promise<void> {
+    return this.blobs.remove(keys.map((k) => this.keyOf(k)));
   }
 
-  /** Removes temp files and render files whose key `isKnown` does not list (after a crash); returns how many. */
+  /** Removes render files whose key `isKnown` does not list (after a crash); returns how many. */
   async reconcile(isKnown: (keys: string[]) => Promise<Set<string>>): Promise<number> {
-    const dir = path.join(this.dir, 'renders');
-    const names = await readdir(dir).catch(() => [] as string[]);
-    const keys = names.filter((n) => /^[0-9a-f]{64}\.png$/.test(n)).map((n) => n.slice(0, 64));
+    const keys = (await this.blobs.list('renders/')).map((k) => k.slice('renders/'.length)).filter((n) => /^[0-9a-f]{64}\.png$/.test(n)).map((n) => n.slice(0, 64));
     const known = await isKnown(keys);
-    const stale = names.filter((n) => n.endsWith('.tmp') || (/^[0-9a-f]{64}\.png$/.test(n) && !known.has(n.slice(0, 64))));
-    for (const n of stale) await rm(path.join(dir, n), { force: true });
+    const stale = keys.filter((k) => !known.has(k));
+    await this.remove(stale);
     return stale.length;
   }
 }

@@ -109,9 +109,9 @@ export class TestClient {
     return req.attach('file', file.bytes, file.name);
   }
 
-  /** A GET whose body is read as bytes, whatever its content type. */
+  /** A GET whose body is read as bytes, whatever its content type, following redirects (signed download links). */
   async getBytes(path: string): Promise<request.Response & { body: Buffer }> {
-    let req = request(this.app).get(path).set(this.headers);
+    let req = request(this.app).get(path).set(this.headers).redirects(2);
     if (this.cookies.size) req = req.set('Cookie', [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; '));
     return req.buffer(true).parse((res, done) => {
       const chunks: Buffer[] = [];

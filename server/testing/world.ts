@@ -13,6 +13,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { ArtworksService } from '../features/artworks/artworks.service';
 import { FileStore } from '../storage/file-store';
+import { DiskBlobStore } from '../storage/blob-store';
 import { uniqueEmail } from './harness';
 import { pngOf } from './images';
 
@@ -65,7 +66,7 @@ export async function createStudioWorld(users: WorldUsers, artworks?: ArtworksSe
   const rom = Buffer.from(syntheticRom());
   const romId = (await VideoRom.create({ studioId: studio.id, name: 'World card', bytes: rom, size: rom.length, sha256: '0'.repeat(64), patchedFromId: null, patch: null, createdById: users.owner.id })).id;
   // Every world has an artwork: a share link always shows one.
-  const library = artworks ?? new ArtworksService(new FileStore(path.join(os.tmpdir(), `emberline-world-${process.pid}`)));
+  const library = artworks ?? new ArtworksService(new FileStore(new DiskBlobStore(path.join(os.tmpdir(), `emberline-world-${process.pid}`))));
   const artworkId = (await library.upload(studio.id, users.owner.id, pngOf(8, 8, (x, y) => [x * 30, y * 30, 0, 255]), 'tile.png', {})).id;
   const presets = new PresetsService();
   const actor = { studioId: studio.id, userId: users.owner.id, role: 'owner' as const };

@@ -7,6 +7,7 @@ import type { Frame } from '../../../shared/pipeline/types';
 import { AppError, notFound } from '../../core/app-error';
 import { ReadCache } from '../../core/read-cache';
 import { decodeImage, framesOf } from '../../render/decode';
+import { BlobNotFound } from '../../storage/blob-store';
 import type { FileStore } from '../../storage/file-store';
 import { record } from '../activity/activity.model';
 import { Artwork } from './artwork.model';
@@ -125,8 +126,8 @@ export class ArtworksService {
   }
 
   private readFile(id: string, name: string): Promise<Buffer> {
-    return this.files.read(FOLDER, id, name).catch((err: NodeJS.ErrnoException) => {
-      if (err.code === 'ENOENT') throw new AppError(404, 'file_missing', "The artwork's stored file is missing. Delete the artwork and upload it again.");
+    return this.files.read(FOLDER, id, name).catch((err: unknown) => {
+      if (err instanceof BlobNotFound) throw new AppError(404, 'file_missing', "The artwork's stored file is missing. Delete the artwork and upload it again.");
       throw err;
     });
   }

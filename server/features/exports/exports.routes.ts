@@ -2,12 +2,13 @@ import type { RequestHandler } from 'express';
 import { animationRequestSchema, EXPORT_FORMATS, sheetRequestSchema } from '../../../shared/api/export.schema';
 import { ApiRouter } from '../../core/api-router';
 import { AppError } from '../../core/app-error';
-import { idParam, studioRole } from '../../core/policy';
-import { EXPORT_FILES } from './export-files';
+import { idParam, publicAccess, studioRole } from '../../core/policy';
+import { signDownload, verifyDownload } from '../../core/signed-links';
+import type { BlobStore } from '../../storage/blob-store';
 import type { ExportsService } from './exports.service';
 
 /** /api/studios/:studioId/exports: comparison sheets made as background jobs. Viewers download, editors ask, owners delete anyone's. */
-export function exportsRoutes(exports: ExportsService): ApiRouter {
+export function exportsRoutes(exports: ExportsService, secret: string): ApiRouter {
   const api = new ApiRouter('/studios/:studioId/exports', 'Exports');
   const exportId = (req: Parameters<RequestHandler>[0]) => idParam(req, 'exportId', 'The export');
   const actor = (req: Parameters<RequestHandler>[0]) => req.membership!;
@@ -24,14 +25,12 @@ export function exportsRoutes(exports: ExportsService): ApiRouter {
   api.route('get', '/:exportId', { policy: studioRole('viewer'), summary: 'One export and its progress' }, async (req, res) => {
     res.json({ export: await exports.get(req.membership!.studioId, exportId(req)) });
   });
-  api.route('get', '/:exportId/file', { policy: studioRole('viewer'), summary: 'A finished file as a download: a sheet as ?format=png (the default), pdf or zip (single renders and a manifest); an animation as apng, gif or json (its manifest with the flash check); 409 until it is ready' }, async (req, res) => {
+  api.route('get', '/:exportId/file', { policy: studioRole('viewer'), summary: 'Download a finished file: a sheet as ?format=png (the default), pdf or zip (single renders and a manifest), an animation as apng, gif or json (its manifest with the flash check). Answers 303 to a signed link that works for 15 minutes without a session; 409 until the export is ready' }, async (req, res) => {
     const raw = req.query.format ?? 'png';
     const format = EXPORT_FORMATS.find((f) => f === raw);
     if (!format) throw new AppError(400, 'invalid_input', `format must be one of ${EXPORT_FORMATS.join(', ')}, got “${String(raw).slice(0, 20)}”.`);
-    const { name, bytes } = await exports.file(req.membership!.studioId, exportId(req), format);
-    const safeName = name.replace(/[^\w .-]/g, '_').slice(0, 100);
-    res.set({ 'Content-Type': EXPORT_FILES[format].type, 'X-Content-Type-Options': 'nosniff', 'Content-Disposition': `attachment; filename="${safeName}.${EXPORT_FILES[format].extension}"`, 'Cache-Control': 'private, no-store' });
-    res.send(bytes);
+    const url = await exports.downloadUrl(req.membership!.studioId, exportId(req), format, (d) => `/api/downloads/${signDownload(secret, d)}`);
+    res.set('Cache-Control', 'private, no-store').redirect(303, url);
   });
   api.route('post', '/:exportId/cancel', { policy: studioRole('editor'), summary: 'Stop a waiting or running export (your own, or anyone\'s as an owner); partial output is removed' }, async (req, res) => {
     res.json({ export: await exports.cancel(actor(req), exportId(req)) });
@@ -42,6 +41,20 @@ export function exportsRoutes(exports: ExportsService): ApiRouter {
   api.route('delete', '/:exportId', { policy: studioRole('editor'), summary: 'Delete an export and its file (your own, or anyone\'s as an owner)', status: 204 }, async (req, res) => {
     await exports.remove(actor(req), exportId(req));
     res.status(204).end();
+  });
+  return api;
+}
+
+/** /api/downloads/<token>: a file behind a link the app signed (exports on disk), no session needed until it expires. */
+export function downloadRoutes(blobs: BlobStore, secret: string): ApiRouter {
+  const api = new ApiRouter('/downloads', 'Exports');
+  api.route('get', '/:token', { policy: publicAccess, summary: 'A file behind a signed, expiring download link (404 when the link is not valid, 410 once it has expired)' }, async (req, res) => {
+    const d = verifyDownload(secret, String(req.params.token));
+    const bytes = await blobs.get(d.key).catch(() => {
+      throw new AppError(404, 'not_found', 'The file behind this link is gone: the export was deleted.');
+    });
+    res.set({ 'Content-Type': d.contentType, 'X-Content-Type-Options': 'nosniff', 'Content-Disposition': `attachment; filename="${d.fileName.replace(/[^\w .-]/g, '_')}"`, 'Cache-Control': 'private, no-store', 'Referrer-Policy': 'no-referrer' });
+    res.send(bytes);
   });
   return api;
 }

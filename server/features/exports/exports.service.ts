@@ -6,9 +6,11 @@ import { builtInPresetById, panelTypeById } from '../../../shared/model/panel-ty
 import type { Role } from '../../../shared/model/roles';
 import type { RgbaImage } from '../../../shared/pipeline/types';
 import { AppError, forbidden, notFound } from '../../core/app-error';
+import type { SignedDownload } from '../../core/signed-links';
 import { QUEUES, WORKER_NAME, type JobQueue } from '../../jobs/job-queue';
 import { RenderEngine, type RenderRequest } from '../../render/render-engine';
 import type { Config } from '../../config';
+import type { BlobStore } from '../../storage/blob-store';
 import { FileStore } from '../../storage/file-store';
 import { record } from '../activity/activity.model';
 import { Artwork } from '../artworks/artwork.model';
@@ -24,6 +26,8 @@ import { EXPORT_FILES, FORMATS_OF } from './export-files';
 const FOLDER = 'exports';
 /** Newest exports a studio's list shows. */
 const LIST_LIMIT = 100;
+/** How long a download link works. */
+export const DOWNLOAD_LINK_SECONDS = 15 * 60;
 /** What a sheet is called when its title is left empty (after the studio's name). */
 const DEFAULT_TITLES: Readonly<Record<SheetLayout, (looks: number) => string>> = {
   grid: (n) => `${n === 1 ? 'one look' : `${n} looks`} side by side`,
@@ -45,8 +49,8 @@ export interface ExportJob {
 }
 
 /** The service as the app and the workers make it: files in the storage folder, stale after the job's every attempt has expired. */
-export function exportsService(config: Config, artworks: ArtworksService, engine: RenderEngine, jobs: JobQueue): ExportsService {
-  return new ExportsService(new FileStore(config.storageDir), artworks, engine, jobs, (config.jobs.retries + 1) * config.jobs.expireSeconds * 1000 + 60_000);
+export function exportsService(config: Config, blobs: BlobStore, artworks: ArtworksService, engine: RenderEngine, jobs: JobQueue): ExportsService {
+  return new ExportsService(new FileStore(blobs), artworks, engine, jobs, (config.jobs.retries + 1) * config.jobs.expireSeconds * 1000 + 60_000);
 }
 
 /**
@@ -151,12 +155,19 @@ export class ExportsService {
     return this.dto(row, await this.names([row.createdById]));
   }
 
-  /** A finished file, by format (409 while it is being made). */
-  async file(studioId: string, id: string, format: ExportFormat): Promise<{ name: string; bytes: Buffer }> {
+  /**
+   * Where a finished file downloads from, by format (409 while it is being made): an expiring link
+   * the storage signs (a bucket's presigned URL) or, for files on disk, one the app signs and serves
+   * at /api/downloads/<token>. Either works without a session until it expires.
+   */
+  async downloadUrl(studioId: string, id: string, format: ExportFormat, sign: (d: SignedDownload) => string): Promise<string> {
     const row = await this.row(studioId, id);
     if (row.status !== 'done') throw new AppError(409, 'not_ready', `“${row.title}” is ${EXPORT_STATUS_LABELS[row.status].toLowerCase()}, not ready: it can be downloaded once it is.`);
     if (!FORMATS_OF[row.kind].includes(format)) throw new AppError(400, 'invalid_input', `${row.kind === 'sheet' ? 'A comparison sheet' : 'An animation'} is made as ${FORMATS_OF[row.kind].join(', ')}, not ${format}.`);
-    return { name: row.title, bytes: await this.files.read(FOLDER, row.id, EXPORT_FILES[format].name) };
+    const file = EXPORT_FILES[format];
+    const as = { fileName: `${row.title.replace(/[^\w .-]/g, '_').slice(0, 100)}.${file.extension}`, contentType: file.type };
+    const key = this.files.key(FOLDER, row.id, file.name);
+    return (await this.files.blobs.presignedUrl(key, DOWNLOAD_LINK_SECONDS, as)) ?? sign({ key, ...as, expiresAt: Date.now() + DOWNLOAD_LINK_SECONDS * 1000 });
   }
 
   /** Stops a waiting or running export; what it wrote is removed. */

@@ -80,7 +80,15 @@ test('a 2 × 2 grid is queued, reports progress to 100 %, and its cells equal si
   expect(seen).toEqual([...seen].sort((a, b) => a - b));
   expect((await Export.findByPk(res.body.export.id))!.attempts).toBe(1);
 
-  const file = await viewer.get(png(done));
+  // The download is a signed link that works without a session, and only as signed.
+  const sent = await viewer.get(png(done));
+  expect(sent.status).toBe(303);
+  expect(sent.headers.location).toMatch(/^\/api\/downloads\/[\w-]+\.[\w-]+$/);
+  const stranger = new TestClient(h.app);
+  expect((await stranger.getBytes(sent.headers.location)).status).toBe(200);
+  const forged = sent.headers.location.replace(/\.([\w-]{4})/, '.AAAA');
+  expect((await stranger.get(forged)).status).toBe(404);
+  const file = await viewer.getBytes(png(done));
   expect(file.status).toBe(200);
   expect(file.headers['content-type']).toBe('image/png');
   expect(file.headers['content-disposition']).toMatch(/^attachment/);
@@ -178,7 +186,7 @@ test('an A/B sheet states how two looks differ, as pixelmatch counts it', async 
   expect(count).toBeGreaterThan(0);
   expect(done.figures).toEqual([{ artworkName: 'Ramp', differing: count, pixels: a.width * a.height, maxChannel: expect.any(Number) }]);
   // Three columns: A, B and the map.
-  const sheet = await raw((await editor.get(png(done))).body);
+  const sheet = await raw((await editor.getBytes(png(done))).body);
   expect(sheet.width).toBe(sheetGeometry([[a, b, a]]).width);
 });
 
@@ -186,7 +194,7 @@ test('side by side puts the original before the looks', async () => {
   const res = await editor.post(url(), { layout: 'side-by-side', artworkIds: [artworkIds[1]], looks: ['el-amber-320x240.standard'], scale: 1 });
   const done = await finished(editor, res.body.export.id);
   expect(done.status).toBe('done');
-  const sheet = await raw((await editor.get(png(done))).body);
+  const sheet = await raw((await editor.getBytes(png(done))).body);
   const g = sheetGeometry([[{ width: 320, height: 240 }, { width: 320, height: 240 }]]);
   expect([sheet.width, sheet.height]).toEqual([g.width, g.height]);
   // The 64 × 48 checker enlarged 5× (the largest whole number within 320 × 240), with hard edges: 4 × 5 = 20 px squares.
@@ -255,7 +263,7 @@ test('cancel stops an export and leaves no file; retry makes it again; a sheet n
   expect(again.body.export.status).toBe('queued');
   const done = await finished(editor, id);
   expect(done.status).toBe('done');
-  expect((await editor.get(png(done))).status).toBe(200);
+  expect((await editor.getBytes(png(done))).status).toBe(200);
   expect((await editor.post(url(`/${id}/retry`))).status).toBe(409);
 }, 90_000);
 
