@@ -38,7 +38,7 @@ import type { Mailer } from './mail/mailer';
 import { MailOutbox } from './mail/outbox';
 import { FileStore } from './storage/file-store';
 import { createBlobStore, type BlobStore } from './storage/blob-store';
-import { downloadRoutes, exportsRoutes } from './features/exports/exports.routes';
+import { downloadRoutes, exportsRoutes, sharedExportRoutes } from './features/exports/exports.routes';
 import { exportsService, type ExportsService } from './features/exports/exports.service';
 import type { JobQueue } from './jobs/job-queue';
 
@@ -89,7 +89,7 @@ export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; art
     await exports.removeFor(studioId);
   });
   const timings = new TimingsService();
-  const routers: ApiRouter[] = [health, authRoutes(auth, passport), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renders), timingsRoutes(timings), romsRoutes(new RomsService(timings)), artworksRoutes(artworks, renders, presets), presetsRoutes(presets, config.appUrl, artworks, renders), shareRoutes(presets, artworks), exportsRoutes(exports, config.sessionSecret), downloadRoutes(blobs, config.sessionSecret), activityRoutes()];
+  const routers: ApiRouter[] = [health, authRoutes(auth, passport), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renders), timingsRoutes(timings), romsRoutes(new RomsService(timings)), artworksRoutes(artworks, renders, presets), presetsRoutes(presets, config.appUrl, artworks, renders), shareRoutes(presets, artworks), exportsRoutes(exports, config.sessionSecret, config.appUrl), sharedExportRoutes(exports, config.sessionSecret), downloadRoutes(blobs, config.sessionSecret), activityRoutes()];
   const docs = new ApiRouter('/docs', 'Service');
   const specs = routers.flatMap((r) => r.specs);
   docs.route('get', '/', { policy: publicAccess, summary: 'This OpenAPI document' }, (_req, res) => {
@@ -118,7 +118,7 @@ function serveSpa(app: Express, staticDir: string): void {
   app.get('/{*splat}', (req, res) => {
     res.set('Cache-Control', 'no-store');
     // A share link's token must not leak to other sites through the Referer header.
-    if (req.path.startsWith('/share/')) res.set('Referrer-Policy', 'no-referrer');
+    if (req.path.startsWith('/share/') || req.path.startsWith('/shared-exports/')) res.set('Referrer-Policy', 'no-referrer');
     res.type('html').send(indexHtml.replaceAll('__CSP_NONCE__', res.locals.cspNonce as string));
   });
 }

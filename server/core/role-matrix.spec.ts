@@ -6,7 +6,7 @@ import { BUILT_IN_PRESETS } from '../../shared/model/panel-types';
 import { EmailVerification } from '../features/auth/email-verification.model';
 import { PasswordReset } from '../features/auth/password-reset.model';
 import { Invite } from '../features/studios/invite.model';
-import { Export } from '../features/exports/export.model';
+import { Export, ExportLink } from '../features/exports/export.model';
 import { FileStore } from '../storage/file-store';
 import { Membership } from '../features/studios/membership.model';
 import { createHarness, TestClient, uniqueEmail, type Harness } from '../testing/harness';
@@ -35,6 +35,9 @@ interface Cell {
   studioRenderKey: string;
   /** An export the editor asked for (made only for the rows that name one), in the row's state. */
   exportId: string;
+  /** A share link to that export, and its token. */
+  exportLinkId: string;
+  exportToken: string;
 }
 interface Row {
   method: 'get' | 'post' | 'patch' | 'delete';
@@ -171,6 +174,12 @@ const ROWS: Row[] = [
   { method: 'get', path: '/api/studios/:studioId/exports/:exportId', url: (c) => `${S(c)}/exports/${c.exportId}`, expect: [200, 200, 200, 404, 401] },
   // A member is sent on to a signed download link (303); the link itself needs no session.
   { method: 'get', path: '/api/studios/:studioId/exports/:exportId/file', url: (c) => `${S(c)}/exports/${c.exportId}/file`, expect: [303, 303, 303, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/exports/:exportId/links', url: (c) => `${S(c)}/exports/${c.exportId}/links`, expect: [200, 200, 403, 404, 401] },
+  { method: 'post', path: '/api/studios/:studioId/exports/:exportId/links', url: (c) => `${S(c)}/exports/${c.exportId}/links`, body: () => ({ expiresInDays: 3 }), expect: [201, 201, 403, 404, 401] },
+  { method: 'delete', path: '/api/studios/:studioId/exports/:exportId/links/:linkId', url: (c) => `${S(c)}/exports/${c.exportId}/links/${c.exportLinkId}`, expect: [204, 204, 403, 404, 401] },
+  { method: 'get', path: '/api/shared-exports/:token', url: (c) => `/api/shared-exports/${c.exportToken}`, expect: [200, 200, 200, 200, 200] },
+  { method: 'get', path: '/api/shared-exports/:token/preview', url: (c) => `/api/shared-exports/${c.exportToken}/preview`, expect: [200, 200, 200, 200, 200] },
+  { method: 'get', path: '/api/shared-exports/:token/file', url: (c) => `/api/shared-exports/${c.exportToken}/file`, expect: [303, 303, 303, 303, 303] },
   { method: 'get', path: '/api/downloads/:token', url: (c) => `/api/downloads/${signDownload(h.config.sessionSecret, { key: `exports/${c.exportId}/sheet.png`, fileName: 'World sheet.png', contentType: 'image/png', expiresAt: Date.now() + 60_000 })}`, exportStatus: 'done', expect: [200, 200, 200, 200, 200] },
   // The editor asked for the export: the editor and owners may change it, a viewer may not.
   { method: 'post', path: '/api/studios/:studioId/exports/:exportId/cancel', url: (c) => `${S(c)}/exports/${c.exportId}/cancel`, exportStatus: 'queued', expect: [200, 200, 403, 404, 401] },
@@ -254,8 +263,10 @@ describe.each(ROWS)('$method $path', (row) => {
     const studioRenderKey = row.path.endsWith('/renders/:key') && row.path.startsWith('/api/studios')
       ? (await h.app.renders.render({ studioId: world.studio.id, artworkId: world.artworkId, userId: users.owner.id }, { input: await h.app.artworks.original(world.artworkId), parameters: BUILT_IN_PRESETS[0].parameters, scale: 1, frame: 0 })).key
       : '';
-    const exportId = row.path.includes(':exportId') || row.path.includes('/downloads/') ? await worldExport(world.studio.id, world.artworkId, row.exportStatus ?? 'done') : '';
-    const cell: Cell = { studioId: world.studio.id, users, actor, inviteId: world.invite.id, inviteToken: world.inviteToken, timingId: world.timing.id, romId: world.romId, artworkId: world.artworkId, presetId: world.presetId, linkId: world.linkId, shareToken: world.shareToken, otherStudioId: world.studio.id, studioRenderKey, exportId };
+    const exportId = row.path.includes(':exportId') || row.path.includes('/downloads/') || row.path.includes('/shared-exports/') ? await worldExport(world.studio.id, world.artworkId, row.exportStatus ?? 'done') : '';
+    const { token: exportToken, hash } = newToken();
+    const exportLinkId = exportId ? (await ExportLink.create({ exportId, tokenHash: hash, createdById: users.editor.id, expiresAt: null })).id : '';
+    const cell: Cell = { studioId: world.studio.id, users, actor, inviteId: world.invite.id, inviteToken: world.inviteToken, timingId: world.timing.id, romId: world.romId, artworkId: world.artworkId, presetId: world.presetId, linkId: world.linkId, shareToken: world.shareToken, otherStudioId: world.studio.id, studioRenderKey, exportId, exportLinkId, exportToken };
     const client = new TestClient(h.app);
     if (actor !== 'anonymous') {
       const signIn = await client.post('/api/auth/sign-in', { email: users[actor].email, password: WORLD_PASSWORD });

@@ -54,6 +54,38 @@ export interface ExportFlash {
   pass: boolean;
 }
 
+/** A share link to an export: how long it works (none: until revoked). */
+export const exportLinkSchema = z.strictObject({
+  expiresInDays: z.int({ message: 'expiresInDays must be a whole number from 1 to 365' }).min(1, { message: 'expiresInDays must be a whole number from 1 to 365' }).max(365, { message: 'expiresInDays must be a whole number from 1 to 365' }).optional(),
+});
+
+/** A share link to an export; the URL only in the answer that made it (the token is stored hashed). */
+export interface ExportLinkDto {
+  id: string;
+  url?: string;
+  expiresAt: string | null;
+  revokedAt: string | null;
+  createdAt: string;
+}
+
+/** What an export's share link opens, read-only, without an account. */
+export interface SharedExportDto {
+  title: string;
+  kind: ExportKind;
+  layout: SheetLayout | null;
+  studioName: string;
+  createdAt: string;
+  artworks: string[];
+  looks: { name: string; revision: number | null; panelTypeName: string }[];
+  width: number | null;
+  height: number | null;
+  figures: ExportDto['figures'];
+  animation: ExportDto['animation'];
+  /** A sheet's PNG, served through the link, to show on the page; null for animations (they are not played unasked). */
+  previewUrl: string | null;
+  files: { format: ExportFormat; label: string; url: string; bytes: number }[];
+}
+
 export const EXPORT_KINDS = ['sheet', 'animation'] as const;
 export type ExportKind = (typeof EXPORT_KINDS)[number];
 export const EXPORT_FORMATS = ['png', 'pdf', 'zip', 'apng', 'gif', 'json'] as const;

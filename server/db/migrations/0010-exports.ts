@@ -36,10 +36,21 @@ export async function up(qi: QueryInterface): Promise<void> {
       finished_at timestamptz
     );
     CREATE INDEX exports_studio_idx ON exports(studio_id, created_at DESC);
+    CREATE TABLE export_links (
+      id uuid PRIMARY KEY,
+      export_id uuid NOT NULL REFERENCES exports(id) ON DELETE CASCADE,
+      token_hash char(64) NOT NULL UNIQUE,
+      created_by_id uuid REFERENCES users(id) ON DELETE SET NULL,
+      expires_at timestamptz,
+      revoked_at timestamptz,
+      created_at timestamptz NOT NULL DEFAULT now(),
+      updated_at timestamptz NOT NULL DEFAULT now()
+    );
+    CREATE INDEX export_links_export_idx ON export_links(export_id, created_at DESC);
   `);
 }
 
 export async function down(qi: QueryInterface): Promise<void> {
-  await qi.sequelize.query('DROP TABLE exports');
+  await qi.sequelize.query('DROP TABLE export_links, exports');
   await qi.sequelize.query(`DROP SCHEMA ${JOBS_SCHEMA} CASCADE`);
 }

@@ -64,6 +64,18 @@ export class Export extends Model<InferAttributes<Export>, InferCreationAttribut
   declare finishedAt: CreationOptional<Date | null>;
 }
 
+/** A read-only link to a finished export, for someone without an account. */
+export class ExportLink extends Model<InferAttributes<ExportLink>, InferCreationAttributes<ExportLink>> {
+  declare id: CreationOptional<string>;
+  declare exportId: string;
+  declare tokenHash: string;
+  declare createdById: string | null;
+  declare expiresAt: Date | null;
+  declare revokedAt: CreationOptional<Date | null>;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+}
+
 export function initExport(sequelize: Sequelize): void {
   Export.init(
     {
@@ -90,5 +102,18 @@ export function initExport(sequelize: Sequelize): void {
       finishedAt: { type: DataTypes.DATE, allowNull: true },
     },
     { sequelize, tableName: 'exports' },
+  );
+  ExportLink.init(
+    {
+      id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
+      exportId: { type: DataTypes.UUID, allowNull: false },
+      tokenHash: { type: DataTypes.CHAR(64), allowNull: false },
+      createdById: { type: DataTypes.UUID, allowNull: true },
+      expiresAt: { type: DataTypes.DATE, allowNull: true },
+      revokedAt: { type: DataTypes.DATE, allowNull: true },
+      createdAt: DataTypes.DATE,
+      updatedAt: DataTypes.DATE,
+    },
+    { sequelize, tableName: 'export_links' },
   );
 }

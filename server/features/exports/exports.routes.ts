@@ -1,5 +1,5 @@
 import type { RequestHandler } from 'express';
-import { animationRequestSchema, EXPORT_FORMATS, sheetRequestSchema } from '../../../shared/api/export.schema';
+import { animationRequestSchema, EXPORT_FORMATS, exportLinkSchema, sheetRequestSchema, type ExportFormat } from '../../../shared/api/export.schema';
 import { ApiRouter } from '../../core/api-router';
 import { AppError } from '../../core/app-error';
 import { idParam, publicAccess, studioRole } from '../../core/policy';
@@ -7,8 +7,16 @@ import { signDownload, verifyDownload } from '../../core/signed-links';
 import type { BlobStore } from '../../storage/blob-store';
 import type { ExportsService } from './exports.service';
 
+/** The ?format= of a download (png by default), or 400 naming the formats there are. */
+function formatOf(req: Parameters<RequestHandler>[0]): ExportFormat {
+  const raw = req.query.format ?? 'png';
+  const format = EXPORT_FORMATS.find((f) => f === raw);
+  if (!format) throw new AppError(400, 'invalid_input', `format must be one of ${EXPORT_FORMATS.join(', ')}, got “${String(raw).slice(0, 20)}”.`);
+  return format;
+}
+
 /** /api/studios/:studioId/exports: comparison sheets made as background jobs. Viewers download, editors ask, owners delete anyone's. */
-export function exportsRoutes(exports: ExportsService, secret: string): ApiRouter {
+export function exportsRoutes(exports: ExportsService, secret: string, appUrl: string): ApiRouter {
   const api = new ApiRouter('/studios/:studioId/exports', 'Exports');
   const exportId = (req: Parameters<RequestHandler>[0]) => idParam(req, 'exportId', 'The export');
   const actor = (req: Parameters<RequestHandler>[0]) => req.membership!;
@@ -26,11 +34,18 @@ export function exportsRoutes(exports: ExportsService, secret: string): ApiRoute
     res.json({ export: await exports.get(req.membership!.studioId, exportId(req)) });
   });
   api.route('get', '/:exportId/file', { policy: studioRole('viewer'), summary: 'Download a finished file: a sheet as ?format=png (the default), pdf or zip (single renders and a manifest), an animation as apng, gif or json (its manifest with the flash check). Answers 303 to a signed link that works for 15 minutes without a session; 409 until the export is ready' }, async (req, res) => {
-    const raw = req.query.format ?? 'png';
-    const format = EXPORT_FORMATS.find((f) => f === raw);
-    if (!format) throw new AppError(400, 'invalid_input', `format must be one of ${EXPORT_FORMATS.join(', ')}, got “${String(raw).slice(0, 20)}”.`);
-    const url = await exports.downloadUrl(req.membership!.studioId, exportId(req), format, (d) => `/api/downloads/${signDownload(secret, d)}`);
+    const url = await exports.downloadUrl(req.membership!.studioId, exportId(req), formatOf(req), (d) => `/api/downloads/${signDownload(secret, d)}`);
     res.set('Cache-Control', 'private, no-store').redirect(303, url);
+  });
+  api.route('get', '/:exportId/links', { policy: studioRole('editor'), summary: "The export's read-only share links" }, async (req, res) => {
+    res.json({ links: await exports.links(req.membership!.studioId, exportId(req)) });
+  });
+  api.route('post', '/:exportId/links', { policy: studioRole('editor'), summary: 'Make a read-only share link to a finished export (optional expiresInDays); the URL is shown once', body: exportLinkSchema, status: 201 }, async (req, res) => {
+    res.status(201).json({ link: await exports.createLink(actor(req), exportId(req), req.body, appUrl) });
+  });
+  api.route('delete', '/:exportId/links/:linkId', { policy: studioRole('editor'), summary: 'Revoke a share link', status: 204 }, async (req, res) => {
+    await exports.revokeLink(actor(req), exportId(req), idParam(req, 'linkId', 'The link'));
+    res.status(204).end();
   });
   api.route('post', '/:exportId/cancel', { policy: studioRole('editor'), summary: 'Stop a waiting or running export (your own, or anyone\'s as an owner); partial output is removed' }, async (req, res) => {
     res.json({ export: await exports.cancel(actor(req), exportId(req)) });
@@ -55,6 +70,23 @@ export function downloadRoutes(blobs: BlobStore, secret: string): ApiRouter {
     });
     res.set({ 'Content-Type': d.contentType, 'X-Content-Type-Options': 'nosniff', 'Content-Disposition': `attachment; filename="${d.fileName.replace(/[^\w .-]/g, '_')}"`, 'Cache-Control': 'private, no-store', 'Referrer-Policy': 'no-referrer' });
     res.send(bytes);
+  });
+  return api;
+}
+
+/** /api/shared-exports/<token>: what an export's share link opens, read-only, no account needed. */
+export function sharedExportRoutes(exports: ExportsService, secret: string): ApiRouter {
+  const api = new ApiRouter('/shared-exports', 'Exports');
+  const token = (req: Parameters<RequestHandler>[0]) => String(req.params.token);
+  api.route('get', '/:token', { policy: publicAccess, summary: 'A shared export: what it shows and its files (404 for unknown, revoked or expired links)' }, async (req, res) => {
+    res.set('Referrer-Policy', 'no-referrer').json({ export: await exports.shared(token(req)) });
+  });
+  api.route('get', '/:token/preview', { policy: publicAccess, summary: "A shared sheet's PNG, to show on the link's page" }, async (req, res) => {
+    res.set({ 'Content-Type': 'image/png', 'X-Content-Type-Options': 'nosniff', 'Cache-Control': 'private, no-store', 'Referrer-Policy': 'no-referrer' }).send(await exports.sharedPreview(token(req)));
+  });
+  api.route('get', '/:token/file', { policy: publicAccess, summary: "Download a shared export's file (?format=): 303 to a signed link that works for 15 minutes" }, async (req, res) => {
+    const url = await exports.sharedDownloadUrl(token(req), formatOf(req), (d) => `/api/downloads/${signDownload(secret, d)}`);
+    res.set({ 'Cache-Control': 'private, no-store', 'Referrer-Policy': 'no-referrer' }).redirect(303, url);
   });
   return api;
 }

@@ -1,5 +1,5 @@
 import { Op } from 'sequelize';
-import { EXPORT_STATUS_LABELS, MAX_ANIMATION_FRAMES, type AnimationRequest, type ExportDto, type ExportFlash, type ExportFormat, type SheetRequest } from '../../../shared/api/export.schema';
+import { EXPORT_STATUS_LABELS, MAX_ANIMATION_FRAMES, type AnimationRequest, type ExportDto, type ExportFlash, type ExportFormat, type ExportLinkDto, type SharedExportDto, type SheetRequest } from '../../../shared/api/export.schema';
 import type { SpriteSheet } from '../../../shared/pipeline/sprite-sheet';
 import { LABEL_LINES, MAX_SHEET_PIXELS, REPORT_LINES, sheetGeometry, type SheetLayout } from '../../../shared/export/sheet';
 import { builtInPresetById, panelTypeById } from '../../../shared/model/panel-types';
@@ -18,7 +18,8 @@ import type { ArtworksService } from '../artworks/artworks.service';
 import { User } from '../auth/user.model';
 import { Preset } from '../presets/preset.model';
 import { Studio } from '../studios/studio.model';
-import { Export, type AnimationSpec, type LookSpec, type SheetSpec } from './export.model';
+import { Export, ExportLink, type AnimationSpec, type LookSpec, type SheetSpec } from './export.model';
+import { hashToken, newToken } from '../../core/tokens';
 import { makeSheet } from './sheet-cells';
 import { makeAnimation } from './animation';
 import { EXPORT_FILES, FORMATS_OF } from './export-files';
@@ -42,6 +43,8 @@ export interface ExportActor {
   userId: string;
   role: Role;
 }
+
+const linkDto = (l: ExportLink): ExportLinkDto => ({ id: l.id, expiresAt: l.expiresAt?.toISOString() ?? null, revokedAt: l.revokedAt?.toISOString() ?? null, createdAt: l.createdAt.toISOString() });
 
 /** What the export job carries: the row is the whole request. */
 export interface ExportJob {
@@ -168,6 +171,72 @@ export class ExportsService {
     const as = { fileName: `${row.title.replace(/[^\w .-]/g, '_').slice(0, 100)}.${file.extension}`, contentType: file.type };
     const key = this.files.key(FOLDER, row.id, file.name);
     return (await this.files.blobs.presignedUrl(key, DOWNLOAD_LINK_SECONDS, as)) ?? sign({ key, ...as, expiresAt: Date.now() + DOWNLOAD_LINK_SECONDS * 1000 });
+  }
+
+  /** The export's share links, newest first. */
+  async links(studioId: string, id: string): Promise<ExportLinkDto[]> {
+    const row = await this.row(studioId, id);
+    return (await ExportLink.findAll({ where: { exportId: row.id }, order: [['createdAt', 'DESC']] })).map(linkDto);
+  }
+
+  /** A read-only link to a finished export (the token is shown once and stored hashed). */
+  async createLink(actor: ExportActor, id: string, body: { expiresInDays?: number }, appUrl: string): Promise<ExportLinkDto> {
+    const row = await this.row(actor.studioId, id);
+    if (row.status !== 'done') throw new AppError(409, 'not_ready', `“${row.title}” is ${EXPORT_STATUS_LABELS[row.status].toLowerCase()}: a share link can be made once it is ready.`);
+    const { token, hash } = newToken();
+    const link = await ExportLink.create({ exportId: row.id, tokenHash: hash, createdById: actor.userId, expiresAt: body.expiresInDays ? new Date(Date.now() + body.expiresInDays * 86_400_000) : null });
+    await record(actor.studioId, actor.userId, 'link.created', `created a share link to the export “${row.title}”`);
+    return { ...linkDto(link), url: `${appUrl}/shared-exports/${token}` };
+  }
+
+  async revokeLink(actor: ExportActor, id: string, linkId: string): Promise<void> {
+    const row = await this.row(actor.studioId, id);
+    const link = await ExportLink.findOne({ where: { id: linkId, exportId: row.id } });
+    if (!link) throw notFound('The link');
+    await link.update({ revokedAt: new Date() });
+    await record(actor.studioId, actor.userId, 'link.revoked', `revoked a share link to the export “${row.title}”`);
+  }
+
+  /** The export a share token opens; 404 alike for unknown, revoked and expired tokens and for exports gone or not ready. */
+  private async sharedRow(token: string): Promise<Export> {
+    const link = /^[A-Za-z0-9_-]{20,100}$/.test(token) ? await ExportLink.findOne({ where: { tokenHash: hashToken(token) } }) : null;
+    const row = link && !link.revokedAt && !(link.expiresAt && link.expiresAt.getTime() < Date.now()) ? await Export.findByPk(link.exportId) : null;
+    if (!row || row.status !== 'done') throw notFound('The shared export');
+    return row;
+  }
+
+  async shared(token: string): Promise<SharedExportDto> {
+    const row = await this.sharedRow(token);
+    const dto = this.dto(row, new Map());
+    const base = `/api/shared-exports/${token}`;
+    return {
+      title: row.title,
+      kind: row.kind,
+      layout: dto.layout,
+      studioName: row.spec.studioName,
+      createdAt: dto.createdAt,
+      artworks: dto.artworks.map((a) => a.name),
+      looks: dto.looks.map(({ name, revision, panelTypeName }) => ({ name, revision, panelTypeName })),
+      width: row.width,
+      height: row.height,
+      figures: row.figures,
+      animation: dto.animation,
+      previewUrl: row.kind === 'sheet' ? `${base}/preview` : null,
+      files: dto.files.map((f) => ({ ...f, url: `${base}/file?format=${f.format}` })),
+    };
+  }
+
+  /** A shared sheet's PNG, to show on the link's page. */
+  async sharedPreview(token: string): Promise<Buffer> {
+    const row = await this.sharedRow(token);
+    if (row.kind !== 'sheet') throw notFound('The preview');
+    return this.files.read(FOLDER, row.id, EXPORT_FILES.png.name);
+  }
+
+  /** Where a shared export's file downloads from (a signed, expiring link, as for members). */
+  async sharedDownloadUrl(token: string, format: ExportFormat, sign: (d: SignedDownload) => string): Promise<string> {
+    const row = await this.sharedRow(token);
+    return this.downloadUrl(row.studioId, row.id, format, sign);
   }
 
   /** Stops a waiting or running export; what it wrote is removed. */

@@ -6,7 +6,7 @@ import { QUEUES } from '../../jobs/job-queue';
 import { createHarness, TestClient, type Harness } from '../../testing/harness';
 import { pngOf } from '../../testing/images';
 import { Membership } from '../studios/membership.model';
-import { Export } from './export.model';
+import { Export, ExportLink } from './export.model';
 import { cellReport } from './sheet-cells';
 import { builtInPresetById } from '../../../shared/model/panel-types';
 import type { ExportJob } from './exports.service';
@@ -166,6 +166,45 @@ test('with the analysis asked for, each render carries its legibility and light 
   expect(cell.report.legibility.edges).toBeGreaterThan(0);
   expect(cell.report.legibility.score).toBeGreaterThan(0);
   expect(cell.report.legibility.score).toBeLessThanOrEqual(1);
+});
+
+test('a share link opens a finished export read-only without an account, until revoked or expired', async () => {
+  const asked = await editor.post(url(), { layout: 'grid', artworkIds: [artworkIds[0]], looks: ['vfd-bluegreen-256x64.standard'], scale: 1, title: 'For the client' });
+  const waiting = await editor.post(url(`/${asked.body.export.id}/links`), {});
+  expect([409, 201]).toContain(waiting.status);
+  const done = await finished(editor, asked.body.export.id);
+  expect((await viewer.post(url(`/${done.id}/links`), {})).status).toBe(403);
+  const made = await editor.post(url(`/${done.id}/links`), { expiresInDays: 7 });
+  expect(made.status).toBe(201);
+  const token = made.body.link.url.split('/shared-exports/')[1];
+  expect(made.body.link.url).toBe(`http://app.test/shared-exports/${token}`);
+  expect(new Date(made.body.link.expiresAt).getTime() - Date.now()).toBeGreaterThan(6.9 * 86_400_000);
+
+  const stranger = new TestClient(h.app);
+  const open = await stranger.get(`/api/shared-exports/${token}`);
+  expect(open.status).toBe(200);
+  expect(open.headers['referrer-policy']).toBe('no-referrer');
+  expect(open.body.export).toMatchObject({ title: 'For the client', kind: 'sheet', studioName: 'Sheet Studio', artworks: ['Ramp'], width: done.width, height: done.height });
+  // Nothing that identifies people or ids inside the studio.
+  expect(JSON.stringify(open.body)).not.toMatch(new RegExp(`${studioId}|${done.id}|createdBy`));
+  const preview = await raw((await stranger.getBytes(open.body.export.previewUrl)).body);
+  expect([preview.width, preview.height]).toEqual([done.width, done.height]);
+  const pdf = await stranger.getBytes(open.body.export.files.find((f: { format: string }) => f.format === 'pdf').url);
+  expect(pdf.status).toBe(200);
+  expect(pdf.body.subarray(0, 5).toString()).toBe('%PDF-');
+
+  const links = await editor.get(url(`/${done.id}/links`));
+  expect(links.body.links).toHaveLength(1);
+  expect(links.body.links[0].url).toBeUndefined();
+  expect((await editor.delete(url(`/${done.id}/links/${made.body.link.id}`))).status).toBe(204);
+  for (const path of ['', '/preview', '/file?format=png']) expect((await stranger.get(`/api/shared-exports/${token}${path}`)).status).toBe(404);
+
+  const later = await editor.post(url(`/${done.id}/links`), { expiresInDays: 1 });
+  const laterToken = later.body.link.url.split('/shared-exports/')[1];
+  expect((await stranger.get(`/api/shared-exports/${laterToken}`)).status).toBe(200);
+  await ExportLink.update({ expiresAt: new Date(Date.now() - 1000) }, { where: { id: later.body.link.id } });
+  expect((await stranger.get(`/api/shared-exports/${laterToken}`)).status).toBe(404);
+  expect((await stranger.get('/api/shared-exports/not-a-real-token-at-all-000')).status).toBe(404);
 });
 
 test('a file format there is none of is refused with the list', async () => {
