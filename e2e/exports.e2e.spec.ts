@@ -14,7 +14,7 @@ async function chooseMany(page: Page, select: RegExp, options: (string | RegExp)
 
 const xsrf = async (page: Page) => (await page.context().cookies()).find((c) => c.name === 'XSRF-TOKEN')!.value;
 
-test('a 2 × 2 comparison sheet: asked for on the Exports page, followed to Ready, downloaded, its cells equal to single reference renders', async ({ page, guard }, testInfo) => {
+test('a 2 × 2 comparison sheet: asked for on the Exports page, followed to Ready, downloaded, shared by a link that opens without an account, its cells equal to single reference renders', async ({ page, guard }, testInfo) => {
   void guard;
   await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
   await expect(page).toHaveURL(/\/bench/);
@@ -48,6 +48,23 @@ test('a 2 × 2 comparison sheet: asked for on the Exports page, followed to Read
   const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: new RegExp(`^Download ${title}: Sheet \\(PNG\\)`) }).click()]);
   expect(download.suggestedFilename()).toBe(`${title}.png`);
   const sheet = PNG.sync.read(Buffer.concat(await (await download.createReadStream()).toArray()));
+
+  // A share link for the client: opened in a browser with no session, it shows the sheet and downloads it.
+  await item.getByRole('button', { name: `Share links of ${title}` }).click();
+  await item.getByRole('button', { name: 'New share link' }).click();
+  const shareUrl = await item.getByRole('textbox', { name: /The new share link/ }).inputValue();
+  expect(shareUrl).toMatch(/\/shared-exports\/[\w-]{40,}$/);
+  const client = await page.context().browser()!.newContext();
+  const clientPage = await client.newPage();
+  guard.watch(clientPage);
+  await clientPage.goto(shareUrl);
+  await expect(clientPage.getByRole('heading', { name: title })).toBeVisible();
+  const preview = clientPage.getByRole('img', { name: `Comparison sheet: ${title}` });
+  await expect(preview).toBeVisible();
+  expect(await preview.evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth)).toBe(sheet.width);
+  const [shared] = await Promise.all([clientPage.waitForEvent('download'), clientPage.getByRole('link', { name: /^Download Sheet \(PNG\)/ }).click()]);
+  expect(PNG.sync.read(Buffer.concat(await (await shared.createReadStream()).toArray())).width).toBe(sheet.width);
+  await client.close();
 
   // The server says where each cell went; each cut out equals the studio's reference render of it.
   const list = await (await page.request.get(`/api/studios/${studioId}/exports`)).json();

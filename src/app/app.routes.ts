@@ -9,6 +9,7 @@ export const routes: Routes = [
   { path: 'forgot-password', title: 'Reset password · Emberline', loadComponent: () => import('./features/account/forgot-password').then((m) => m.ForgotPassword) },
   { path: 'reset-password', title: 'Choose a new password · Emberline', loadComponent: () => import('./features/account/reset-password').then((m) => m.ResetPassword) },
   { path: 'share/:token', title: 'Shared look · Emberline', loadComponent: () => import('./features/share/shared-view').then((m) => m.SharedView) },
+  { path: 'shared-exports/:token', title: 'Shared export · Emberline', loadComponent: () => import('./features/share/shared-export').then((m) => m.SharedExport) },
   { path: 'invites/:token', title: 'Studio invite · Emberline', loadComponent: () => import('./features/studio/invite-accept').then((m) => m.InviteAccept) },
   { path: 'account', canActivate: [signedInGuard], title: 'Your account · Emberline', loadComponent: () => import('./features/account/account-settings').then((m) => m.AccountSettings) },
   { path: 'studios', canActivate: [signedInGuard], title: 'Your studios · Emberline', loadComponent: () => import('./features/studio/studio-list').then((m) => m.StudioList) },

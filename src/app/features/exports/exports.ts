@@ -27,6 +27,7 @@ import { ArtworkApi } from '../artworks/artwork-api';
 import { PresetApi } from '../presets/preset-api';
 import { StudioContext } from '../studio/studio-context';
 import { ExportApi } from './export-api';
+import { ExportLinks } from './export-links';
 
 /** A look to choose: a studio preset at its current revision, or a built-in preset. */
 interface LookOption {
@@ -46,7 +47,7 @@ const STATUS_ICONS: Readonly<Record<ExportStatus, string>> = { queued: 'schedule
  */
 @Component({
   selector: 'em-exports',
-  imports: [FormsModule, RouterLink, DatePipe, DecimalPipe, MatButtonModule, MatButtonToggleModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, MatSelectModule, MatTooltipModule],
+  imports: [FormsModule, RouterLink, DatePipe, DecimalPipe, MatButtonModule, MatButtonToggleModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, MatSelectModule, MatTooltipModule, ExportLinks],
   templateUrl: './exports.html',
   styleUrl: './exports.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -83,6 +84,8 @@ export class Exports {
   protected readonly animationLook = signal<string | undefined>(undefined);
   protected readonly distanceMm = signal(600);
   protected readonly submitting = signal(false);
+  /** The export whose share links are open. */
+  protected readonly sharing = signal<string | null>(null);
   protected readonly submitError = signal('');
 
   protected readonly artworks = resource({ params: () => this.context.studioId(), loader: ({ params }) => this.artworkApi.list(params, '', 'name') });
@@ -181,6 +184,10 @@ export class Exports {
         this.listError.set('');
         this.exports.set(list);
       });
+  }
+
+  protected toggleLinks(id: string): void {
+    this.sharing.update((open) => (open === id ? null : id));
   }
 
   protected canChange(e: ExportDto): boolean {
