@@ -7,21 +7,11 @@ import type { SheetSpec } from '../server/features/exports/export.model';
 import { makeSheet } from '../server/features/exports/sheet-cells';
 import { RenderEngine } from '../server/render/render-engine';
 import { pngOf } from '../server/testing/images';
+import { medianMs } from './timing';
 
 const RUNS = 5;
 const WARM_UPS = 2;
-const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
-
-async function time(fn: () => Promise<unknown>, runs = RUNS): Promise<number> {
-  for (let i = 0; i < WARM_UPS; i++) await fn();
-  const t: number[] = [];
-  for (let i = 0; i < runs; i++) {
-    const s = performance.now();
-    await fn();
-    t.push(performance.now() - s);
-  }
-  return median(t);
-}
+const time = (fn: () => Promise<unknown>) => medianMs(fn, RUNS, WARM_UPS);
 
 async function main() {
   // Three 640 × 480 cards drawn here: a ramp, a checker, fine lines.

@@ -6,11 +6,11 @@
 import { chromium } from '@playwright/test';
 import { spawn } from 'node:child_process';
 import { pngOf } from '../server/testing/images';
+import { median } from './timing';
 
 const PORT = 4310;
 const BASE = `http://127.0.0.1:${PORT}`;
 const REDRAWS = 40;
-const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
 
 async function waitForHealth(): Promise<void> {
   const deadline = Date.now() + 120_000;

@@ -11,6 +11,7 @@ import { panelEmission, panelGlow } from '../shared/pipeline/render';
 import { compose } from '../shared/pipeline/output/compose';
 import { outputUniforms } from '../shared/pipeline/output/uniforms';
 import { pngOf } from '../server/testing/images';
+import { medianMs } from './timing';
 
 const RUNS = 7;
 /**
@@ -18,18 +19,7 @@ const RUNS = 7;
  * speed once the JIT has compiled the hot loops and the reused buffers exist: about five renders.
  */
 const WARM_UPS = 5;
-const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
-
-async function time(fn: () => Promise<unknown>, runs = RUNS): Promise<number> {
-  for (let i = 0; i < WARM_UPS; i++) await fn();
-  const t: number[] = [];
-  for (let i = 0; i < runs; i++) {
-    const s = performance.now();
-    await fn();
-    t.push(performance.now() - s);
-  }
-  return median(t);
-}
+const time = (fn: () => Promise<unknown>) => medianMs(fn, RUNS, WARM_UPS);
 
 async function main() {
   // A 640 × 480 test card: gradients, checkers and fine lines, drawn here.

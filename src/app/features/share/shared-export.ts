@@ -7,17 +7,15 @@ import { SHEET_LAYOUT_LABELS } from '../../../../shared/export/sheet';
 import { apiErrorMessage } from '../../core/api-error';
 import { formatBytes } from '../../core/format-bytes';
 import { ExportApi } from '../exports/export-api';
+import { ShareHeader } from './share-header';
 
 /** What an export's share link opens: the sheet to look at, or an animation's facts, and the files. Read-only, no account. */
 @Component({
   selector: 'em-shared-export',
-  imports: [DatePipe, DecimalPipe, MatButtonModule, MatIconModule, MatProgressBarModule],
+  imports: [DatePipe, DecimalPipe, MatButtonModule, MatIconModule, MatProgressBarModule, ShareHeader],
   template: `
     <main class="wrap">
-      <header class="head">
-        <span class="brand"><img src="assets/emberline-mark.svg" alt="" width="28" height="28" /> Emberline</span>
-        <span class="ro"><mat-icon aria-hidden="true">visibility</mat-icon> Shared export · read-only</span>
-      </header>
+      <header><em-share-header what="Shared export" /></header>
       @if (shared.isLoading()) {
         <mat-progress-bar mode="indeterminate" aria-label="Loading the shared export" />
       } @else if (shared.error()) {
@@ -59,9 +57,6 @@ import { ExportApi } from '../exports/export-api';
   `,
   styles: `
     .wrap { max-width: 1200px; margin: 0 auto; padding: 20px 16px 48px; }
-    .head { display: flex; justify-content: space-between; align-items: center; gap: 8px; flex-wrap: wrap; margin-bottom: 24px; }
-    .brand { display: flex; align-items: center; gap: 8px; color: var(--mat-sys-primary); font: var(--mat-sys-title-large); text-shadow: var(--em-glow); }
-    .ro { display: flex; align-items: center; gap: 6px; color: var(--mat-sys-on-surface-variant); }
     h1 { font: var(--mat-sys-headline-medium); overflow-wrap: anywhere; }
     .sub { color: var(--mat-sys-on-surface-variant); overflow-wrap: anywhere; }
     .stage { margin: 16px 0; padding: 8px; background: #090807; border-radius: var(--mat-sys-corner-medium); border: 1px solid var(--mat-sys-outline-variant); }

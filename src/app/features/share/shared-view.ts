@@ -1,6 +1,5 @@
 import { HttpClient } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, DestroyRef, effect, ElementRef, inject, input, resource, signal, viewChild } from '@angular/core';
-import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { firstValueFrom } from 'rxjs';
 import { panelTypeById } from '../../../../shared/model/panel-types';
@@ -10,11 +9,12 @@ import { apiErrorMessage } from '../../core/api-error';
 import { PanelRenderer } from '../../render/panel-renderer';
 import { BenchEngine } from '../bench/bench-engine';
 import { PresetApi } from '../presets/preset-api';
+import { ShareHeader } from './share-header';
 
 /** What a share link opens: the preset on its artwork, read-only, no account needed. */
 @Component({
   selector: 'em-shared-view',
-  imports: [MatIconModule, MatProgressBarModule],
+  imports: [MatProgressBarModule, ShareHeader],
   templateUrl: './shared-view.html',
   styleUrl: './shared-view.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
