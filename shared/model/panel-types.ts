@@ -121,6 +121,9 @@ export const BUILT_IN_PRESETS: readonly BuiltInPreset[] = [
   preset('crt-green-p1', 'crt-green-p1.interlaced', 'Interlaced, odd field', 'The moment the odd field is drawn over the fading even field.', { cell: { field: 'odd' }, drive: { refreshHz: 59.94 } }),
 ];
 
+/** The panel type pages open with: the amber EL 640 × 480 of the studio's handheld. */
+export const DEFAULT_PANEL_TYPE_ID = PANEL_TYPES[0].id;
+
 export function panelTypeById(id: string): PanelType | undefined {
   return PANEL_TYPES.find((t) => t.id === id);
 }

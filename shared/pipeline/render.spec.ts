@@ -3,6 +3,7 @@ import { BUILT_IN_PRESETS, PANEL_TYPES } from '../model/panel-types';
 import { mergeParams, type PanelParams } from '../model/parameters';
 import { outputUniforms } from './output/uniforms';
 import { panelEmission, panelEmissions, panelGlow, renderCpu } from './render';
+import { unpackFrames } from './frames';
 
 const small = (p: PanelParams, patch: Partial<PanelParams['cell']> = {}) => mergeParams(p, { cell: { cols: 24, rows: 16, ...patch } });
 const imageArb = fc.record({ width: fc.integer({ min: 1, max: 30 }), height: fc.integer({ min: 1, max: 20 }) }).chain(({ width, height }) =>
@@ -129,4 +130,13 @@ test('every built-in preset shows its full-on colour under display white (larges
     const largest = Math.max(...u.colour) * (v.peakCdM2 + v.offCdM2 + v.ambientCdM2) * 2 ** v.exposureEv / v.whiteCdM2;
     expect({ preset: preset.id, fits: largest <= 1 }).toEqual({ preset: preset.id, fits: true });
   }
+});
+
+describe('unpackFrames [calc: frames × width × height × 4 bytes]', () => {
+  it('cuts raw RGBA into frames with their delays, and refuses bytes that do not add up', () => {
+    const buffer = new Uint8Array(2 * 3 * 4 * 2).map((_, i) => i).buffer;
+    const frames = unpackFrames(buffer, { width: 2, height: 3, delaysMs: [100, 250] });
+    expect(frames.map((f) => [f.delayMs, f.image.width, f.image.height, f.image.data[0]])).toEqual([[100, 2, 3, 0], [250, 2, 3, 24]]);
+    expect(() => unpackFrames(new ArrayBuffer(47), { width: 2, height: 3, delaysMs: [100, 250] })).toThrow('arrived incomplete (47 of 48 bytes)');
+  });
 });

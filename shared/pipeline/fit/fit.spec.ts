@@ -26,7 +26,7 @@ describe('fit', () => {
     expect(placement(20, 10, cell(8, 8), 'integer')).toMatchObject({ scaleX: 1 / 3 });
   });
 
-  test('area: a 2 × 2 checker onto one cell averages in linear light [std] IEC 61966-2-1 decode', () => {
+  test('area: a checker of 2 × 2 pixels a cell averages to 0.5 in linear light; a 2 × 2 image fills the panel at × 4 [std] IEC 61966-2-1 decode', () => {
     const out = fitToGrid(gray(2, 2, (x, y) => ((x + y) % 2 ? 255 : 0)), cell(8, 8), 'area');
     // Every cell is covered by a quarter of a pixel pattern… scale 4: each cell is one pixel's value.
     expect(placement(2, 2, cell(8, 8), 'area').scaleX).toBe(4);

@@ -38,7 +38,7 @@ describe('Floyd–Steinberg error diffusion (Proc. SID 17(2), 1976) [paper]', ()
     expect(FLOYD_STEINBERG).toEqual({ right: 7 / 16, belowLeft: 3 / 16, below: 5 / 16, belowRight: 1 / 16 });
   });
 
-  test('the first cell of 0.4 passes its error 7/16 right, 3/16, 5/16, 1/16 below [paper] Floyd & Steinberg 1976', () => {
+  test('the first cell of 0.4 passes 7/16 of its error to the right: 0.4 + 0.175 lights the neighbour [paper] Floyd & Steinberg 1976', () => {
     // 0.4 → 0 (error 0.4); the right neighbour becomes 0.4 + 0.175 = 0.575 → 1.
     const demand = new Float32Array([0.4, 0.4, 0, 0, 0, 0]);
     const out = quantise(demand, 3, 2, drive({ dither: 'floyd-steinberg' }));

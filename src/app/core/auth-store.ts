@@ -71,6 +71,20 @@ export class AuthStore {
     return (await firstValueFrom(this.http.post<{ message: string }>('/api/auth/password', { currentPassword, newPassword }))).message;
   }
 
+  /** Mails a reset link (the answer reads the same whether or not the address has an account). */
+  async requestPasswordReset(email: string): Promise<string> {
+    return (await firstValueFrom(this.http.post<{ message: string }>('/api/auth/password-reset', { email }))).message;
+  }
+
+  /** Whether a reset link still works. */
+  async passwordResetLink(token: string): Promise<{ valid: boolean }> {
+    return firstValueFrom(this.http.get<{ valid: boolean }>(`/api/auth/password-reset/${encodeURIComponent(token)}`));
+  }
+
+  async confirmPasswordReset(token: string, password: string): Promise<string> {
+    return (await firstValueFrom(this.http.post<{ message: string }>('/api/auth/password-reset/confirm', { token, password }))).message;
+  }
+
   async refreshStudios(): Promise<StudioDto[]> {
     const { studios } = await firstValueFrom(this.http.get<{ studios: StudioDto[] }>('/api/studios'));
     this.studios.set(studios);

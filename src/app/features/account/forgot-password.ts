@@ -1,13 +1,12 @@
-import { HttpClient } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
 import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
-import { firstValueFrom } from 'rxjs';
 import { FormAction } from '../../core/form-action';
 import { AccountFrame } from './account-frame';
+import { AuthStore } from '../../core/auth-store';
 
 /** Ask for a password reset link by e-mail. */
 @Component({
@@ -38,7 +37,7 @@ import { AccountFrame } from './account-frame';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ForgotPassword {
-  private readonly http = inject(HttpClient);
+  private readonly auth = inject(AuthStore);
 
   protected readonly form = inject(FormBuilder).nonNullable.group({ email: ['', [Validators.required, Validators.email]] });
   protected readonly submit = new FormAction();
@@ -46,8 +45,7 @@ export class ForgotPassword {
 
   protected sendLink(): Promise<void> {
     return this.submit.run(this.form, async () => {
-      const { message } = await firstValueFrom(this.http.post<{ message: string }>('/api/auth/password-reset', this.form.getRawValue()));
-      this.sent.set(message);
+      this.sent.set(await this.auth.requestPasswordReset(this.form.getRawValue().email));
     });
   }
 }

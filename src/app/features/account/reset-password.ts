@@ -1,4 +1,3 @@
-import { HttpClient } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, inject, input, resource, signal } from '@angular/core';
 import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -7,10 +6,10 @@ import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { apiErrorMessage } from '../../core/api-error';
 import { RouterLink } from '@angular/router';
-import { firstValueFrom } from 'rxjs';
 import { FormAction } from '../../core/form-action';
 import { AccountFrame } from './account-frame';
 import { passwordLength } from './password-length';
+import { AuthStore } from '../../core/auth-store';
 
 /** Choose a new password with the token from the e-mailed link. */
 @Component({
@@ -55,7 +54,7 @@ import { passwordLength } from './password-length';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ResetPassword {
-  private readonly http = inject(HttpClient);
+  private readonly auth = inject(AuthStore);
 
   readonly token = input<string>('');
 
@@ -65,7 +64,7 @@ export class ResetPassword {
   /** Whether the link still works, asked before a password is typed (a used link says so at once). */
   protected readonly link = resource({
     params: () => this.token() || undefined,
-    loader: ({ params }) => firstValueFrom(this.http.get<{ valid: boolean }>(`/api/auth/password-reset/${encodeURIComponent(params)}`)),
+    loader: ({ params }) => this.auth.passwordResetLink(params),
   });
 
   protected linkError(): string {
@@ -74,9 +73,7 @@ export class ResetPassword {
 
   protected setPassword(): Promise<void> {
     return this.submit.run(this.form, async () => {
-      const body = { token: this.token(), password: this.form.getRawValue().password };
-      const { message } = await firstValueFrom(this.http.post<{ message: string }>('/api/auth/password-reset/confirm', body));
-      this.done.set(message);
+      this.done.set(await this.auth.confirmPasswordReset(this.token(), this.form.getRawValue().password));
     });
   }
 }

@@ -3,6 +3,7 @@ import { inject, Injectable } from '@angular/core';
 import { filter, firstValueFrom, map, type Observable } from 'rxjs';
 import type { ArtworkDto } from '../../../../shared/api/dto';
 import type { SpriteSheet } from '../../../../shared/pipeline/sprite-sheet';
+import { unpackFrames } from '../../../../shared/pipeline/frames';
 import type { Frame } from '../../../../shared/pipeline/types';
 
 /** Upload progress (0–1) until the server answers with the stored artwork. */
@@ -52,9 +53,6 @@ export class ArtworkApi {
 
   /** The decoded frames, exactly as the server's reference renderer sees them. */
   async frames(artwork: ArtworkDto): Promise<Frame[]> {
-    const buffer = await firstValueFrom(this.http.get(artwork.framesUrl, { responseType: 'arraybuffer' }));
-    const size = artwork.width * artwork.height * 4;
-    if (buffer.byteLength !== size * artwork.frameCount) throw new Error(`The artwork's frames arrived incomplete (${buffer.byteLength} of ${size * artwork.frameCount} bytes).`);
-    return artwork.delaysMs.map((delayMs, k) => ({ image: { width: artwork.width, height: artwork.height, data: new Uint8Array(buffer, k * size, size) }, delayMs }));
+    return unpackFrames(await firstValueFrom(this.http.get(artwork.framesUrl, { responseType: 'arraybuffer' })), artwork);
   }
 }

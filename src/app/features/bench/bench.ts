@@ -17,7 +17,7 @@ import { pixelDiff } from '../../../../shared/analysis/pixel-diff';
 import { acuity } from '../../../../shared/analysis/acuity';
 import type { FlashSafety } from '../../../../shared/analysis/flash-safety';
 import { withPngText } from '../../../../shared/api/png-text';
-import { BUILT_IN_PRESETS, PANEL_TYPES, panelTypeById } from '../../../../shared/model/panel-types';
+import { BUILT_IN_PRESETS, DEFAULT_PANEL_TYPE_ID, PANEL_TYPES, panelTypeById } from '../../../../shared/model/panel-types';
 import type { PanelParams } from '../../../../shared/model/parameters';
 import { outputUniforms } from '../../../../shared/pipeline/output/uniforms';
 import type { Frame } from '../../../../shared/pipeline/types';
@@ -84,7 +84,7 @@ export class Bench {
   protected readonly artworkId = linkedSignal(() => this.artwork() ?? (this.artworks.hasValue() ? this.artworks.value()[0]?.id : undefined));
   protected readonly selected = computed(() => (this.artworks.hasValue() ? this.artworks.value().find((a) => a.id === this.artworkId()) : undefined));
   protected readonly frames = resource({ params: () => this.selected(), loader: ({ params }) => this.api.frames(params) });
-  protected readonly panelTypeId = signal('el-amber-640x480');
+  protected readonly panelTypeId = signal(DEFAULT_PANEL_TYPE_ID);
   protected readonly studioPresets = resource({ params: () => this.context.studioId(), loader: ({ params }) => this.presetApi.list(params, { pageSize: 100, sort: 'name' }).then((r) => r.presets) });
   protected readonly presets = computed(() => BUILT_IN_PRESETS.filter((p) => p.panelTypeId === this.panelTypeId()));
   protected readonly ownPresets = computed(() => (this.studioPresets.hasValue() ? this.studioPresets.value().filter((p) => p.panelTypeId === this.panelTypeId()) : []));

@@ -18,7 +18,7 @@ import { evaluateTiming } from '../../../../shared/drive/evaluate';
 import { PIXELS_PER_CLOCK, type PanelInterface } from '../../../../shared/drive/interface';
 import { VbeFieldRangeError, vbeCrtcInfoBlock, vgaRegisters, hex2 } from '../../../../shared/drive/registers';
 import type { Standard } from '../../../../shared/drive/resolve';
-import { PANEL_TYPES } from '../../../../shared/model/panel-types';
+import { DEFAULT_PANEL_TYPE_ID, PANEL_TYPES } from '../../../../shared/model/panel-types';
 import { apiErrorMessage } from '../../core/api-error';
 import { Confirm } from '../../shared/confirm-dialog';
 import { StudioContext } from '../studio/studio-context';
@@ -64,7 +64,7 @@ export class DriveTiming {
   protected readonly form = inject(FormBuilder).nonNullable.group({
     // Empty until the user names it: a prefilled name would end up on every download.
     name: ['', [Validators.required, Validators.maxLength(80)]],
-    panelTypeId: ['el-amber-640x480'],
+    panelTypeId: [DEFAULT_PANEL_TYPE_ID],
     kind: ['standard' as 'standard' | 'custom'],
     standard: ['dmt' as Standard],
     mode: ['640x480@60'],

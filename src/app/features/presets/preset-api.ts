@@ -5,6 +5,8 @@ import type { ActivityDto, PresetDto, PresetRevisionDto, SharedViewDto, ShareLin
 import type { PresetDocument } from '../../../../shared/api/preset.schema';
 import type { RenderDto } from '../../../../shared/api/render.schema';
 import type { PanelParams } from '../../../../shared/model/parameters';
+import { unpackFrames } from '../../../../shared/pipeline/frames';
+import type { Frame } from '../../../../shared/pipeline/types';
 
 /** HTTP calls for studio presets, their revisions, links, and the activity feed. */
 @Injectable({ providedIn: 'root' })
@@ -57,6 +59,10 @@ export class PresetApi {
   }
   async shared(token: string): Promise<SharedViewDto> {
     return (await firstValueFrom(this.http.get<{ shared: SharedViewDto }>(`/api/share/${token}`))).shared;
+  }
+  /** The frames of a shared look's artwork, as the reference renderer sees them. */
+  async sharedFrames(view: SharedViewDto): Promise<Frame[]> {
+    return unpackFrames(await firstValueFrom(this.http.get(view.framesUrl!, { responseType: 'arraybuffer' })), view.artwork!);
   }
   async activity(studioId: string): Promise<ActivityDto[]> {
     return (await firstValueFrom(this.http.get<{ activity: ActivityDto[] }>(`/api/studios/${studioId}/activity`))).activity;

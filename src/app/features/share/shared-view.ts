@@ -1,7 +1,5 @@
-import { HttpClient } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, DestroyRef, effect, ElementRef, inject, input, resource, signal, viewChild } from '@angular/core';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
-import { firstValueFrom } from 'rxjs';
 import { panelTypeById } from '../../../../shared/model/panel-types';
 import { outputUniforms } from '../../../../shared/pipeline/output/uniforms';
 import type { Frame } from '../../../../shared/pipeline/types';
@@ -21,7 +19,6 @@ import { ShareHeader } from './share-header';
 })
 export class SharedView {
   private readonly api = inject(PresetApi);
-  private readonly http = inject(HttpClient);
   private readonly engine = new BenchEngine();
 
   readonly token = input.required<string>();
@@ -31,12 +28,7 @@ export class SharedView {
   protected readonly shared = resource({ params: () => this.token(), loader: ({ params }) => this.api.shared(params) });
   protected readonly frames = resource({
     params: () => (this.shared.hasValue() && this.shared.value().framesUrl ? this.shared.value() : undefined),
-    loader: async ({ params }): Promise<Frame[]> => {
-      const buffer = await firstValueFrom(this.http.get(params.framesUrl!, { responseType: 'arraybuffer' }));
-      const a = params.artwork!;
-      const size = a.width * a.height * 4;
-      return a.delaysMs.map((delayMs, k) => ({ image: { width: a.width, height: a.height, data: new Uint8Array(buffer, k * size, size) }, delayMs }));
-    },
+    loader: ({ params }): Promise<Frame[]> => this.api.sharedFrames(params),
   });
   protected readonly drawn = signal(false);
   protected readonly usingCpu = signal(false);
