@@ -1,11 +1,13 @@
 #!/usr/bin/env node
 // `npm start`: database, mail catcher, a production build of the web app, then the server with
-// the demo data. Everything listens on 127.0.0.1 only. The server is restarted if it dies; if
-// the mail catcher dies, everything stops and says which.
+// the demo data (reading .env when there is one). Everything listens on 127.0.0.1 only. The
+// server is restarted if it dies; if the mail catcher dies, everything stops and says which.
 import { spawnSync } from 'node:child_process';
+import { existsSync } from 'node:fs';
 import { start as startDb } from './db.mjs';
 import { supervise, tsNode } from './supervise.mjs';
 
+if (existsSync('.env')) process.loadEnvFile('.env');
 const port = process.env.PORT ?? '4300';
 const smtpPort = process.env.SMTP_PORT ?? '1025';
 const mailUiPort = process.env.MAIL_UI_PORT ?? '1080';
