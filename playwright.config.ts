@@ -1,4 +1,5 @@
 import { defineConfig } from '@playwright/test';
+import { CHROMIUM } from './e2e/chromium';
 
 /** Ports of the e2e run (its own server, database and mail catcher). */
 export const E2E = {
@@ -22,10 +23,7 @@ export default defineConfig({
     trace: 'retain-on-failure',
     screenshot: 'only-on-failure',
     viewport: { width: 1280, height: 800 },
-    launchOptions: {
-      executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
-      args: ['--no-sandbox', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run', '--disable-quic'],
-    },
+    launchOptions: CHROMIUM,
   },
   // Playwright starts webServer before globalSetup, so this command starts the database too.
   webServer: {

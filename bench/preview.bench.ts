@@ -7,6 +7,7 @@ import { chromium } from '@playwright/test';
 import { spawn } from 'node:child_process';
 import { pngOf } from '../server/testing/images';
 import { median } from './timing';
+import { CHROMIUM } from '../e2e/chromium';
 
 const PORT = 4310;
 const BASE = `http://127.0.0.1:${PORT}`;
@@ -27,7 +28,7 @@ async function waitForHealth(): Promise<void> {
 
 async function main() {
   const server = spawn('node', ['scripts/e2e-server.mjs'], { stdio: ['ignore', 'ignore', 'inherit'], detached: true });
-  const browser = await chromium.launch({ executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium', args: ['--no-sandbox', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'] });
+  const browser = await chromium.launch(CHROMIUM);
   try {
     await waitForHealth();
     const page = await browser.newPage({ viewport: { width: 1600, height: 1200 } });

@@ -1,12 +1,10 @@
 import { choose, driftShare, studioIdOf, thirdPartyArtworks, uploadArtwork, waitForDraw } from './bench-helpers';
+import { CHROMIUM } from './chromium';
 import { expect, signIn, test } from './fixtures';
 
 // The same browser without WebGL: the bench must draw the same picture from the CPU pipeline.
 test.use({
-  launchOptions: {
-    executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
-    args: ['--no-sandbox', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run', '--disable-quic', '--disable-webgl', '--disable-webgl2'],
-  },
+  launchOptions: { ...CHROMIUM, args: [...CHROMIUM.args, '--disable-webgl', '--disable-webgl2'] },
 });
 
 test('without WebGL the CPU fallback draws the reference picture, with a notice', async ({ page, guard }, testInfo) => {
