@@ -57,6 +57,14 @@ function ensureDirs() {
     const gid = Number(execFileSync('id', ['-g', 'postgres']).toString().trim());
     chownSync(dataRoot, uid, gid);
     chownSync(socketDir, uid, gid);
+    // The server runs as postgres, which must be able to pass through every folder above the cluster.
+    if (spawnSync('runuser', ['-u', 'postgres', '--', 'test', '-x', dataRoot]).status !== 0) {
+      let closed = path.dirname(dataRoot);
+      for (let dir = closed; dir !== path.dirname(dir); dir = path.dirname(dir)) {
+        if (spawnSync('runuser', ['-u', 'postgres', '--', 'test', '-x', dir]).status !== 0) closed = dir;
+      }
+      throw new Error(`PostgreSQL runs as the postgres user, which cannot enter ${closed} (and so not the cluster in ${dataRoot}). Let it pass with \`chmod o+x ${closed}\`, or clone the project into a folder other users can enter.`);
+    }
     if (!existsSync(logFile)) writeFileSync(logFile, '');
     chownSync(logFile, uid, gid);
   }
