@@ -26,6 +26,20 @@ export const XYZ_TO_SRGB = [
   [0.0557, -0.204, 1.057],
 ] as const;
 
+/** Linear sRGB → XYZ (IEC 61966-2-1, rows X, Y, Z; D65 white). */
+export const SRGB_TO_XYZ = [
+  [0.4124, 0.3576, 0.1805],
+  [0.2126, 0.7152, 0.0722],
+  [0.0193, 0.1192, 0.9505],
+] as const;
+
+/** CIE 1931 chromaticity x, y of a linear sRGB colour (through SRGB_TO_XYZ). */
+export function linearSrgbToChromaticity([r, g, b]: readonly [number, number, number]): [number, number] {
+  const [X, Y, Z] = SRGB_TO_XYZ.map((row) => row[0] * r + row[1] * g + row[2] * b);
+  const sum = X + Y + Z;
+  return [X / sum, Y / sum];
+}
+
 /** Multiplies an XYZ triple by XYZ_TO_SRGB. */
 export function xyzToLinearSrgb([x, y, z]: readonly [number, number, number]): [number, number, number] {
   const m = XYZ_TO_SRGB;
