@@ -41,6 +41,8 @@ import { createBlobStore, type BlobStore } from './storage/blob-store';
 import { downloadRoutes, exportsRoutes, sharedExportRoutes } from './features/exports/exports.routes';
 import { exportsService, type ExportsService } from './features/exports/exports.service';
 import type { JobQueue } from './jobs/job-queue';
+import { matchesRoutes } from './features/matches/matches.routes';
+import { MatchesService } from './features/matches/matches.service';
 
 /** What the app needs from outside: configuration and live connections. */
 export interface AppDeps {
@@ -56,7 +58,7 @@ export interface AppDeps {
 }
 
 /** The Express app with every route; `listen` is the caller's business (server/main.ts, tests). */
-export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; artworks: ArtworksService; renders: RendersService; renderEngine: RenderEngine; exports: ExportsService; blobs: BlobStore } {
+export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; artworks: ArtworksService; renders: RendersService; renderEngine: RenderEngine; exports: ExportsService; matches: MatchesService; blobs: BlobStore } {
   const { config, sequelize, mailer } = deps;
   const app = express();
   app.disable('x-powered-by');
@@ -84,12 +86,14 @@ export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; art
   const artworks = new ArtworksService(new FileStore(blobs), (bytes, sheet) => renderEngine.decodedFrames(bytes, sheet));
   const presets = new PresetsService();
   const exports = exportsService(config, blobs, artworks, renderEngine, deps.jobs);
+  const matches = new MatchesService(blobs, renderEngine, deps.jobs, presets);
   const studios = new StudiosService(outbox, config.appUrl, (_studioId, artworkIds) => artworks.removeFiles(artworkIds), async (studioId) => {
     await renders.removeFor({ studioId });
     await exports.removeFor(studioId);
+    await matches.removeFor(studioId);
   });
   const timings = new TimingsService();
-  const routers: ApiRouter[] = [health, authRoutes(auth, passport), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renders), timingsRoutes(timings), romsRoutes(new RomsService(timings)), artworksRoutes(artworks, renders, presets), presetsRoutes(presets, config.appUrl, artworks, renders), shareRoutes(presets, artworks), exportsRoutes(exports, config.sessionSecret, config.appUrl), sharedExportRoutes(exports, config.sessionSecret), downloadRoutes(blobs, config.sessionSecret), activityRoutes()];
+  const routers: ApiRouter[] = [health, authRoutes(auth, passport), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renders), timingsRoutes(timings), romsRoutes(new RomsService(timings)), artworksRoutes(artworks, renders, presets), presetsRoutes(presets, config.appUrl, artworks, renders), shareRoutes(presets, artworks), exportsRoutes(exports, config.sessionSecret, config.appUrl), sharedExportRoutes(exports, config.sessionSecret), downloadRoutes(blobs, config.sessionSecret), matchesRoutes(matches), activityRoutes()];
   const docs = new ApiRouter('/docs', 'Service');
   const specs = routers.flatMap((r) => r.specs);
   docs.route('get', '/', { policy: publicAccess, summary: 'This OpenAPI document' }, (_req, res) => {
@@ -101,7 +105,7 @@ export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; art
 
   serveSpa(app, config.staticDir);
   app.use(errorHandler);
-  return Object.assign(app, { apiSpecs: routers.flatMap((r) => r.specs), artworks, renders, renderEngine, exports, blobs });
+  return Object.assign(app, { apiSpecs: routers.flatMap((r) => r.specs), artworks, renders, renderEngine, exports, matches, blobs });
 }
 
 /** Serves the built Angular app with a per-request CSP nonce in index.html. */

@@ -10,6 +10,7 @@ import { Mailer } from './mail/mailer';
 import { DiskBlobStore } from './storage/blob-store';
 import type { ExportJob } from './features/exports/exports.service';
 import { JobQueue, QUEUES } from './jobs/job-queue';
+import type { MatchJob } from './features/matches/matches.service';
 
 /** Running server handles, for a clean shutdown. */
 export interface Running {
@@ -50,7 +51,10 @@ export async function start(config: Config = loadConfig()): Promise<Running> {
   const staleExports = await app.exports.reconcile();
   if (staleExports) console.log(`[storage] removed ${staleExports} export folder(s) left without a database row`);
   // Exports run here too unless JOB_WORKER_IN_PROCESS=0 (then only `npm run worker` processes run them).
-  if (config.jobs.inProcessWorker) await jobs.work<ExportJob>(QUEUES.exports, (job) => app.exports.run(job));
+  if (config.jobs.inProcessWorker) {
+    await jobs.work<ExportJob>(QUEUES.exports, (job) => app.exports.run(job));
+    await jobs.work<MatchJob>(QUEUES.matches, (job) => app.matches.run(job));
+  }
   const host = process.env.HOST ?? '127.0.0.1';
   const server = await new Promise<Server>((resolve) => {
     const s = app.listen(config.port, host, () => resolve(s));

@@ -5,12 +5,14 @@ import { initModels } from './db/models';
 import { ArtworksService } from './features/artworks/artworks.service';
 import { exportsService, type ExportJob } from './features/exports/exports.service';
 import { JobQueue, QUEUES, WORKER_NAME } from './jobs/job-queue';
+import { MatchesService, type MatchJob } from './features/matches/matches.service';
+import { PresetsService } from './features/presets/presets.service';
 import { RenderEngine } from './render/render-engine';
 import { createBlobStore } from './storage/blob-store';
 import { FileStore } from './storage/file-store';
 
 /**
- * `npm run worker`: a process that only runs background jobs (exports) on its own render pool. It
+ * `npm run worker`: a process that only runs background jobs (exports and panel matches) on its own render pool. It
  * needs what the app needs and nothing else — the database and the storage — so more of them can
  * run beside `npm start`, or on other machines that share both.
  */
@@ -26,7 +28,9 @@ async function main(): Promise<void> {
   const jobs = JobQueue.create(config.db, config.jobs);
   const exports = exportsService(config, blobs, artworks, engine, jobs);
   await jobs.work<ExportJob>(QUEUES.exports, (job) => exports.run(job));
-  console.log(`[worker] ${WORKER_NAME} runs exports on ${engine.threads} render threads`);
+  const matches = new MatchesService(blobs, engine, jobs, new PresetsService());
+  await jobs.work<MatchJob>(QUEUES.matches, (job) => matches.run(job));
+  console.log(`[worker] ${WORKER_NAME} runs exports and panel matches on ${engine.threads} render threads`);
   const stop = async () => {
     await jobs.stop();
     await engine.close();

@@ -7,6 +7,7 @@ import { EmailVerification } from '../features/auth/email-verification.model';
 import { PasswordReset } from '../features/auth/password-reset.model';
 import { Invite } from '../features/studios/invite.model';
 import { Export, ExportLink } from '../features/exports/export.model';
+import { PanelMatch } from '../features/matches/match.model';
 import { FileStore } from '../storage/file-store';
 import { Membership } from '../features/studios/membership.model';
 import { createHarness, TestClient, uniqueEmail, type Harness } from '../testing/harness';
@@ -38,9 +39,11 @@ interface Cell {
   /** A share link to that export, and its token. */
   exportLinkId: string;
   exportToken: string;
+  /** A panel match the editor made (only for the rows that name one), in the row's state. */
+  matchId: string;
 }
 interface Row {
-  method: 'get' | 'post' | 'patch' | 'delete';
+  method: 'get' | 'post' | 'put' | 'patch' | 'delete';
   path: string;
   url: (c: Cell) => string;
   body?: (c: Cell) => Promise<object> | object;
@@ -49,6 +52,8 @@ interface Row {
   expect: [owner: number, editor: number, viewer: number, other: number, anonymous: number];
   /** For rows on one export: the state it is in (default: done, with its file). */
   exportStatus?: 'queued' | 'failed' | 'done';
+  /** For rows on one panel match: the state it is in (default: done, with its result). */
+  matchStatus?: 'marking' | 'done';
 }
 
 const S = (c: Cell) => `/api/studios/${c.studioId}`;
@@ -185,6 +190,23 @@ const ROWS: Row[] = [
   { method: 'post', path: '/api/studios/:studioId/exports/:exportId/cancel', url: (c) => `${S(c)}/exports/${c.exportId}/cancel`, exportStatus: 'queued', expect: [200, 200, 403, 404, 401] },
   { method: 'post', path: '/api/studios/:studioId/exports/:exportId/retry', url: (c) => `${S(c)}/exports/${c.exportId}/retry`, exportStatus: 'failed', expect: [200, 200, 403, 404, 401] },
   { method: 'delete', path: '/api/studios/:studioId/exports/:exportId', url: (c) => `${S(c)}/exports/${c.exportId}`, expect: [204, 204, 403, 404, 401] },
+  // Panel matches: viewers look, editors upload, place marks, fit and save; owners delete anyone's.
+  { method: 'get', path: '/api/studios/:studioId/matches/pattern', url: (c) => `${S(c)}/matches/pattern?look=vfd-bluegreen-256x64.standard`, expect: [200, 200, 200, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/matches', url: (c) => `${S(c)}/matches`, expect: [200, 200, 200, 404, 401] },
+  {
+    method: 'post',
+    path: '/api/studios/:studioId/matches',
+    url: (c) => `${S(c)}/matches`,
+    upload: () => ({ fields: { look: 'vfd-bluegreen-256x64.standard' }, file: { name: 'photo.png', bytes: pngOf(640, 480, () => [10, 10, 10, 255]) } }),
+    expect: [201, 201, 403, 404, 401],
+  },
+  { method: 'get', path: '/api/studios/:studioId/matches/:matchId', url: (c) => `${S(c)}/matches/${c.matchId}`, expect: [200, 200, 200, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/matches/:matchId/photo', url: (c) => `${S(c)}/matches/${c.matchId}/photo`, expect: [200, 200, 200, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/matches/:matchId/residual', url: (c) => `${S(c)}/matches/${c.matchId}/residual`, expect: [200, 200, 200, 404, 401] },
+  { method: 'put', path: '/api/studios/:studioId/matches/:matchId/marks', url: (c) => `${S(c)}/matches/${c.matchId}/marks`, body: () => ({ marks: [[50, 50], [590, 60], [580, 430], [60, 420]] }), matchStatus: 'marking', expect: [200, 200, 403, 404, 401] },
+  { method: 'post', path: '/api/studios/:studioId/matches/:matchId/fit', url: (c) => `${S(c)}/matches/${c.matchId}/fit`, matchStatus: 'marking', expect: [202, 202, 403, 404, 401] },
+  { method: 'post', path: '/api/studios/:studioId/matches/:matchId/save', url: (c) => `${S(c)}/matches/${c.matchId}/save`, body: () => ({ name: `Fitted ${Math.random()}` }), expect: [201, 201, 403, 404, 401] },
+  { method: 'delete', path: '/api/studios/:studioId/matches/:matchId', url: (c) => `${S(c)}/matches/${c.matchId}`, expect: [204, 204, 403, 404, 401] },
   { method: 'get', path: '/api/panel-types', url: () => '/api/panel-types', expect: [200, 200, 200, 200, 200] },
   {
     method: 'post',
@@ -221,6 +243,16 @@ async function worldExport(studioId: string, artworkId: string, status: 'queued'
   const look = BUILT_IN_PRESETS[0];
   const row = await Export.create({ studioId, createdById: users.editor.id, title: 'World sheet', kind: 'sheet', layout: 'grid', status, files: status === 'done' ? { png: 1 } : null, spec: { studioName: 'World', layout: 'grid', scale: 1, frame: 0, report: false, artworks: [{ id: artworkId, name: 'tile' }], looks: [{ id: look.id, name: look.name, revision: null, panelTypeId: look.panelTypeId, panelTypeName: 'Amber EL', parameters: look.parameters }] } });
   if (status === 'done') await new FileStore(h.app.blobs).write('exports', row.id, 'sheet.png', pngOf(4, 4, () => [1, 2, 3, 255]));
+  return row.id;
+}
+
+/** A panel match of the world's studio that the editor made, with its photo (and, when done, a result and its image). */
+async function worldMatch(studioId: string, status: 'marking' | 'done'): Promise<string> {
+  const look = BUILT_IN_PRESETS[0];
+  const marks: [number, number][] = [[50, 50], [590, 60], [580, 430], [60, 420]];
+  const row = await PanelMatch.create({ studioId, createdById: users.editor.id, look: { id: look.id, name: look.name, revision: null, panelTypeId: look.panelTypeId, panelTypeName: 'Amber EL', parameters: look.parameters }, photoName: 'photo.png', photoWidth: 640, photoHeight: 480, activeWidthMm: 192, activeHeightMm: 144, cameraGamma: null, marks, status, result: status === 'done' ? { parameters: look.parameters, fitted: [], levels: [], quality: { agreement: 1, rmsResidual: 0, pixelsPerCell: 1, clippedShare: 0, crushedShare: 0, marksMovedPx: [0, 0, 0, 0], periodCells: [2, 2], iterations: 1 }, cameraBlurMm: 0, notDetermined: [], marks } : null });
+  await h.app.blobs.put(`matches/${row.id}/photo`, pngOf(640, 480, () => [10, 10, 10, 255]));
+  if (status === 'done') await h.app.blobs.put(`matches/${row.id}/residual.png`, pngOf(4, 4, () => [1, 2, 3, 255]));
   return row.id;
 }
 
@@ -266,7 +298,8 @@ describe.each(ROWS)('$method $path', (row) => {
     const exportId = row.path.includes(':exportId') || row.path.includes('/downloads/') || row.path.includes('/shared-exports/') ? await worldExport(world.studio.id, world.artworkId, row.exportStatus ?? 'done') : '';
     const { token: exportToken, hash } = newToken();
     const exportLinkId = exportId ? (await ExportLink.create({ exportId, tokenHash: hash, createdById: users.editor.id, expiresAt: null })).id : '';
-    const cell: Cell = { studioId: world.studio.id, users, actor, inviteId: world.invite.id, inviteToken: world.inviteToken, timingId: world.timing.id, romId: world.romId, artworkId: world.artworkId, presetId: world.presetId, linkId: world.linkId, shareToken: world.shareToken, otherStudioId: world.studio.id, studioRenderKey, exportId, exportLinkId, exportToken };
+    const matchId = row.path.includes(':matchId') ? await worldMatch(world.studio.id, row.matchStatus ?? 'done') : '';
+    const cell: Cell = { matchId, studioId: world.studio.id, users, actor, inviteId: world.invite.id, inviteToken: world.inviteToken, timingId: world.timing.id, romId: world.romId, artworkId: world.artworkId, presetId: world.presetId, linkId: world.linkId, shareToken: world.shareToken, otherStudioId: world.studio.id, studioRenderKey, exportId, exportLinkId, exportToken };
     const client = new TestClient(h.app);
     if (actor !== 'anonymous') {
       const signIn = await client.post('/api/auth/sign-in', { email: users[actor].email, password: WORLD_PASSWORD });

@@ -10,6 +10,7 @@ import { initRender } from '../features/renders/render.model';
 import { initSavedTiming } from '../features/timings/timing.model';
 import { initVideoRom } from '../features/roms/rom.model';
 import { initExport } from '../features/exports/export.model';
+import { initPanelMatch } from '../features/matches/match.model';
 import { initInvite, Invite } from '../features/studios/invite.model';
 import { initMembership, Membership } from '../features/studios/membership.model';
 import { roleCache } from '../features/studios/membership-lookup';
@@ -31,6 +32,7 @@ export function initModels(sequelize: Sequelize): void {
   initSavedTiming(sequelize);
   initVideoRom(sequelize);
   initExport(sequelize);
+  initPanelMatch(sequelize);
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
   Membership.belongsTo(Studio, { foreignKey: 'studioId', as: 'studio' });
   Invite.belongsTo(Studio, { foreignKey: 'studioId', as: 'studio' });

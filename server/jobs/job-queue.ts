@@ -6,7 +6,7 @@ import type { Config } from '../config';
 export const JOBS_SCHEMA = 'pgboss';
 
 /** The queues the app runs work on. */
-export const QUEUES = { exports: 'exports' } as const;
+export const QUEUES = { exports: 'exports', matches: 'matches' } as const;
 export type QueueName = (typeof QUEUES)[keyof typeof QUEUES];
 
 /** How long a job may stay active before the queue takes it for dead and runs it again, and how often it looks. */

@@ -4,6 +4,8 @@ import { outputUniforms } from '../../shared/pipeline/output/uniforms';
 import { componentAcross, componentDown, glowComponents, glowFieldSize, glowPlan, sumComponents } from '../../shared/pipeline/glow/glow';
 import { panelEmission } from '../../shared/pipeline/render';
 import type { Field, Frame } from '../../shared/pipeline/types';
+import { fitPanel, MatchRefusal, type MatchInput, type MatchResult } from '../../shared/match/fit';
+import type { MessagePort } from 'node:worker_threads';
 
 /**
  * The tasks the render pool's worker threads run. Large arrays live in SharedArrayBuffers, so
@@ -53,6 +55,18 @@ export function band(task: { emission: Float32Array; glow: Field; parameters: Pa
   const u = outputUniforms(task.parameters, task.scale);
   compose(task.emission, task.glow, u, { width: u.width, height: u.height, data: task.out }, task.rows);
   return task.rows.y1 - task.rows.y0;
+}
+
+/** A panel match's fit (shared/match/fit.ts), its progress posted on `port`; a photo it cannot fit comes back as a refusal, not an error. */
+export function match(task: { input: MatchInput; port: MessagePort }): { result: MatchResult } | { refusal: string } {
+  try {
+    return { result: fitPanel(task.input, (share, step) => task.port.postMessage({ share, step })) };
+  } catch (err) {
+    if (err instanceof MatchRefusal) return { refusal: err.message };
+    throw err;
+  } finally {
+    task.port.close();
+  }
 }
 
 /** Throws inside a worker, for the tests of the pool's error handling. */

@@ -1,7 +1,9 @@
 import { createHash } from 'node:crypto';
 import os from 'node:os';
 import path from 'node:path';
+import { MessageChannel } from 'node:worker_threads';
 import { Piscina } from 'piscina';
+import type { MatchInput, MatchResult } from '../../shared/match/fit';
 import type { PanelParams } from '../../shared/model/parameters';
 import { componentSize, glowComponents, glowFieldSize, glowPlan } from '../../shared/pipeline/glow/glow';
 import { outputUniforms } from '../../shared/pipeline/output/uniforms';
@@ -14,7 +16,7 @@ import { shared } from './pool-tasks';
 import { SharedBufferPool } from './shared-buffers';
 
 /** The pool's tasks (pool-tasks.ts). */
-type TaskName = 'panel' | 'glowStep' | 'band' | 'fail';
+type TaskName = 'panel' | 'glowStep' | 'band' | 'match' | 'fail';
 
 /** [from, to) ranges splitting 0 … n into at most `count` nearly equal bands (none empty). */
 function bandsOf(n: number, count: number): [number, number][] {
@@ -204,6 +206,25 @@ export class RenderEngine {
       if (err instanceof AppError) throw err;
       console.error(`[render] a ${name} task failed: ${(err as Error).message}`);
       throw new AppError(500, 'render_failed', 'The render failed on our side and was logged. Try again; if it keeps failing, tell us which artwork and preset.');
+    }
+  }
+
+  /**
+   * Fits a panel type to a photo of the match pattern on one pool thread (the fit is a chain of
+   * small renders, each depending on the last), reporting progress as it goes. Answers the result,
+   * or the refusal's words for a photo that cannot be fitted.
+   */
+  async fitMatch(input: MatchInput, onProgress: (share: number, step: string) => void): Promise<{ result: MatchResult } | { refusal: string }> {
+    const channel = new MessageChannel();
+    channel.port1.on('message', (m: { share: number; step: string }) => onProgress(m.share, m.step));
+    try {
+      const photo = { ...input.photo, data: shared(input.photo.data as Uint8Array) };
+      return (await this.pool.run({ input: { ...input, photo }, port: channel.port2 }, { name: 'match', transferList: [channel.port2] })) as { result: MatchResult } | { refusal: string };
+    } catch (err) {
+      console.error(`[render] a match fit failed: ${(err as Error).message}`);
+      throw new AppError(500, 'render_failed', 'The fit failed on our side and was logged. Try again; if it keeps failing, tell us which photo.');
+    } finally {
+      channel.port1.close();
     }
   }
 

@@ -143,7 +143,7 @@ export class TestClient {
     return { email, id: verified.body.user.id, password };
   }
 
-  async send(method: 'get' | 'post' | 'patch' | 'delete', path: string, body?: object): Promise<request.Response> {
+  async send(method: 'get' | 'post' | 'put' | 'patch' | 'delete', path: string, body?: object): Promise<request.Response> {
     if (method !== 'get' && this.sendCsrf && !this.cookies.has('XSRF-TOKEN')) await this.send('get', '/api/auth/csrf');
     let req = request(this.app)[method](path).set(this.headers);
     if (this.cookies.size) req = req.set('Cookie', [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; '));

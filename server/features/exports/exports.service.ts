@@ -19,6 +19,7 @@ import { User } from '../auth/user.model';
 import { Preset } from '../presets/preset.model';
 import { Studio } from '../studios/studio.model';
 import { Export, ExportLink, type AnimationSpec, type LookSpec, type SheetSpec } from './export.model';
+import { resolveLook } from '../presets/looks';
 import { hashToken, newToken } from '../../core/tokens';
 import { makeSheet } from './sheet-cells';
 import { makeAnimation } from './animation';
@@ -132,17 +133,8 @@ export class ExportsService {
     return this.dto(created, await this.names([created.createdById]));
   }
 
-  /** A look of the request: a studio preset ("studio:<id>") at its current revision, or a built-in preset. */
-  private async look(studioId: string, ref: string): Promise<LookSpec> {
-    if (ref.startsWith('studio:')) {
-      const id = ref.slice('studio:'.length);
-      const preset = /^[0-9a-f-]{36}$/i.test(id) ? await Preset.findOne({ where: { id, studioId } }) : null;
-      if (!preset) throw new AppError(400, 'invalid_input', 'A chosen preset is not in this studio (deleted, or another studio\'s). Choose again from the list.', { issues: [{ path: 'looks', message: `no preset ${id} in this studio` }] });
-      return { id: ref, name: preset.name, revision: preset.revision, panelTypeId: preset.panelTypeId, panelTypeName: panelTypeById(preset.panelTypeId)?.name ?? preset.panelTypeId, parameters: preset.parameters };
-    }
-    const builtIn = builtInPresetById(ref);
-    if (!builtIn) throw new AppError(400, 'invalid_input', `There is no look “${ref.slice(0, 100)}”: give a studio preset as studio:<id> or a built-in preset id (GET /api/panel-types lists them).`, { issues: [{ path: 'looks', message: 'unknown look' }] });
-    return { id: ref, name: builtIn.name, revision: null, panelTypeId: builtIn.panelTypeId, panelTypeName: panelTypeById(builtIn.panelTypeId)!.name, parameters: builtIn.parameters };
+  private look(studioId: string, ref: string): Promise<LookSpec> {
+    return resolveLook(studioId, ref);
   }
 
   async list(studioId: string): Promise<ExportDto[]> {

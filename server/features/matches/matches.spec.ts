@@ -1,0 +1,135 @@
+import sharp from 'sharp';
+import { patternFor } from '../../../shared/match/pattern';
+import { builtInPresetById } from '../../../shared/model/panel-types';
+import { mergeParams } from '../../../shared/model/parameters';
+import { inWorker } from '../../../shared/testing/in-worker';
+import type { syntheticJpeg } from '../../../shared/testing/match-fixtures';
+import { QUEUES } from '../../jobs/job-queue';
+import { createHarness, TestClient, type Harness } from '../../testing/harness';
+import { pngOf } from '../../testing/images';
+import { Membership } from '../studios/membership.model';
+import type { MatchJob } from './matches.service';
+
+let h: Harness;
+let editor: TestClient;
+let viewer: TestClient;
+let studioId: string;
+const LOOK = 'el-amber-320x240.standard';
+const base = builtInPresetById(LOOK)!.parameters;
+/** The real panel in the photo: glow wider and stronger than the look's. */
+const truth = mergeParams(base, { glass: { glowRadiusMm: 0.36, glowShare: 0.16 }, emission: { colourSource: 'chromaticity', chromaX: 0.5, chromaY: 0.42 } });
+const url = (rest = '') => `/api/studios/${studioId}/matches${rest}`;
+let photo: { jpeg: Uint8Array; fiducials: [number, number][] };
+
+beforeAll(async () => {
+  h = await createHarness();
+  await h.jobs.work<MatchJob>(QUEUES.matches, (job) => h.app.matches.run(job));
+  const owner = new TestClient(h.app);
+  editor = new TestClient(h.app);
+  viewer = new TestClient(h.app);
+  await owner.signUp('correct horse battery', 'owner');
+  const e = await editor.signUp('correct horse battery', 'editor');
+  const v = await viewer.signUp('correct horse battery', 'viewer');
+  studioId = (await owner.post('/api/studios', { name: 'Match Studio' })).body.studio.id;
+  await Membership.bulkCreate([
+    { studioId, userId: e.id, role: 'editor' },
+    { studioId, userId: v.id, role: 'viewer' },
+  ]);
+  // About 4.6 photo pixels a cell, in perspective, with lens blur, sensor noise and JPEG (in a worker: shared/testing/match-fixtures.ts).
+  photo = await inWorker<Awaited<ReturnType<typeof syntheticJpeg>>>(require.resolve('../../../shared/testing/match-fixtures'), 'syntheticJpeg', truth, {
+    scale: 5,
+    width: 1600,
+    height: 1250,
+    corners: [
+      [100, 90],
+      [1500, 120],
+      [1480, 1150],
+      [120, 1130],
+    ],
+    exposure: 0.8,
+    ambient: 0.01,
+    blur: 0.8,
+    noise: 0.01,
+    quality: 90,
+    seed: 3,
+    layout: patternFor(base),
+  });
+}, 120_000);
+afterAll(() => h.close());
+
+/** Polls a match until its fit has finished, noting each progress figure seen. */
+async function fitted(id: string, seen: number[]): Promise<Record<string, any>> {
+  const until = Date.now() + 90_000;
+  for (;;) {
+    const res = await viewer.get(url(`/${id}`));
+    expect(res.status).toBe(200);
+    seen.push(res.body.match.progress);
+    if (!['queued', 'running'].includes(res.body.match.status)) return res.body.match;
+    if (Date.now() > until) throw new Error(`match ${id} still ${res.body.match.status} after 90 s`);
+    await new Promise((r) => setTimeout(r, 200));
+  }
+}
+
+test('the pattern downloads as a PNG of one pixel a cell, lit corner squares included', async () => {
+  const res = await viewer.getBytes(url(`/pattern?look=${LOOK}`));
+  expect(res.status).toBe(200);
+  const { data, info } = await sharp(res.body).raw().toBuffer({ resolveWithObject: true });
+  expect([info.width, info.height]).toEqual([320, 240]);
+  expect(data[0]).toBe(255);
+  expect(data[(239 * 320 + 319) * info.channels]).toBe(255);
+});
+
+test('upload, marks, fit on the pool with progress, result, residual image, save as a preset', async () => {
+  const up = await editor.upload(url(), { look: LOOK }, { name: 'panel.jpg', bytes: Buffer.from(photo.jpeg) });
+  expect(up.status).toBe(201);
+  const id = up.body.match.id;
+  expect(up.body.match).toMatchObject({ status: 'marking', photo: { width: 1600, height: 1250 }, activeWidthMm: 115.2, activeHeightMm: 86.4 });
+  // Marks as a hand places them: a few pixels off each square's centre.
+  const marks = photo.fiducials.map(([x, y], i) => [x + (i % 2 ? 3 : -3), y + 2]);
+  expect((await editor.send('put', url(`/${id}/marks`), { marks })).status).toBe(200);
+  expect((await editor.post(url(`/${id}/fit`))).status).toBe(202);
+  const seen: number[] = [];
+  const done = await fitted(id, seen);
+  expect(done.error).toBeNull();
+  expect(done.status).toBe('done');
+  expect(seen.some((p) => p > 0 && p < 1)).toBe(true);
+  const glow = done.result.fitted.find((f: { key: string }) => f.key === 'glowRadiusMm');
+  // [calc: synthetic photo of known parameters] the glow the photo was made with, within 10 %.
+  expect(Math.abs(glow.value / 0.36 - 1)).toBeLessThan(0.1);
+  expect(glow.uncertainty).toBeGreaterThan(0);
+  expect(done.result.notDetermined.length).toBeGreaterThan(2);
+  const residual = await viewer.getBytes(url(`/${id}/residual`));
+  expect(residual.status).toBe(200);
+  expect(residual.headers['content-type']).toBe('image/png');
+  const saved = await editor.post(url(`/${id}/save`), { name: 'Our panel, fitted' });
+  expect(saved.status).toBe(201);
+  const preset = await viewer.get(`/api/studios/${studioId}/presets/${saved.body.presetId}`);
+  expect(preset.status).toBe(200);
+  expect(preset.body.preset.parameters.glass.glowRadiusMm).toBe(glow.value);
+  expect(preset.body.preset.parameters.emission.colourSource).toBe('chromaticity');
+}, 120_000);
+
+test('marks that cannot be the corners are refused with the reason; a photo too small is refused on upload', async () => {
+  const up = await editor.upload(url(), { look: LOOK }, { name: 'panel.jpg', bytes: Buffer.from(photo.jpeg) });
+  const id = up.body.match.id;
+  const [a, b, c, d] = photo.fiducials;
+  const swapped = await editor.send('put', url(`/${id}/marks`), { marks: [a, c, b, d] });
+  expect(swapped.status).toBe(422);
+  expect(swapped.body.error).toMatchObject({ code: 'bad_marks', message: expect.stringMatching(/out of order/) });
+  expect((await editor.post(url(`/${id}/fit`))).body.error.code).toBe('no_marks');
+  const small = await editor.upload(url(), { look: LOOK }, { name: 'tiny.png', bytes: pngOf(320, 240, () => [0, 0, 0, 255]) });
+  expect(small.status).toBe(422);
+  expect(small.body.error.message).toMatch(/320 × 240 pixels; at least 640 × 480/);
+  expect((await viewer.upload(url(), { look: LOOK }, { name: 'panel.jpg', bytes: Buffer.from(photo.jpeg) })).status).toBe(403);
+});
+
+test('a fiducial placed off the panel ends the fit with the reason, not a silent bad fit', async () => {
+  const up = await editor.upload(url(), { look: LOOK }, { name: 'panel.jpg', bytes: Buffer.from(photo.jpeg) });
+  const id = up.body.match.id;
+  const marks = photo.fiducials.map(([x, y], i) => (i === 1 ? [x + 60, y - 70] : [x, y]));
+  expect((await editor.send('put', url(`/${id}/marks`), { marks })).status).toBe(200);
+  await editor.post(url(`/${id}/fit`));
+  const done = await fitted(id, []);
+  expect(done.status).toBe('failed');
+  expect(done.error).toMatch(/top-right mark is not on a lit corner square/);
+}, 120_000);
