@@ -202,6 +202,8 @@ const ROWS: Row[] = [
   },
   { method: 'get', path: '/api/studios/:studioId/matches/:matchId', url: (c) => `${S(c)}/matches/${c.matchId}`, expect: [200, 200, 200, 404, 401] },
   { method: 'get', path: '/api/studios/:studioId/matches/:matchId/photo', url: (c) => `${S(c)}/matches/${c.matchId}/photo`, expect: [200, 200, 200, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/matches/:matchId/rectified', url: (c) => `${S(c)}/matches/${c.matchId}/rectified`, expect: [200, 200, 200, 404, 401] },
+  { method: 'get', path: '/api/studios/:studioId/matches/:matchId/simulated', url: (c) => `${S(c)}/matches/${c.matchId}/simulated`, expect: [200, 200, 200, 404, 401] },
   { method: 'get', path: '/api/studios/:studioId/matches/:matchId/residual', url: (c) => `${S(c)}/matches/${c.matchId}/residual`, expect: [200, 200, 200, 404, 401] },
   { method: 'put', path: '/api/studios/:studioId/matches/:matchId/marks', url: (c) => `${S(c)}/matches/${c.matchId}/marks`, body: () => ({ marks: [[50, 50], [590, 60], [580, 430], [60, 420]] }), matchStatus: 'marking', expect: [200, 200, 403, 404, 401] },
   { method: 'post', path: '/api/studios/:studioId/matches/:matchId/fit', url: (c) => `${S(c)}/matches/${c.matchId}/fit`, matchStatus: 'marking', expect: [202, 202, 403, 404, 401] },

@@ -6,6 +6,11 @@ import { panelEmission } from '../../shared/pipeline/render';
 import type { Field, Frame } from '../../shared/pipeline/types';
 import { fitPanel, MatchRefusal, type MatchInput, type MatchResult } from '../../shared/match/fit';
 import type { MessagePort } from 'node:worker_threads';
+import { encode8 } from '../../shared/color/srgb';
+import { solveHomography, type Point } from '../../shared/match/homography';
+import { patternFor } from '../../shared/match/pattern';
+import { linearise, rectify } from '../../shared/match/photo';
+import type { RgbaImage } from '../../shared/pipeline/types';
 
 /**
  * The tasks the render pool's worker threads run. Large arrays live in SharedArrayBuffers, so
@@ -67,6 +72,18 @@ export function match(task: { input: MatchInput; port: MessagePort }): { result:
   } finally {
     task.port.close();
   }
+}
+
+/** A match photo resampled onto the panel's grid through its marks (sRGB, `scale` px a pitch), written into the shared output image. */
+export function rectifyPhoto(task: { photo: RgbaImage; marks: Point[]; base: PanelParams; scale: number; out: Uint8Array }): number {
+  const layout = patternFor(task.base);
+  const h = solveHomography(layout.fiducials, task.marks);
+  const photo = linearise(task.photo, { kind: 'srgb' });
+  const sy = (task.scale * task.base.cell.pitchYMm) / task.base.cell.pitchXMm;
+  const rect = { x: 0, y: 0, w: layout.cols, h: layout.rows };
+  const [r, g, b] = [photo.r, photo.g, photo.b].map((plane) => rectify(plane, photo, h.forward, rect, task.scale, sy).data);
+  for (let i = 0; i < r.length; i++) task.out.set([encode8(r[i]), encode8(g[i]), encode8(b[i]), 255], i * 4);
+  return r.length;
 }
 
 /** Throws inside a worker, for the tests of the pool's error handling. */

@@ -16,7 +16,7 @@ import { shared } from './pool-tasks';
 import { SharedBufferPool } from './shared-buffers';
 
 /** The pool's tasks (pool-tasks.ts). */
-type TaskName = 'panel' | 'glowStep' | 'band' | 'match' | 'fail';
+type TaskName = 'panel' | 'glowStep' | 'band' | 'match' | 'rectifyPhoto' | 'fail';
 
 /** [from, to) ranges splitting 0 … n into at most `count` nearly equal bands (none empty). */
 function bandsOf(n: number, count: number): [number, number][] {
@@ -226,6 +226,15 @@ export class RenderEngine {
     } finally {
       channel.port1.close();
     }
+  }
+
+  /** A match photo resampled onto the panel's grid through its marks, `scale` px a pitch (on a pool thread). */
+  async rectifyPhoto(photo: RgbaImage, marks: [number, number][], base: PanelParams, scale: number): Promise<RgbaImage> {
+    const width = Math.round(base.cell.cols * scale);
+    const height = Math.round((base.cell.rows * scale * base.cell.pitchYMm) / base.cell.pitchXMm);
+    const out = new Uint8Array(new SharedArrayBuffer(width * height * 4));
+    await this.run('rectifyPhoto', { photo: { ...photo, data: shared(photo.data as Uint8Array) }, marks, base, scale, out });
+    return { width, height, data: out };
   }
 
   /** Stops the worker threads. */

@@ -42,6 +42,6 @@ export interface MatchDto {
   error: string | null;
   result: MatchResultDto | null;
   savedPresetId: string | null;
-  createdBy: string | null;
+  createdBy: { id: string; name: string } | null;
   createdAt: string;
 }

@@ -1,10 +1,10 @@
 import { mat3, vec3 } from 'gl-matrix';
 import { Matrix, SingularValueDecomposition } from 'ml-matrix';
+export { MARK_NAMES } from './pattern';
 
 export type Point = [number, number];
 
-/** Names of the four marks, in the order they are placed. */
-export const MARK_NAMES = ['top-left', 'top-right', 'bottom-right', 'bottom-left'] as const;
+import { MARK_NAMES } from './pattern';
 
 /** A 3 × 3 plane-to-plane mapping (gl-matrix mat3, column-major) and its inverse. */
 export interface Homography {

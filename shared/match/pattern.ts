@@ -34,6 +34,9 @@ export interface MatchLayout {
   levels: Float32Array;
 }
 
+/** Names of the four marks (the corner squares), in the order they are placed. */
+export const MARK_NAMES = ['top-left', 'top-right', 'bottom-right', 'bottom-left'] as const;
+
 /** Widest spacing of the isolated cells, in cells. */
 const MAX_SPACING = 24;
 

@@ -25,6 +25,7 @@ export const routes: Routes = [
       { path: 'activity', title: 'Activity · Emberline', loadComponent: () => import('./features/studio/activity').then((m) => m.Activity) },
       { path: 'artworks', title: 'Artworks · Emberline', loadComponent: () => import('./features/artworks/artwork-library').then((m) => m.ArtworkLibrary) },
       { path: 'exports', title: 'Exports · Emberline', loadComponent: () => import('./features/exports/exports').then((m) => m.Exports) },
+      { path: 'match', title: 'Panel match · Emberline', loadComponent: () => import('./features/match/panel-match').then((m) => m.PanelMatch) },
       { path: 'drive', title: 'Drive timing · Emberline', loadComponent: () => import('./features/drive/drive-timing').then((m) => m.DriveTiming) },
       { path: 'bios', title: 'Video BIOS · Emberline', loadComponent: () => import('./features/bios/video-bios').then((m) => m.VideoBios) },
       { path: 'members', title: 'Members · Emberline', loadComponent: () => import('./features/studio/members').then((m) => m.Members) },

@@ -32,6 +32,12 @@ export function matchesRoutes(matches: MatchesService): ApiRouter {
   api.route('get', '/:matchId/photo', { policy: studioRole('viewer'), summary: 'The photo, upright, as a JPEG for placing the marks' }, async (req, res) => {
     res.set({ 'Content-Type': 'image/jpeg', 'Cache-Control': 'private, max-age=3600' }).send(await matches.photo(req.membership!.studioId, matchId(req)));
   });
+  api.route('get', '/:matchId/rectified', { policy: studioRole('viewer'), summary: 'The photo resampled onto the panel’s grid through the marks (PNG, the size of the simulated pattern); 409 until the marks are placed' }, async (req, res) => {
+    res.set({ 'Content-Type': 'image/png', 'Cache-Control': 'private, no-store' }).send(await matches.rectified(req.membership!.studioId, matchId(req)));
+  });
+  api.route('get', '/:matchId/simulated', { policy: studioRole('viewer'), summary: 'The match pattern as the starting look shows it (a reference render, PNG)' }, async (req, res) => {
+    res.set({ 'Content-Type': 'image/png', 'Cache-Control': 'private, max-age=3600' }).send(await matches.simulated(req.membership!.studioId, matchId(req)));
+  });
   api.route('get', '/:matchId/residual', { policy: studioRole('viewer'), summary: "A finished fit's photo, model and their difference in the isolated-cell box, side by side (PNG)" }, async (req, res) => {
     res.set({ 'Content-Type': 'image/png', 'Cache-Control': 'private, no-store' }).send(await matches.residual(req.membership!.studioId, matchId(req)));
   });

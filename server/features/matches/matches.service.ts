@@ -84,7 +84,7 @@ export class MatchesService {
       throw err;
     }
     await record(actor.studioId, actor.userId, 'match.created', `uploaded a match photo of “${look.name}”`);
-    return this.dto(row);
+    return this.dto(row, await names([row.createdById]));
   }
 
   async list(studioId: string): Promise<MatchDto[]> {
@@ -104,6 +104,28 @@ export class MatchesService {
     return sharp(await this.blobs.get(photoKey(row.id)), { limitInputPixels: MAX_PHOTO_PIXELS }).rotate().jpeg({ quality: 88 }).toBuffer();
   }
 
+  /** Output pixels a pitch of the previews: the panel at most 1280 px wide. */
+  private previewScale(row: PanelMatch): number {
+    return Math.max(1, Math.floor(1280 / row.look.parameters.cell.cols));
+  }
+
+  /** The photo resampled onto the panel's grid through the marks as placed (PNG), to lay over the simulated pattern. */
+  async rectified(studioId: string, id: string): Promise<Buffer> {
+    const row = await this.row(studioId, id);
+    if (!row.marks) throw new AppError(409, 'no_marks', 'Place the four marks on the corner squares first.');
+    const decoded = await sharp(await this.blobs.get(photoKey(row.id)), { limitInputPixels: MAX_PHOTO_PIXELS }).rotate().ensureAlpha().raw().toBuffer({ resolveWithObject: true });
+    const photo = { width: decoded.info.width, height: decoded.info.height, data: new Uint8Array(decoded.data.buffer, decoded.data.byteOffset, decoded.data.length) };
+    return encodePng(await this.engine.rectifyPhoto(photo, row.marks, row.look.parameters, this.previewScale(row)));
+  }
+
+  /** The pattern as the look shows it (a reference render, source stage neutral so every cell gets its pattern level), at the rectified photo's size. */
+  async simulated(studioId: string, id: string): Promise<Buffer> {
+    const row = await this.row(studioId, id);
+    const parameters = { ...row.look.parameters, source: { ...row.look.parameters.source, fit: 'native' as const, luma: 'rec709' as const, brightness: 0, contrast: 1, gamma: 1, invert: false, threshold: 0 }, drive: { ...row.look.parameters.drive, dither: 'none' as const } };
+    const input = await encodePng(patternImage(patternFor(row.look.parameters)));
+    return (await this.engine.render({ input, parameters, scale: this.previewScale(row), frame: 0 })).png;
+  }
+
   /** The fit's images side by side: the photo, the model and their difference (in the isolated-cell box). */
   async residual(studioId: string, id: string): Promise<Buffer> {
     const row = await this.row(studioId, id);
@@ -121,7 +143,7 @@ export class MatchesService {
       throw err;
     }
     await row.update({ marks, status: 'marking', progress: 0, step: '', error: null, result: null });
-    return this.dto(row);
+    return this.dto(row, await names([row.createdById]));
   }
 
   /** Queues the fit (the marks must be placed). */
@@ -132,7 +154,7 @@ export class MatchesService {
     if (count === 0) throw new AppError(409, 'busy', 'The fit is already waiting or running.');
     await this.jobs.send(QUEUES.matches, { matchId: row.id } satisfies MatchJob);
     await row.reload();
-    return this.dto(row);
+    return this.dto(row, await names([row.createdById]));
   }
 
   /** Saves the fitted parameters as a new studio preset. */
@@ -141,7 +163,7 @@ export class MatchesService {
     if (row.status !== 'done' || !row.result) throw new AppError(409, 'not_ready', 'Only a finished fit can be saved.');
     const preset = await this.presets.create(actor, { name, panelTypeId: row.look.panelTypeId, parameters: row.result.parameters }, { message: `Fitted to the photo “${row.photoName}” from “${row.look.name}”` });
     await row.update({ savedPresetId: preset.id });
-    return { presetId: preset.id, match: this.dto(row) };
+    return { presetId: preset.id, match: this.dto(row, await names([row.createdById])) };
   }
 
   async remove(actor: MatchActor, id: string): Promise<void> {
@@ -221,7 +243,7 @@ export class MatchesService {
       error: row.error ?? null,
       result: row.result ?? null,
       savedPresetId: row.savedPresetId ?? null,
-      createdBy: row.createdById ? (who.get(row.createdById) ?? null) : null,
+      createdBy: row.createdById ? { id: row.createdById, name: who.get(row.createdById) ?? 'Someone' } : null,
       createdAt: row.createdAt.toISOString(),
     };
   }
@@ -255,7 +277,8 @@ async function photoSize(bytes: Buffer): Promise<{ width: number; height: number
 async function residualPng(photo: Rectified, model: Rectified): Promise<Buffer> {
   const { width, height } = photo;
   const gap = 8;
-  const out = { width: 3 * width + 2 * gap, height, data: new Uint8Array((3 * width + 2 * gap) * height * 4).fill(255) };
+  // Dark gaps between the three, as the app's dark surfaces.
+  const out = { width: 3 * width + 2 * gap, height, data: new Uint8Array((3 * width + 2 * gap) * height * 4).fill(28) };
   let peak = 0;
   for (let i = 0; i < model.data.length; i++) peak = Math.max(peak, model.data[i]);
   let spread = 0;

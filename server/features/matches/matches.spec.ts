@@ -87,6 +87,12 @@ test('upload, marks, fit on the pool with progress, result, residual image, save
   // Marks as a hand places them: a few pixels off each square's centre.
   const marks = photo.fiducials.map(([x, y], i) => [x + (i % 2 ? 3 : -3), y + 2]);
   expect((await editor.send('put', url(`/${id}/marks`), { marks })).status).toBe(200);
+  // The rectified photo and the simulated pattern have one size, for the overlay.
+  const [rectified, simulated] = await Promise.all([viewer.getBytes(url(`/${id}/rectified`)), viewer.getBytes(url(`/${id}/simulated`))]);
+  expect([rectified.status, simulated.status]).toEqual([200, 200]);
+  const [rm, sm] = await Promise.all([sharp(rectified.body).metadata(), sharp(simulated.body).metadata()]);
+  expect([rm.width, rm.height]).toEqual([sm.width, sm.height]);
+  expect(rm.width).toBe(1280);
   expect((await editor.post(url(`/${id}/fit`))).status).toBe(202);
   const seen: number[] = [];
   const done = await fitted(id, seen);

@@ -16,27 +16,17 @@ import { ActivatedRoute, RouterLink } from '@angular/router';
 import { catchError, filter, from, merge, of, Subject, switchMap, timer } from 'rxjs';
 import { EXPORT_STATUS_LABELS, type ExportDto, type ExportKind, type ExportStatus } from '../../../../shared/api/export.schema';
 import { LABEL_LINES, MAX_SHEET_ARTWORKS, MAX_SHEET_CELLS, MAX_SHEET_LOOKS, MAX_SHEET_PIXELS, REPORT_LINES, SHEET_LAYOUT_LABELS, SHEET_LAYOUTS, sheetGeometry, type SheetLayout } from '../../../../shared/export/sheet';
-import { BUILT_IN_PRESETS, panelTypeById } from '../../../../shared/model/panel-types';
-import type { PanelParams } from '../../../../shared/model/parameters';
 import { outputUniforms } from '../../../../shared/pipeline/output/uniforms';
 import { apiErrorMessage } from '../../core/api-error';
 import { AuthStore } from '../../core/auth-store';
 import { formatBytes } from '../../core/format-bytes';
 import { Confirm } from '../../shared/confirm-dialog';
 import { ArtworkApi } from '../artworks/artwork-api';
+import { lookOptionsOf, type LookOption } from '../presets/look-options';
 import { PresetApi } from '../presets/preset-api';
 import { StudioContext } from '../studio/studio-context';
 import { ExportApi } from './export-api';
 import { ExportLinks } from './export-links';
-
-/** A look to choose: a studio preset at its current revision, or a built-in preset. */
-interface LookOption {
-  id: string;
-  name: string;
-  panelTypeName: string;
-  parameters: PanelParams;
-  studio: boolean;
-}
 
 const STATUS_ICONS: Readonly<Record<ExportStatus, string>> = { queued: 'schedule', running: 'autorenew', done: 'check_circle', failed: 'error', cancelled: 'block' };
 
@@ -90,10 +80,7 @@ export class Exports {
 
   protected readonly artworks = resource({ params: () => this.context.studioId(), loader: ({ params }) => this.artworkApi.list(params, '', 'name') });
   private readonly presets = resource({ params: () => this.context.studioId(), loader: ({ params }) => this.presetApi.list(params, { sort: 'name', pageSize: 100 }) });
-  protected readonly lookOptions = computed<LookOption[]>(() => [
-    ...(this.presets.hasValue() ? this.presets.value().presets : []).map((p) => ({ id: `studio:${p.id}`, name: `${p.name} · r${p.revision}`, panelTypeName: panelTypeById(p.panelTypeId)?.name ?? p.panelTypeId, parameters: p.parameters, studio: true })),
-    ...BUILT_IN_PRESETS.map((p) => ({ id: p.id, name: p.name, panelTypeName: panelTypeById(p.panelTypeId)!.name, parameters: p.parameters, studio: false })),
-  ]);
+  protected readonly lookOptions = computed(() => lookOptionsOf(this.presets.hasValue() ? this.presets.value().presets : []));
   protected readonly studioLooks = computed(() => this.lookOptions().filter((l) => l.studio));
   protected readonly builtInLooks = computed(() => this.lookOptions().filter((l) => !l.studio));
   private readonly chosenLooks = computed(() => this.lookIds().map((id) => this.lookOptions().find((l) => l.id === id)).filter((l): l is LookOption => !!l));

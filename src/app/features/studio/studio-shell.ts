@@ -41,6 +41,7 @@ export class StudioShell {
     { path: 'presets', label: 'Presets', icon: 'tune' },
     { path: 'artworks', label: 'Artworks', icon: 'photo_library' },
     { path: 'exports', label: 'Exports', icon: 'collections' },
+    { path: 'match', label: 'Panel match', icon: 'center_focus_strong' },
     { path: 'drive', label: 'Drive timing', icon: 'timeline' },
     { path: 'bios', label: 'Video BIOS', icon: 'memory' },
     { path: 'members', label: 'Members', icon: 'group' },
