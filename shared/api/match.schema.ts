@@ -17,8 +17,11 @@ const point = z.tuple([z.number({ message: 'each mark is [x, y] in photo pixels'
 /** The four marks, photo pixels: top-left, top-right, bottom-right, bottom-left. */
 export const matchMarksSchema = z.strictObject({ marks: z.array(point).length(4, { message: 'place exactly four marks' }) });
 
-/** Saving a fit as a studio preset. */
-export const matchSaveSchema = z.strictObject({ name: z.string().trim().min(1, { message: 'give the preset a name' }).max(80, { message: 'a preset name has at most 80 characters' }) });
+/** Saving a fit: as a new studio preset (a name), or as a new revision of the studio preset it started from. */
+export const matchSaveSchema = z.union([
+  z.strictObject({ name: z.string().trim().min(1, { message: 'give the preset a name' }).max(80, { message: 'a preset name has at most 80 characters' }) }),
+  z.strictObject({ revisionOfLook: z.literal(true, { message: 'revisionOfLook must be true' }) }),
+], { message: 'give a name for a new preset, or revisionOfLook: true for a new revision of the starting preset' });
 
 export const MATCH_STATUSES = ['marking', 'queued', 'running', 'done', 'failed'] as const;
 export type MatchStatus = (typeof MATCH_STATUSES)[number];

@@ -1,4 +1,5 @@
 import type { RequestHandler } from 'express';
+import { FRAME_DATA_FORMATS } from '../../../shared/drive/frame-data-formats';
 import { matchMarksSchema, matchSaveSchema, matchUploadSchema } from '../../../shared/api/match.schema';
 import { ApiRouter } from '../../core/api-router';
 import { AppError } from '../../core/app-error';
@@ -7,16 +8,21 @@ import { uploadOne } from '../../core/upload';
 import { parseOrThrow } from '../../core/validate';
 import type { MatchesService } from './matches.service';
 
+/** The pattern's download formats: the image, then frame data. */
+const PATTERN_FORMATS = ['png', ...FRAME_DATA_FORMATS] as const;
+
 /** /api/studios/:studioId/matches: fit a panel type to a photo of the match pattern on a real panel. Viewers look, editors upload and fit, owners delete anyone's. */
 export function matchesRoutes(matches: MatchesService): ApiRouter {
   const api = new ApiRouter('/studios/:studioId/matches', 'Panel match');
   const matchId = (req: Parameters<RequestHandler>[0]) => idParam(req, 'matchId', 'The match');
   const actor = (req: Parameters<RequestHandler>[0]) => req.membership!;
 
-  api.route('get', '/pattern', { policy: studioRole('viewer'), summary: "A look's match pattern (?look=<built-in preset id or studio:<id>>) as a PNG of one pixel a cell, to show on the real panel 1:1" }, async (req, res) => {
+  api.route('get', '/pattern', { policy: studioRole('viewer'), summary: "A look's match pattern (?look=<built-in preset id or studio:<id>>) to show on the real panel 1:1: ?format=png (one pixel a cell, the default), or frame data as bin, hex (Intel HEX) or c (a C header)" }, async (req, res) => {
     if (typeof req.query.look !== 'string') throw new AppError(400, 'invalid_input', 'Say which look the pattern is for: ?look=<built-in preset id or studio:<preset id>>.');
-    const { png, fileName } = await matches.pattern(req.membership!.studioId, req.query.look);
-    res.set({ 'Content-Type': 'image/png', 'Content-Disposition': `attachment; filename="${fileName}"`, 'Cache-Control': 'private, max-age=300' }).send(png);
+    const format = PATTERN_FORMATS.find((f) => f === (req.query.format ?? 'png'));
+    if (!format) throw new AppError(400, 'invalid_input', `format must be one of ${PATTERN_FORMATS.join(', ')}, got “${String(req.query.format).slice(0, 20)}”.`);
+    const { bytes, fileName, contentType } = await matches.pattern(req.membership!.studioId, req.query.look, format);
+    res.set({ 'Content-Type': contentType, 'X-Content-Type-Options': 'nosniff', 'Content-Disposition': `attachment; filename="${fileName}"`, 'Cache-Control': 'private, max-age=300' }).send(bytes);
   });
   api.route('get', '/', { policy: studioRole('viewer'), summary: "The studio's panel matches, newest first" }, async (req, res) => {
     res.json({ matches: await matches.list(req.membership!.studioId) });
@@ -47,8 +53,8 @@ export function matchesRoutes(matches: MatchesService): ApiRouter {
   api.route('post', '/:matchId/fit', { policy: studioRole('editor'), summary: 'Fit the panel (a background job on the render pool; poll the match for progress)', status: 202 }, async (req, res) => {
     res.status(202).json({ match: await matches.fit(actor(req), matchId(req)) });
   });
-  api.route('post', '/:matchId/save', { policy: studioRole('editor'), summary: 'Save a finished fit as a new studio preset', body: matchSaveSchema, status: 201 }, async (req, res) => {
-    res.status(201).json(await matches.save(actor(req), matchId(req), req.body.name));
+  api.route('post', '/:matchId/save', { policy: studioRole('editor'), summary: 'Save a finished fit as a new studio preset ({ name }), or as a new revision of the studio preset it started from ({ revisionOfLook: true })', body: matchSaveSchema, status: 201 }, async (req, res) => {
+    res.status(201).json(await matches.save(actor(req), matchId(req), req.body));
   });
   api.route('delete', '/:matchId', { policy: studioRole('editor'), summary: 'Delete a match and its photo (your own, or anyone’s as an owner)', status: 204 }, async (req, res) => {
     await matches.remove(actor(req), matchId(req));

@@ -3,7 +3,10 @@ import { Op } from 'sequelize';
 import { MATCH_STATUS_LABELS, type MatchDto, type MatchStatus, type MatchUpload } from '../../../shared/api/match.schema';
 import { MatchRefusal } from '../../../shared/match/fit';
 import { checkMarks, MarkError, type Point } from '../../../shared/match/homography';
-import { patternFor, patternImage } from '../../../shared/match/pattern';
+import { patternFor, patternImage, type MatchLayout } from '../../../shared/match/pattern';
+import { DEFAULT_FRAME_LAYOUT, frameData, type FrameData } from '../../../shared/drive/frame-data';
+import { encodeFrameData, FRAME_DATA_FORMAT_INFO, type FrameDataFormat } from '../../../shared/drive/frame-data-formats';
+import type { PanelParams } from '../../../shared/model/parameters';
 import type { Rectified } from '../../../shared/match/photo';
 import type { Role } from '../../../shared/model/roles';
 import { AppError, forbidden, notFound } from '../../core/app-error';
@@ -14,6 +17,7 @@ import type { BlobStore } from '../../storage/blob-store';
 import { record } from '../activity/activity.model';
 import { User } from '../auth/user.model';
 import { resolveLook } from '../presets/looks';
+import { Preset } from '../presets/preset.model';
 import type { PresetsService } from '../presets/presets.service';
 import { PanelMatch } from './match.model';
 
@@ -49,17 +53,32 @@ export class MatchesService {
     private readonly presets: PresetsService,
   ) {}
 
-  /** The match pattern of a look, as a PNG of one pixel a cell. */
-  async pattern(studioId: string, look: string): Promise<{ png: Buffer; fileName: string }> {
+  /**
+   * The match pattern of a look: a PNG of one pixel a cell, or frame data (raw binary, Intel HEX or
+   * a C header) that drives each cell at its pattern level, packed at the fewest bits a cell that
+   * hold the look's gray levels.
+   */
+  async pattern(studioId: string, look: string, format: 'png' | FrameDataFormat = 'png'): Promise<{ bytes: Buffer; fileName: string; contentType: string }> {
     const spec = await resolveLook(studioId, look, 'look');
-    const layout = (() => {
-      try {
-        return patternFor(spec.parameters);
-      } catch (err) {
-        throw new AppError(400, 'invalid_input', (err as Error).message);
-      }
-    })();
-    return { png: await encodePng(patternImage(layout)), fileName: `match-pattern-${layout.cols}x${layout.rows}.png` };
+    let layout: MatchLayout;
+    try {
+      layout = patternFor(spec.parameters);
+    } catch (err) {
+      throw new AppError(400, 'invalid_input', (err as Error).message);
+    }
+    const image = patternImage(layout);
+    const name = `match-pattern-${layout.cols}x${layout.rows}`;
+    if (format === 'png') return { bytes: await encodePng(image), fileName: `${name}.png`, contentType: 'image/png' };
+    const levels = spec.parameters.drive.grayLevels;
+    const bitsPerCell = levels <= 2 ? 1 : levels <= 4 ? 2 : 4;
+    let data: FrameData;
+    try {
+      data = frameData(image, patternLook(spec.parameters), { ...DEFAULT_FRAME_LAYOUT, bitsPerCell });
+    } catch (err) {
+      throw new AppError(400, 'invalid_input', `The pattern cannot be packed as frame data for this panel: ${(err as Error).message}.`);
+    }
+    const info = FRAME_DATA_FORMAT_INFO[format];
+    return { bytes: Buffer.from(encodeFrameData(data, format, name.replace(/-/g, '_'))), fileName: `${name}.${info.extension}`, contentType: info.type };
   }
 
   async create(actor: MatchActor, photo: Buffer, fileName: string, fields: MatchUpload): Promise<MatchDto> {
@@ -121,7 +140,7 @@ export class MatchesService {
   /** The pattern as the look shows it (a reference render, source stage neutral so every cell gets its pattern level), at the rectified photo's size. */
   async simulated(studioId: string, id: string): Promise<Buffer> {
     const row = await this.row(studioId, id);
-    const parameters = { ...row.look.parameters, source: { ...row.look.parameters.source, fit: 'native' as const, luma: 'rec709' as const, brightness: 0, contrast: 1, gamma: 1, invert: false, threshold: 0 }, drive: { ...row.look.parameters.drive, dither: 'none' as const } };
+    const parameters = patternLook(row.look.parameters);
     const input = await encodePng(patternImage(patternFor(row.look.parameters)));
     return (await this.engine.render({ input, parameters, scale: this.previewScale(row), frame: 0 })).png;
   }
@@ -157,13 +176,23 @@ export class MatchesService {
     return this.dto(row, await names([row.createdById]));
   }
 
-  /** Saves the fitted parameters as a new studio preset. */
-  async save(actor: MatchActor, id: string, name: string): Promise<{ presetId: string; match: MatchDto }> {
+  /** Saves the fitted parameters as a new studio preset, or as a new revision of the studio preset the fit started from. */
+  async save(actor: MatchActor, id: string, as: { name: string } | { revisionOfLook: true }): Promise<{ presetId: string; match: MatchDto }> {
     const row = await this.own(actor, id);
     if (row.status !== 'done' || !row.result) throw new AppError(409, 'not_ready', 'Only a finished fit can be saved.');
-    const preset = await this.presets.create(actor, { name, panelTypeId: row.look.panelTypeId, parameters: row.result.parameters }, { message: `Fitted to the photo “${row.photoName}” from “${row.look.name}”` });
-    await row.update({ savedPresetId: preset.id });
-    return { presetId: preset.id, match: this.dto(row, await names([row.createdById])) };
+    const message = `Fitted to the photo “${row.photoName}” from “${row.look.name}”`;
+    let presetId: string;
+    if ('name' in as) {
+      presetId = (await this.presets.create(actor, { name: as.name, panelTypeId: row.look.panelTypeId, parameters: row.result.parameters }, { message })).id;
+    } else {
+      if (!row.look.id.startsWith('studio:')) throw new AppError(409, 'not_a_studio_preset', 'The fit started from a built-in look, which cannot take revisions: save it as a new preset.');
+      presetId = row.look.id.slice('studio:'.length);
+      const current = await Preset.findOne({ where: { id: presetId, studioId: actor.studioId } });
+      if (!current) throw notFound('The preset the fit started from');
+      await this.presets.update(actor, presetId, { baseRevision: current.revision, parameters: row.result.parameters, message });
+    }
+    await row.update({ savedPresetId: presetId });
+    return { presetId, match: this.dto(row, await names([row.createdById])) };
   }
 
   async remove(actor: MatchActor, id: string): Promise<void> {
@@ -247,6 +276,11 @@ export class MatchesService {
       createdAt: row.createdAt.toISOString(),
     };
   }
+}
+
+/** A look with its source stage neutral and no dither, so the pattern image drives every cell at exactly its pattern level. */
+function patternLook(p: PanelParams): PanelParams {
+  return { ...p, source: { ...p.source, fit: 'native', luma: 'rec709', brightness: 0, contrast: 1, gamma: 1, invert: false, threshold: 0 }, drive: { ...p.drive, dither: 'none' } };
 }
 
 async function names(ids: (string | null)[]): Promise<Map<string, string>> {

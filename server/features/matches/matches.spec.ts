@@ -8,6 +8,7 @@ import { QUEUES } from '../../jobs/job-queue';
 import { createHarness, TestClient, type Harness } from '../../testing/harness';
 import { pngOf } from '../../testing/images';
 import { Membership } from '../studios/membership.model';
+import { PanelMatch } from './match.model';
 import type { MatchJob } from './matches.service';
 
 let h: Harness;
@@ -79,6 +80,22 @@ test('the pattern downloads as a PNG of one pixel a cell, lit corner squares inc
   expect(data[(239 * 320 + 319) * info.channels]).toBe(255);
 });
 
+test('the pattern downloads as frame data that drives each cell at its pattern level [calc: 1 bit a cell, MSB first]', async () => {
+  const res = await viewer.getBytes(url(`/pattern?look=${LOOK}&format=bin`));
+  expect(res.status).toBe(200);
+  expect(res.headers['content-disposition']).toContain('match-pattern-320x240.bin');
+  // 320 × 240 cells at 1 bit: 9600 bytes; the first row starts with the corner square (12 lit cells) then dark.
+  expect(res.body.length).toBe(9600);
+  const layout = patternFor(base);
+  const bit = (x: number, y: number) => (res.body[(y * 320 + x) >> 3] >> (7 - ((y * 320 + x) & 7))) & 1;
+  for (const [x, y] of [[0, 0], [layout.fiducialSize - 1, 0], [layout.fiducialSize, 0], [319, 239], [layout.full.x + 3, layout.full.y + 3], [layout.ramp[0].x + 2, layout.ramp[0].y + 2]]) {
+    expect(bit(x, y)).toBe(layout.levels[y * 320 + x]);
+  }
+  const header = await viewer.getBytes(url(`/pattern?look=${LOOK}&format=c`));
+  expect(header.body.toString()).toMatch(/match_pattern_320x240/);
+  expect((await viewer.get(url(`/pattern?look=${LOOK}&format=tiff`))).body.error.message).toMatch(/format must be one of png, bin, hex, c/);
+});
+
 test('upload, marks, fit on the pool with progress, result, residual image, save as a preset', async () => {
   const up = await editor.upload(url(), { look: LOOK }, { name: 'panel.jpg', bytes: Buffer.from(photo.jpeg) });
   expect(up.status).toBe(201);
@@ -113,7 +130,23 @@ test('upload, marks, fit on the pool with progress, result, residual image, save
   expect(preset.status).toBe(200);
   expect(preset.body.preset.parameters.glass.glowRadiusMm).toBe(glow.value);
   expect(preset.body.preset.parameters.emission.colourSource).toBe('chromaticity');
+  // A built-in look takes no revisions.
+  expect((await editor.post(url(`/${id}/save`), { revisionOfLook: true })).body.error.code).toBe('not_a_studio_preset');
 }, 120_000);
+
+test('a fit that started from a studio preset can be saved as that preset\'s next revision', async () => {
+  const made = await editor.post(`/api/studios/${studioId}/presets`, { name: 'Handheld panel', panelTypeId: 'el-amber-320x240' });
+  expect(made.status).toBe(201);
+  const presetId = made.body.preset.id;
+  const fittedParams = mergeParams(made.body.preset.parameters, { glass: { glowRadiusMm: 0.41 } });
+  const editorId = (await editor.get('/api/auth/me')).body.user.id;
+  const row = await PanelMatch.create({ studioId, createdById: editorId, look: { id: `studio:${presetId}`, name: 'Handheld panel', revision: 1, panelTypeId: 'el-amber-320x240', panelTypeName: 'Amber EL 320 × 240', parameters: made.body.preset.parameters }, photoName: 'p.jpg', photoWidth: 1600, photoHeight: 1250, activeWidthMm: 115.2, activeHeightMm: 86.4, cameraGamma: null, marks: photo.fiducials, status: 'done', result: { parameters: fittedParams, fitted: [], levels: [], quality: { agreement: 1, rmsResidual: 0, pixelsPerCell: 4, clippedShare: 0, crushedShare: 0, marksMovedPx: [0, 0, 0, 0], periodCells: [2, 2], iterations: 1 }, cameraBlurMm: 0, notDetermined: [], marks: photo.fiducials } });
+  const saved = await editor.post(url(`/${row.id}/save`), { revisionOfLook: true });
+  expect(saved.status).toBe(201);
+  expect(saved.body.presetId).toBe(presetId);
+  const preset = await viewer.get(`/api/studios/${studioId}/presets/${presetId}`);
+  expect(preset.body.preset).toMatchObject({ revision: 2, parameters: { glass: { glowRadiusMm: 0.41 } } });
+});
 
 test('marks that cannot be the corners are refused with the reason; a photo too small is refused on upload', async () => {
   const up = await editor.upload(url(), { look: LOOK }, { name: 'panel.jpg', bytes: Buffer.from(photo.jpeg) });

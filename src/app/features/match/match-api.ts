@@ -10,8 +10,8 @@ export class MatchApi {
   readonly base = (studioId: string) => `/api/studios/${studioId}/matches`;
 
   /** Where the pattern PNG of a look downloads from. */
-  patternUrl(studioId: string, look: string): string {
-    return `${this.base(studioId)}/pattern?look=${encodeURIComponent(look)}`;
+  patternUrl(studioId: string, look: string, format = 'png'): string {
+    return `${this.base(studioId)}/pattern?look=${encodeURIComponent(look)}&format=${format}`;
   }
   async list(studioId: string): Promise<MatchDto[]> {
     return (await firstValueFrom(this.http.get<{ matches: MatchDto[] }>(this.base(studioId)))).matches;
@@ -34,8 +34,9 @@ export class MatchApi {
   async fit(studioId: string, id: string): Promise<MatchDto> {
     return (await firstValueFrom(this.http.post<{ match: MatchDto }>(`${this.base(studioId)}/${id}/fit`, {}))).match;
   }
-  async save(studioId: string, id: string, name: string): Promise<{ presetId: string; match: MatchDto }> {
-    return firstValueFrom(this.http.post<{ presetId: string; match: MatchDto }>(`${this.base(studioId)}/${id}/save`, { name }));
+  /** Saves a fit as a new preset (a name), or as a new revision of the studio preset it started from (null). */
+  async save(studioId: string, id: string, name: string | null): Promise<{ presetId: string; match: MatchDto }> {
+    return firstValueFrom(this.http.post<{ presetId: string; match: MatchDto }>(`${this.base(studioId)}/${id}/save`, name === null ? { revisionOfLook: true } : { name }));
   }
   async remove(studioId: string, id: string): Promise<void> {
     await firstValueFrom(this.http.delete(`${this.base(studioId)}/${id}`));

@@ -13,6 +13,7 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { RouterLink } from '@angular/router';
 import { filter, from, switchMap, timer } from 'rxjs';
 import type { MatchDto } from '../../../../shared/api/match.schema';
+import { FRAME_DATA_FORMAT_INFO, FRAME_DATA_FORMATS } from '../../../../shared/drive/frame-data-formats';
 import { MIN_PATTERN_COLS, MIN_PATTERN_ROWS } from '../../../../shared/match/pattern';
 import { apiErrorMessage } from '../../core/api-error';
 import { AuthStore } from '../../core/auth-store';
@@ -75,6 +76,10 @@ export class PanelMatch {
   protected readonly simulatedUrl = computed(() => `${this.api.base(this.context.studioId())}/${this.selected()?.id}/simulated`);
   protected readonly residualUrl = computed(() => `${this.api.base(this.context.studioId())}/${this.selected()?.id}/residual?at=${this.selected()?.progress}`);
   protected readonly patternUrl = computed(() => this.api.patternUrl(this.context.studioId(), this.lookId()));
+  protected readonly frameDataFormats = FRAME_DATA_FORMATS.map((f) => ({ format: f, label: FRAME_DATA_FORMAT_INFO[f].label }));
+  protected frameDataUrl(format: string): string {
+    return this.api.patternUrl(this.context.studioId(), this.lookId(), format);
+  }
 
   constructor() {
     this.setLook(this.lookId());
@@ -177,14 +182,15 @@ export class PanelMatch {
     }
   }
 
-  protected async save(): Promise<void> {
+  /** Saves the fit as a new preset, or (asRevision) as a new revision of the studio preset it started from. */
+  protected async save(asRevision = false): Promise<void> {
     const m = this.selected();
-    if (!m || this.saving() || !this.presetName().trim()) return;
+    if (!m || this.saving() || (!asRevision && !this.presetName().trim())) return;
     this.saving.set(true);
     try {
-      const saved = await this.api.save(this.context.studioId(), m.id, this.presetName().trim());
+      const saved = await this.api.save(this.context.studioId(), m.id, asRevision ? null : this.presetName().trim());
       this.selected.set(saved.match);
-      this.snackBar.open(`Saved “${this.presetName().trim()}” as a studio preset.`, undefined, { duration: 4000 });
+      this.snackBar.open(asRevision ? `Saved as a new revision of “${m.look.name}”.` : `Saved “${this.presetName().trim()}” as a studio preset.`, undefined, { duration: 4000 });
       this.presets.reload();
     } catch (err) {
       this.snackBar.open(apiErrorMessage(err), 'Dismiss', { duration: 8000 });
