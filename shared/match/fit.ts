@@ -352,13 +352,18 @@ function gridPeriod(photo: LinearPhoto, h: Homography, box: CellRect, along: 'x'
       }
       return re * re + im * im;
     };
-    const step = 0.001;
+    // A coarse scan, then a fine one round its peak.
     let best = 2;
     let bestPower = -1;
-    for (let T = 1.8; T <= 2.2 + 1e-9; T += step) {
-      const p = power(T);
-      if (p > bestPower) [best, bestPower] = [T, p];
-    }
+    const scan = (from: number, to: number, step: number) => {
+      for (let T = from; T <= to + 1e-9; T += step) {
+        const p = power(T);
+        if (p > bestPower) [best, bestPower] = [T, p];
+      }
+    };
+    scan(1.8, 2.2, 0.01);
+    const step = 0.001;
+    scan(best - 0.01, best + 0.01, step);
     const [a, b, c] = [power(best - step), bestPower, power(best + step)];
     const denom = a - 2 * b + c;
     return denom < 0 ? best + (step * (a - c)) / (2 * denom) : best;
@@ -544,7 +549,7 @@ function fitShape(photo: LinearPhoto, h: Homography, layout: MatchLayout, start:
   // 2. Levenberg–Marquardt on fill, glow width and camera blur, the shares projected out.
   const z0 = shapeKnobs.map((k) => Math.max(get(params, k), spec(k.group, k.key).step * 10));
   const index = Float64Array.from({ length: n }, (_, i) => i);
-  const run = (initial: number[]) =>
+  const lm = (initial: number[], iterations: number) =>
     levenbergMarquardt(
       { x: index as unknown as number[], y: y as unknown as number[] },
       (z: number[]) => {
@@ -554,14 +559,28 @@ function fitShape(photo: LinearPhoto, h: Homography, layout: MatchLayout, start:
       {
         initialValues: initial,
         minValues: [...shapeKnobs.map((k, i) => spec(k.group, k.key).min / z0[i]), 0],
-        maxValues: [...shapeKnobs.map((k, i) => spec(k.group, k.key).max / z0[i]), 4 * scale],
+        maxValues: [...shapeKnobs.map((k, i) => spec(k.group, k.key).max / z0[i]), blurMargin / 3],
         gradientDifference: [...shapeKnobs.map(() => 0.01), 0.02],
         damping: 0.01,
-        maxIterations: 15,
+        maxIterations: iterations,
         errorTolerance: 0,
         improvementThreshold: 1e-4,
       },
     );
+  /** Levenberg–Marquardt in rounds of 5 iterations (at most 15), stopping once a round improves the residual by under 0.01 %. */
+  const run = (initial: number[]) => {
+    let fit = lm(initial, 5);
+    let total = fit.iterations;
+    let before = Infinity;
+    while (total < 15 && before - fit.parameterError > 1e-4 * fit.parameterError) {
+      before = fit.parameterError;
+      const next = lm(fit.parameterValues, 5);
+      total += next.iterations;
+      if (next.parameterError <= fit.parameterError) fit = next;
+      else break;
+    }
+    return { ...fit, iterations: total };
+  };
   let fit = run([...shapeKnobs.map(() => 1), blur]);
   const adopt = () => {
     params = withShapes(params, fit.parameterValues, z0);

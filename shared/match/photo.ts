@@ -63,8 +63,8 @@ export interface Rectified {
 
 /**
  * Resamples a photo plane onto the panel's grid: `rect` (cells) at sx × sy samples a cell, each
- * sample the mean of k × k bilinear taps spread over its footprint (k from the photo pixels a
- * sample spans, at most 4, or `taps`), so a photo denser than the samples is averaged rather than
+ * sample the mean of kx × ky bilinear taps spread over its footprint (from the photo pixels a
+ * sample spans each way, at most 4, or `taps` both ways), so a photo denser than the samples is averaged rather than
  * aliased. `toPhoto` maps cell coordinates to photo pixels; `shift` moves the grid (in cells).
  */
 export function rectify(plane: ArrayLike<number>, photo: Pick<LinearPhoto, 'width' | 'height'>, toPhoto: mat3, rect: CellRect, sx: number, sy: number, options: { shift?: [number, number]; taps?: number } = {}): Rectified {
@@ -73,21 +73,23 @@ export function rectify(plane: ArrayLike<number>, photo: Pick<LinearPhoto, 'widt
   const data = new Float32Array(width * height);
   const [dx, dy] = options.shift ?? [0, 0];
   const ppc = pixelsPerCell(toPhoto, rect.x + rect.w / 2, rect.y + rect.h / 2);
-  const k = options.taps ?? Math.min(4, Math.max(1, Math.ceil(Math.max(ppc.across / sx, ppc.down / sy))));
+  // Taps across and down: enough to cover each sample's footprint in the photo (at most 4 each way).
+  const kx = options.taps ?? Math.min(4, Math.max(1, Math.ceil(ppc.across / sx)));
+  const ky = options.taps ?? Math.min(4, Math.max(1, Math.ceil(ppc.down / sy)));
   // The homography's entries (column-major), applied inline: this loop runs millions of times.
   const m = toPhoto;
   for (let j = 0; j < height; j++) {
     for (let i = 0; i < width; i++) {
       let sum = 0;
-      for (let b = 0; b < k; b++) {
-        const cy = rect.y + dy + (j + (b + 0.5) / k) / sy;
-        for (let a = 0; a < k; a++) {
-          const cx = rect.x + dx + (i + (a + 0.5) / k) / sx;
+      for (let b = 0; b < ky; b++) {
+        const cy = rect.y + dy + (j + (b + 0.5) / ky) / sy;
+        for (let a = 0; a < kx; a++) {
+          const cx = rect.x + dx + (i + (a + 0.5) / kx) / sx;
           const w = m[2] * cx + m[5] * cy + m[8];
           sum += bilinear(plane, photo.width, photo.height, (m[0] * cx + m[3] * cy + m[6]) / w, (m[1] * cx + m[4] * cy + m[7]) / w);
         }
       }
-      data[j * width + i] = sum / (k * k);
+      data[j * width + i] = sum / (kx * ky);
     }
   }
   return { width, height, data };

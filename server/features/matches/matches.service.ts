@@ -295,7 +295,12 @@ async function photoSize(bytes: Buffer): Promise<{ width: number; height: number
   try {
     meta = await sharp(bytes, { limitInputPixels: false }).metadata();
   } catch {
-    throw new AppError(400, 'unreadable_image', 'The photo could not be read as an image. Send the camera’s JPEG (or a PNG, WebP or HEIC it can read).');
+    // An ISO media file whose brand is HEVC-coded HEIF: the image library here reads AVIF, not HEVC.
+    const brand = bytes.subarray(4, 12).toString('latin1');
+    if (/^ftyp(heic|heix|hevc|hevx|mif1|msf1)/.test(brand)) {
+      throw new AppError(415, 'heic_not_supported', 'HEIC photos (the default on many phones) cannot be read here. Set the camera to JPEG (“Most Compatible”), or export the photo as JPEG, and upload that.');
+    }
+    throw new AppError(400, 'unreadable_image', 'The photo could not be read as an image. Send the camera’s JPEG, or a PNG, WebP or AVIF.');
   }
   const turned = (meta.orientation ?? 1) >= 5;
   const width = (turned ? meta.height : meta.width) ?? 0;

@@ -160,6 +160,11 @@ test('marks that cannot be the corners are refused with the reason; a photo too 
   expect(small.status).toBe(422);
   expect(small.body.error.message).toMatch(/320 × 240 pixels; at least 640 × 480/);
   expect((await viewer.upload(url(), { look: LOOK }, { name: 'panel.jpg', bytes: Buffer.from(photo.jpeg) })).status).toBe(403);
+  // An HEVC-coded HEIF header (ISO/IEC 23008-12 'ftyp' box, brand 'heic') is named, with what to send instead.
+  const heic = Buffer.concat([Buffer.from([0, 0, 0, 24]), Buffer.from('ftypheic'), Buffer.alloc(64)]);
+  const refused = await editor.upload(url(), { look: LOOK }, { name: 'IMG_0001.HEIC', bytes: heic });
+  expect(refused.status).toBe(415);
+  expect(refused.body.error.message).toMatch(/HEIC photos .* cannot be read here/);
 });
 
 test('a fiducial placed off the panel ends the fit with the reason, not a silent bad fit', async () => {
