@@ -1,7 +1,5 @@
 import { writeFile } from 'node:fs/promises';
-import { patternFor } from '../shared/match/pattern';
-import { builtInPresetById } from '../shared/model/panel-types';
-import { mergeParams } from '../shared/model/parameters';
+import { handheldShot } from '../shared/testing/match-fixtures';
 import { syntheticPhoto } from '../shared/testing/synthetic-photo';
 import { choose } from './bench-helpers';
 import { expect, signIn, test } from './fixtures';
@@ -10,26 +8,8 @@ test('panel match: pattern downloaded, photo uploaded, marks dragged and nudged 
   test.setTimeout(180_000);
   void guard;
   // A photo of a 320 × 240 amber EL whose glow is wider than the look's (made from the pipeline: test data).
-  const base = builtInPresetById('el-amber-320x240.standard')!.parameters;
-  const truth = mergeParams(base, { glass: { glowRadiusMm: 0.36, glowShare: 0.16 }, emission: { colourSource: 'chromaticity', chromaX: 0.5, chromaY: 0.42 } });
-  const photo = await syntheticPhoto(truth, {
-    scale: 5,
-    width: 1600,
-    height: 1250,
-    corners: [
-      [100, 90],
-      [1500, 120],
-      [1480, 1150],
-      [120, 1130],
-    ],
-    exposure: 0.8,
-    ambient: 0.01,
-    blur: 0.8,
-    noise: 0.01,
-    quality: 90,
-    seed: 5,
-    layout: patternFor(base),
-  });
+  const { truth, shot } = handheldShot(5);
+  const photo = await syntheticPhoto(truth, shot);
   const photoPath = testInfo.outputPath('panel-photo.jpg');
   await writeFile(photoPath, photo.jpeg);
 

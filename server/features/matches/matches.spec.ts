@@ -3,7 +3,7 @@ import { patternFor } from '../../../shared/match/pattern';
 import { builtInPresetById } from '../../../shared/model/panel-types';
 import { mergeParams } from '../../../shared/model/parameters';
 import { inWorker } from '../../../shared/testing/in-worker';
-import type { syntheticJpeg } from '../../../shared/testing/match-fixtures';
+import { HANDHELD_LOOK, handheldShot, type syntheticJpeg } from '../../../shared/testing/match-fixtures';
 import { QUEUES } from '../../jobs/job-queue';
 import { createHarness, TestClient, type Harness } from '../../testing/harness';
 import { pngOf } from '../../testing/images';
@@ -15,10 +15,8 @@ let h: Harness;
 let editor: TestClient;
 let viewer: TestClient;
 let studioId: string;
-const LOOK = 'el-amber-320x240.standard';
+const LOOK = HANDHELD_LOOK;
 const base = builtInPresetById(LOOK)!.parameters;
-/** The real panel in the photo: glow wider and stronger than the look's. */
-const truth = mergeParams(base, { glass: { glowRadiusMm: 0.36, glowShare: 0.16 }, emission: { colourSource: 'chromaticity', chromaX: 0.5, chromaY: 0.42 } });
 const url = (rest = '') => `/api/studios/${studioId}/matches${rest}`;
 let photo: { jpeg: Uint8Array; fiducials: [number, number][] };
 
@@ -36,25 +34,9 @@ beforeAll(async () => {
     { studioId, userId: e.id, role: 'editor' },
     { studioId, userId: v.id, role: 'viewer' },
   ]);
-  // About 4.6 photo pixels a cell, in perspective, with lens blur, sensor noise and JPEG (in a worker: shared/testing/match-fixtures.ts).
-  photo = await inWorker<Awaited<ReturnType<typeof syntheticJpeg>>>(require.resolve('../../../shared/testing/match-fixtures'), 'syntheticJpeg', truth, {
-    scale: 5,
-    width: 1600,
-    height: 1250,
-    corners: [
-      [100, 90],
-      [1500, 120],
-      [1480, 1150],
-      [120, 1130],
-    ],
-    exposure: 0.8,
-    ambient: 0.01,
-    blur: 0.8,
-    noise: 0.01,
-    quality: 90,
-    seed: 3,
-    layout: patternFor(base),
-  });
+  // About 4.6 photo pixels a cell, in perspective, with lens blur, sensor noise and JPEG (made in a worker: shared/testing/match-fixtures.ts).
+  const { truth, shot } = handheldShot(3);
+  photo = await inWorker<Awaited<ReturnType<typeof syntheticJpeg>>>(require.resolve('../../../shared/testing/match-fixtures'), 'syntheticJpeg', truth, shot);
 }, 120_000);
 afterAll(() => h.close());
 
