@@ -20,6 +20,9 @@ const run = (cmd, args, env = {}) => {
 
 const psql = (sql) => spawnSync('psql', ['-h', '127.0.0.1', '-p', String(pgPort), '-U', 'emberline', '-d', 'postgres', '-qc', sql], { stdio: 'inherit' });
 
+// The layers' dependency rules (.dependency-cruiser.cjs): seconds, so first.
+if (!only || only === 'unit') run('npx', ['depcruise', 'server', 'shared', 'src', 'e2e', 'bench', 'scripts', '--config', '.dependency-cruiser.cjs']);
+
 if (!only || only === 'unit') {
   psql('DROP DATABASE IF EXISTS emberline_test WITH (FORCE)');
   startDb(['emberline_test']);

@@ -7,7 +7,8 @@ import type { Sequelize } from 'sequelize';
 import type { Config } from './config';
 import { ApiRouter, type RouteSpec } from './core/api-router';
 import { apiNotFound, errorHandler } from './core/error-handler';
-import { publicAccess } from './core/policy';
+import { publicAccess, useRoleLookup } from './core/policy';
+import { roleIn } from './features/studios/membership-lookup';
 import { refuseNul } from './core/refuse-nul';
 import { securityHeaders } from './core/security-headers';
 import { absoluteLifetime, csrfProtection, sessionMiddleware } from './core/session';
@@ -60,6 +61,8 @@ export interface AppDeps {
 /** The Express app with every route; `listen` is the caller's business (server/main.ts, tests). */
 export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; artworks: ArtworksService; renders: RendersService; renderEngine: RenderEngine; exports: ExportsService; matches: MatchesService; blobs: BlobStore } {
   const { config, sequelize, mailer } = deps;
+  // Studio routes read roles through the studios feature's cached lookup (core stays below features).
+  useRoleLookup(roleIn);
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');

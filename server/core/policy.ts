@@ -1,6 +1,5 @@
 import type { Request, RequestHandler } from 'express';
 import { roleAtLeast, type Role } from '../../shared/model/roles';
-import { roleIn } from '../features/studios/membership-lookup';
 import { forbidden, notFound, unauthenticated } from './app-error';
 
 /** Who may call a route. Every /api route declares one; a route without one is a test failure. */
@@ -14,6 +13,15 @@ export const POLICY = Symbol('emberline.policy');
 export const publicAccess: Policy = { kind: 'public' };
 export const signedIn: Policy = { kind: 'signedIn' };
 export const studioRole = (role: Role): Policy => ({ kind: 'studio', role });
+
+/** How the studio policy reads a user's role in a studio (null: not a member). */
+export type RoleLookup = (studioId: string, userId: string) => Promise<Role | null>;
+let roleOf: RoleLookup | null = null;
+
+/** Gives the policy its role lookup (the studios feature's cached one); createApp does this before any route runs. */
+export function useRoleLookup(lookup: RoleLookup): void {
+  roleOf = lookup;
+}
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
@@ -33,7 +41,8 @@ export function enforce(policy: Policy): RequestHandler {
     const studioId = String(req.params.studioId ?? '');
     // Another studio's id and a malformed id look the same as a missing one (no IDOR oracle).
     if (!UUID.test(studioId)) throw notFound('The studio');
-    const role = await roleIn(studioId, req.user.id);
+    if (!roleOf) throw new Error('the studio policy has no role lookup: createApp sets one with useRoleLookup');
+    const role = await roleOf(studioId, req.user.id);
     if (!role) throw notFound('The studio');
     if (!roleAtLeast(role, policy.role)) throw forbidden();
     req.membership = { studioId, userId: req.user.id, role };

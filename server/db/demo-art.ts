@@ -1,6 +1,6 @@
 import sharp from 'sharp';
 import { EMBER_5X7 } from '../../fonts/ember-5x7';
-import { pngOf } from '../testing/images';
+import { pngOf } from '../render/png-of';
 
 /** A grayscale canvas for the demo drawings (0–255 per pixel). */
 class Sketch {

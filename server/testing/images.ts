@@ -1,12 +1,7 @@
 import { crc32, deflateSync } from 'node:zlib';
-import { PNG } from 'pngjs';
 
-/** An RGBA PNG from a pixel function, encoded with pngjs (independent of sharp). */
-export function pngOf(width: number, height: number, pixel: (x: number, y: number) => [number, number, number, number]): Buffer {
-  const png = new PNG({ width, height });
-  for (let y = 0; y < height; y++) for (let x = 0; x < width; x++) png.data.set(pixel(x, y), (y * width + x) * 4);
-  return PNG.sync.write(png);
-}
+/** An RGBA PNG from a pixel function (pngjs, independent of sharp); the demo seed uses it too. */
+export { pngOf } from '../render/png-of';
 
 /** One PNG chunk: length, type, data and its CRC-32 (PNG specification, section 5.3). */
 export function pngChunk(type: string, data: Buffer): Buffer {

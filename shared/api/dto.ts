@@ -114,7 +114,7 @@ export interface ShareLinkDto {
 export interface SharedViewDto {
   preset: Pick<PresetDto, 'name' | 'panelTypeId' | 'parameters' | 'revision'>;
   studioName: string;
-  artwork: Pick<import('./dto').ArtworkDto, 'name' | 'width' | 'height' | 'frameCount' | 'delaysMs'> | null;
+  artwork: Pick<ArtworkDto, 'name' | 'width' | 'height' | 'frameCount' | 'delaysMs'> | null;
   framesUrl: string | null;
 }
 

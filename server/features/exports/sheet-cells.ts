@@ -1,6 +1,6 @@
 import { composeSheet, differenceMap, fitNearest, SHEET_LAYOUT_LABELS, type SheetCell, type SheetInput } from '../../../shared/export/sheet';
 import { PARAMS, type EnumSpec } from '../../../shared/model/parameters';
-import { legibility, lightFigures, type LightFrame } from '../../../shared/analysis/panel-report';
+import { legibility, lightFigures } from '../../../shared/analysis/panel-report';
 import { panelEmission, PIPELINE_VERSION } from '../../../shared/pipeline/render';
 import type { SpriteSheet } from '../../../shared/pipeline/sprite-sheet';
 import type { Frame, RgbaImage } from '../../../shared/pipeline/types';
@@ -8,7 +8,7 @@ import { encodePng } from '../../render/encode';
 import type { RenderRequest } from '../../render/render-engine';
 import type { ExportDto, ExportFormat } from '../../../shared/api/export.schema';
 import type { SheetSpec } from './export.model';
-import { rendersZip, sheetPdf } from './sheet-files';
+import { rendersZip, sheetPdf, type CellReport } from './sheet-files';
 
 const ditherLabel = (PARAMS.find((p) => p.key === 'dither') as EnumSpec).optionLabels;
 const plural = (n: number, one: string) => `${n} ${one}${n === 1 ? '' : 's'}`;
@@ -23,11 +23,6 @@ function renderLines(look: SheetSpec['looks'][number], artworkName: string): str
   ];
 }
 
-/** A render's analysis, as the bench's report computes it: legibility of one-cell detail, and light and power. */
-export interface CellReport {
-  legibility: { score: number; lostShare: number; edges: number };
-  light: LightFrame;
-}
 
 /** The analysis of one cell (the frame's emission through the look). */
 export function cellReport(frames: readonly Frame[], look: SheetSpec['looks'][number], frame: number): CellReport {

@@ -3,12 +3,18 @@ import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { inflateSync } from 'node:zlib';
 import PDFDocument from 'pdfkit';
+import type { LightFrame } from '../../../shared/analysis/panel-report';
 import type { ExportDto } from '../../../shared/api/export.schema';
 import { SHEET_LAYOUT_LABELS } from '../../../shared/export/sheet';
 import { PIPELINE_VERSION } from '../../../shared/pipeline/render';
 import type { SheetSpec } from './export.model';
-import type { CellReport } from './sheet-cells';
 import { lookManifest } from './export-files';
+
+/** A render's analysis, as the bench's report computes it: legibility of one-cell detail, and light and power. */
+export interface CellReport {
+  legibility: { score: number; lostShare: number; edges: number };
+  light: LightFrame;
+}
 
 /** The manifest's own format name, beside the preset documents it holds. */
 export const MANIFEST_FORMAT = 'emberline.sheet-manifest';
