@@ -1,6 +1,5 @@
 import '../model/zod-config';
 import { z } from 'zod';
-import { ROLES } from '../model/roles';
 import { mailedNameSchema } from './text.schema';
 
 /** Passwords: 8–128 characters of any Unicode, counted as code points (ASVS 5.0 6.2). */
@@ -47,14 +46,3 @@ export const changePasswordSchema = z.strictObject({
   currentPassword: z.string().max(1024),
   newPassword: passwordSchema,
 });
-
-/** Studio names appear in invitation mails: one line, no web addresses (security item 31). */
-export const studioNameSchema = mailedNameSchema(80);
-
-export const createStudioSchema = z.strictObject({ name: studioNameSchema });
-export const updateStudioSchema = z.strictObject({ name: studioNameSchema });
-
-export const roleSchema = z.enum(ROLES, { message: `must be one of ${ROLES.join(', ')}` });
-
-export const inviteSchema = z.strictObject({ email: emailSchema, role: roleSchema });
-export const changeRoleSchema = z.strictObject({ role: roleSchema });

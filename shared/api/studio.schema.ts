@@ -1,0 +1,16 @@
+import '../model/zod-config';
+import { z } from 'zod';
+import { ROLES } from '../model/roles';
+import { emailSchema } from './auth.schema';
+import { mailedNameSchema } from './text.schema';
+
+/** Studio names appear in invitation mails: one line, no web addresses (security item 31). */
+export const studioNameSchema = mailedNameSchema(80);
+
+export const createStudioSchema = z.strictObject({ name: studioNameSchema });
+export const updateStudioSchema = z.strictObject({ name: studioNameSchema });
+
+export const roleSchema = z.enum(ROLES, { message: `must be one of ${ROLES.join(', ')}` });
+
+export const inviteSchema = z.strictObject({ email: emailSchema, role: roleSchema });
+export const changeRoleSchema = z.strictObject({ role: roleSchema });
