@@ -7,6 +7,7 @@ import { patternFor, patternImage, type MatchLayout } from '../../../shared/matc
 import { DEFAULT_FRAME_LAYOUT, frameData, type FrameData } from '../../../shared/drive/frame-data';
 import { encodeFrameData, FRAME_DATA_FORMAT_INFO, type FrameDataFormat } from '../../../shared/drive/frame-data-formats';
 import type { PanelParams } from '../../../shared/model/parameters';
+import type { RgbaImage } from '../../../shared/pipeline/types';
 import type { Rectified } from '../../../shared/match/photo';
 import type { Role } from '../../../shared/model/roles';
 import { AppError, forbidden, notFound } from '../../core/app-error';
@@ -132,9 +133,7 @@ export class MatchesService {
   async rectified(studioId: string, id: string): Promise<Buffer> {
     const row = await this.row(studioId, id);
     if (!row.marks) throw new AppError(409, 'no_marks', 'Place the four marks on the corner squares first.');
-    const decoded = await sharp(await this.blobs.get(photoKey(row.id)), { limitInputPixels: MAX_PHOTO_PIXELS }).rotate().ensureAlpha().raw().toBuffer({ resolveWithObject: true });
-    const photo = { width: decoded.info.width, height: decoded.info.height, data: new Uint8Array(decoded.data.buffer, decoded.data.byteOffset, decoded.data.length) };
-    return encodePng(await this.engine.rectifyPhoto(photo, row.marks, row.look.parameters, this.previewScale(row)));
+    return encodePng(await this.engine.rectifyPhoto(await this.decodedPhoto(row.id), row.marks, row.look.parameters, this.previewScale(row)));
   }
 
   /** The pattern as the look shows it (a reference render, source stage neutral so every cell gets its pattern level), at the rectified photo's size. */
@@ -213,11 +212,11 @@ export class MatchesService {
     if (!row || !row.marks || row.status === 'done') return;
     await row.update({ status: 'running', progress: 0.01, step: 'Reading the photo' });
     try {
-      const decoded = await sharp(await this.blobs.get(photoKey(row.id)), { limitInputPixels: MAX_PHOTO_PIXELS }).rotate().ensureAlpha().raw().toBuffer({ resolveWithObject: true });
+      const photo = await this.decodedPhoto(row.id);
       let last = 0;
       const outcome = await this.engine.fitMatch(
         {
-          photo: { width: decoded.info.width, height: decoded.info.height, data: new Uint8Array(decoded.data.buffer, decoded.data.byteOffset, decoded.data.length) },
+          photo,
           marks: row.marks,
           base: row.look.parameters,
           options: { camera: row.cameraGamma ? { kind: 'gamma', gamma: row.cameraGamma } : { kind: 'srgb' }, activeWidthMm: row.activeWidthMm, activeHeightMm: row.activeHeightMm },
@@ -241,6 +240,12 @@ export class MatchesService {
       if (!(err instanceof AppError)) console.error(`[matches] ${row.id}: ${(err as Error).message}`);
       await row.update({ status: 'failed', step: 'Could not fit', error: message });
     }
+  }
+
+  /** A match's photo, upright (by its EXIF orientation), as RGBA: what the fit and the previews read. */
+  private async decodedPhoto(id: string): Promise<RgbaImage> {
+    const decoded = await sharp(await this.blobs.get(photoKey(id)), { limitInputPixels: MAX_PHOTO_PIXELS }).rotate().ensureAlpha().raw().toBuffer({ resolveWithObject: true });
+    return { width: decoded.info.width, height: decoded.info.height, data: new Uint8Array(decoded.data.buffer, decoded.data.byteOffset, decoded.data.length) };
   }
 
   private async row(studioId: string, id: string): Promise<PanelMatch> {
