@@ -90,8 +90,9 @@ class FrameCache {
 /**
  * Reference renders on a pool of worker threads (piscina), sized to the cores. The HTTP thread
  * decodes (sharp, on libvips' own threads), checks sizes and encodes; every pipeline stage runs in
- * a worker. One render is split in two steps — the panel stages and glow field, then the output
- * stages in row bands, one band a thread — so a single large render uses every core, and the
+ * a worker. One render is split in steps — the panel stages, the glow components blurred in
+ * bands, then the output stages in row bands (each summing the glow rows it reads), one band a
+ * thread — so a single large render uses every core, and the
  * bytes equal a single-thread render (each output row depends only on the inputs).
  */
 export class RenderEngine {
@@ -159,25 +160,24 @@ export class RenderEngine {
       const plan = glowPlan(cell, glass);
       const size = glowFieldSize(cell, plan);
       const components = glowComponents(plan).map((c) => componentSize(cell, c));
-      const buffers = [cell.cols * cell.rows * 4, size.width * size.height * 4, width * height * 4, ...components.map((c) => c.width * c.height * 4)].map((n) => this.buffers.acquire(n));
+      const buffers = [cell.cols * cell.rows * 4, width * height * 4, ...components.map((c) => c.width * c.height * 4)].map((n) => this.buffers.acquire(n));
       try {
-        const [emission, glowData] = [new Float32Array(buffers[0]), new Float32Array(buffers[1])];
-        const out = new Uint8Array(buffers[2]);
-        const componentData = buffers.slice(3).map((b) => new Float32Array(b));
+        const emission = new Float32Array(buffers[0]);
+        const out = new Uint8Array(buffers[1]);
+        const componentData = buffers.slice(2).map((b) => new Float32Array(b));
         const threads = Math.max(1, options.bands ?? this.threads);
         await this.run('panel', { frames, parameters: req.parameters, frame: req.frame, emissionOut: emission });
-        // The glow field in three steps, each split in bands across the threads: every
-        // component blurred across (row bands), then down (column bands), then summed (row bands).
-        const glowTask = { emission, parameters: req.parameters, components: componentData, out: glowData };
+        // The glow components blurred in two steps, each split in bands across the threads:
+        // across (row bands), then down (column bands). Each output band then sums the glow
+        // rows it reads and composes its rows.
+        const glowTask = { emission, parameters: req.parameters, components: componentData };
         const steps = (step: 'across' | 'down', extent: (c: { width: number; height: number }) => number) =>
           components.flatMap((c, k) => bandsOf(extent(c), threads).map(([from, to]) => ({ ...glowTask, step, k, from, to })));
         await this.runAll('glowStep', steps('across', (c) => c.height));
         await this.runAll('glowStep', steps('down', (c) => c.width));
-        await this.runAll('glowStep', bandsOf(size.height, threads).map(([from, to]) => ({ ...glowTask, step: 'sum', k: 0, from, to })));
-        const glow: Field = { ...size, data: glowData };
         await this.runAll(
           'band',
-          bandsOf(height, threads).map(([y0, y1]) => ({ emission, glow, parameters: req.parameters, scale: req.scale, rows: { y0, y1 }, out })),
+          bandsOf(height, threads).map(([y0, y1]) => ({ emission, components: componentData, parameters: req.parameters, scale: req.scale, rows: { y0, y1 }, out })),
         );
         return await use({ width, height, data: out });
       } finally {

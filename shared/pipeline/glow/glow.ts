@@ -152,9 +152,10 @@ export function fluxRows(emission: Float32Array, cell: PanelParams['cell'], m: n
  * Adds `share` × a field sampled m per cell into rows [y0, y1) of a field sampled M per cell (M a
  * multiple of m or not), bilinearly at sample centres: fine sample k sits at (k + 0.5)/M cells,
  * which is coarse coordinate (k + 0.5)·m/M − 0.5, clamped at the edges. `coarse` may hold only
- * the rows from coarseRow0 on that those fine rows read (coarse.height stays the whole field's).
+ * the rows from coarseRow0 on that those fine rows read, and `fine` only its rows from fineRow0
+ * on (each field's height stays the whole field's).
  */
-export function addUpsampled(coarse: Field, m: number, fine: Field, M: number, share: number, y0 = 0, y1 = fine.height, coarseRow0 = 0): void {
+export function addUpsampled(coarse: Field, m: number, fine: Field, M: number, share: number, y0 = 0, y1 = fine.height, coarseRow0 = 0, fineRow0 = 0): void {
   const map = (n: number, size: number) => {
     const i0 = new Int32Array(n);
     const i1 = new Int32Array(n);
@@ -171,19 +172,30 @@ export function addUpsampled(coarse: Field, m: number, fine: Field, M: number, s
   const ys = map(fine.height, coarse.height);
   const src = coarse.data;
   const dst = fine.data;
+  // Each coarse row interpolated across once, in double precision, and kept while fine rows read
+  // it (rows are read in order: two buffers hold the pair in use): the same sums as
+  // interpolating both ways per fine sample.
+  const across = [new Float64Array(fine.width), new Float64Array(fine.width)];
+  const held = [-1, -1];
+  const rowAcross = (r: number): Float64Array => {
+    const slot = r & 1;
+    if (held[slot] !== r) {
+      const row = across[slot];
+      const base = (r - coarseRow0) * coarse.width;
+      for (let x = 0; x < fine.width; x++) {
+        const tx = xs.t[x];
+        row[x] = src[base + xs.i0[x]] * (1 - tx) + src[base + xs.i1[x]] * tx;
+      }
+      held[slot] = r;
+    }
+    return across[slot];
+  };
   for (let y = y0; y < y1; y++) {
     const t = ys.t[y];
-    const r0 = (ys.i0[y] - coarseRow0) * coarse.width;
-    const r1 = (ys.i1[y] - coarseRow0) * coarse.width;
-    const row = y * fine.width;
-    for (let x = 0; x < fine.width; x++) {
-      const a = xs.i0[x];
-      const b = xs.i1[x];
-      const tx = xs.t[x];
-      const top = src[r0 + a] * (1 - tx) + src[r0 + b] * tx;
-      const bottom = src[r1 + a] * (1 - tx) + src[r1 + b] * tx;
-      dst[row + x] += share * (top * (1 - t) + bottom * t);
-    }
+    const top = rowAcross(ys.i0[y]);
+    const bottom = rowAcross(ys.i1[y]);
+    const row = (y - fineRow0) * fine.width;
+    for (let x = 0; x < fine.width; x++) dst[row + x] += share * (top[x] * (1 - t) + bottom[x] * t);
   }
 }
 
@@ -229,11 +241,12 @@ export function componentDown(cell: PanelParams['cell'], c: GlowComponent, data:
 /**
  * Step 3, rows [y0, y1) of the glow field: adds component k (of glowComponents) × its share,
  * upsampled onto the finest grid when coarser. Component 0 is written, not added. Components are
- * summed in order, so bands summed apart agree.
+ * summed in order, so bands summed apart agree. `out.data` may hold only the field's rows from
+ * outRow0 on (a band's own rows).
  */
-export function sumComponent(cell: PanelParams['cell'], plan: GlowPlan, k: number, blurred: Float32Array, out: Field, y0: number, y1: number): void {
+export function sumComponent(cell: PanelParams['cell'], plan: GlowPlan, k: number, blurred: Float32Array, out: Field, y0: number, y1: number, outRow0 = 0): void {
   const c = glowComponents(plan)[k];
-  const [i0, i1] = [y0 * out.width, y1 * out.width];
+  const [i0, i1] = [(y0 - outRow0) * out.width, (y1 - outRow0) * out.width];
   const size = componentSize(cell, c);
   const M = plan.oversample;
   // The component's rows these output rows read, spread over the ring when it has one.
@@ -252,7 +265,7 @@ export function sumComponent(cell: PanelParams['cell'], plan: GlowPlan, k: numbe
     return;
   }
   if (k === 0) out.data.fill(0, i0, i1);
-  addUpsampled({ ...size, data: source }, c.oversample, out, M, c.share, y0, y1, row0);
+  addUpsampled({ ...size, data: source }, c.oversample, out, M, c.share, y0, y1, row0, outRow0);
 }
 
 /** The coarse rows [r0, r1) that bilinear upsampling (addUpsampled) of fine rows [y0, y1) reads. */
@@ -261,17 +274,18 @@ function coarseRowsFor(height: number, m: number, M: number, y0: number, y1: num
   return [Math.floor(at(y0)), Math.min(Math.floor(at(y1 - 1)) + 2, height)];
 }
 
-/** Step 3 for every component at once, rows [y0, y1): `blurred` in glowComponents order (none: zeros). */
-export function sumComponents(cell: PanelParams['cell'], plan: GlowPlan, blurred: readonly Float32Array[], out: Field, y0: number, y1: number): void {
-  if (blurred.length === 0) out.data.fill(0, y0 * out.width, y1 * out.width);
-  blurred.forEach((data, k) => sumComponent(cell, plan, k, data, out, y0, y1));
+/** Step 3 for every component at once, rows [y0, y1): `blurred` in glowComponents order (none: zeros); `out` as in sumComponent. */
+export function sumComponents(cell: PanelParams['cell'], plan: GlowPlan, blurred: readonly Float32Array[], out: Field, y0: number, y1: number, outRow0 = 0): void {
+  if (blurred.length === 0) out.data.fill(0, (y0 - outRow0) * out.width, (y1 - outRow0) * out.width);
+  blurred.forEach((data, k) => sumComponent(cell, plan, k, data, out, y0, y1, outRow0));
 }
 
 /**
  * The glow field: glowShare·G(flux, σ_glow) + haloShare·Ring(G(flux, σ_ring)). Each component is
  * blurred on the grid that samples it well, then the coarser is upsampled onto the finer. Into
  * `into` when given (glowFieldSize samples; its contents are replaced), else a new array. The
- * render pool runs the same three steps in row and column bands across its threads.
+ * render pool runs the same three steps in row and column bands across its threads (the sum
+ * inside each output band, for the glow rows that band reads).
  */
 export function glowField(emission: Float32Array, cell: PanelParams['cell'], plan: GlowPlan, into?: Float32Array): Field {
   const { width, height } = glowFieldSize(cell, plan);

@@ -219,13 +219,21 @@ export interface RowBand {
   y1: number;
 }
 
+/** The glow-field rows [g0, g1) that output rows [y0, y1) read (bilinear taps, as compose takes them). */
+export function glowRowsFor(u: OutputUniforms, glowHeight: number, band: RowBand): RowBand {
+  const at = (y: number) => Math.min(Math.max(((y + 0.5) / u.cellH) * u.glowOversample - 0.5, 0), glowHeight - 1);
+  return { y0: Math.floor(at(band.y0)), y1: Math.min(Math.floor(at(band.y1 - 1)) + 2, glowHeight) };
+}
+
 /**
  * Output-resolution stages on the CPU: cell apertures (exact box overlap) or CRT line profiles,
  * plus the bilinearly upsampled glow field, then emission colour, light, soft knee and sRGB
  * encode. Writes an opaque RGBA image of u.width × u.height — or only the rows of `band`: every
  * output row depends on the inputs alone, so bands computed apart give the same bytes as one pass.
+ * `glow.data` may hold only the field's rows from glowRow0 on (glowRowsFor the band); its height
+ * stays the whole field's.
  */
-export function compose(emission: Float32Array, glow: Field, u: OutputUniforms, out?: RgbaImage, band: RowBand = { y0: 0, y1: u.height }): RgbaImage {
+export function compose(emission: Float32Array, glow: Field, u: OutputUniforms, out?: RgbaImage, band: RowBand = { y0: 0, y1: u.height }, glowRow0 = 0): RgbaImage {
   const { width, height, cols, rows } = u;
   const image = out ?? { width, height, data: new Uint8Array(width * height * 4) };
   const xs = apertureTaps(width, cols, u.cellW, u.fillX);
@@ -238,7 +246,7 @@ export function compose(emission: Float32Array, glow: Field, u: OutputUniforms, 
   // are needed in order, so a few reused buffers hold the recent ones.
   const profileOf = recentRows(ys.stride + 2, () => new Float32Array(width), (r, into) => rowProfile(emission, r, cols, xs, into));
   const glowRowOf = recentRows(4, () => new Float64Array(width), (g, row) => {
-    const base = g * glow.width;
+    const base = (g - glowRow0) * glow.width;
     const gi = gx.index;
     const gw = gx.weight;
     const data = glow.data;
@@ -250,28 +258,45 @@ export function compose(emission: Float32Array, glow: Field, u: OutputUniforms, 
   const data = image.data;
   // Output rows are encoded into `words`: the image itself where its bytes line up as
   // little-endian words, else a row buffer copied out byte by byte.
-  const view = LITTLE_ENDIAN && data.byteOffset % 4 === 0 ? new Uint32Array(data.buffer, data.byteOffset, data.length / 4) : null;
-  const rowWords = new Uint32Array(width);
-  const { table, perV, vMax } = coder;
+  const view = LITTLE_ENDIAN && data.byteOffset % 4 === 0 ? new Int32Array(data.buffer, data.byteOffset, data.length / 4) : null;
+  const rowWords = new Int32Array(width);
+  const { perV, vMax } = coder;
+  // The words as signed integers: a final word (alpha 255) is negative. Read as unsigned, every
+  // opaque word is past 2³¹, a number the engine would allocate on the heap, once a pixel.
+  const table = new Int32Array(coder.table.buffer, coder.table.byteOffset, coder.table.length);
   for (let y = band.y0; y < band.y1; y++) {
-    // The direct light: the panel rows (or CRT lines) this output row sees, weighted.
-    direct.fill(0);
+    // The direct light: the panel rows (or CRT lines) this output row sees, weighted. One or two
+    // rows (the common cases) are summed inside the pixel loop below; more go through `direct`.
+    let taps = 0;
+    let w0 = 0;
+    let w1 = 0;
+    let p0 = direct;
+    let p1 = direct;
     for (let k = 0; k < ys.stride; k++) {
       const wy = ys.weight[y * ys.stride + k];
       if (wy === 0) continue;
       const p = profileOf(ys.index[y * ys.stride + k]);
-      for (let x = 0; x < width; x++) direct[x] += wy * p[x];
+      if (taps === 0) [w0, p0] = [wy, p];
+      else if (taps === 1) [w1, p1] = [wy, p];
+      else {
+        if (taps === 2) for (let x = 0; x < width; x++) direct[x] = Math.fround(Math.fround(w0 * p0[x]) + w1 * p1[x]);
+        for (let x = 0; x < width; x++) direct[x] += wy * p[x];
+      }
+      taps++;
     }
+    if (taps > 2) [w0, p0, w1, p1] = [1, direct, 0, direct];
     const h0 = glowRowOf(gy.index[y * 2]);
     const h1 = glowRowOf(gy.index[y * 2 + 1]);
     const ty0 = gy.weight[y * 2];
     const ty1 = gy.weight[y * 2 + 1];
     const words = view ? view.subarray(y * width, (y + 1) * width) : rowWords;
     for (let x = 0; x < width; x++) {
-      const v = directShare * direct[x] + (h0[x] * ty0 + h1[x] * ty1);
+      // The same float32 sums as accumulating into a Float32Array row, one tap after the other.
+      const d = taps === 0 ? 0 : taps === 1 ? Math.fround(w0 * p0[x]) : taps === 2 ? Math.fround(Math.fround(w0 * p0[x]) + w1 * p1[x]) : p0[x];
+      const v = directShare * d + (h0[x] * ty0 + h1[x] * ty1);
       // PixelCoder.word's fast path inline; the rest (alpha 0, or v off the table) through it.
       const w = v > 0 && v < vMax ? table[(v * perV) | 0] : 0;
-      words[x] = w >>> 24 === 255 ? w : coder.word(v);
+      words[x] = w < 0 ? w : coder.word(v);
     }
     if (!view) {
       const o = y * width * 4;
