@@ -77,7 +77,11 @@ export function ringOffsets(rx: number, ry: number, sigma: number): Int32Array {
  * Into `out`, whose row 0 is field row y0.
  */
 export function ringRows(field: Field, ring: Int32Array, y0: number, y1: number, out: Float32Array): void {
-  const { width, height, data } = field;
+  ringRowsOf(field.data, field.width, field.height, ring, y0, y1, out);
+}
+
+/** ringRows on a plain array and numbers (see upsampleRows for why). */
+function ringRowsOf(data: Float32Array, width: number, height: number, ring: Int32Array, y0: number, y1: number, out: Float32Array): void {
   const n = ring.length / 2;
   const scale = 1 / n;
   const bases = new Int32Array(n);
@@ -156,47 +160,61 @@ export function fluxRows(emission: Float32Array, cell: PanelParams['cell'], m: n
  * on (each field's height stays the whole field's).
  */
 export function addUpsampled(coarse: Field, m: number, fine: Field, M: number, share: number, y0 = 0, y1 = fine.height, coarseRow0 = 0, fineRow0 = 0): void {
-  const map = (n: number, size: number) => {
-    const i0 = new Int32Array(n);
-    const i1 = new Int32Array(n);
-    const t = new Float64Array(n);
-    for (let k = 0; k < n; k++) {
-      const u = Math.min(Math.max(((k + 0.5) * m) / M - 0.5, 0), size - 1);
-      i0[k] = Math.floor(u);
-      i1[k] = Math.min(i0[k] + 1, size - 1);
-      t[k] = u - i0[k];
-    }
-    return { i0, i1, t };
-  };
-  const xs = map(fine.width, coarse.width);
-  const ys = map(fine.height, coarse.height);
-  const src = coarse.data;
-  const dst = fine.data;
+  upsampleRows(coarse.data, coarse.width, coarse.height, m, fine.data, fine.width, fine.height, M, share, y0, y1, coarseRow0, fineRow0);
+}
+
+/**
+ * addUpsampled on plain arrays and numbers. The hot loops get only typed arrays and numbers, and
+ * no closure is made per call: the engine's optimised code then survives fields of other shapes
+ * and calls from other places (before, it was thrown away and rebuilt call after call, running
+ * meanwhile unoptimised and allocating a heap number for every sum).
+ */
+function upsampleRows(src: Float32Array, cw: number, ch: number, m: number, dst: Float32Array, fw: number, fh: number, M: number, share: number, y0: number, y1: number, coarseRow0: number, fineRow0: number): void {
+  const xs = bilinearTaps(fw, cw, m, M);
+  const ys = bilinearTaps(fh, ch, m, M);
+  const xi0 = xs.i0;
+  const xi1 = xs.i1;
+  const xt = xs.t;
   // Each coarse row interpolated across once, in double precision, and kept while fine rows read
   // it (rows are read in order: two buffers hold the pair in use): the same sums as
   // interpolating both ways per fine sample.
-  const across = [new Float64Array(fine.width), new Float64Array(fine.width)];
-  const held = [-1, -1];
-  const rowAcross = (r: number): Float64Array => {
-    const slot = r & 1;
-    if (held[slot] !== r) {
-      const row = across[slot];
-      const base = (r - coarseRow0) * coarse.width;
-      for (let x = 0; x < fine.width; x++) {
-        const tx = xs.t[x];
-        row[x] = src[base + xs.i0[x]] * (1 - tx) + src[base + xs.i1[x]] * tx;
-      }
-      held[slot] = r;
-    }
-    return across[slot];
-  };
+  const across0 = new Float64Array(fw);
+  const across1 = new Float64Array(fw);
+  let held0 = -1;
+  let held1 = -1;
   for (let y = y0; y < y1; y++) {
     const t = ys.t[y];
-    const top = rowAcross(ys.i0[y]);
-    const bottom = rowAcross(ys.i1[y]);
-    const row = (y - fineRow0) * fine.width;
-    for (let x = 0; x < fine.width; x++) dst[row + x] += share * (top[x] * (1 - t) + bottom[x] * t);
+    for (let j = 0; j < 2; j++) {
+      const r = j === 0 ? ys.i0[y] : ys.i1[y];
+      if ((r & 1 ? held1 : held0) === r) continue;
+      const row = r & 1 ? across1 : across0;
+      const base = (r - coarseRow0) * cw;
+      for (let x = 0; x < fw; x++) {
+        const tx = xt[x];
+        row[x] = src[base + xi0[x]] * (1 - tx) + src[base + xi1[x]] * tx;
+      }
+      if (r & 1) held1 = r;
+      else held0 = r;
+    }
+    const top = ys.i0[y] & 1 ? across1 : across0;
+    const bottom = ys.i1[y] & 1 ? across1 : across0;
+    const row = (y - fineRow0) * fw;
+    for (let x = 0; x < fw; x++) dst[row + x] += share * (top[x] * (1 - t) + bottom[x] * t);
   }
+}
+
+/** For each of n fine samples: the two coarse samples (of `size`) either side of its centre and the weight of the second. */
+function bilinearTaps(n: number, size: number, m: number, M: number): { i0: Int32Array; i1: Int32Array; t: Float64Array } {
+  const i0 = new Int32Array(n);
+  const i1 = new Int32Array(n);
+  const t = new Float64Array(n);
+  for (let k = 0; k < n; k++) {
+    const u = Math.min(Math.max(((k + 0.5) * m) / M - 0.5, 0), size - 1);
+    i0[k] = Math.floor(u);
+    i1[k] = Math.min(i0[k] + 1, size - 1);
+    t[k] = u - i0[k];
+  }
+  return { i0, i1, t };
 }
 
 /** into[i] = share × from[i + shift] for i in [i0, i1) (0 + x is exactly x: the same values as adding into zeros). */

@@ -197,20 +197,49 @@ function rowProfile(emission: Float32Array, row: number, cols: number, xs: Taps,
 }
 
 /**
- * A cache of the `size` most recently used rows, each computed by `fill(index, into)` into one
- * of `size` reused buffers: for rows asked for in (mostly) increasing order.
+ * Which row each of a few reused row buffers holds: for rows asked for in (mostly) increasing
+ * order, row i lives in buffer i mod size.
  */
-function recentRows<T>(size: number, make: () => T, fill: (index: number, into: T) => void): (index: number) => T {
-  const held = Array.from({ length: size }, make);
-  const indexOf = new Int32Array(size).fill(-1);
-  return (index) => {
-    const slot = index % size;
-    if (indexOf[slot] !== index) {
-      fill(index, held[slot]);
-      indexOf[slot] = index;
-    }
-    return held[slot];
-  };
+class RecentRows {
+  private readonly held: Int32Array;
+
+  constructor(readonly size: number) {
+    this.held = new Int32Array(size).fill(-1);
+  }
+
+  /** The buffer for row i, and whether it already holds it (else the caller fills it). */
+  slot(i: number): number {
+    return i % this.size;
+  }
+
+  holds(i: number): boolean {
+    return this.held[i % this.size] === i;
+  }
+
+  mark(i: number): void {
+    this.held[i % this.size] = i;
+  }
+}
+
+/** One glow-grid row interpolated across to output width (the glowTaps of each column), in double precision. */
+function glowRowAcross(glow: Float32Array, base: number, gi: Int32Array, gw: Float32Array, row: Float64Array): void {
+  for (let x = 0; x < row.length; x++) row[x] = glow[base + gi[x * 2]] * gw[x * 2] + glow[base + gi[x * 2 + 1]] * gw[x * 2 + 1];
+}
+
+/**
+ * One output row's pixel words: the direct light (`taps` panel rows, weights w0, w1, of profiles
+ * p0, p1; more than two already summed in p0) plus the glow (rows h0, h1, weights ty0, ty1), through
+ * the pixel coder. Only typed arrays and numbers come in, so the engine keeps one optimised copy.
+ */
+function encodeRow(words: Int32Array, taps: number, w0: number, p0: Float32Array, w1: number, p1: Float32Array, directShare: number, h0: Float64Array, ty0: number, h1: Float64Array, ty1: number, table: Int32Array, perV: number, vMax: number, coder: PixelCoder): void {
+  for (let x = 0; x < words.length; x++) {
+    // The same float32 sums as accumulating into a Float32Array row, one tap after the other.
+    const d = taps === 0 ? 0 : taps === 1 ? Math.fround(w0 * p0[x]) : taps === 2 ? Math.fround(Math.fround(w0 * p0[x]) + w1 * p1[x]) : p0[x];
+    const v = directShare * d + (h0[x] * ty0 + h1[x] * ty1);
+    // PixelCoder.word's fast path inline; the rest (alpha 0, or v off the table) through it.
+    const w = v > 0 && v < vMax ? table[(v * perV) | 0] : 0;
+    words[x] = w < 0 ? w : coder.word(v);
+  }
 }
 
 /** A band of output rows [y0, y1): one share of a render split across threads. */
@@ -244,14 +273,26 @@ export function compose(emission: Float32Array, glow: Field, u: OutputUniforms, 
   // touches; each glow-grid row is interpolated across to output width once, in double
   // precision (the same sums as interpolating both ways per pixel, a third of the work). Rows
   // are needed in order, so a few reused buffers hold the recent ones.
-  const profileOf = recentRows(ys.stride + 2, () => new Float32Array(width), (r, into) => rowProfile(emission, r, cols, xs, into));
-  const glowRowOf = recentRows(4, () => new Float64Array(width), (g, row) => {
-    const base = (g - glowRow0) * glow.width;
-    const gi = gx.index;
-    const gw = gx.weight;
-    const data = glow.data;
-    for (let x = 0; x < width; x++) row[x] = data[base + gi[x * 2]] * gw[x * 2] + data[base + gi[x * 2 + 1]] * gw[x * 2 + 1];
-  });
+  const profiles = new RecentRows(ys.stride + 2);
+  const profileRows = Array.from({ length: profiles.size }, () => new Float32Array(width));
+  const profileOf = (r: number): Float32Array => {
+    const row = profileRows[profiles.slot(r)];
+    if (!profiles.holds(r)) {
+      rowProfile(emission, r, cols, xs, row);
+      profiles.mark(r);
+    }
+    return row;
+  };
+  const glowRows = new RecentRows(4);
+  const glowRowBuffers = Array.from({ length: glowRows.size }, () => new Float64Array(width));
+  const glowRowOf = (g: number): Float64Array => {
+    const row = glowRowBuffers[glowRows.slot(g)];
+    if (!glowRows.holds(g)) {
+      glowRowAcross(glow.data, (g - glowRow0) * glow.width, gx.index, gx.weight, row);
+      glowRows.mark(g);
+    }
+    return row;
+  };
   const coder = new PixelCoder(u);
   const directShare = u.directShare;
   const direct = new Float32Array(width);
@@ -266,38 +307,31 @@ export function compose(emission: Float32Array, glow: Field, u: OutputUniforms, 
   const table = new Int32Array(coder.table.buffer, coder.table.byteOffset, coder.table.length);
   for (let y = band.y0; y < band.y1; y++) {
     // The direct light: the panel rows (or CRT lines) this output row sees, weighted. One or two
-    // rows (the common cases) are summed inside the pixel loop below; more go through `direct`.
+    // rows (the common cases) are summed inside encodeRow; more are summed here into `direct`.
     let taps = 0;
     let w0 = 0;
     let w1 = 0;
-    let p0 = direct;
-    let p1 = direct;
+    let p0: Float32Array = direct;
+    let p1: Float32Array = direct;
     for (let k = 0; k < ys.stride; k++) {
       const wy = ys.weight[y * ys.stride + k];
       if (wy === 0) continue;
       const p = profileOf(ys.index[y * ys.stride + k]);
-      if (taps === 0) [w0, p0] = [wy, p];
-      else if (taps === 1) [w1, p1] = [wy, p];
-      else {
+      if (taps === 0) {
+        w0 = wy;
+        p0 = p;
+      } else if (taps === 1) {
+        w1 = wy;
+        p1 = p;
+      } else {
         if (taps === 2) for (let x = 0; x < width; x++) direct[x] = Math.fround(Math.fround(w0 * p0[x]) + w1 * p1[x]);
         for (let x = 0; x < width; x++) direct[x] += wy * p[x];
       }
       taps++;
     }
-    if (taps > 2) [w0, p0, w1, p1] = [1, direct, 0, direct];
-    const h0 = glowRowOf(gy.index[y * 2]);
-    const h1 = glowRowOf(gy.index[y * 2 + 1]);
-    const ty0 = gy.weight[y * 2];
-    const ty1 = gy.weight[y * 2 + 1];
+    if (taps > 2) p0 = direct;
     const words = view ? view.subarray(y * width, (y + 1) * width) : rowWords;
-    for (let x = 0; x < width; x++) {
-      // The same float32 sums as accumulating into a Float32Array row, one tap after the other.
-      const d = taps === 0 ? 0 : taps === 1 ? Math.fround(w0 * p0[x]) : taps === 2 ? Math.fround(Math.fround(w0 * p0[x]) + w1 * p1[x]) : p0[x];
-      const v = directShare * d + (h0[x] * ty0 + h1[x] * ty1);
-      // PixelCoder.word's fast path inline; the rest (alpha 0, or v off the table) through it.
-      const w = v > 0 && v < vMax ? table[(v * perV) | 0] : 0;
-      words[x] = w < 0 ? w : coder.word(v);
-    }
+    encodeRow(words, taps, w0, p0, w1, p1, directShare, glowRowOf(gy.index[y * 2]), gy.weight[y * 2], glowRowOf(gy.index[y * 2 + 1]), gy.weight[y * 2 + 1], table, perV, vMax, coder);
     if (!view) {
       const o = y * width * 4;
       for (let x = 0; x < width; x++) {
