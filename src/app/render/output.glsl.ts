@@ -3,11 +3,12 @@
  * overlap, or the CRT line integral — and the glow sample coordinates come precomputed per
  * output column and row from the same functions the CPU composer uses (compose.ts: apertureTaps,
  * lineTaps, glowTaps), uploaded as small float textures. The shader fetches them by hand (no
- * hardware filtering) and forms v = direct + bilinear glow; light, exposure, soft knee and sRGB
- * encode (formulas.ts) are a smooth function of v per channel, tabulated finely by
- * encode-table.ts and interpolated here. Every constant comes from outputUniforms().
+ * hardware filtering) and forms v = direct + bilinear glow, in the CPU composer's order of
+ * operations; light, exposure, soft knee and sRGB encode (formulas.ts) are the composer's own
+ * per-channel code thresholds on v (threshold-table.ts), found by bisection. Every constant comes
+ * from outputUniforms().
  */
-import { ENCODE_STEPS, ENCODE_WIDTH } from './encode-table';
+import { THRESHOLD_CODES } from './threshold-table';
 
 export const FULLSCREEN_VERTEX = /* glsl */ `#version 300 es
 in vec2 position;
@@ -18,14 +19,14 @@ void main() { gl_Position = vec4(position, 0.0, 1.0); }
 const HEADER = /* glsl */ `#version 300 es
 precision highp float;
 precision highp int;
-#define ENCODE_STEPS ${ENCODE_STEPS}
-#define ENCODE_WIDTH ${ENCODE_WIDTH}
+#define THRESHOLD_CODES ${THRESHOLD_CODES}
 uniform highp sampler2D emission;
 uniform highp sampler2D glow;
-// Per output column: (first cell, its coverage, next cell's coverage, glow sample u).
+// Per output column, texel row 0: (first cell, its coverage, next cell's coverage, 0);
+// texel row 1: (first glow sample, its weight, the next sample's weight, 0), as glowTaps gives them.
 uniform highp sampler2D columnTaps;
-// Per output row: matrix (first row, coverage, next row's coverage, glow sample v);
-// CRT: lineTaps holds (line index, weight) pairs, lineStride per row, and rowTaps.w is v.
+// Per output row, the same for matrix panels; on a CRT lineTaps holds (line index, weight)
+// pairs, lineStride per row, and only rowTaps' glow row is used.
 uniform highp sampler2D rowTaps;
 uniform highp sampler2D lineTaps;
 uniform ivec2 grid;
@@ -34,9 +35,8 @@ uniform vec2 outputSize;
 uniform int crt;
 uniform int lineStride;
 uniform float directShare;
-// Light, exposure, soft knee and sRGB encode of v, tabulated per channel (encodeTable.ts).
-uniform highp sampler2D encodeTable;
-uniform float tableScale;
+// Per code value c (texel c): the v from which red, green and blue show c (threshold-table.ts).
+uniform highp sampler2D thresholds;
 out vec4 outColor;
 `;
 
@@ -67,34 +67,34 @@ float computeV() {
       direct += tap.y * (cellAt(c0, r) * cx.y + (cx.z > 0.0 ? cellAt(c1, r) * cx.z : 0.0));
     }
   }
-  // Bilinear glow by hand: four texel fetches at the precomputed sample coordinates.
-  int gx0 = int(floor(cx.w));
-  int gy0 = int(floor(ry.w));
-  float tx = cx.w - float(gx0);
-  float ty = ry.w - float(gy0);
+  // Bilinear glow by hand at the composer's taps: across within each glow row, then down.
+  vec4 gcx = texelFetch(columnTaps, ivec2(X, 1), 0);
+  vec4 gry = texelFetch(rowTaps, ivec2(Y, 1), 0);
+  int gx0 = int(gcx.x);
+  int gy0 = int(gry.x);
   int gx1 = min(gx0 + 1, glowSize.x - 1);
   int gy1 = min(gy0 + 1, glowSize.y - 1);
-  // Skip the taps whose weight is zero (the glow grid often lines up with the pixels).
-  float top = tx > 0.0 ? glowAt(gx0, gy0) * (1.0 - tx) + glowAt(gx1, gy0) * tx : glowAt(gx0, gy0);
-  float g = top;
-  if (ty > 0.0) {
-    float bottom = tx > 0.0 ? glowAt(gx0, gy1) * (1.0 - tx) + glowAt(gx1, gy1) * tx : glowAt(gx0, gy1);
-    g = top * (1.0 - ty) + bottom * ty;
-  }
+  // Skip the taps whose weight is zero (the glow grid often lines up with the pixels): x·0 is 0.
+  float top = glowAt(gx0, gy0) * gcx.y + (gcx.z > 0.0 ? glowAt(gx1, gy0) * gcx.z : 0.0);
+  float bottom = gry.z > 0.0 ? glowAt(gx0, gy1) * gcx.y + (gcx.z > 0.0 ? glowAt(gx1, gy1) * gcx.z : 0.0) : 0.0;
+  float g = top * gry.y + bottom * gry.z;
   return directShare * direct + g;
 }
 `;
 
-/** Light, exposure, soft knee and sRGB encode of v, from the table. */
+/** Light, exposure, soft knee and sRGB encode of v: each channel's code by bisection over its thresholds. */
 const ENCODE_V = /* glsl */ `
 vec4 encodeV(float v) {
-  // Linear interpolation between table entries, written out (the texture is not filtered).
-  float f = clamp(v * tableScale, 0.0, float(ENCODE_STEPS - 1) - 0.0001);
-  int i = int(f);
-  float t = f - float(i);
-  vec3 a = texelFetch(encodeTable, ivec2(i % ENCODE_WIDTH, i / ENCODE_WIDTH), 0).rgb;
-  vec3 b = texelFetch(encodeTable, ivec2((i + 1) % ENCODE_WIDTH, (i + 1) / ENCODE_WIDTH), 0).rgb;
-  return vec4(mix(a, b, t), 1.0);
+  ivec3 lo = ivec3(0);
+  ivec3 hi = ivec3(THRESHOLD_CODES - 1);
+  for (int step = 0; step < 8; step++) {
+    ivec3 mid = (lo + hi + 1) / 2;
+    vec3 t = vec3(texelFetch(thresholds, ivec2(mid.r, 0), 0).r, texelFetch(thresholds, ivec2(mid.g, 0), 0).g, texelFetch(thresholds, ivec2(mid.b, 0), 0).b);
+    bvec3 above = greaterThanEqual(vec3(v), t);
+    lo = ivec3(above.r ? mid.r : lo.r, above.g ? mid.g : lo.g, above.b ? mid.b : lo.b);
+    hi = ivec3(above.r ? hi.r : mid.r - 1, above.g ? hi.g : mid.g - 1, above.b ? hi.b : mid.b - 1);
+  }
+  return vec4(vec3(lo) / 255.0, 1.0);
 }
 `;
 

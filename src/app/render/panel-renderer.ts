@@ -1,7 +1,7 @@
 import { apertureTaps, glowTaps, lineTaps } from '../../../shared/pipeline/output/compose';
 import type { OutputUniforms } from '../../../shared/pipeline/output/uniforms';
 import type { Field } from '../../../shared/pipeline/types';
-import { ENCODE_STEPS, ENCODE_V_MAX, ENCODE_WIDTH, encodeTable } from './encode-table';
+import { THRESHOLD_CODES, thresholdTable } from './threshold-table';
 import { ENCODE_FRAGMENT, FULLSCREEN_VERTEX, PANEL_FRAGMENT, V_FRAGMENT } from './output.glsl';
 
 function compile(gl: WebGL2RenderingContext, vertex: string, fragment: string): WebGLProgram {
@@ -38,7 +38,7 @@ export class PanelRenderer {
   private readonly columnTex: WebGLTexture;
   private readonly rowTex: WebGLTexture;
   private readonly lineTex: WebGLTexture;
-  private readonly encodeTex: WebGLTexture;
+  private readonly thresholdTex: WebGLTexture;
   private encodeKey = '';
   private grid = [0, 0];
   private glowSize = [0, 0];
@@ -69,17 +69,17 @@ export class PanelRenderer {
     this.columnTex = this.floatTexture();
     this.rowTex = this.floatTexture();
     this.lineTex = this.floatTexture();
-    this.encodeTex = this.floatTexture();
+    this.thresholdTex = this.floatTexture();
   }
 
-  /** The light → encode table, rebuilt when the light or colour uniforms change. */
-  private uploadEncodeTable(u: OutputUniforms): void {
+  /** The code thresholds on v, rebuilt when the light or colour uniforms change. */
+  private uploadThresholds(u: OutputUniforms): void {
     const key = JSON.stringify([u.colour, u.colourY, u.ambientCdM2, u.peakCdM2, u.offCdM2, u.gain, u.knee]);
     if (key === this.encodeKey) return;
     this.encodeKey = key;
     const gl = this.gl;
-    gl.bindTexture(gl.TEXTURE_2D, this.encodeTex);
-    gl.texImage2D(gl.TEXTURE_2D, 0, gl.RGBA32F, ENCODE_WIDTH, ENCODE_WIDTH, 0, gl.RGBA, gl.FLOAT, encodeTable(u));
+    gl.bindTexture(gl.TEXTURE_2D, this.thresholdTex);
+    gl.texImage2D(gl.TEXTURE_2D, 0, gl.RGBA32F, THRESHOLD_CODES, 1, 0, gl.RGBA, gl.FLOAT, thresholdTable(u));
   }
 
   /** Per-column and per-row taps (coverage and glow coordinates), rebuilt when the geometry changes. */
@@ -88,13 +88,18 @@ export class PanelRenderer {
     if (key === this.tapsKey) return;
     this.tapsKey = key;
     const gl = this.gl;
+    // Two texel rows per axis: the cell taps, then the glow taps, each value exactly as the CPU
+    // composer holds it (indices are small integers, weights float32 already).
     const pack = (pixels: number, taps: ReturnType<typeof apertureTaps>, glowAxis: ReturnType<typeof glowTaps>) => {
-      const out = new Float32Array(pixels * 4);
+      const out = new Float32Array(pixels * 8);
       for (let p = 0; p < pixels; p++) {
         out[p * 4] = taps.index[p * taps.stride];
         out[p * 4 + 1] = taps.weight[p * taps.stride];
         out[p * 4 + 2] = taps.stride > 1 ? taps.weight[p * taps.stride + 1] : 0;
-        out[p * 4 + 3] = glowAxis.index[p * 2] + glowAxis.weight[p * 2 + 1];
+        const g = (pixels + p) * 4;
+        out[g] = glowAxis.index[p * 2];
+        out[g + 1] = glowAxis.weight[p * 2];
+        out[g + 2] = glowAxis.index[p * 2 + 1] > glowAxis.index[p * 2] ? glowAxis.weight[p * 2 + 1] : 0;
       }
       return out;
     };
@@ -102,9 +107,9 @@ export class PanelRenderer {
     const rowGlow = glowTaps(u.height, this.glowSize[1], u.cellH, u.glowOversample);
     const rows = pack(u.height, u.crt ? { index: new Int32Array(u.height), weight: new Float32Array(u.height), stride: 1 } : apertureTaps(u.height, u.rows, u.cellH, u.fillY), rowGlow);
     gl.bindTexture(gl.TEXTURE_2D, this.columnTex);
-    gl.texImage2D(gl.TEXTURE_2D, 0, gl.RGBA32F, u.width, 1, 0, gl.RGBA, gl.FLOAT, columns);
+    gl.texImage2D(gl.TEXTURE_2D, 0, gl.RGBA32F, u.width, 2, 0, gl.RGBA, gl.FLOAT, columns);
     gl.bindTexture(gl.TEXTURE_2D, this.rowTex);
-    gl.texImage2D(gl.TEXTURE_2D, 0, gl.RGBA32F, u.height, 1, 0, gl.RGBA, gl.FLOAT, rows);
+    gl.texImage2D(gl.TEXTURE_2D, 0, gl.RGBA32F, u.height, 2, 0, gl.RGBA, gl.FLOAT, rows);
     const lines = u.crt ? lineTaps(u.height, u.rows, u.cellH, u.spotSigmaPx, u.lineCentred) : { index: new Int32Array(u.height), weight: new Float32Array(u.height), stride: 1 };
     const pairs = new Float32Array(u.height * lines.stride * 2);
     for (let i = 0; i < u.height * lines.stride; i++) {
@@ -150,7 +155,7 @@ export class PanelRenderer {
     }
     gl.viewport(0, 0, u.width, u.height);
     this.uploadTaps(u);
-    this.uploadEncodeTable(u);
+    this.uploadThresholds(u);
     if (!this.vProgram || !this.encodeProgram) {
       this.pass(this.program, u);
       return;
@@ -175,7 +180,7 @@ export class PanelRenderer {
     const gl = this.gl;
     gl.useProgram(program);
     const loc = (name: string) => this.location(program, name);
-    const textures: [string, WebGLTexture | undefined][] = [['emission', this.emissionTex], ['glow', this.glowTex], ['columnTaps', this.columnTex], ['rowTaps', this.rowTex], ['lineTaps', this.lineTex], ['encodeTable', this.encodeTex], ['vField', vField]];
+    const textures: [string, WebGLTexture | undefined][] = [['emission', this.emissionTex], ['glow', this.glowTex], ['columnTaps', this.columnTex], ['rowTaps', this.rowTex], ['lineTaps', this.lineTex], ['thresholds', this.thresholdTex], ['vField', vField]];
     textures.forEach(([name, tex], unit) => {
       if (!tex) return;
       gl.activeTexture(gl.TEXTURE0 + unit);
@@ -188,7 +193,6 @@ export class PanelRenderer {
     gl.uniform1i(loc('crt'), u.crt ? 1 : 0);
     gl.uniform1i(loc('lineStride'), this.lineStride);
     gl.uniform1f(loc('directShare'), u.directShare);
-    gl.uniform1f(loc('tableScale'), (ENCODE_STEPS - 1) / ENCODE_V_MAX);
     gl.drawArrays(gl.TRIANGLES, 0, 3);
   }
 
