@@ -5,6 +5,7 @@ import path from 'node:path';
 import fc from 'fast-check';
 import { builtInPresetById } from '../model/panel-types';
 import { mergeParams, type PanelParams } from '../model/parameters';
+import { levelLights } from '../pipeline/levels/spacing';
 import { driveLevels } from '../pipeline/render';
 import { bitCell, frameLayoutSvg } from './frame-data-diagram';
 import { cIdentifier, encodeFrameData, toCHeader, toIntelHex } from './frame-data-formats';
@@ -109,6 +110,25 @@ describe('frame data: round trips through an independent unpacker [calc]', () =>
         expect(frames.reduce((s, fr) => s + fr[i], 0)).toBe(k[i]);
         frames.forEach((fr, f) => expect(fr[i]).toBe((f + x + y) % (n - 1) < k[i] ? 1 : 0));
       }
+    }
+  });
+
+  test('levels not even in light still go out as level indices 0 … n − 1: a duty table of 6 values on 4 bits, and even steps to the eye on 16 levels', () => {
+    const layout: FrameLayout = { bitsPerCell: 4, bitOrder: 'msb', pixelsPerClock: 1, scan: 'single', frcLevels: 0 };
+    for (const drive of [
+      { levelSpacing: 'table', dutyTable: [0, 0.02, 0.1, 0.3, 0.6, 1], dither: 'bayer4' },
+      { grayLevels: 16, levelSpacing: 'perceptual', dither: 'floyd-steinberg' },
+    ] as const) {
+      const p = mergeParams(panel({}), { drive });
+      const lights = levelLights(p.drive);
+      const data = frameData(card(64, 32), p, layout);
+      expect(data.levels).toBe(lights.length);
+      const codes = unpack(data.bytes, layout, 64, 32);
+      const shown = driveLevels(card(64, 32), p);
+      // Code k (of 15) is level round(k · (n − 1) / 15), and that level's light is what the pipeline shows.
+      codes.forEach((code, i) => expect(Math.fround(lights[Math.round((code * (lights.length - 1)) / 15)])).toBe(shown[i]));
+      expect(new Set(codes).size).toBeGreaterThan(lights.length / 2);
+      expect(data.description.at(-1)).toMatch(/level 0 to \d+ should light the cell at 0 %, /);
     }
   });
 

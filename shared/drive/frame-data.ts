@@ -1,4 +1,5 @@
 import type { PanelParams } from '../model/parameters';
+import { levelCount, levelLights, nearestLevel } from '../pipeline/levels/spacing';
 import { driveLevels } from '../pipeline/render';
 import type { Frame } from '../pipeline/types';
 import { PIXELS_PER_CLOCK, type PanelInterface } from './interface';
@@ -73,11 +74,11 @@ export const frcPhase = (x: number, y: number, frames: number) => (x + y) % fram
  * round(k · (2^bits − 1) / (L − 1)) (so 4 levels in 4 bits are 0, 5, 10, 15); with FRC of N levels
  * the cell is lit (1) in frame f exactly when (f + phase) mod (N − 1) < k — lit in k of N − 1 frames.
  */
-function codesOf(levels: Float32Array, cols: number, layout: FrameLayout, steps: number, f: number, frames: number): Uint8Array {
-  const codes = new Uint8Array(levels.length);
+function codesOf(indices: Uint8Array, cols: number, layout: FrameLayout, steps: number, f: number, frames: number): Uint8Array {
+  const codes = new Uint8Array(indices.length);
   const max = 2 ** layout.bitsPerCell - 1;
-  for (let i = 0; i < levels.length; i++) {
-    const k = Math.round(levels[i] * steps);
+  for (let i = 0; i < indices.length; i++) {
+    const k = indices[i];
     codes[i] = layout.frcLevels ? ((f + frcPhase(i % cols, Math.floor(i / cols), frames)) % frames < k ? 1 : 0) : Math.round((k * max) / steps);
   }
   return codes;
@@ -120,6 +121,13 @@ function packFrame(codes: Uint8Array, cols: number, rows: number, layout: FrameL
   }
 }
 
+/** Each cell's level index, from the light of its level (driveLevels gives exactly the levels' lights, as float32). */
+export function levelIndices(lights: Float32Array, levels: Float64Array): Uint8Array {
+  const out = new Uint8Array(lights.length);
+  for (let i = 0; i < lights.length; i++) out[i] = nearestLevel(levels, lights[i]);
+  return out;
+}
+
 /**
  * The frame data of one image through a parameter set: the drive levels the bench shows (fit,
  * tone, levels and dither; with FRC, quantised to frcLevels instead of the preset's gray levels),
@@ -127,16 +135,23 @@ function packFrame(codes: Uint8Array, cols: number, rows: number, layout: FrameL
  */
 export function frameData(image: Frame['image'], p: PanelParams, layout: FrameLayout): FrameData {
   const { cols, rows } = p.cell;
-  checkFrameLayout(layout, cols, rows, p.drive.grayLevels);
-  const levelsCount = layout.frcLevels || p.drive.grayLevels;
-  const levels = driveLevels(image, layout.frcLevels ? { ...p, drive: { ...p.drive, grayLevels: layout.frcLevels } } : p);
+  checkFrameLayout(layout, cols, rows, levelCount(p.drive));
+  const levelsCount = layout.frcLevels || levelCount(p.drive);
+  // Frame-rate control lights a cell in some frames and not others: its levels are even steps of light.
+  const drive: PanelParams['drive'] = layout.frcLevels ? { ...p.drive, grayLevels: layout.frcLevels, levelSpacing: 'linear' } : p.drive;
+  const indices = levelIndices(driveLevels(image, { ...p, drive }), levelLights(drive));
   const frames = layout.frcLevels ? layout.frcLevels - 1 : 1;
   const planes = layout.scan === 'dual-planes' ? 2 : 1;
   const frameBytes = (cols * rows * layout.bitsPerCell) / 8;
   const planeBytes = frameBytes / planes;
   const bytes = new Uint8Array(frameBytes * frames);
-  for (let f = 0; f < frames; f++) packFrame(codesOf(levels, cols, layout, levelsCount - 1, f, frames), cols, rows, layout, bytes, f * frameBytes, planes, planeBytes);
-  return { layout, cols, rows, frames, planes, planeBytes, frameBytes, bytes, levels: levelsCount, description: describeLayout(layout, cols, rows, levelsCount) };
+  for (let f = 0; f < frames; f++) packFrame(codesOf(indices, cols, layout, levelsCount - 1, f, frames), cols, rows, layout, bytes, f * frameBytes, planes, planeBytes);
+  const description = describeLayout(layout, cols, rows, levelsCount);
+  if (drive.levelSpacing !== 'linear') {
+    const shares = Array.from(levelLights(drive), (l) => `${+(l * 100).toFixed(2)} %`).join(', ');
+    description.push(`The levels are ${drive.levelSpacing === 'table' ? 'the duty table' : 'even steps to the eye'}: level 0 to ${levelsCount - 1} should light the cell at ${shares} of full on; the controller's own level table must do the same.`);
+  }
+  return { layout, cols, rows, frames, planes, planeBytes, frameBytes, bytes, levels: levelsCount, description };
 }
 
 /** The layout in plain sentences (the same words go into the C header and beside the download). */

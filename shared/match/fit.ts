@@ -154,7 +154,7 @@ export function fitPanel(input: MatchInput, progress: Progress = () => {}): Matc
   const colour = chromaticity(photo, h, full, darkPatch);
   const levels = layout.ramp.map((r, k) => {
     const m = patchMean(photo, h, shrink(r, 2), 4);
-    return { level: k, expected: k / (layout.grayLevels - 1), measured: (m.y - dark.y) / signal, uncertainty: m.spread / signal };
+    return { level: k, expected: layout.levelLights[k], measured: (m.y - dark.y) / signal, uncertainty: m.spread / signal };
   });
   const pitchX = options.activeWidthMm / layout.cols;
   const pitchY = options.activeHeightMm / layout.rows;

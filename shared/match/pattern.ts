@@ -1,3 +1,4 @@
+import { levelLights } from '../pipeline/levels/spacing';
 import { srgbEncode } from '../color/srgb';
 import type { PanelParams } from '../model/parameters';
 import { haloRadiusFromGlass } from '../pipeline/glow/glow';
@@ -16,6 +17,8 @@ export interface MatchLayout {
   cols: number;
   rows: number;
   grayLevels: number;
+  /** The light of each drive level as a share of full on (the look's level spacing), lowest first. */
+  levelLights: number[];
   /** Side of each corner square, in cells. */
   fiducialSize: number;
   /** Centres of the corner squares: top-left, top-right, bottom-right, bottom-left (the order the marks are placed in). */
@@ -30,7 +33,7 @@ export interface MatchLayout {
   full: CellRect;
   /** One patch per drive level 0 … grayLevels − 1, left to right. */
   ramp: CellRect[];
-  /** Drive level (0–1) of every cell, row-major: what the panel is told to show. */
+  /** Light of every cell's drive level (0–1), row-major: what the panel is told to show. */
   levels: Float32Array;
 }
 
@@ -50,8 +53,11 @@ export const MIN_PATTERN_ROWS = 32;
  * down (the pitch), a full-on patch (the colour and exposure) and a ramp of every drive level (the
  * level curve). Parts are kept apart by dark gaps so each can be measured on its own. `haloCells`
  * is the halo radius of the look the fit will start from, in cells: it spaces the isolated cells.
+ * `levels` is the number of drive levels (even steps of light) or the light of each level.
  */
-export function matchLayout(cols: number, rows: number, grayLevels: number, haloCells = 0): MatchLayout {
+export function matchLayout(cols: number, rows: number, levels: number | readonly number[], haloCells = 0): MatchLayout {
+  const levelLights = typeof levels === 'number' ? Array.from({ length: levels }, (_, k) => k / (levels - 1)) : [...levels];
+  const grayLevels = levelLights.length;
   if (cols < MIN_PATTERN_COLS || rows < MIN_PATTERN_ROWS) {
     throw new RangeError(`A match pattern needs a panel of at least ${MIN_PATTERN_COLS} × ${MIN_PATTERN_ROWS} cells; this one has ${cols} × ${rows}.`);
   }
@@ -78,6 +84,7 @@ export function matchLayout(cols: number, rows: number, grayLevels: number, halo
     cols,
     rows,
     grayLevels,
+    levelLights,
     fiducialSize: f,
     fiducials: [
       [f / 2, f / 2],
@@ -104,14 +111,14 @@ export function matchLayout(cols: number, rows: number, grayLevels: number, halo
   fill(layout.columns, (x) => (x % 2 === 0 ? 1 : 0));
   fill(layout.lines, (_x, y) => (y % 2 === 0 ? 1 : 0));
   fill(layout.full, () => 1);
-  ramp.forEach((r, k) => fill(r, () => k / (grayLevels - 1)));
+  ramp.forEach((r, k) => fill(r, () => layout.levelLights[k]));
   return layout;
 }
 
 /** The match pattern for a look: its panel's grid and levels, the isolated cells spaced by its halo. */
 export function patternFor(p: PanelParams): MatchLayout {
   const haloMm = p.glass.haloFromGlass ? haloRadiusFromGlass(p.glass.glassThicknessMm, p.glass.refractiveIndex) : p.glass.haloRadiusMm;
-  return matchLayout(p.cell.cols, p.cell.rows, p.drive.grayLevels, p.glass.haloShare > 0 ? haloMm / Math.min(p.cell.pitchXMm, p.cell.pitchYMm) : 0);
+  return matchLayout(p.cell.cols, p.cell.rows, Array.from(levelLights(p.drive)), p.glass.haloShare > 0 ? haloMm / Math.min(p.cell.pitchXMm, p.cell.pitchYMm) : 0);
 }
 
 /** The isolated lit cells of a layout, as [x, y] cells. */

@@ -1,4 +1,4 @@
-import { mergeParams, type PanelParams, type PanelParamsPatch } from './parameters';
+import { DEFAULT_DUTY_TABLE, mergeParams, type PanelParams, type PanelParamsPatch } from './parameters';
 
 /** Where a built-in value comes from (the tags of docs/references.md). */
 export type SourceTag = 'std' | 'paper' | 'ds' | 'mem' | 'cp' | 'calc';
@@ -33,7 +33,7 @@ export interface BuiltInPreset {
  */
 const BASE: PanelParams = {
   source: { fit: 'area', luma: 'rec709', brightness: 0, contrast: 1, gamma: 1, invert: false, threshold: 0 },
-  drive: { grayLevels: 2, dither: 'floyd-steinberg', serpentine: true, rowLoading: 0.03, refreshHz: 60 },
+  drive: { grayLevels: 2, levelSpacing: 'linear', dutyTable: [...DEFAULT_DUTY_TABLE], dither: 'floyd-steinberg', serpentine: true, rowLoading: 0.03, refreshHz: 60 },
   cell: { mode: 'matrix', cols: 640, rows: 480, pitchXMm: 0.3, pitchYMm: 0.3, fillX: 0.72, fillY: 0.72, spotSigma: 0.3, lineSampling: 'auto', field: 'both' },
   emission: { colourSource: 'spectrum', peak1Nm: 582, fwhm1Nm: 55, peak2Nm: 640, fwhm2Nm: 0, band2Weight: 0, chromaX: 0.526, chromaY: 0.472, decayMs: 0.02 },
   glass: { glowRadiusMm: 0.25, glowShare: 0.12, haloRadiusMm: 2.1, haloShare: 0.03, haloFromGlass: false, glassThicknessMm: 1.2, refractiveIndex: 1.52 },

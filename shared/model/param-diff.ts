@@ -13,9 +13,15 @@ export function paramDiff(before: PanelParams, after: PanelParams): ParamChange[
   for (const g of GROUPS) {
     const a = before[g] as unknown as Record<string, unknown>;
     const b = after[g] as unknown as Record<string, unknown>;
-    for (const key of Object.keys(b)) if (a[key] !== b[key]) changes.push({ path: `${g}.${key}`, from: a[key], to: b[key] });
+    for (const key of Object.keys(b)) if (!sameValue(a[key], b[key])) changes.push({ path: `${g}.${key}`, from: a[key], to: b[key] });
   }
   return changes;
+}
+
+/** Equal values: numbers, words and flags by value, lists (a duty table) element by element. */
+function sameValue(a: unknown, b: unknown): boolean {
+  if (Array.isArray(a) && Array.isArray(b)) return a.length === b.length && a.every((v, k) => v === b[k]);
+  return a === b;
 }
 
 const SPECS = new Map(PARAMS.map((spec) => [`${spec.group}.${spec.key}`, spec]));
@@ -24,6 +30,7 @@ const SPECS = new Map(PARAMS.map((spec) => [`${spec.group}.${spec.key}`, spec]))
 export function formatParamValue(spec: ParamSpec, value: unknown): string {
   if (spec.kind === 'bool') return value ? 'on' : 'off';
   if (spec.kind === 'enum') return spec.optionLabels[String(value)] ?? String(value);
+  if (spec.kind === 'list') return `${Array.isArray(value) ? value.map((v: number) => String(+v.toFixed(6))).join(', ') : String(value)} ${spec.unit}`;
   const decimals = spec.kind === 'int' ? 0 : Math.max(0, Math.min(6, Math.ceil(-Math.log10(spec.step) - 1e-9)));
   const n = typeof value === 'number' ? value.toFixed(decimals) : String(value);
   return spec.unit ? `${n} ${spec.unit}` : n;

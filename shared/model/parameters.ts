@@ -33,16 +33,28 @@ export interface EnumSpec extends Base {
 export interface BoolSpec extends Base {
   kind: 'bool';
 }
-export type ParamSpec = NumberSpec | EnumSpec | BoolSpec;
+/** A short list of numbers, strictly rising (a table typed by the user). */
+export interface ListSpec extends Base {
+  kind: 'list';
+  min: number;
+  max: number;
+  minLength: number;
+  maxLength: number;
+  unit: string;
+  step: number;
+}
+export type ParamSpec = NumberSpec | EnumSpec | BoolSpec | ListSpec;
 
 const n = (group: Group, key: string, label: string, min: number, max: number, unit: string, step: number, meaning: string): NumberSpec => ({ group, key, label, kind: 'number', min, max, unit, step, meaning });
 const i = (group: Group, key: string, label: string, min: number, max: number, unit: string, meaning: string): NumberSpec => ({ group, key, label, kind: 'int', min, max, unit, step: 1, meaning });
 const e = (group: Group, key: string, label: string, options: readonly string[], optionLabels: Record<string, string>, meaning: string): EnumSpec => ({ group, key, label, kind: 'enum', options, optionLabels, meaning });
 const b = (group: Group, key: string, label: string, meaning: string): BoolSpec => ({ group, key, label, kind: 'bool', meaning });
+const list = (group: Group, key: string, label: string, min: number, max: number, [minLength, maxLength]: [number, number], unit: string, step: number, meaning: string): ListSpec => ({ group, key, label, kind: 'list', min, max, minLength, maxLength, unit, step, meaning });
 
 export const FIT_MODES = ['native', 'integer', 'area'] as const;
 export const LUMA_MODES = ['rec709', 'rec601'] as const;
 export const DITHERS = ['none', 'bayer2', 'bayer4', 'bayer8', 'cluster4', 'floyd-steinberg'] as const;
+export const LEVEL_SPACINGS = ['linear', 'perceptual', 'table'] as const;
 export const CELL_MODES = ['matrix', 'crt'] as const;
 export const COLOUR_SOURCES = ['spectrum', 'chromaticity'] as const;
 export const FIELDS = ['both', 'odd', 'even'] as const;
@@ -60,6 +72,8 @@ export const PARAMS: readonly ParamSpec[] = [
   n('source', 'threshold', 'Black clip', 0, 0.95, '', 0.01, 'Tones below this are driven off; the rest are stretched to fill the range'),
 
   i('drive', 'grayLevels', 'Gray levels', 2, 16, 'levels', 'Distinct drive levels the panel can show (2 = on/off)'),
+  e('drive', 'levelSpacing', 'Level spacing', LEVEL_SPACINGS, { linear: 'Even steps of light', perceptual: 'Even steps to the eye', table: 'Duty table' }, 'How the levels share out the light: equal steps of light (PWM duty linear in light), equal steps of the sRGB-encoded tone (a table made for the eye), or the duty table below, which then sets the number of levels'),
+  list('drive', 'dutyTable', 'Duty table', 0, 1, [2, 16], 'of full on', 0.001, 'Light of each level as a share of full on (PWM duty), lowest level first, strictly rising: 2 to 16 values; used when the level spacing is “Duty table”'),
   e('drive', 'dither', 'Dither', DITHERS, { none: 'None', bayer2: 'Ordered, Bayer 2 × 2', bayer4: 'Ordered, Bayer 4 × 4', bayer8: 'Ordered, Bayer 8 × 8', cluster4: 'Clustered dot 4 × 4', 'floyd-steinberg': 'Error diffusion (Floyd–Steinberg)' }, 'How in-between tones are spread over cells: none, ordered Bayer, clustered dot, or error diffusion'),
   b('drive', 'serpentine', 'Serpentine scan', 'Error diffusion alternates row direction, which breaks up worm artefacts'),
   n('drive', 'rowLoading', 'Row loading droop', 0, 0.5, '', 0.005, "A row's emission drops by this × its lit fraction (passive-matrix drive)"),
@@ -105,7 +119,7 @@ export const PARAMS: readonly ParamSpec[] = [
 /** The parameter set of one render: every group filled in. */
 export interface PanelParams {
   source: { fit: (typeof FIT_MODES)[number]; luma: (typeof LUMA_MODES)[number]; brightness: number; contrast: number; gamma: number; invert: boolean; threshold: number };
-  drive: { grayLevels: number; dither: (typeof DITHERS)[number]; serpentine: boolean; rowLoading: number; refreshHz: number };
+  drive: { grayLevels: number; levelSpacing: (typeof LEVEL_SPACINGS)[number]; dutyTable: number[]; dither: (typeof DITHERS)[number]; serpentine: boolean; rowLoading: number; refreshHz: number };
   cell: { mode: (typeof CELL_MODES)[number]; cols: number; rows: number; pitchXMm: number; pitchYMm: number; fillX: number; fillY: number; spotSigma: number; lineSampling: (typeof LINE_SAMPLINGS)[number]; field: (typeof FIELDS)[number] };
   emission: { colourSource: (typeof COLOUR_SOURCES)[number]; peak1Nm: number; fwhm1Nm: number; peak2Nm: number; fwhm2Nm: number; band2Weight: number; chromaX: number; chromaY: number; decayMs: number };
   glass: { glowRadiusMm: number; glowShare: number; haloRadiusMm: number; haloShare: number; haloFromGlass: boolean; glassThicknessMm: number; refractiveIndex: number };
@@ -117,6 +131,21 @@ function fieldSchema(spec: ParamSpec): z.ZodType {
   const where = `${spec.label} (${GROUP_LABELS[spec.group]})`;
   if (spec.kind === 'bool') return z.boolean({ message: `${where} must be true or false` });
   if (spec.kind === 'enum') return z.enum(spec.options as [string, ...string[]], { message: `${where} must be one of ${spec.options.join(', ')}` });
+  if (spec.kind === 'list') {
+    const shape = `a list of ${spec.minLength} to ${spec.maxLength} numbers from ${spec.min} to ${spec.max}, strictly rising`;
+    const error = (issue: { input?: unknown }) => `${where} must be ${shape}, got ${JSON.stringify(issue.input)}`;
+    return z
+      .array(z.number({ error: (issue) => `${where} must hold numbers only, got ${JSON.stringify(issue.input)}` }), { error })
+      .min(spec.minLength, { error: () => `${where} needs at least ${spec.minLength} values` })
+      .max(spec.maxLength, { error: () => `${where} takes at most ${spec.maxLength} values` })
+      .superRefine((values, ctx) => {
+        const outside = values.findIndex((v) => v < spec.min || v > spec.max);
+        if (outside >= 0) ctx.addIssue({ code: 'custom', message: `${where}: value ${outside + 1} (${values[outside]}) must be from ${spec.min} to ${spec.max}` });
+        const at = values.findIndex((v, k) => k > 0 && !(v > values[k - 1]));
+        if (at > 0) ctx.addIssue({ code: 'custom', message: `${where} must rise from each value to the next: value ${at + 1} (${values[at]}) is not above value ${at} (${values[at - 1]})` });
+      })
+      .meta({ description: `${spec.meaning} (${spec.unit})` });
+  }
   const range = `${spec.kind === 'int' ? 'a whole number' : 'a number'} from ${spec.min} to ${spec.max}${spec.unit ? ` ${spec.unit}` : ''}`;
   // One message for every failure, naming the parameter, its range and the value given.
   const error = (issue: { input?: unknown }) => `${where} must be ${range}, got ${typeof issue.input === 'string' ? `“${issue.input}”` : String(issue.input)}`;
@@ -141,10 +170,20 @@ export const panelParamsPatchSchema = z.strictObject(
 export type PanelParamsPatch = { [G in Group]?: Partial<PanelParams[G]> };
 
 /**
+ * The duty table a parameter set starts with: four levels at 0, 9 %, 40 % and full, about even
+ * steps to the eye (sRGB decode of 0, ⅓, ⅔, 1, rounded) — a starting point to type over.
+ */
+export const DEFAULT_DUTY_TABLE: readonly number[] = [0, 0.09, 0.4, 1];
+
+/**
  * Parameters added to the table after version 1 of the preset document, with the value a file
  * written before them gets on import (a database migration gives stored sets the same).
  */
-export const ADDED_SINCE_VERSION_1: readonly { group: Group; key: string; value: unknown }[] = [{ group: 'cell', key: 'lineSampling', value: 'auto' }];
+export const ADDED_SINCE_VERSION_1: readonly { group: Group; key: string; value: unknown }[] = [
+  { group: 'cell', key: 'lineSampling', value: 'auto' },
+  { group: 'drive', key: 'levelSpacing', value: 'linear' },
+  { group: 'drive', key: 'dutyTable', value: DEFAULT_DUTY_TABLE },
+];
 
 /** A parameter object from an older file with the keys added since filled in (anything else is left for the schema to judge). */
 export function withAddedKeys(raw: unknown): unknown {
@@ -152,7 +191,7 @@ export function withAddedKeys(raw: unknown): unknown {
   const out = { ...(raw as Record<string, unknown>) };
   for (const { group, key, value } of ADDED_SINCE_VERSION_1) {
     const g = out[group];
-    if (g && typeof g === 'object' && !(key in g)) out[group] = { ...(g as Record<string, unknown>), [key]: value };
+    if (g && typeof g === 'object' && !(key in g)) out[group] = { ...(g as Record<string, unknown>), [key]: structuredClone(value) };
   }
   return out;
 }

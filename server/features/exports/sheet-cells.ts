@@ -9,6 +9,7 @@ import type { RenderRequest } from '../../render/render-engine';
 import type { ExportDto, ExportFormat } from '../../../shared/api/export.schema';
 import type { SheetSpec } from './export.model';
 import { rendersZip, sheetPdf, type CellReport } from './sheet-files';
+import { levelCount } from '../../../shared/pipeline/levels/spacing';
 
 const ditherLabel = (PARAMS.find((p) => p.key === 'dither') as EnumSpec).optionLabels;
 const plural = (n: number, one: string) => `${n} ${one}${n === 1 ? '' : 's'}`;
@@ -19,7 +20,7 @@ function renderLines(look: SheetSpec['looks'][number], artworkName: string): str
   return [
     `${look.name}${look.revision ? ` · r${look.revision}` : ''}`,
     `${artworkName} · ${look.panelTypeName}`,
-    `${cell.cols} × ${cell.rows} · ${drive.grayLevels} levels · ${ditherLabel[drive.dither]} · glow ${glass.glowRadiusMm} mm`,
+    `${cell.cols} × ${cell.rows} · ${levelCount(drive)} levels${drive.levelSpacing === 'linear' ? '' : drive.levelSpacing === 'table' ? ' (duty table)' : ' (to the eye)'} · ${ditherLabel[drive.dither]} · glow ${glass.glowRadiusMm} mm`,
   ];
 }
 

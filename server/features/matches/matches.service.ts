@@ -5,6 +5,7 @@ import { MatchRefusal } from '../../../shared/match/fit';
 import { checkMarks, MarkError, type Point } from '../../../shared/match/homography';
 import { patternFor, patternImage, type MatchLayout } from '../../../shared/match/pattern';
 import { DEFAULT_FRAME_LAYOUT, frameData, type FrameData } from '../../../shared/drive/frame-data';
+import { levelCount } from '../../../shared/pipeline/levels/spacing';
 import { encodeFrameData, FRAME_DATA_FORMAT_INFO, type FrameDataFormat } from '../../../shared/drive/frame-data-formats';
 import type { PanelParams } from '../../../shared/model/parameters';
 import type { RgbaImage } from '../../../shared/pipeline/types';
@@ -70,7 +71,7 @@ export class MatchesService {
     const image = patternImage(layout);
     const name = `match-pattern-${layout.cols}x${layout.rows}`;
     if (format === 'png') return { bytes: await encodePng(image), fileName: `${name}.png`, contentType: 'image/png' };
-    const levels = spec.parameters.drive.grayLevels;
+    const levels = levelCount(spec.parameters.drive);
     const bitsPerCell = levels <= 2 ? 1 : levels <= 4 ? 2 : 4;
     let data: FrameData;
     try {

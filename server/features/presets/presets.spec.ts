@@ -171,6 +171,28 @@ test('a version 1 file written before scan-line sampling existed imports with th
   expect(row!.parameters.cell.lineSampling).toBe('auto');
 });
 
+test('a version 1 file written before level spacing existed imports with even steps of light and the starting duty table; stored presets get them by migration', async () => {
+  const { levelSpacing: _spacing, dutyTable: _table, ...oldDrive } = base.drive;
+  const res = await editor.post(url('/import'), { format: 'emberline.preset', version: 1, name: 'Before level spacing', panelTypeId: 'el-amber-640x480', parameters: { ...base, drive: oldDrive } });
+  expect(res.status).toBe(201);
+  expect(res.body.preset.parameters.drive).toMatchObject({ levelSpacing: 'linear', dutyTable: [0, 0.09, 0.4, 1] });
+  const row = await Preset.findByPk(res.body.preset.id);
+  await Preset.sequelize!.query(`UPDATE presets SET parameters = parameters #- '{drive,levelSpacing}' #- '{drive,dutyTable}' WHERE id = :id`, { replacements: { id: row!.id } });
+  const { up } = await import('../../db/migrations/0012-level-spacing');
+  await up(Preset.sequelize!.getQueryInterface());
+  await row!.reload();
+  expect(row!.parameters.drive).toMatchObject({ levelSpacing: 'linear', dutyTable: [0, 0.09, 0.4, 1] });
+});
+
+test('a duty table that does not rise is refused with the value that breaks it, and nothing is stored', async () => {
+  const p = (await editor.post(url(), { name: 'Duty check', panelTypeId: 'el-amber-640x480' })).body.preset;
+  const res = await editor.patch(url(`/${p.id}`), { baseRevision: 1, parameters: { ...base, drive: { ...base.drive, levelSpacing: 'table', dutyTable: [0, 0.5, 0.3, 1] } } });
+  expect(res.status).toBe(400);
+  expect(res.body.error.details.issues[0].path).toBe('parameters.drive.dutyTable');
+  expect(JSON.stringify(res.body)).toMatch(/Duty table \(Drive\) must rise from each value to the next: value 3 \(0.3\) is not above value 2 \(0.5\)/);
+  expect((await Preset.findByPk(p.id))!.revision).toBe(1);
+});
+
 test('the committed JSON Schema equals the one generated from the shared schema (npx tsx scripts/gen-preset-schema.ts)', () => {
   const committed = JSON.parse(readFileSync(path.join(__dirname, '../../../shared/model/preset-document.schema.json'), 'utf8'));
   expect(committed).toEqual(presetDocumentJsonSchema());

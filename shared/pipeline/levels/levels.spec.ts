@@ -1,7 +1,8 @@
 import { bayerMatrix, CLUSTER4, FLOYD_STEINBERG, quantise } from './levels';
+import { levelCount, levelLights } from './spacing';
 import type { PanelParams } from '../../model/parameters';
 
-const drive = (over: Partial<PanelParams['drive']>): PanelParams['drive'] => ({ grayLevels: 2, dither: 'none', serpentine: false, rowLoading: 0, refreshHz: 60, ...over });
+const drive = (over: Partial<PanelParams['drive']>): PanelParams['drive'] => ({ grayLevels: 2, levelSpacing: 'linear', dutyTable: [0, 1], dither: 'none', serpentine: false, rowLoading: 0, refreshHz: 60, ...over });
 
 describe('Bayer ordered dither (Bayer, IEEE ICC 1973) [paper]', () => {
   test('M₂ = [[0,2],[3,1]] and M₄ as published [paper] Bayer 1973', () => {
@@ -64,5 +65,68 @@ describe('levels without dither', () => {
   test('rounds to the nearest of n levels [calc]', () => {
     const out = quantise(new Float32Array([0, 0.16, 0.17, 0.5, 0.84, 1]), 6, 1, drive({ grayLevels: 4 }));
     expect(Array.from(out).map((v) => Math.round(v * 3))).toEqual([0, 0, 1, 2, 3, 3]);
+  });
+});
+
+describe('level spacing: even in light, even to the eye, or a typed duty table', () => {
+  /** sRGB-encoded code c (0–255) as linear light, IEC 61966-2-1 written out here (not the project's decoder). */
+  const decode = (c: number) => {
+    const v = c / 255;
+    return v <= 0.04045 ? v / 12.92 : ((v + 0.055) / 1.055) ** 2.4;
+  };
+  const ramp = Float32Array.from({ length: 256 }, (_, c) => decode(c));
+  const levelsOf = (over: Partial<PanelParams['drive']>) => quantise(ramp, 256, 1, drive(over));
+
+  test('levelLights: k/(n−1) in light; sRGB decode of k/(n−1) to the eye; the table as typed [std] IEC 61966-2-1', () => {
+    const n = 16;
+    const even = levelLights(drive({ grayLevels: n }));
+    const eye = levelLights(drive({ grayLevels: n, levelSpacing: 'perceptual' }));
+    for (let k = 0; k < n; k++) {
+      expect(even[k]).toBeCloseTo(k / 15, 12);
+      expect(eye[k]).toBeCloseTo(decode((k / 15) * 255), 12);
+    }
+    expect([...levelLights(drive({ grayLevels: 16, levelSpacing: 'table', dutyTable: [0.02, 0.1, 0.5, 1] }))]).toEqual([0.02, 0.1, 0.5, 1]);
+    expect(levelCount(drive({ grayLevels: 16, levelSpacing: 'table', dutyTable: [0.02, 0.1, 0.5, 1] }))).toBe(4);
+    expect(levelCount(drive({ grayLevels: 16, levelSpacing: 'perceptual' }))).toBe(16);
+  });
+
+  test('16 levels even in light: sRGB input codes 0–51 all drive off (the complaint); even to the eye, code 10 and up light a cell [calc]', () => {
+    // Even in light the first level is 1/15 = 0.0667; half of it, 0.0333, is sRGB code ≈ 51.1.
+    const even = levelsOf({ grayLevels: 16 });
+    expect(even.subarray(0, 52).every((v) => v === 0)).toBe(true);
+    expect(even[52]).toBeCloseTo(1 / 15, 6);
+    // To the eye the first level is decode(17) = 0.0056; half of it, 0.0028, is sRGB code ≈ 9.2.
+    const eye = levelsOf({ grayLevels: 16, levelSpacing: 'perceptual' });
+    const firstLit = eye.findIndex((v) => v > 0);
+    expect(firstLit).toBe(10);
+    // Each of the 16 levels is used on the ramp, every output is a level, and the levels rise with the input.
+    const lights = levelLights(drive({ grayLevels: 16, levelSpacing: 'perceptual' }));
+    expect(new Set(eye).size).toBe(16);
+    for (let c = 0; c < 256; c++) expect([...lights].some((l) => Math.fround(l) === eye[c])).toBe(true);
+    for (let c = 1; c < 256; c++) expect(eye[c]).toBeGreaterThanOrEqual(eye[c - 1]);
+  });
+
+  test('without dither each input goes to the level nearest in light; with a typed table too [calc]', () => {
+    const table = [0.05, 0.2, 0.6, 1];
+    const out = levelsOf({ levelSpacing: 'table', dutyTable: table });
+    for (let c = 0; c < 256; c++) {
+      const nearest = table.reduce((a, b) => (Math.abs(b - ramp[c]) < Math.abs(a - ramp[c]) ? b : a));
+      expect(out[c]).toBeCloseTo(nearest, 6);
+    }
+  });
+
+  test.each([['bayer4'], ['floyd-steinberg']] as const)('%s over a flat field keeps its mean light between two typed levels (within 1 %) [calc]', (dither) => {
+    const table = [0, 0.1, 0.5, 1];
+    const cols = 64;
+    for (const want of [0.05, 0.3, 0.75]) {
+      const field = new Float32Array(cols * cols).fill(want);
+      const out = quantise(field, cols, cols, drive({ levelSpacing: 'table', dutyTable: table, dither, serpentine: true }));
+      const mean = out.reduce((a, b) => a + b, 0) / out.length;
+      expect(Math.abs(mean - want)).toBeLessThan(0.01);
+      // Only the two levels around the demand are used.
+      const used = new Set(Array.from(out, (v) => Math.round(v * 1000) / 1000));
+      expect([...used].every((v) => table.includes(v))).toBe(true);
+      expect(used.size).toBe(2);
+    }
   });
 });

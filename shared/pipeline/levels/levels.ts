@@ -1,4 +1,5 @@
 import type { PanelParams } from '../../model/parameters';
+import { levelBelow, levelLights, nearestLevel } from './spacing';
 
 /** Bayer's recursive ordered-dither matrix M₂ₙ = [[4M, 4M+2], [4M+3, 4M+1]] (Bayer, IEEE ICC 1973). */
 export function bayerMatrix(size: 2 | 4 | 8): number[][] {
@@ -35,29 +36,48 @@ export const CLUSTER4 = [
 export const FLOYD_STEINBERG = { right: 7 / 16, belowLeft: 3 / 16, below: 5 / 16, belowRight: 1 / 16 } as const;
 
 /**
- * Quantises drive demand (linear, 0–1) to the panel's gray levels. Ordered dithers add the
- * threshold (M + 0.5)/N² before flooring; error diffusion carries each cell's error forward
- * with the Floyd–Steinberg weights (serpentine: alternate row direction).
+ * Quantises drive demand (linear light, 0–1) to the panel's drive levels, giving each cell the
+ * light of its level as a share of full on (levelLights: even steps of light, even steps to the
+ * eye, or a duty table). Ordered dithers add the threshold t = (M + 0.5)/N² to the demand's
+ * position between the two levels around it and take the upper one when that passes 1 (no
+ * dither: t = ½, the nearer level in light); error diffusion carries each cell's error in light
+ * forward with the Floyd–Steinberg weights (serpentine: alternate row direction). Even steps of
+ * light are floor(demand · steps + t) / steps, the classic form.
  */
 export function quantise(demand: Float32Array, cols: number, rows: number, drive: PanelParams['drive'], out?: Float32Array): Float32Array {
   const result = out ?? new Float32Array(cols * rows);
-  const steps = drive.grayLevels - 1;
+  const levels = levelLights(drive);
+  const linear = drive.levelSpacing === 'linear';
+  const steps = levels.length - 1;
   const d = drive.dither;
-  if (d === 'floyd-steinberg') return diffuse(demand, cols, rows, steps, drive.serpentine, result);
+  if (d === 'floyd-steinberg') return diffuse(demand, cols, rows, levels, linear, drive.serpentine, result);
   const matrix = d === 'none' ? null : d === 'cluster4' ? CLUSTER4 : bayerMatrix(Number(d.slice(5)) as 2 | 4 | 8);
   const size = matrix?.length ?? 1;
   const cells = size * size;
+  const first = levels[0];
+  const last = levels[steps];
   for (let y = 0; y < rows; y++) {
     for (let x = 0; x < cols; x++) {
       const i = y * cols + x;
       const t = matrix ? (matrix[y % size][x % size] + 0.5) / cells : 0.5;
-      result[i] = Math.min(steps, Math.floor(demand[i] * steps + t)) / steps;
+      const want = demand[i];
+      if (linear) {
+        result[i] = Math.min(steps, Math.floor(want * steps + t)) / steps;
+      } else if (want <= first) {
+        result[i] = first;
+      } else if (want >= last) {
+        result[i] = last;
+      } else {
+        const k = levelBelow(levels, want);
+        result[i] = (want - levels[k]) / (levels[k + 1] - levels[k]) + t >= 1 ? levels[k + 1] : levels[k];
+      }
     }
   }
   return result;
 }
 
-function diffuse(demand: Float32Array, cols: number, rows: number, steps: number, serpentine: boolean, out: Float32Array): Float32Array {
+function diffuse(demand: Float32Array, cols: number, rows: number, levels: Float64Array, linear: boolean, serpentine: boolean, out: Float32Array): Float32Array {
+  const steps = levels.length - 1;
   // Two rows of carried error (this row and the next), with one guard cell at each end.
   let cur = new Float64Array(cols + 2);
   let next = new Float64Array(cols + 2);
@@ -69,7 +89,8 @@ function diffuse(demand: Float32Array, cols: number, rows: number, steps: number
       const x = reverse ? cols - 1 - k : k;
       const i = y * cols + x;
       const want = demand[i] + cur[x + 1];
-      const q = Math.min(steps, Math.max(0, Math.round(want * steps))) / steps;
+      // The nearest level in light (even steps: the classic rounding).
+      const q = linear ? Math.min(steps, Math.max(0, Math.round(want * steps))) / steps : levels[nearestLevel(levels, want)];
       out[i] = q;
       const err = want - q;
       cur[x + 1 + dir] += err * w.right;

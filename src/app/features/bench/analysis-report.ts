@@ -17,6 +17,7 @@ import { ArtworkApi } from '../artworks/artwork-api';
 import { downloadText } from '../drive/download';
 import { StudioContext } from '../studio/studio-context';
 import { BenchEngine } from './bench-engine';
+import { levelCount } from '../../../../shared/pipeline/levels/spacing';
 
 /**
  * The bench's analysis of the current view: legibility (with a map of where one-cell detail is
@@ -166,7 +167,7 @@ export class AnalysisReport {
   /** A test pattern at this panel's size, added to the library as a PNG. */
   protected async addPattern(): Promise<void> {
     const { cols, rows } = this.params().cell;
-    const pattern = testPattern(cols, rows, this.params().drive.grayLevels);
+    const pattern = testPattern(cols, rows, levelCount(this.params().drive));
     const canvas = document.createElement('canvas');
     canvas.width = cols;
     canvas.height = rows;

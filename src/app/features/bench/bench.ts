@@ -36,6 +36,7 @@ import { RenderApi } from './render-api';
 import { downloadBlob } from '../drive/download';
 import { FrameDataExport } from '../drive/frame-data-export';
 import { AnalysisReport } from './analysis-report';
+import { levelCount } from '../../../../shared/pipeline/levels/spacing';
 
 /** ID-1 card width in mm (ISO/IEC 7810), the on-screen ruler for real size. */
 const CARD_MM = { width: 85.6, height: 53.98 };
@@ -166,7 +167,8 @@ export class Bench {
   protected readonly downloadName = computed(() => `${this.selected()?.name ?? 'artwork'} ${this.labelA()}`);
   protected readonly frcFlickerHz = computed(() => {
     const d = this.params().drive;
-    return d.grayLevels > 2 ? d.refreshHz / (d.grayLevels - 1) : null;
+    const levels = levelCount(d);
+    return levels > 2 ? d.refreshHz / (levels - 1) : null;
   });
 
   constructor() {

@@ -55,4 +55,30 @@ describe('ParamControls (issue "Workflow", item 2)', () => {
     expect(fixture.componentInstance.params().glass).toEqual(BUILT_IN_PRESETS[0].parameters.glass);
     expect(fixture.componentInstance.params().drive.grayLevels).toBe(4);
   });
+
+  test('a duty table is typed as a list: a bad one stays in the field with what to fix and changes nothing; a good one applies and sets the number of levels', async () => {
+    const fixture = TestBed.createComponent(Host);
+    await fixture.whenStable();
+    const el: HTMLElement = fixture.nativeElement;
+    const before = fixture.componentInstance.params().drive;
+    fixture.componentInstance.params.update((p) => ({ ...p, drive: { ...p.drive, levelSpacing: 'table' } }));
+    await fixture.whenStable();
+    const table = field(el, 'drive-dutyTable');
+    type(table, '0, 0.5, 0.3, 1');
+    await fixture.whenStable();
+    expect(el.querySelector('#drive-dutyTable-hint')!.textContent).toContain('value 3 (0.3) is not above value 2 (0.5)');
+    expect(table.getAttribute('aria-invalid')).toBe('true');
+    expect(fixture.componentInstance.params().drive.dutyTable).toEqual(before.dutyTable);
+    type(table, 'half, 1');
+    await fixture.whenStable();
+    expect(el.querySelector('#drive-dutyTable-hint')!.textContent).toContain('“half” is not a number');
+    type(table, '0 0.02 0.1 0.3 0.6 1');
+    await fixture.whenStable();
+    expect(fixture.componentInstance.params().drive.dutyTable).toEqual([0, 0.02, 0.1, 0.3, 0.6, 1]);
+    expect(table.getAttribute('aria-invalid')).toBeNull();
+    // Gray levels now follow the table, read-only, and say why.
+    expect(field(el, 'drive-grayLevels').readOnly).toBe(true);
+    expect(field(el, 'drive-grayLevels').value).toBe('6');
+    expect(el.querySelector('#drive-grayLevels-lock')!.textContent).toContain('Set by the duty table');
+  });
 });

@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, input, output, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatExpansionModule } from '@angular/material/expansion';
 import { MatIconModule } from '@angular/material/icon';
@@ -6,7 +6,7 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatSliderModule } from '@angular/material/slider';
 import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { MatTooltipModule } from '@angular/material/tooltip';
-import { GROUP_LABELS, GROUPS, PARAMS, type Group, type NumberSpec, type PanelParams, type ParamSpec } from '../../../../shared/model/parameters';
+import { GROUP_LABELS, GROUPS, PARAMS, panelParamsPatchSchema, type Group, type ListSpec, type NumberSpec, type PanelParams, type ParamSpec } from '../../../../shared/model/parameters';
 import { haloRadiusFromGlass } from '../../../../shared/pipeline/glow/glow';
 
 
@@ -51,12 +51,19 @@ export class ParamControls {
 
   /** Every lock in force: the given ones, and a halo radius that the glass decides. */
   protected readonly allLocks = computed<Record<string, ParamLock>>(() => {
-    const glass = this.params().glass;
-    const own: Record<string, ParamLock> = glass.haloFromGlass
-      ? { 'glass.haloRadiusMm': { value: Math.round(haloRadiusFromGlass(glass.glassThicknessMm, glass.refractiveIndex) * 1000) / 1000, reason: 'From the glass: 2 × thickness × tan(asin(1 ÷ refractive index)). Turn off “Halo from glass” to set it.' } }
-      : {};
+    const { glass, drive } = this.params();
+    const own: Record<string, ParamLock> = {};
+    if (glass.haloFromGlass) {
+      own['glass.haloRadiusMm'] = { value: Math.round(haloRadiusFromGlass(glass.glassThicknessMm, glass.refractiveIndex) * 1000) / 1000, reason: 'From the glass: 2 × thickness × tan(asin(1 ÷ refractive index)). Turn off “Halo from glass” to set it.' };
+    }
+    if (drive.levelSpacing === 'table') {
+      own['drive.grayLevels'] = { value: drive.dutyTable.length, reason: 'Set by the duty table: one level for each value. Choose another level spacing to set it here.' };
+    }
     return { ...own, ...this.locks() };
   });
+
+  /** What is wrong with a list as typed, by control id (the text stays in the field to be fixed). */
+  protected readonly listProblems = signal<Readonly<Record<string, string>>>({});
 
   protected lockOf(spec: ParamSpec): ParamLock | undefined {
     return this.allLocks()[`${spec.group}.${spec.key}`];
@@ -86,7 +93,35 @@ export class ParamControls {
     this.changed.emit({ kind: 'set', group: spec.group, key: spec.key, value });
   }
 
+  protected listText(spec: ParamSpec): string {
+    return (this.valueOf(spec) as number[]).join(', ');
+  }
+
+  protected listUnit(spec: ParamSpec): string {
+    return (spec as ListSpec).unit;
+  }
+
+  protected listHint(spec: ParamSpec): string {
+    const list = spec as ListSpec;
+    const inUse = spec.key !== 'dutyTable' || this.params().drive.levelSpacing === 'table';
+    const shape = `${list.minLength}–${list.maxLength} values from ${list.min} to ${list.max}, rising, separated by commas or spaces.`;
+    return inUse ? shape : `Used when the level spacing is “Duty table”. ${shape}`;
+  }
+
+  /** Parses a typed list ("0, 0.09, 0.4, 1"); a bad one is kept in the field with what to fix, and nothing changes. */
+  protected setList(spec: ParamSpec, text: string): void {
+    const id = `${spec.group}-${spec.key}`;
+    const parts = text.split(/[\s,;]+/).filter(Boolean);
+    const values = parts.map(Number);
+    const bad = parts.find((p, k) => !Number.isFinite(values[k]));
+    const checked = bad === undefined ? panelParamsPatchSchema.safeParse({ [spec.group]: { [spec.key]: values } }) : null;
+    const problem = bad !== undefined ? `“${bad}” is not a number. Type values like 0, 0.09, 0.4, 1.` : checked && !checked.success ? checked.error.issues[0].message : '';
+    this.listProblems.update((all) => ({ ...all, [id]: problem }));
+    if (!problem) this.changed.emit({ kind: 'set', group: spec.group, key: spec.key, value: values });
+  }
+
   protected resetGroup(group: Group): void {
+    this.listProblems.set({});
     this.changed.emit({ kind: 'reset', group, to: this.defaults()[group] });
   }
 

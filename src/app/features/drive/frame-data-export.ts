@@ -15,6 +15,7 @@ import { PIXELS_PER_CLOCK, type PanelInterface } from '../../../../shared/drive/
 import type { PanelParams } from '../../../../shared/model/parameters';
 import type { RgbaImage } from '../../../../shared/pipeline/types';
 import { downloadBlob, downloadText } from './download';
+import { levelCount } from '../../../../shared/pipeline/levels/spacing';
 
 let instances = 0;
 
@@ -53,7 +54,7 @@ export class FrameDataExport {
 
   // Choices start from the look and the timing and follow them when they change, not when any
   // other figure of theirs does (the inputs are new objects on every edit): hence the primitives.
-  private readonly grayLevels = computed(() => this.params().drive.grayLevels);
+  private readonly grayLevels = computed(() => levelCount(this.params().drive));
   private readonly timingClock = computed(() => this.panelInterface()?.pixelsPerClock ?? 1);
   private readonly timingDualScan = computed(() => !!this.panelInterface()?.dualScan);
   protected readonly bits = linkedSignal(() => bitsFor(this.grayLevels()));
