@@ -67,6 +67,8 @@ export interface FlashSafety {
   /** Block size used, mm, and the grid of blocks. */
   block: { mm: number; cols: number; rows: number };
   frames: FlashFrameFigures[];
+  /** With frame-rate control: the cycle whose flicker was checked as well (flash-check.ts). */
+  frc?: { refreshes: number; refreshHz: number; framesChecked: number };
 }
 
 /** WCAG's area threshold: a quarter of a 10° visual field [std]. */

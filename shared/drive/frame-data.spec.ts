@@ -115,10 +115,11 @@ describe('frame data: round trips through an independent unpacker [calc]', () =>
 
   test('levels not even in light still go out as level indices 0 … n − 1: a duty table of 6 values on 4 bits, and even steps to the eye on 16 levels', () => {
     const layout: FrameLayout = { bitsPerCell: 4, bitOrder: 'msb', pixelsPerClock: 1, scan: 'single', frcLevels: 0 };
-    for (const drive of [
+    const drives: Partial<PanelParams['drive']>[] = [
       { levelSpacing: 'table', dutyTable: [0, 0.02, 0.1, 0.3, 0.6, 1], dither: 'bayer4' },
       { grayLevels: 16, levelSpacing: 'perceptual', dither: 'floyd-steinberg' },
-    ] as const) {
+    ];
+    for (const drive of drives) {
       const p = mergeParams(panel({}), { drive });
       const lights = levelLights(p.drive);
       const data = frameData(card(64, 32), p, layout);
@@ -130,6 +131,24 @@ describe('frame data: round trips through an independent unpacker [calc]', () =>
       expect(new Set(codes).size).toBeGreaterThan(lights.length / 2);
       expect(data.description.at(-1)).toMatch(/level 0 to \d+ should light the cell at 0 %, /);
     }
+  });
+
+  test('the frame-rate-control dither goes out as its cycle: F frames of levels, a cell at the upper level in frame f when (f + x + y) mod F is below its share', () => {
+    const layout: FrameLayout = { bitsPerCell: 2, bitOrder: 'msb', pixelsPerClock: 1, scan: 'single', frcLevels: 0 };
+    const p = panel({ grayLevels: 4, dither: 'frc3' });
+    const data = frameData(card(64, 32), p, layout);
+    expect(data.frames).toBe(3);
+    expect(data.bytes.length).toBe(((64 * 32 * 2) / 8) * 3);
+    const frames = Array.from({ length: 3 }, (_, f) => unpack(data.bytes.subarray(f * data.frameBytes, (f + 1) * data.frameBytes), layout, 64, 32));
+    // The cycle's mean level, in light, is what the preview shows.
+    const shown = driveLevels(card(64, 32), p);
+    for (let i = 0; i < 64 * 32; i++) {
+      const mean = frames.reduce((s, fr) => s + fr[i] / 3, 0) / 3;
+      expect(mean).toBeCloseTo(shown[i], 5);
+      const lo = Math.min(...frames.map((fr) => fr[i]));
+      expect(frames.every((fr) => fr[i] - lo <= 1)).toBe(true);
+    }
+    expect(data.description.join(' ')).toMatch(/Frame-rate control: 3 frames, one a refresh/);
   });
 
   test('a layout that cannot hold the panel says what to change', () => {

@@ -1,4 +1,5 @@
 import type { PanelParams } from '../model/parameters';
+import { frcFrames, isFrc } from '../pipeline/levels/levels';
 import { levelCount, levelLights, nearestLevel } from '../pipeline/levels/spacing';
 import { driveLevels } from '../pipeline/render';
 import type { Frame } from '../pipeline/types';
@@ -137,16 +138,21 @@ export function frameData(image: Frame['image'], p: PanelParams, layout: FrameLa
   const { cols, rows } = p.cell;
   checkFrameLayout(layout, cols, rows, levelCount(p.drive));
   const levelsCount = layout.frcLevels || levelCount(p.drive);
-  // Frame-rate control lights a cell in some frames and not others: its levels are even steps of light.
-  const drive: PanelParams['drive'] = layout.frcLevels ? { ...p.drive, grayLevels: layout.frcLevels, levelSpacing: 'linear' } : p.drive;
-  const indices = levelIndices(driveLevels(image, { ...p, drive }), levelLights(drive));
-  const frames = layout.frcLevels ? layout.frcLevels - 1 : 1;
+  // 1-bit frame-rate control lights a cell in some frames and not others: its levels are even
+  // steps of light, and it is the temporal dither itself (the look's own FRC dither gives way).
+  const drive: PanelParams['drive'] = layout.frcLevels ? { ...p.drive, grayLevels: layout.frcLevels, levelSpacing: 'linear', dither: isFrc(p.drive.dither) ? 'none' : p.drive.dither } : p.drive;
+  // The frame-rate-control dither (drive.dither) sends each refresh of its cycle as a frame of levels.
+  const cycle = layout.frcLevels ? 1 : frcFrames(drive.dither);
+  const lights = levelLights(drive);
+  const indices = Array.from({ length: cycle }, (_, r) => levelIndices(driveLevels(image, { ...p, drive }, isFrc(drive.dither) ? r : undefined), lights));
+  const frames = layout.frcLevels ? layout.frcLevels - 1 : cycle;
   const planes = layout.scan === 'dual-planes' ? 2 : 1;
   const frameBytes = (cols * rows * layout.bitsPerCell) / 8;
   const planeBytes = frameBytes / planes;
   const bytes = new Uint8Array(frameBytes * frames);
-  for (let f = 0; f < frames; f++) packFrame(codesOf(indices, cols, layout, levelsCount - 1, f, frames), cols, rows, layout, bytes, f * frameBytes, planes, planeBytes);
+  for (let f = 0; f < frames; f++) packFrame(codesOf(indices[cycle > 1 ? f : 0], cols, layout, levelsCount - 1, f, frames), cols, rows, layout, bytes, f * frameBytes, planes, planeBytes);
   const description = describeLayout(layout, cols, rows, levelsCount);
+  if (cycle > 1) description.push(`Frame-rate control: ${cycle} frames, one a refresh, then again from the first; a cell between two levels shows the upper one in some of them (in frame f when (f + x + y) mod ${cycle} is below its share of ${cycle}).`);
   if (drive.levelSpacing !== 'linear') {
     const shares = Array.from(levelLights(drive), (l) => `${+(l * 100).toFixed(2)} %`).join(', ');
     description.push(`The levels are ${drive.levelSpacing === 'table' ? 'the duty table' : 'even steps to the eye'}: level 0 to ${levelsCount - 1} should light the cell at ${shares} of full on; the controller's own level table must do the same.`);

@@ -53,7 +53,7 @@ const list = (group: Group, key: string, label: string, min: number, max: number
 
 export const FIT_MODES = ['native', 'integer', 'area'] as const;
 export const LUMA_MODES = ['rec709', 'rec601'] as const;
-export const DITHERS = ['none', 'bayer2', 'bayer4', 'bayer8', 'cluster4', 'floyd-steinberg'] as const;
+export const DITHERS = ['none', 'bayer2', 'bayer4', 'bayer8', 'cluster4', 'floyd-steinberg', 'frc2', 'frc3', 'frc4'] as const;
 export const LEVEL_SPACINGS = ['linear', 'perceptual', 'table'] as const;
 export const CELL_MODES = ['matrix', 'crt'] as const;
 export const COLOUR_SOURCES = ['spectrum', 'chromaticity'] as const;
@@ -74,7 +74,7 @@ export const PARAMS: readonly ParamSpec[] = [
   i('drive', 'grayLevels', 'Gray levels', 2, 16, 'levels', 'Distinct drive levels the panel can show (2 = on/off)'),
   e('drive', 'levelSpacing', 'Level spacing', LEVEL_SPACINGS, { linear: 'Even steps of light', perceptual: 'Even steps to the eye', table: 'Duty table' }, 'How the levels share out the light: equal steps of light (PWM duty linear in light), equal steps of the sRGB-encoded tone (a table made for the eye), or the duty table below, which then sets the number of levels'),
   list('drive', 'dutyTable', 'Duty table', 0, 1, [2, 16], 'of full on', 0.001, 'Light of each level as a share of full on (PWM duty), lowest level first, strictly rising: 2 to 16 values; used when the level spacing is “Duty table”'),
-  e('drive', 'dither', 'Dither', DITHERS, { none: 'None', bayer2: 'Ordered, Bayer 2 × 2', bayer4: 'Ordered, Bayer 4 × 4', bayer8: 'Ordered, Bayer 8 × 8', cluster4: 'Clustered dot 4 × 4', 'floyd-steinberg': 'Error diffusion (Floyd–Steinberg)' }, 'How in-between tones are spread over cells: none, ordered Bayer, clustered dot, or error diffusion'),
+  e('drive', 'dither', 'Dither', DITHERS, { none: 'None', bayer2: 'Ordered, Bayer 2 × 2', bayer4: 'Ordered, Bayer 4 × 4', bayer8: 'Ordered, Bayer 8 × 8', cluster4: 'Clustered dot 4 × 4', 'floyd-steinberg': 'Error diffusion (Floyd–Steinberg)', frc2: 'Frame-rate control, 2 frames', frc3: 'Frame-rate control, 3 frames', frc4: 'Frame-rate control, 4 frames' }, 'How in-between tones are spread over cells: none, ordered Bayer, clustered dot, error diffusion, or frame-rate control (a cell alternates between the two levels around its tone over 2–4 refreshes, phases offset cell to cell; the preview shows the average the eye sees)'),
   b('drive', 'serpentine', 'Serpentine scan', 'Error diffusion alternates row direction, which breaks up worm artefacts'),
   n('drive', 'rowLoading', 'Row loading droop', 0, 0.5, '', 0.005, "A row's emission drops by this × its lit fraction (passive-matrix drive)"),
   n('drive', 'refreshHz', 'Refresh rate', 20, 240, 'Hz', 0.5, 'Frames (or fields) per second the panel is refreshed at'),

@@ -1,7 +1,7 @@
 import type { PanelParams } from '../model/parameters';
 import { fitToGrid } from './fit/fit';
 import { glowField, glowFieldSize, glowPlan } from './glow/glow';
-import { quantise } from './levels/levels';
+import { quantise, quantiseRefresh } from './levels/levels';
 import { compose } from './output/compose';
 import { outputUniforms } from './output/uniforms';
 import { decayFactor, interlaceField, persist } from './persistence/persistence';
@@ -19,18 +19,20 @@ export function refreshesOf(delayMs: number, refreshHz: number): number {
 }
 
 /**
- * Stages 1–3 for one image: fit, tone, levels → each cell's drive level as a share of full on
- * (k / (grayLevels − 1)): what a controller is told to show, before the panel's row droop.
+ * Stages 1–3 for one image: fit, tone, levels → each cell's drive level as the light it gives, a
+ * share of full on (levels/spacing.ts): what a controller is told to show, before the panel's row
+ * droop. With frame-rate control, the average over its cycle — or, given `refresh`, the levels of
+ * that refresh of the cycle.
  */
-export function driveLevels(frame: Frame['image'], p: PanelParams): Float32Array {
+export function driveLevels(frame: Frame['image'], p: PanelParams, refresh?: number): Float32Array {
   const rgb = fitToGrid(frame, p.cell, p.source.fit);
   const demand = tone(rgb, p.source);
-  return quantise(demand, p.cell.cols, p.cell.rows, p.drive);
+  return refresh === undefined ? quantise(demand, p.cell.cols, p.cell.rows, p.drive) : quantiseRefresh(demand, p.cell.cols, p.cell.rows, p.drive, refresh);
 }
 
-/** Stages 1–4 for one image: fit, tone, levels, row loading → emission per cell (0–1). */
-export function driveImage(frame: Frame['image'], p: PanelParams): Float32Array {
-  return rowLoading(driveLevels(frame, p), p.cell.cols, p.cell.rows, p.drive.rowLoading);
+/** Stages 1–4 for one image: fit, tone, levels, row loading → emission per cell (0–1); `refresh` as in driveLevels. */
+export function driveImage(frame: Frame['image'], p: PanelParams, refresh?: number): Float32Array {
+  return rowLoading(driveLevels(frame, p, refresh), p.cell.cols, p.cell.rows, p.drive.rowLoading);
 }
 
 /**

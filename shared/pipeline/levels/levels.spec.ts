@@ -1,4 +1,4 @@
-import { bayerMatrix, CLUSTER4, FLOYD_STEINBERG, quantise } from './levels';
+import { bayerMatrix, CLUSTER4, FLOYD_STEINBERG, quantise, quantiseRefresh } from './levels';
 import { levelCount, levelLights } from './spacing';
 import type { PanelParams } from '../../model/parameters';
 
@@ -128,5 +128,40 @@ describe('level spacing: even in light, even to the eye, or a typed duty table',
       expect([...used].every((v) => table.includes(v))).toBe(true);
       expect(used.size).toBe(2);
     }
+  });
+});
+
+describe('frame-rate control: a cell alternates between the two levels around its tone', () => {
+  const cols = 16;
+  const rows = 16;
+  test.each([['frc2', 2], ['frc3', 3], ['frc4', 4]] as const)('%s: each refresh shows only the two levels around the demand; the preview is their mean over the cycle; neighbours are out of step [calc]', (dither, F) => {
+    const p = drive({ grayLevels: 4, dither });
+    const lights = [0, 1 / 3, 2 / 3, 1];
+    for (const want of [0.1, 0.5, 0.9]) {
+      const field = new Float32Array(cols * rows).fill(want);
+      const k = Math.min(2, Math.floor(want * 3));
+      const m = Math.round(F * (want - lights[k]) * 3);
+      const refreshes = Array.from({ length: F }, (_, r) => quantiseRefresh(field, cols, rows, p, r));
+      const average = quantise(field, cols, rows, p);
+      for (let i = 0; i < cols * rows; i++) {
+        const seen = refreshes.map((f) => f[i]);
+        // Only the two levels around the demand, the upper one in m of the F refreshes.
+        expect(seen.every((v) => Math.abs(v - lights[k]) < 1e-6 || Math.abs(v - lights[k + 1]) < 1e-6)).toBe(true);
+        expect(seen.filter((v) => Math.abs(v - lights[k + 1]) < 1e-6).length).toBe(m);
+        // The preview is the mean the eye integrates.
+        expect(average[i]).toBeCloseTo(seen.reduce((a, b) => a + b, 0) / F, 6);
+      }
+      // In any one refresh about m/F of the cells show the upper level (the phases spread over the area).
+      for (const f of refreshes) {
+        const upper = f.filter((v) => Math.abs(v - lights[k + 1]) < 1e-6).length / (cols * rows);
+        expect(Math.abs(upper - m / F)).toBeLessThanOrEqual(1 / F);
+      }
+    }
+  });
+
+  test('frame-rate control adds levels: 2 native levels over 4 refreshes show 5 averages on a ramp, evenly spaced in light [calc]', () => {
+    const ramp = Float32Array.from({ length: 256 }, (_, c) => c / 255);
+    const out = quantise(ramp, 256, 1, drive({ grayLevels: 2, dither: 'frc4' }));
+    expect([...new Set(Array.from(out, (v) => Math.round(v * 1000) / 1000))].sort((a, b) => a - b)).toEqual([0, 0.25, 0.5, 0.75, 1]);
   });
 });

@@ -51,6 +51,7 @@ export function quantise(demand: Float32Array, cols: number, rows: number, drive
   const steps = levels.length - 1;
   const d = drive.dither;
   if (d === 'floyd-steinberg') return diffuse(demand, cols, rows, levels, linear, drive.serpentine, result);
+  if (isFrc(d)) return frameRateControl(demand, cols, rows, levels, frcFrames(d), null, result);
   const matrix = d === 'none' ? null : d === 'cluster4' ? CLUSTER4 : bayerMatrix(Number(d.slice(5)) as 2 | 4 | 8);
   const size = matrix?.length ?? 1;
   const cells = size * size;
@@ -74,6 +75,50 @@ export function quantise(demand: Float32Array, cols: number, rows: number, drive
     }
   }
   return result;
+}
+
+/** Whether a dither is frame-rate control. */
+export function isFrc(dither: PanelParams['drive']['dither']): dither is 'frc2' | 'frc3' | 'frc4' {
+  return dither === 'frc2' || dither === 'frc3' || dither === 'frc4';
+}
+
+/** Refreshes one frame-rate-control cycle takes (1 for the other dithers). */
+export function frcFrames(dither: PanelParams['drive']['dither']): number {
+  return isFrc(dither) ? Number(dither.slice(3)) : 1;
+}
+
+/**
+ * Frame-rate control: a cell whose demand lies between levels Lₖ ≤ d < Lₖ₊₁ shows Lₖ₊₁ in
+ * m = round(F · (d − Lₖ)/(Lₖ₊₁ − Lₖ)) of every F refreshes and Lₖ in the rest; in refresh r it
+ * shows the upper level when (r + x + y) mod F < m, so neighbouring cells are out of phase and an
+ * area flickers less than one cell (the phase rule frame data states for 1-bit FRC). `refresh`
+ * null gives the average over the cycle, Lₖ + (m/F)(Lₖ₊₁ − Lₖ): what the eye sees at the
+ * refresh rate.
+ */
+export function frameRateControl(demand: Float32Array, cols: number, rows: number, levels: Float64Array, frames: number, refresh: number | null, out: Float32Array): Float32Array {
+  const last = levels.length - 1;
+  for (let y = 0; y < rows; y++) {
+    for (let x = 0; x < cols; x++) {
+      const i = y * cols + x;
+      const want = demand[i];
+      if (want <= levels[0]) out[i] = levels[0];
+      else if (want >= levels[last]) out[i] = levels[last];
+      else {
+        const k = levelBelow(levels, want);
+        const m = Math.round((frames * (want - levels[k])) / (levels[k + 1] - levels[k]));
+        if (refresh === null) out[i] = levels[k] + (m / frames) * (levels[k + 1] - levels[k]);
+        else out[i] = (refresh + x + y) % frames < m ? levels[k + 1] : levels[k];
+      }
+    }
+  }
+  return out;
+}
+
+/** The drive levels of one refresh of a frame-rate-control cycle (quantise gives their average). */
+export function quantiseRefresh(demand: Float32Array, cols: number, rows: number, drive: PanelParams['drive'], refresh: number, out?: Float32Array): Float32Array {
+  const result = out ?? new Float32Array(cols * rows);
+  if (!isFrc(drive.dither)) return quantise(demand, cols, rows, drive, result);
+  return frameRateControl(demand, cols, rows, levelLights(drive), frcFrames(drive.dither), refresh, result);
 }
 
 function diffuse(demand: Float32Array, cols: number, rows: number, levels: Float64Array, linear: boolean, serpentine: boolean, out: Float32Array): Float32Array {

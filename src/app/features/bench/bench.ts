@@ -36,7 +36,7 @@ import { RenderApi } from './render-api';
 import { downloadBlob } from '../drive/download';
 import { FrameDataExport } from '../drive/frame-data-export';
 import { AnalysisReport } from './analysis-report';
-import { levelCount } from '../../../../shared/pipeline/levels/spacing';
+import { frcFrames, isFrc } from '../../../../shared/pipeline/levels/levels';
 
 /** ID-1 card width in mm (ISO/IEC 7810), the on-screen ruler for real size. */
 const CARD_MM = { width: 85.6, height: 53.98 };
@@ -165,10 +165,11 @@ export class Bench {
   protected readonly currentImage = computed(() => (this.frames.hasValue() ? this.frames.value()[this.frame()]?.image : undefined));
   /** Downloads are named after the artwork and the look. */
   protected readonly downloadName = computed(() => `${this.selected()?.name ?? 'artwork'} ${this.labelA()}`);
+  /** What the flash check looks at, in words: the animation, or a still's frame-rate-control flicker. */
+  protected readonly flashSubject = computed(() => (this.frames.hasValue() && this.frames.value().length > 1 ? 'the animation' : 'the frame-rate control flicker'));
   protected readonly frcFlickerHz = computed(() => {
     const d = this.params().drive;
-    const levels = levelCount(d);
-    return levels > 2 ? d.refreshHz / (levels - 1) : null;
+    return isFrc(d.dither) ? d.refreshHz / frcFrames(d.dither) : null;
   });
 
   constructor() {
@@ -211,7 +212,8 @@ export class Bench {
       const params = this.params();
       const distance = this.distanceMm();
       clearTimeout(this.flashTimer);
-      if (frames.length < 2) return untracked(() => this.flashCheck.set({ busy: false }));
+      // A still flickers only under frame-rate control.
+      if (frames.length === 0 || (frames.length < 2 && !isFrc(params.drive.dither))) return untracked(() => this.flashCheck.set({ busy: false }));
       untracked(() => this.flashCheck.update((f) => ({ ...f, busy: true })));
       this.flashTimer = setTimeout(() => void this.checkFlash(frames, params, distance), 300);
     });

@@ -15,6 +15,7 @@ import { PIXELS_PER_CLOCK, type PanelInterface } from '../../../../shared/drive/
 import type { PanelParams } from '../../../../shared/model/parameters';
 import type { RgbaImage } from '../../../../shared/pipeline/types';
 import { downloadBlob, downloadText } from './download';
+import { frcFrames } from '../../../../shared/pipeline/levels/levels';
 import { levelCount } from '../../../../shared/pipeline/levels/spacing';
 
 let instances = 0;
@@ -82,7 +83,7 @@ export class FrameDataExport {
   protected readonly description = computed(() => (this.problem() ? [] : describeLayout(this.layout(), this.grid().cols, this.grid().rows, this.levels())));
   protected readonly sizes = computed(() => {
     const frameBytes = (this.grid().cols * this.grid().rows * this.bits()) / 8;
-    const frames = this.layout().frcLevels ? this.layout().frcLevels - 1 : 1;
+    const frames = this.layout().frcLevels ? this.layout().frcLevels - 1 : frcFrames(this.params().drive.dither);
     return { frameBytes, frames, total: frameBytes * frames };
   });
   protected readonly arrayName = computed(() => cIdentifier(this.fileName()));
