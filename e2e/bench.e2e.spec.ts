@@ -102,6 +102,51 @@ test('upload through the library → open on the bench → change the glow → t
   await expect(page.locator('#page-content')).toBeFocused();
 });
 
+test('level spacing and frame-rate control: a typed duty table sets the levels; FRC shows its average, is flash-checked on a still, and plays its flicker on request', async ({ page, guard }, testInfo) => {
+  void guard;
+  await openBenchAsEditor(page);
+  const snapshot = () => page.getByTestId('live-canvas').evaluate((c: HTMLCanvasElement) => c.toDataURL());
+  let draws0 = await draws(page);
+  const before = await snapshot();
+
+  // A duty table: typed, then Tab; a bad one is kept in the field with what to fix.
+  await choose(page, 'Level spacing', 'Duty table');
+  draws0 = await waitForDraw(page, draws0);
+  const table = page.getByRole('textbox', { name: /Duty table/ });
+  await table.fill('0, 0.5, 0.3, 1');
+  await table.press('Tab');
+  await expect(page.getByRole('alert').filter({ hasText: 'value 3 (0.3) is not above value 2 (0.5)' })).toBeVisible();
+  await expect(table).toHaveValue('0, 0.5, 0.3, 1');
+  await table.fill('0, 0.03, 0.2, 0.6, 1');
+  await table.press('Tab');
+  draws0 = await waitForDraw(page, draws0);
+  await expect(page.getByRole('spinbutton', { name: 'Gray levels' })).toHaveValue('5');
+  expect(await snapshot()).not.toEqual(before);
+  withinOneCode(await drift(page), 'with a duty table');
+
+  // Frame-rate control on a still: the average is drawn, the flicker is checked and can be played.
+  await choose(page, 'Dither', 'Frame-rate control, 2 frames');
+  draws0 = await waitForDraw(page, draws0);
+  await expect(page.getByTestId('frc-note')).toContainText('the preview shows the average the eye sees');
+  await expect(page.getByTestId('flash-ok').or(page.getByTestId('flash-warning'))).toContainText(/frame-rate control flicker/, { timeout: 30_000 });
+  withinOneCode(await drift(page), 'frame-rate control average');
+  const toggle = page.getByRole('switch', { name: 'Show the flicker' });
+  if (await page.getByRole('button', { name: /I understand, allow the flicker/ }).isVisible()) await page.getByRole('button', { name: /I understand, allow the flicker/ }).click();
+  const averaged = await snapshot();
+  await toggle.click();
+  await expect(page.getByTestId('frc-note')).toContainText('plays each refresh of the cycle');
+  const shown = () => page.getByRole('switch', { name: 'Show the flicker' }).locator('xpath=ancestor::mat-slide-toggle').getAttribute('data-refreshes-shown').then(Number);
+  await expect.poll(shown, { timeout: 15_000 }).toBeGreaterThan(4);
+  // A refresh of the cycle is not the average.
+  expect(await snapshot()).not.toEqual(averaged);
+  await page.screenshot({ path: testInfo.outputPath('bench-frc.png') });
+  await toggle.click();
+  const stoppedAt = await shown();
+  await page.waitForTimeout(300);
+  expect(await shown()).toBe(stoppedAt);
+  await expect.poll(snapshot).toEqual(averaged);
+});
+
 test('a bad file is refused with the reason, nothing is stored, and the page stays usable', async ({ page, guard }) => {
   void guard;
   await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');

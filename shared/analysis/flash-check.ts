@@ -33,7 +33,7 @@ export function flashCheck(frames: readonly Frame[], p: PanelParams, distanceMm:
   if (!isFrc(p.drive.dither)) return sequence;
   const count = Math.min(frames.length, FRC_FRAMES_CHECKED);
   const checked = Array.from({ length: count }, (_, j) => Math.floor((j * frames.length) / count));
-  const cycles = checked.map((k) => flashSafety(frcCycle(frames[k], p, emissions[k]), light, distanceMm));
+  const cycles = checked.map((k) => flashSafety(frcCycle(frames[k], p, emissions[k]).map((emission) => ({ emission, delayMs: 1000 / p.drive.refreshHz })), light, distanceMm));
   const worst = [sequence, ...cycles].reduce((a, b) => ({
     ...a,
     maxFlashesPerSecond: Math.max(a.maxFlashesPerSecond, b.maxFlashesPerSecond),
@@ -48,17 +48,18 @@ export function flashCheck(frames: readonly Frame[], p: PanelParams, distanceMm:
 /**
  * One frame-rate-control cycle of a frame as the panel shows it, refresh by refresh: each
  * refresh's levels through row loading and persistence, starting from the frame's average
- * emission and run for two cycles so the afterglow has settled (the second is returned).
+ * emission and run for two cycles so the afterglow has settled (the second is returned). Each
+ * lasts one refresh period. The bench plays these to show the flicker.
  */
-function frcCycle(frame: Frame, p: PanelParams, average: Float32Array): { emission: Float32Array; delayMs: number }[] {
+export function frcCycle(frame: Frame, p: PanelParams, average: Float32Array): Float32Array[] {
   const refreshes = frcFrames(p.drive.dither);
   const decay = decayFactor(1000 / p.drive.refreshHz, p.emission.decayMs);
   const drives = Array.from({ length: refreshes }, (_, r) => driveImage(frame.image, p, r));
   const state = Float32Array.from(average);
-  const cycle: { emission: Float32Array; delayMs: number }[] = [];
+  const cycle: Float32Array[] = [];
   for (let r = 0; r < 2 * refreshes; r++) {
     const shown = persist(state, drives[r % refreshes], 1, decay, new Float32Array(state.length));
-    if (r >= refreshes) cycle.push({ emission: shown, delayMs: 1000 / p.drive.refreshHz });
+    if (r >= refreshes) cycle.push(shown);
   }
   return cycle;
 }

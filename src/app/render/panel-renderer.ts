@@ -145,6 +145,15 @@ export class PanelRenderer {
     this.uploads++;
   }
 
+  /** Replaces the emission only (one refresh of a frame-rate-control cycle over the same glow). */
+  uploadEmission(emission: Float32Array): void {
+    const gl = this.gl;
+    gl.pixelStorei(gl.UNPACK_ALIGNMENT, 1);
+    gl.bindTexture(gl.TEXTURE_2D, this.emissionTex);
+    gl.texImage2D(gl.TEXTURE_2D, 0, gl.R32F, this.grid[0], this.grid[1], 0, gl.RED, gl.FLOAT, emission);
+    this.uploads++;
+  }
+
   /** Draws the output stages with these uniforms (the canvas is resized to the output). */
   draw(u: OutputUniforms): void {
     const gl = this.gl;

@@ -40,6 +40,11 @@ export class BenchEngine {
     return this.queue({ type: 'render', params, frame, scale, compose }) as Promise<PanelResult | null>;
   }
 
+  /** Each refresh of a frame's frame-rate-control cycle, as emission (same queue). */
+  async cycle(params: PanelParams, frame: number): Promise<Extract<WorkerResult, { type: 'cycle' }> | null> {
+    return (await this.queue({ type: 'cycle', params, frame })) as Extract<WorkerResult, { type: 'cycle' }> | null;
+  }
+
   /** The flash check of the whole animation through a look (same queue: a newer request replaces a waiting one). */
   async flash(params: PanelParams, distanceMm: number): Promise<Extract<WorkerResult, { type: 'flash' }> | null> {
     return (await this.queue({ type: 'flash', params, distanceMm })) as Extract<WorkerResult, { type: 'flash' }> | null;

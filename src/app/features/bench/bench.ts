@@ -149,6 +149,8 @@ export class Bench {
   protected readonly flashCheck = signal<{ busy: boolean; report?: FlashSafety; error?: string }>({ busy: false });
   protected readonly flash = computed(() => this.flashCheck().report ?? null);
   protected readonly flashFails = computed(() => this.flash()?.pass === false);
+  /** Nothing flickers or plays while the flash check runs, or fails and has not been accepted. */
+  protected readonly flashBlocked = computed(() => (this.flashFails() && !this.flashAccepted()) || (this.flashCheck().busy && !this.flash()));
   protected readonly linkedTiming = computed(() => (this.timings.hasValue() ? this.timings.value().find((t) => t.id === this.timingId()) : undefined));
   /** While a saved timing drives the refresh rate, the Refresh control shows it read-only. */
   protected readonly locks = computed(() => {
@@ -165,6 +167,11 @@ export class Bench {
   protected readonly currentImage = computed(() => (this.frames.hasValue() ? this.frames.value()[this.frame()]?.image : undefined));
   /** Downloads are named after the artwork and the look. */
   protected readonly downloadName = computed(() => `${this.selected()?.name ?? 'artwork'} ${this.labelA()}`);
+  /** On: the preview plays each refresh of the frame-rate-control cycle instead of its average. */
+  protected readonly showFlicker = signal(false);
+  /** Refreshes of the cycle drawn since the flicker was turned on (the page tells how it goes). */
+  protected readonly flickerShown = signal(0);
+
   /** What the flash check looks at, in words: the animation, or a still's frame-rate-control flicker. */
   protected readonly flashSubject = computed(() => (this.frames.hasValue() && this.frames.value().length > 1 ? 'the animation' : 'the frame-rate control flicker'));
   protected readonly frcFlickerHz = computed(() => {
@@ -216,6 +223,45 @@ export class Bench {
       if (frames.length === 0 || (frames.length < 2 && !isFrc(params.drive.dither))) return untracked(() => this.flashCheck.set({ busy: false }));
       untracked(() => this.flashCheck.update((f) => ({ ...f, busy: true })));
       this.flashTimer = setTimeout(() => void this.checkFlash(frames, params, distance), 300);
+    });
+    // The frame-rate-control flicker: every refresh of the cycle, drawn at the refresh rate (up to
+    // the screen's), over the glow of the average; turned off, the average comes back.
+    effect((onCleanup) => {
+      const on = this.showFlicker() && this.frcFlickerHz() !== null && !this.flashBlocked();
+      const params = this.params();
+      const frame = this.frame();
+      const scale = this.scale();
+      const frames = this.frames.hasValue() ? this.frames.value() : [];
+      if (!on || frames.length === 0) return;
+      let stopped = false;
+      let raf = 0;
+      onCleanup(() => {
+        stopped = true;
+        cancelAnimationFrame(raf);
+        untracked(() => this.drawAverage(params, scale));
+      });
+      void untracked(async () => {
+        this.sendFrames(this.engineFlash, frames);
+        const cycle = await this.engineFlash.cycle(params, frame).catch((err: Error) => (this.status.set(err.message), null));
+        const gl = this.gl;
+        if (stopped || !cycle || !gl) return;
+        const period = 1000 / params.drive.refreshHz;
+        const u = outputUniforms(params, scale);
+        const start = performance.now();
+        let shown = -1;
+        const tick = (now: number) => {
+          if (stopped) return;
+          const r = Math.floor((now - start) / period) % cycle.emissions.length;
+          if (r !== shown) {
+            gl.uploadEmission(cycle.emissions[r]);
+            gl.draw(u);
+            shown = r;
+            this.flickerShown.update((n) => n + 1);
+          }
+          raf = requestAnimationFrame(tick);
+        };
+        raf = requestAnimationFrame(tick);
+      });
     });
   }
 
@@ -316,6 +362,13 @@ export class Bench {
       putImage(this.cpuCanvas()!.nativeElement, result.image.data, result.image.width, result.image.height);
     }
     this.finishDraw(started);
+  }
+
+  /** Puts the panel's average (the last render) back on the canvas, after the flicker played. */
+  private drawAverage(params: PanelParams, scale: number): void {
+    if (!this.gl || !this.lastResult) return;
+    this.gl.upload(this.lastResult.emission, params.cell.cols, params.cell.rows, this.lastResult.glow);
+    this.gl.draw(outputUniforms(params, scale));
   }
 
   /** Waits for the GPU, then records the redraw (User Timing "emberline-redraw", from edit to finished frame). */

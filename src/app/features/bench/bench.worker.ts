@@ -2,7 +2,7 @@
 import type { PanelParams } from '../../../../shared/model/parameters';
 import { compose } from '../../../../shared/pipeline/output/compose';
 import { outputUniforms } from '../../../../shared/pipeline/output/uniforms';
-import { flashCheck } from '../../../../shared/analysis/flash-check';
+import { flashCheck, frcCycle } from '../../../../shared/analysis/flash-check';
 import { burnIn, legibility, lightFigures, type PanelReport } from '../../../../shared/analysis/panel-report';
 import { panelEmission, panelEmissions, panelGlow } from '../../../../shared/pipeline/render';
 import type { Frame } from '../../../../shared/pipeline/types';
@@ -29,6 +29,16 @@ addEventListener('message', ({ data }: MessageEvent<WorkerRequest>) => {
   if (data.type === 'flash') {
     try {
       postMessage({ type: 'flash', id: data.id, report: flashOf(data.params, data.distanceMm), ms: performance.now() - started } satisfies WorkerResult);
+    } catch (err) {
+      postMessage({ type: 'error', id: data.id, message: (err as Error).message } satisfies WorkerResult);
+    }
+    return;
+  }
+  if (data.type === 'cycle') {
+    try {
+      // Each refresh of the frame-rate-control cycle, for the bench to play at the refresh rate.
+      const emissions = frcCycle(frames[data.frame], data.params, panelEmission(frames, data.params, data.frame));
+      postMessage({ type: 'cycle', id: data.id, emissions, ms: performance.now() - started } satisfies WorkerResult, emissions.map((e) => e.buffer));
     } catch (err) {
       postMessage({ type: 'error', id: data.id, message: (err as Error).message } satisfies WorkerResult);
     }
