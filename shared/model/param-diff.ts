@@ -11,8 +11,8 @@ export interface ParamChange {
 export function paramDiff(before: PanelParams, after: PanelParams): ParamChange[] {
   const changes: ParamChange[] = [];
   for (const g of GROUPS) {
-    const a = before[g] as unknown as Record<string, unknown>;
-    const b = after[g] as unknown as Record<string, unknown>;
+    const a: Readonly<Record<string, unknown>> = before[g];
+    const b: Readonly<Record<string, unknown>> = after[g];
     for (const key of Object.keys(b)) if (!sameValue(a[key], b[key])) changes.push({ path: `${g}.${key}`, from: a[key], to: b[key] });
   }
   return changes;

@@ -45,11 +45,14 @@ export interface ListSpec extends Base {
 }
 export type ParamSpec = NumberSpec | EnumSpec | BoolSpec | ListSpec;
 
-const n = (group: Group, key: string, label: string, min: number, max: number, unit: string, step: number, meaning: string): NumberSpec => ({ group, key, label, kind: 'number', min, max, unit, step, meaning });
-const i = (group: Group, key: string, label: string, min: number, max: number, unit: string, meaning: string): NumberSpec => ({ group, key, label, kind: 'int', min, max, unit, step: 1, meaning });
-const e = (group: Group, key: string, label: string, options: readonly string[], optionLabels: Record<string, string>, meaning: string): EnumSpec => ({ group, key, label, kind: 'enum', options, optionLabels, meaning });
-const b = (group: Group, key: string, label: string, meaning: string): BoolSpec => ({ group, key, label, kind: 'bool', meaning });
-const list = (group: Group, key: string, label: string, min: number, max: number, [minLength, maxLength]: [number, number], unit: string, step: number, meaning: string): ListSpec => ({ group, key, label, kind: 'list', min, max, minLength, maxLength, unit, step, meaning });
+/** A spec as written in the table: its group and key kept as literal types, so the parameter set's type can be read off the table. */
+type Keyed<S, G extends Group, K extends string> = S & { readonly group: G; readonly key: K };
+
+const n = <G extends Group, K extends string>(group: G, key: K, label: string, min: number, max: number, unit: string, step: number, meaning: string): Keyed<NumberSpec & { kind: 'number' }, G, K> => ({ group, key, label, kind: 'number', min, max, unit, step, meaning });
+const i = <G extends Group, K extends string>(group: G, key: K, label: string, min: number, max: number, unit: string, meaning: string): Keyed<NumberSpec & { kind: 'int' }, G, K> => ({ group, key, label, kind: 'int', min, max, unit, step: 1, meaning });
+const e = <G extends Group, K extends string, const O extends readonly string[]>(group: G, key: K, label: string, options: O, optionLabels: Record<O[number], string>, meaning: string): Keyed<EnumSpec & { options: O }, G, K> => ({ group, key, label, kind: 'enum', options, optionLabels, meaning });
+const b = <G extends Group, K extends string>(group: G, key: K, label: string, meaning: string): Keyed<BoolSpec, G, K> => ({ group, key, label, kind: 'bool', meaning });
+const list = <G extends Group, K extends string>(group: G, key: K, label: string, min: number, max: number, [minLength, maxLength]: [number, number], unit: string, step: number, meaning: string): Keyed<ListSpec, G, K> => ({ group, key, label, kind: 'list', min, max, minLength, maxLength, unit, step, meaning });
 
 export const FIT_MODES = ['native', 'integer', 'area'] as const;
 export const LUMA_MODES = ['rec709', 'rec601'] as const;
@@ -62,7 +65,7 @@ export const LINE_SAMPLINGS = ['auto', 'area', 'centred'] as const;
 /** Below this many output pixels a line pitch, automatic line sampling centres each line on a pixel row. */
 export const LINE_CENTRED_BELOW_PX = 4;
 
-export const PARAMS: readonly ParamSpec[] = [
+export const PARAMS = [
   e('source', 'fit', 'Fit', FIT_MODES, { native: 'Native, 1:1 centred', integer: 'Whole-number scale', area: 'Fit, area average' }, 'How artwork pixels map onto panel cells: 1:1 centred, whole-number scale, or fit with area averaging'),
   e('source', 'luma', 'Luma weights', LUMA_MODES, { rec709: 'Rec. 709 luminance (linear light)', rec601: 'Rec. 601 luma (encoded values)' }, 'Rec. 709 relative luminance of linear light, or Rec. 601 luma of the encoded values'),
   n('source', 'brightness', 'Brightness', -1, 1, '', 0.01, 'Offset added to the perceptual (sRGB-encoded) tone'),
@@ -114,17 +117,18 @@ export const PARAMS: readonly ParamSpec[] = [
   n('viewing', 'whiteCdM2', 'Display white', 1, 2000, 'cd/m²', 1, 'Luminance shown at full drive of the screen you are looking at'),
   n('viewing', 'exposureEv', 'Exposure', -4, 4, 'EV', 0.1, 'Gain in photographic stops before display'),
   n('viewing', 'knee', 'Soft knee', 0.5, 1, '', 0.01, 'Display level above which highlights roll off softly instead of clipping'),
-];
+] as const satisfies readonly ParamSpec[];
 
-/** The parameter set of one render: every group filled in. */
-export interface PanelParams {
-  source: { fit: (typeof FIT_MODES)[number]; luma: (typeof LUMA_MODES)[number]; brightness: number; contrast: number; gamma: number; invert: boolean; threshold: number };
-  drive: { grayLevels: number; levelSpacing: (typeof LEVEL_SPACINGS)[number]; dutyTable: number[]; dither: (typeof DITHERS)[number]; serpentine: boolean; rowLoading: number; refreshHz: number };
-  cell: { mode: (typeof CELL_MODES)[number]; cols: number; rows: number; pitchXMm: number; pitchYMm: number; fillX: number; fillY: number; spotSigma: number; lineSampling: (typeof LINE_SAMPLINGS)[number]; field: (typeof FIELDS)[number] };
-  emission: { colourSource: (typeof COLOUR_SOURCES)[number]; peak1Nm: number; fwhm1Nm: number; peak2Nm: number; fwhm2Nm: number; band2Weight: number; chromaX: number; chromaY: number; decayMs: number };
-  glass: { glowRadiusMm: number; glowShare: number; haloRadiusMm: number; haloShare: number; haloFromGlass: boolean; glassThicknessMm: number; refractiveIndex: number };
-  viewing: { peakCdM2: number; offCdM2: number; ambientCdM2: number; whiteCdM2: number; exposureEv: number; knee: number };
-}
+/** The value a spec holds: a number, a flag, one of its options, or a list of numbers. */
+type ValueOf<S> = S extends { kind: 'number' | 'int' } ? number : S extends { kind: 'bool' } ? boolean : S extends { kind: 'list' } ? number[] : S extends { kind: 'enum'; options: readonly (infer O)[] } ? O : never;
+type Specs = (typeof PARAMS)[number];
+
+/**
+ * The parameter set of one render: every group filled in. Read off the table — one key per spec
+ * of the group, holding the spec's value type — so a parameter is added in one place and the
+ * compiler follows it everywhere.
+ */
+export type PanelParams = { [G in Group]: { [S in Extract<Specs, { group: G }> as S['key']]: ValueOf<S> } };
 
 function fieldSchema(spec: ParamSpec): z.ZodType {
   // Named as the bench names it: "Glow radius (Glass)"; the JSON path travels beside the message.
@@ -155,6 +159,7 @@ function fieldSchema(spec: ParamSpec): z.ZodType {
 }
 
 /** The strict schema of PanelParams: every group and key required, unknown keys refused. */
+// The one cast between the table and its type: the schema is built from the same table at run time.
 export const panelParamsSchema = z.strictObject(
   Object.fromEntries(
     GROUPS.map((g) => [g, z.strictObject(Object.fromEntries(PARAMS.filter((p) => p.group === g).map((p) => [p.key, fieldSchema(p)])))]),
@@ -198,7 +203,7 @@ export function withAddedKeys(raw: unknown): unknown {
 
 /** Applies a patch to full parameters (a new object; the inputs are not changed). */
 export function mergeParams(base: PanelParams, patch: PanelParamsPatch): PanelParams {
-  const out = structuredClone(base) as unknown as Record<string, Record<string, unknown>>;
+  const out = structuredClone(base);
   for (const g of GROUPS) Object.assign(out[g], patch[g] ?? {});
-  return out as unknown as PanelParams;
+  return out;
 }

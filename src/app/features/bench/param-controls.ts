@@ -28,8 +28,8 @@ export type ParamEdit = { kind: 'set'; group: Group; key: string; value: unknown
 /** Applies an edit to a parameter set, returning a new set. */
 export function applyParamEdit(params: PanelParams, edit: ParamEdit): PanelParams {
   const next = structuredClone(params);
-  if (edit.kind === 'reset') (next as unknown as Record<string, unknown>)[edit.group] = structuredClone(edit.to);
-  else (next[edit.group] as Record<string, unknown>)[edit.key] = edit.value;
+  if (edit.kind === 'reset') Object.assign(next, { [edit.group]: structuredClone(edit.to) });
+  else Object.assign(next[edit.group], { [edit.key]: edit.value });
   return next;
 }
 
