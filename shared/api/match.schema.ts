@@ -17,10 +17,13 @@ const point = z.tuple([z.number({ message: 'each mark is [x, y] in photo pixels'
 /** The four marks, photo pixels: top-left, top-right, bottom-right, bottom-left. */
 export const matchMarksSchema = z.strictObject({ marks: z.array(point).length(4, { message: 'place exactly four marks' }) });
 
+/** Take the measured level curve as the preset's duty table (level spacing "Duty table"). */
+const levelCurve = z.boolean({ message: 'levelCurve must be true or false' }).optional();
+
 /** Saving a fit: as a new studio preset (a name), or as a new revision of the studio preset it started from. */
 export const matchSaveSchema = z.union([
-  z.strictObject({ name: z.string().trim().min(1, { message: 'give the preset a name' }).max(80, { message: 'a preset name has at most 80 characters' }) }),
-  z.strictObject({ revisionOfLook: z.literal(true, { message: 'revisionOfLook must be true' }) }),
+  z.strictObject({ name: z.string().trim().min(1, { message: 'give the preset a name' }).max(80, { message: 'a preset name has at most 80 characters' }), levelCurve }),
+  z.strictObject({ revisionOfLook: z.literal(true, { message: 'revisionOfLook must be true' }), levelCurve }),
 ], { message: 'give a name for a new preset, or revisionOfLook: true for a new revision of the starting preset' });
 
 export const MATCH_STATUSES = ['marking', 'queued', 'running', 'done', 'failed'] as const;

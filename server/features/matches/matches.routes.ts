@@ -53,7 +53,7 @@ export function matchesRoutes(matches: MatchesService): ApiRouter {
   api.route('post', '/:matchId/fit', { policy: studioRole('editor'), summary: 'Fit the panel (a background job on the render pool; poll the match for progress)', status: 202 }, async (req, res) => {
     res.status(202).json({ match: await matches.fit(actor(req), matchId(req)) });
   });
-  api.route('post', '/:matchId/save', { policy: studioRole('editor'), summary: 'Save a finished fit as a new studio preset ({ name }), or as a new revision of the studio preset it started from ({ revisionOfLook: true })', body: matchSaveSchema, status: 201 }, async (req, res) => {
+  api.route('post', '/:matchId/save', { policy: studioRole('editor'), summary: 'Save a finished fit as a new studio preset ({ name }), or as a new revision of the studio preset it started from ({ revisionOfLook: true }); levelCurve: true takes the measured level curve as the duty table', body: matchSaveSchema, status: 201 }, async (req, res) => {
     res.status(201).json(await matches.save(actor(req), matchId(req), req.body));
   });
   api.route('delete', '/:matchId', { policy: studioRole('editor'), summary: 'Delete a match and its photo (your own, or anyone’s as an owner)', status: 204 }, async (req, res) => {

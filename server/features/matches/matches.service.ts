@@ -2,6 +2,7 @@ import sharp, { type Metadata } from 'sharp';
 import { Op } from 'sequelize';
 import { MATCH_STATUS_LABELS, type MatchDto, type MatchStatus, type MatchUpload } from '../../../shared/api/match.schema';
 import { MatchRefusal } from '../../../shared/match/fit';
+import { dutyTableFromLevels } from '../../../shared/match/level-curve';
 import { checkMarks, MarkError, type Point } from '../../../shared/match/homography';
 import { patternFor, patternImage, type MatchLayout } from '../../../shared/match/pattern';
 import { DEFAULT_FRAME_LAYOUT, frameData, type FrameData } from '../../../shared/drive/frame-data';
@@ -177,19 +178,27 @@ export class MatchesService {
   }
 
   /** Saves the fitted parameters as a new studio preset, or as a new revision of the studio preset the fit started from. */
-  async save(actor: MatchActor, id: string, as: { name: string } | { revisionOfLook: true }): Promise<{ presetId: string; match: MatchDto }> {
+  async save(actor: MatchActor, id: string, as: ({ name: string } | { revisionOfLook: true }) & { levelCurve?: boolean }): Promise<{ presetId: string; match: MatchDto }> {
     const row = await this.own(actor, id);
     if (row.status !== 'done' || !row.result) throw new AppError(409, 'not_ready', 'Only a finished fit can be saved.');
-    const message = `Fitted to the photo “${row.photoName}” from “${row.look.name}”`;
+    let parameters = row.result.parameters;
+    if (as.levelCurve) {
+      try {
+        parameters = { ...parameters, drive: { ...parameters.drive, levelSpacing: 'table', dutyTable: dutyTableFromLevels(row.result.levels) } };
+      } catch (err) {
+        throw new AppError(422, 'no_level_curve', (err as Error).message);
+      }
+    }
+    const message = `Fitted to the photo “${row.photoName}” from “${row.look.name}”${as.levelCurve ? ', with its measured level curve' : ''}`;
     let presetId: string;
     if ('name' in as) {
-      presetId = (await this.presets.create(actor, { name: as.name, panelTypeId: row.look.panelTypeId, parameters: row.result.parameters }, { message })).id;
+      presetId = (await this.presets.create(actor, { name: as.name, panelTypeId: row.look.panelTypeId, parameters }, { message })).id;
     } else {
       if (!row.look.id.startsWith('studio:')) throw new AppError(409, 'not_a_studio_preset', 'The fit started from a built-in look, which cannot take revisions: save it as a new preset.');
       presetId = row.look.id.slice('studio:'.length);
       const current = await Preset.findOne({ where: { id: presetId, studioId: actor.studioId } });
       if (!current) throw notFound('The preset the fit started from');
-      await this.presets.update(actor, presetId, { baseRevision: current.revision, parameters: row.result.parameters, message });
+      await this.presets.update(actor, presetId, { baseRevision: current.revision, parameters, message });
     }
     await row.update({ savedPresetId: presetId });
     return { presetId, match: this.dto(row, await names([row.createdById])) };

@@ -130,6 +130,29 @@ test('a fit that started from a studio preset can be saved as that preset\'s nex
   expect(preset.body.preset).toMatchObject({ revision: 2, parameters: { glass: { glowRadiusMm: 0.41 } } });
 });
 
+test('a fit saved with its measured level curve gives the preset a duty table (each level over full on); a curve that does not rise is refused with the level', async () => {
+  const editorId = (await editor.get('/api/auth/me')).body.user.id;
+  const base = builtInPresetById('el-amber-320x240.standard')!.parameters;
+  const measured = (values: number[]) => values.map((m, k) => ({ level: k, expected: k / (values.length - 1), measured: m, uncertainty: 0.01 }));
+  const done = (levels: ReturnType<typeof measured>) =>
+    PanelMatch.create({ studioId, createdById: editorId, look: { id: 'builtin:el-amber-320x240.standard', name: 'Standard', revision: 0, panelTypeId: 'el-amber-320x240', panelTypeName: 'Amber EL 320 × 240', parameters: base }, photoName: 'p.jpg', photoWidth: 1600, photoHeight: 1250, activeWidthMm: 115.2, activeHeightMm: 86.4, cameraGamma: null, marks: photo.fiducials, status: 'done', result: { parameters: base, fitted: [], levels, quality: { agreement: 1, rmsResidual: 0, pixelsPerCell: 4, clippedShare: 0, crushedShare: 0, marksMovedPx: [0, 0, 0, 0], periodCells: [2, 2], iterations: 1 }, cameraBlurMm: 0, notDetermined: [], marks: photo.fiducials } });
+  const good = await done(measured([0.01, 0.1, 0.42, 0.98]));
+  const saved = await editor.post(url(`/${good.id}/save`), { name: 'Measured levels', levelCurve: true });
+  expect(saved.status).toBe(201);
+  const preset = await viewer.get(`/api/studios/${studioId}/presets/${saved.body.presetId}`);
+  // [calc] 0.01/0.98, 0.1/0.98, 0.42/0.98 to 3 decimals, the top level full on.
+  expect(preset.body.preset.parameters.drive).toMatchObject({ levelSpacing: 'table', dutyTable: [0.01, 0.102, 0.429, 1] });
+  const flat = await done(measured([0, 0.3, 0.29, 1]));
+  const refused = await editor.post(url(`/${flat.id}/save`), { name: 'Flat levels', levelCurve: true });
+  expect(refused.status).toBe(422);
+  expect(refused.body.error.code).toBe('no_level_curve');
+  expect(refused.body.error.message).toMatch(/does not rise from level 1 \(0\.3\) to level 2 \(0\.29\)/);
+  // Saved without it, the fit keeps the look's own level spacing.
+  const plain = await editor.post(url(`/${flat.id}/save`), { name: 'Flat levels' });
+  expect(plain.status).toBe(201);
+  expect((await viewer.get(`/api/studios/${studioId}/presets/${plain.body.presetId}`)).body.preset.parameters.drive.levelSpacing).toBe('linear');
+});
+
 test('marks that cannot be the corners are refused with the reason; a photo too small is refused on upload', async () => {
   const up = await editor.upload(url(), { look: LOOK }, { name: 'panel.jpg', bytes: Buffer.from(photo.jpeg) });
   const id = up.body.match.id;

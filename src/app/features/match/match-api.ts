@@ -35,8 +35,9 @@ export class MatchApi {
     return (await firstValueFrom(this.http.post<{ match: MatchDto }>(`${this.base(studioId)}/${id}/fit`, {}))).match;
   }
   /** Saves a fit as a new preset (a name), or as a new revision of the studio preset it started from (null). */
-  async save(studioId: string, id: string, name: string | null): Promise<{ presetId: string; match: MatchDto }> {
-    return firstValueFrom(this.http.post<{ presetId: string; match: MatchDto }>(`${this.base(studioId)}/${id}/save`, name === null ? { revisionOfLook: true } : { name }));
+  /** Saves a fit as a new preset (a name) or the next revision of its look (null); levelCurve takes the measured level curve as the duty table. */
+  async save(studioId: string, id: string, name: string | null, levelCurve: boolean): Promise<{ presetId: string; match: MatchDto }> {
+    return firstValueFrom(this.http.post<{ presetId: string; match: MatchDto }>(`${this.base(studioId)}/${id}/save`, name === null ? { revisionOfLook: true, levelCurve } : { name, levelCurve }));
   }
   async remove(studioId: string, id: string): Promise<void> {
     await firstValueFrom(this.http.delete(`${this.base(studioId)}/${id}`));

@@ -3,6 +3,7 @@ import { ChangeDetectionStrategy, Component, computed, inject, resource, signal 
 import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
+import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
@@ -34,7 +35,7 @@ type Mark = [number, number];
  */
 @Component({
   selector: 'em-panel-match',
-  imports: [FormsModule, RouterLink, DatePipe, DecimalPipe, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, MatSelectModule, MatSliderModule, MarkPlacer],
+  imports: [FormsModule, RouterLink, DatePipe, DecimalPipe, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, MatSelectModule, MatSliderModule, MarkPlacer],
   templateUrl: './panel-match.html',
   styleUrl: './panel-match.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -183,12 +184,15 @@ export class PanelMatch {
   }
 
   /** Saves the fit as a new preset, or (asRevision) as a new revision of the studio preset it started from. */
+  /** Save the measured level curve as the preset's duty table. */
+  protected readonly useLevelCurve = signal(false);
+
   protected async save(asRevision = false): Promise<void> {
     const m = this.selected();
     if (!m || this.saving() || (!asRevision && !this.presetName().trim())) return;
     this.saving.set(true);
     try {
-      const saved = await this.api.save(this.context.studioId(), m.id, asRevision ? null : this.presetName().trim());
+      const saved = await this.api.save(this.context.studioId(), m.id, asRevision ? null : this.presetName().trim(), this.useLevelCurve());
       this.selected.set(saved.match);
       this.snackBar.open(asRevision ? `Saved as a new revision of “${m.look.name}”.` : `Saved “${this.presetName().trim()}” as a studio preset.`, undefined, { duration: 4000 });
       this.presets.reload();
