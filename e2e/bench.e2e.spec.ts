@@ -126,7 +126,7 @@ test('level spacing and frame-rate control: a typed duty table sets the levels; 
 
   // Frame-rate control on a still: the average is drawn, the flicker is checked and can be played.
   await choose(page, 'Dither', 'Frame-rate control, 2 frames');
-  draws0 = await waitForDraw(page, draws0);
+  await waitForDraw(page, draws0);
   await expect(page.getByTestId('frc-note')).toContainText('the preview shows the average the eye sees');
   await expect(page.getByTestId('flash-ok').or(page.getByTestId('flash-warning'))).toContainText(/frame-rate control flicker/, { timeout: 30_000 });
   withinOneCode(await drift(page), 'frame-rate control average');

@@ -6,7 +6,10 @@ import { expect, signIn, test } from './fixtures';
 /** A 640 × 480 card, left half white and right half black: its packed rows are known by hand. */
 function halfCard(): Buffer {
   const png = new PNG({ width: 640, height: 480 });
-  for (let i = 0; i < 640 * 480; i++) png.data.fill(i % 640 < 320 ? 255 : 0, i * 4, i * 4 + 3), (png.data[i * 4 + 3] = 255);
+  for (let i = 0; i < 640 * 480; i++) {
+    png.data.fill(i % 640 < 320 ? 255 : 0, i * 4, i * 4 + 3);
+    png.data[i * 4 + 3] = 255;
+  }
   return PNG.sync.write(png);
 }
 

@@ -20,8 +20,8 @@ const run = (cmd, args, env = {}) => {
 
 const psql = (sql) => spawnSync('psql', ['-h', '127.0.0.1', '-p', String(pgPort), '-U', 'emberline', '-d', 'postgres', '-qc', sql], { stdio: 'inherit' });
 
-// The layers' dependency rules (.dependency-cruiser.cjs): seconds, so first.
-if (!only || only === 'unit') run('npx', ['depcruise', 'server', 'shared', 'src', 'e2e', 'bench', 'scripts', '--config', '.dependency-cruiser.cjs']);
+// Lint (ESLint, then the layers' dependency rules): seconds, so first.
+if (!only || only === 'unit') run('npm', ['run', '-s', 'lint']);
 
 if (!only || only === 'unit') {
   psql('DROP DATABASE IF EXISTS emberline_test WITH (FORCE)');

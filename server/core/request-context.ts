@@ -1,6 +1,7 @@
 import type { Role } from '../../shared/model/roles';
 
 declare global {
+  // eslint-disable-next-line @typescript-eslint/no-namespace -- Express's request types are augmented through its global namespace
   namespace Express {
     /** What passport keeps on req.user: the signed-in account. */
     interface User {

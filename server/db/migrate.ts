@@ -8,6 +8,7 @@ export async function migrate(sequelize: Sequelize): Promise<string[]> {
     migrations: {
       glob: ['migrations/*.{ts,js}', { cwd: __dirname, ignore: ['**/*.d.ts', '**/*.spec.*'] }],
       resolve: ({ name, path: file, context }) => {
+        // eslint-disable-next-line @typescript-eslint/no-require-imports -- a migration file found at run time, loaded through tsx's CommonJS hook
         const migration = require(file!);
         return {
           name: path.basename(name, path.extname(name)),

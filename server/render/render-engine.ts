@@ -5,10 +5,10 @@ import { MessageChannel } from 'node:worker_threads';
 import { Piscina } from 'piscina';
 import type { MatchInput, MatchResult } from '../../shared/match/fit';
 import type { PanelParams } from '../../shared/model/parameters';
-import { componentSize, glowComponents, glowFieldSize, glowPlan } from '../../shared/pipeline/glow/glow';
+import { componentSize, glowComponents, glowPlan } from '../../shared/pipeline/glow/glow';
 import { outputUniforms } from '../../shared/pipeline/output/uniforms';
 import type { SpriteSheet } from '../../shared/pipeline/sprite-sheet';
-import type { Field, Frame, RgbaImage } from '../../shared/pipeline/types';
+import type { Frame, RgbaImage } from '../../shared/pipeline/types';
 import { AppError } from '../core/app-error';
 import { decodeImage, framesOf } from './decode';
 import { encodePng } from './encode';
@@ -158,7 +158,6 @@ export class RenderEngine {
       if (req.frame >= frames.length) throw new AppError(400, 'invalid_input', `frame must be from 0 to ${frames.length - 1} for this image, got ${req.frame}.`);
       const { cell, glass } = req.parameters;
       const plan = glowPlan(cell, glass);
-      const size = glowFieldSize(cell, plan);
       const components = glowComponents(plan).map((c) => componentSize(cell, c));
       const buffers = [cell.cols * cell.rows * 4, width * height * 4, ...components.map((c) => c.width * c.height * 4)].map((n) => this.buffers.acquire(n));
       try {

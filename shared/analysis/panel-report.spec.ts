@@ -9,7 +9,10 @@ const base = mergeParams(BUILT_IN_PRESETS.find((p) => p.id === 'el-amber-640x480
 /** Vertical line pairs one cell wide over the whole panel. */
 const linePairs = () => {
   const data = new Uint8Array(48 * 32 * 4);
-  for (let i = 0; i < 48 * 32; i++) data.fill(i % 2 === 0 ? 255 : 0, i * 4, i * 4 + 3), (data[i * 4 + 3] = 255);
+  for (let i = 0; i < 48 * 32; i++) {
+    data.fill(i % 2 === 0 ? 255 : 0, i * 4, i * 4 + 3);
+    data[i * 4 + 3] = 255;
+  }
   return { width: 48, height: 32, data };
 };
 

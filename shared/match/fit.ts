@@ -311,7 +311,11 @@ function chromaticity(photo: LinearPhoto, h: Homography, r: CellRect, dark: Cell
     const rgb = planes.map((p, c) => {
       let s = 0;
       let n = 0;
-      for (let i = 0; i < p.length; i++) if (pick(i)) (s += p[i]), n++;
+      for (let i = 0; i < p.length; i++) {
+        if (!pick(i)) continue;
+        s += p[i];
+        n++;
+      }
       return s / n - darkRgb[c];
     }) as [number, number, number];
     return linearSrgbToChromaticity(rgb);

@@ -11,6 +11,7 @@ import { BlobNotFound } from '../../storage/blob-store';
 import type { FileStore } from '../../storage/file-store';
 import { record } from '../activity/activity.model';
 import { Artwork } from './artwork.model';
+import { withoutControls } from '../../../shared/api/text.schema';
 
 const FOLDER = 'artworks';
 const THUMB_PX = 256;
@@ -91,7 +92,7 @@ export class ArtworksService {
     await this.files.write(FOLDER, id, 'original', bytes);
     await this.files.write(FOLDER, id, 'thumbnail.png', thumbnail);
     try {
-      const fromFile = fileName.replace(/\.[^.]+$/, '').replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029]/g, ' ').trim();
+      const fromFile = withoutControls(fileName.replace(/\.[^.]+$/, ''));
       const name = (fields.name ?? fromFile).slice(0, 120) || 'Untitled';
       const row = await Artwork.create({ id, studioId, name, type: decoded.type, width: first.width, height: first.height, frameCount: frames.length, delaysMs: frames.map((f) => f.delayMs), bytes: bytes.length, sheet, createdById: userId }, { transaction });
       await record(studioId, userId, 'artwork.uploaded', `uploaded artwork “${name}”${frames.length > 1 ? ` (${frames.length} frames)` : ''}`, transaction);

@@ -6,6 +6,7 @@ import { AppError, conflict, notFound } from '../../core/app-error';
 import { record } from '../activity/activity.model';
 import type { TimingsService } from '../timings/timings.service';
 import { VideoRom } from './rom.model';
+import { withoutControls } from '../../../shared/api/text.schema';
 
 /** Images a studio keeps (each at most 512 KiB). */
 export const MAX_ROMS_PER_STUDIO = 100;
@@ -16,7 +17,7 @@ const unprocessable = (err: RomError) => new AppError(err.code === 'too_large' ?
 const sha256 = (b: Uint8Array) => createHash('sha256').update(b).digest('hex');
 
 /** Names come from file names and timings: no control characters, at most 120 characters. */
-const cleanName = (name: string) => name.replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029]/g, ' ').trim().slice(0, 120) || 'Video BIOS';
+const cleanName = (name: string) => withoutControls(name).slice(0, 120) || 'Video BIOS';
 
 /** A studio's video option ROM images: upload, read, patch with a saved timing, download. */
 export class RomsService {
