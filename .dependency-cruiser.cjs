@@ -14,7 +14,7 @@ module.exports = {
     },
     {
       name: 'core-below-features',
-      comment: "server/core is the plumbing every feature uses; it must not reach into a feature.",
+      comment: 'server/core is the plumbing every feature uses; it must not reach into a feature.',
       severity: 'error',
       from: { path: '^server/core/', pathNot: '\\.spec\\.ts$' },
       to: { path: '^server/features/' },

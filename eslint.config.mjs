@@ -6,13 +6,27 @@ import angular from 'angular-eslint';
 import tseslint from 'typescript-eslint';
 
 export default tseslint.config(
-  { ignores: ['dist/**', '.angular/**', 'node_modules/**', 'test-results/**', 'playwright-report/**', 'coverage/**', 'data/**', 'storage/**'] },
+  {
+    ignores: [
+      'dist/**',
+      '.angular/**',
+      'node_modules/**',
+      'test-results/**',
+      'playwright-report/**',
+      'coverage/**',
+      'data/**',
+      'storage/**',
+    ],
+  },
   {
     files: ['**/*.ts'],
     extends: [js.configs.recommended, ...tseslint.configs.recommended],
     rules: {
       // A leading underscore marks a value left out on purpose (`const { a: _dropped, ...rest } = x`).
-      '@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_', varsIgnorePattern: '^_', destructuredArrayIgnorePattern: '^_', ignoreRestSiblings: true }],
+      '@typescript-eslint/no-unused-vars': [
+        'error',
+        { argsIgnorePattern: '^_', varsIgnorePattern: '^_', destructuredArrayIgnorePattern: '^_', ignoreRestSiblings: true },
+      ],
     },
   },
   {

@@ -22,10 +22,25 @@ async function main() {
   ];
   const looks = ['el-amber-640x480.standard', 'el-amber-640x480.ordered', 'crt-green-p1.standard'].map((id) => {
     const p = builtInPresetById(id)!;
-    return { id, name: p.name, revision: null, panelTypeId: p.panelTypeId, panelTypeName: panelTypeById(p.panelTypeId)!.name, parameters: p.parameters };
+    return {
+      id,
+      name: p.name,
+      revision: null,
+      panelTypeId: p.panelTypeId,
+      panelTypeName: panelTypeById(p.panelTypeId)!.name,
+      parameters: p.parameters,
+    };
   });
   const scale = 2;
-  const spec: SheetSpec = { studioName: 'Bench studio', layout: 'grid', scale, frame: 0, report: false, artworks: cards.map((_, k) => ({ id: String(k), name: `Card ${k + 1}` })), looks };
+  const spec: SheetSpec = {
+    studioName: 'Bench studio',
+    layout: 'grid',
+    scale,
+    frame: 0,
+    report: false,
+    artworks: cards.map((_, k) => ({ id: String(k), name: `Card ${k + 1}` })),
+    looks,
+  };
   const engine = new RenderEngine();
   const sources = cards.map((input) => ({ input, sheet: null }));
 
@@ -33,20 +48,41 @@ async function main() {
   const pooledRenderMs = await time(() => engine.render({ input: cards[1], parameters: looks[0].parameters, scale, frame: 0 }));
   let size = { width: 0, height: 0, bytes: 0 };
   const sheetMs = await time(async () => {
-    const sheet = await makeSheet({ spec, title: 'Benchmark sheet', made: { at: new Date(0), by: 'bench' }, sources, render: (req) => engine.renderImage(req), frames: (input, sheet) => engine.decodedFrames(input, sheet), beforeStep: async () => true });
+    const sheet = await makeSheet({
+      spec,
+      title: 'Benchmark sheet',
+      made: { at: new Date(0), by: 'bench' },
+      sources,
+      render: (req) => engine.renderImage(req),
+      frames: (input, sheet) => engine.decodedFrames(input, sheet),
+      beforeStep: async () => true,
+    });
     size = { width: sheet!.width, height: sheet!.height, bytes: sheet!.files.png!.length };
   });
   await engine.close();
 
   const cells = spec.artworks.length * spec.looks.length;
   const perCellMs = sheetMs / cells;
-  console.log(`median of ${RUNS} runs after ${WARM_UPS} warm-ups, ${process.version}, ${os.cpus().length} cores, ${engine.threads} render threads`);
+  console.log(
+    `median of ${RUNS} runs after ${WARM_UPS} warm-ups, ${process.version}, ${os.cpus().length} cores, ${engine.threads} render threads`,
+  );
   console.log('| step | ms |\n| --- | ---: |');
   console.log(`| one pooled reference render, 640×480 → 1280×960 PNG | ${pooledRenderMs.toFixed(1)} |`);
-  console.log(`| 3 × 3 sheet, ${size.width} × ${size.height} px: PNG (${(size.bytes / 1024 / 1024).toFixed(1)} MiB), PDF and ZIP of the single renders | ${sheetMs.toFixed(1)} |`);
+  console.log(
+    `| 3 × 3 sheet, ${size.width} × ${size.height} px: PNG (${(size.bytes / 1024 / 1024).toFixed(1)} MiB), PDF and ZIP of the single renders | ${sheetMs.toFixed(1)} |`,
+  );
   console.log(`| per cell (sheet / 9) | ${perCellMs.toFixed(1)} |`);
   console.log(`| per cell ÷ pooled render | ${(perCellMs / pooledRenderMs).toFixed(3)} |`);
-  console.log(JSON.stringify({ sheetMs: +sheetMs.toFixed(1), perCellMs: +perCellMs.toFixed(1), pooledRenderMs: +pooledRenderMs.toFixed(1), perCellToRender: +(perCellMs / pooledRenderMs).toFixed(3), sheetWidth: size.width, sheetHeight: size.height }));
+  console.log(
+    JSON.stringify({
+      sheetMs: +sheetMs.toFixed(1),
+      perCellMs: +perCellMs.toFixed(1),
+      pooledRenderMs: +pooledRenderMs.toFixed(1),
+      perCellToRender: +(perCellMs / pooledRenderMs).toFixed(3),
+      sheetWidth: size.width,
+      sheetHeight: size.height,
+    }),
+  );
 }
 
 main().catch((err) => {

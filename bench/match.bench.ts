@@ -12,7 +12,11 @@ const RUNS = 3;
 
 async function main(): Promise<void> {
   const base = panelTypeById('el-amber-640x480')!.defaults;
-  const truth = mergeParams(base, { cell: { fillX: 0.66, fillY: 0.7 }, glass: { glowRadiusMm: 0.32, glowShare: 0.16, haloRadiusMm: 1.6, haloShare: 0.05 }, emission: { colourSource: 'chromaticity', chromaX: 0.5, chromaY: 0.42 } });
+  const truth = mergeParams(base, {
+    cell: { fillX: 0.66, fillY: 0.7 },
+    glass: { glowRadiusMm: 0.32, glowShare: 0.16, haloRadiusMm: 1.6, haloShare: 0.05 },
+    emission: { colourSource: 'chromaticity', chromaX: 0.5, chromaY: 0.42 },
+  });
   const t0 = performance.now();
   const photo = await syntheticPhoto(truth, {
     scale: 5,
@@ -41,12 +45,15 @@ async function main(): Promise<void> {
     let step = '';
     const start = last;
     const seen = new Map<string, number>();
-    result = fitPanel({ photo: photo.image, marks: photo.fiducials, base, options: { camera: { kind: 'srgb' }, activeWidthMm: 192, activeHeightMm: 144 } }, (_share, next) => {
-      if (next === step) return;
-      const now = performance.now();
-      if (step) seen.set(step, (seen.get(step) ?? 0) + now - last);
-      [step, last] = [next, now];
-    });
+    result = fitPanel(
+      { photo: photo.image, marks: photo.fiducials, base, options: { camera: { kind: 'srgb' }, activeWidthMm: 192, activeHeightMm: 144 } },
+      (_share, next) => {
+        if (next === step) return;
+        const now = performance.now();
+        if (step) seen.set(step, (seen.get(step) ?? 0) + now - last);
+        [step, last] = [next, now];
+      },
+    );
     const end = performance.now();
     seen.set(step, (seen.get(step) ?? 0) + end - last);
     for (const [k, v] of seen) stages.set(k, [...(stages.get(k) ?? []), v]);
@@ -54,12 +61,23 @@ async function main(): Promise<void> {
   }
   const matchMs = median(totals);
   const glow = result!.fitted.find((f) => f.key === 'glowRadiusMm')!;
-  console.log(`median of ${RUNS} fits, ${process.version}, ${os.cpus().length} cores; photo ${photo.image.width} × ${photo.image.height} px (${result!.quality.pixelsPerCell.toFixed(1)} px a cell), made in ${photoMs.toFixed(0)} ms`);
+  console.log(
+    `median of ${RUNS} fits, ${process.version}, ${os.cpus().length} cores; photo ${photo.image.width} × ${photo.image.height} px (${result!.quality.pixelsPerCell.toFixed(1)} px a cell), made in ${photoMs.toFixed(0)} ms`,
+  );
   console.log('| stage | ms |\n| --- | ---: |');
   for (const [k, v] of stages) console.log(`| ${k} | ${median(v).toFixed(0)} |`);
   console.log(`| whole fit, 640 × 480 panel | ${matchMs.toFixed(0)} |`);
   console.log(`| glow radius found (true 0.32 mm) | ${glow.value.toFixed(3)} ± ${glow.uncertainty.toFixed(3)} mm |`);
-  console.log(JSON.stringify({ matchMs: +matchMs.toFixed(0), photoWidth: photo.image.width, photoHeight: photo.image.height, pixelsPerCell: +result!.quality.pixelsPerCell.toFixed(2), iterations: result!.quality.iterations, glowRadiusMm: glow.value }));
+  console.log(
+    JSON.stringify({
+      matchMs: +matchMs.toFixed(0),
+      photoWidth: photo.image.width,
+      photoHeight: photo.image.height,
+      pixelsPerCell: +result!.quality.pixelsPerCell.toFixed(2),
+      iterations: result!.quality.iterations,
+      glowRadiusMm: glow.value,
+    }),
+  );
 }
 
 main().catch((err) => {

@@ -43,7 +43,10 @@ async function main() {
       const v = y < 240 ? Math.round((x / 639) * 255) : ((x >> 4) + (y >> 4)) % 2 ? 255 : 0;
       return [v, v, v, 255];
     });
-    const res = await page.request.post(`${BASE}/api/studios/${studioId}/artworks`, { headers: { 'X-XSRF-TOKEN': xsrf }, multipart: { name: 'bench card', file: { name: 'card.png', mimeType: 'image/png', buffer: art } } });
+    const res = await page.request.post(`${BASE}/api/studios/${studioId}/artworks`, {
+      headers: { 'X-XSRF-TOKEN': xsrf },
+      multipart: { name: 'bench card', file: { name: 'card.png', mimeType: 'image/png', buffer: art } },
+    });
     const { artwork } = await res.json();
     await page.goto(`${BASE}/studios/${studioId}/bench?artwork=${artwork.id}`);
     const stage = page.getByTestId('stage');
@@ -73,7 +76,9 @@ async function main() {
       await edit('Glow radius', 0.2 + i * 0.1);
       panelTimes.push((await measures())[n]);
     }
-    const { width, height } = await page.getByTestId('live-canvas').evaluate((c: HTMLCanvasElement) => ({ width: c.width, height: c.height }));
+    const { width, height } = await page
+      .getByTestId('live-canvas')
+      .evaluate((c: HTMLCanvasElement) => ({ width: c.width, height: c.height }));
     // Baseline: upload an RGBA image of the output size and draw it as a textured full-screen pass.
     const passthrough = await page.evaluate(
       ({ width, height, runs }) => {
@@ -84,7 +89,10 @@ async function main() {
         const vs = `#version 300 es\nin vec2 p; void main(){ gl_Position = vec4(p, 0.0, 1.0); }`;
         const fs = `#version 300 es\nprecision highp float; uniform sampler2D t; uniform vec2 s; out vec4 o; void main(){ o = texelFetch(t, ivec2(int(gl_FragCoord.x), int(s.y - 1.0 - floor(gl_FragCoord.y))), 0); }`;
         const prog = gl.createProgram()!;
-        for (const [type, src] of [[gl.VERTEX_SHADER, vs], [gl.FRAGMENT_SHADER, fs]] as const) {
+        for (const [type, src] of [
+          [gl.VERTEX_SHADER, vs],
+          [gl.FRAGMENT_SHADER, fs],
+        ] as const) {
           const sh = gl.createShader(type)!;
           gl.shaderSource(sh, src);
           gl.compileShader(sh);
@@ -125,7 +133,17 @@ async function main() {
     console.log(`| edit an output-stage parameter (exposure) → finished frame | ${redrawMs.toFixed(2)} |`);
     console.log(`| edit a panel-stage parameter (glow radius) → finished frame, worker included | ${panelRedrawMs.toFixed(2)} |`);
     console.log(`| plain textured draw of the same size (upload + draw + finish) | ${passthroughMs.toFixed(2)} |`);
-    console.log(JSON.stringify({ redrawMs: +redrawMs.toFixed(2), passthroughMs: +passthroughMs.toFixed(2), ratio: +(redrawMs / passthroughMs).toFixed(3), panelRedrawMs: +panelRedrawMs.toFixed(1), width, height, redraws: REDRAWS }));
+    console.log(
+      JSON.stringify({
+        redrawMs: +redrawMs.toFixed(2),
+        passthroughMs: +passthroughMs.toFixed(2),
+        ratio: +(redrawMs / passthroughMs).toFixed(3),
+        panelRedrawMs: +panelRedrawMs.toFixed(1),
+        width,
+        height,
+        redraws: REDRAWS,
+      }),
+    );
   } finally {
     await browser.close();
     process.kill(-server.pid!, 'SIGTERM');

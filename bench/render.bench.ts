@@ -24,7 +24,8 @@ const time = (fn: () => Promise<unknown>) => medianMs(fn, RUNS, WARM_UPS);
 async function main() {
   // A 640 × 480 test card: gradients, checkers and fine lines, drawn here.
   const input = pngOf(640, 480, (x, y) => {
-    const v = y < 160 ? Math.round((x / 639) * 255) : y < 320 ? (((x >> 3) + (y >> 3)) % 2 ? 255 : 0) : x % 4 === 0 || y % 6 === 0 ? 255 : 40;
+    const v =
+      y < 160 ? Math.round((x / 639) * 255) : y < 320 ? (((x >> 3) + (y >> 3)) % 2 ? 255 : 0) : x % 4 === 0 || y % 6 === 0 ? 255 : 40;
     return [v, v, v, 255];
   });
   const base = builtInPresetById('el-amber-640x480.standard')!.parameters;
@@ -43,7 +44,12 @@ async function main() {
   const inFlight = 8;
   const batches = 3;
   const started = performance.now();
-  for (let b = 0; b < batches; b++) await Promise.all(Array.from({ length: inFlight }, (_, i) => engine.render(request(mergeParams(base, { viewing: { exposureEv: (b * inFlight + i) / 100 } })))));
+  for (let b = 0; b < batches; b++)
+    await Promise.all(
+      Array.from({ length: inFlight }, (_, i) =>
+        engine.render(request(mergeParams(base, { viewing: { exposureEv: (b * inFlight + i) / 100 } }))),
+      ),
+    );
   const throughputPerS = (inFlight * batches) / ((performance.now() - started) / 1000);
   await engine.close();
 
@@ -62,7 +68,12 @@ async function main() {
   // Baseline: sharp blurring an image of the same output size with the same σ in output pixels, encoded as PNG.
   const sigmaPx = (base.glass.glowRadiusMm / base.cell.pitchXMm) * scale;
   const raw = Buffer.from(image.data.buffer);
-  const sharpBaselineMs = await time(() => sharp(raw, { raw: { width: u.width, height: u.height, channels: 4 } }).blur(sigmaPx).png({ compressionLevel: 2, adaptiveFiltering: false }).toBuffer());
+  const sharpBaselineMs = await time(() =>
+    sharp(raw, { raw: { width: u.width, height: u.height, channels: 4 } })
+      .blur(sigmaPx)
+      .png({ compressionLevel: 2, adaptiveFiltering: false })
+      .toBuffer(),
+  );
 
   const rows: [string, number][] = [
     ['full render, 640×480 → 1920×1440 PNG, one thread', renderMs],
@@ -88,7 +99,13 @@ async function main() {
     sharpBaselineMs: +sharpBaselineMs.toFixed(1),
     ratioToSharp: +(renderMs / sharpBaselineMs).toFixed(3),
     peakRssMb: Math.round(process.resourceUsage().maxRSS / 1024),
-    stagesMs: { decode: +decodeMs.toFixed(1), panel: +panelMs.toFixed(1), glow: +glowMs.toFixed(1), compose: +composeMs.toFixed(1), encode: +encodeMs.toFixed(1) },
+    stagesMs: {
+      decode: +decodeMs.toFixed(1),
+      panel: +panelMs.toFixed(1),
+      glow: +glowMs.toFixed(1),
+      compose: +composeMs.toFixed(1),
+      encode: +encodeMs.toFixed(1),
+    },
   };
   console.log(JSON.stringify(figures));
 }

@@ -11,7 +11,11 @@ test('the demo owner signs in and sees the Kiln & Quartz studio', async ({ page,
   await page.screenshot({ path: test.info().outputPath('demo-members.png'), fullPage: true });
 });
 
-test('sign up → confirm by mail → reset the password by mail → sign in → create a studio → invite → the invitee joins as viewer', async ({ page, browser, guard }, testInfo) => {
+test('sign up → confirm by mail → reset the password by mail → sign in → create a studio → invite → the invitee joins as viewer', async ({
+  page,
+  browser,
+  guard,
+}, testInfo) => {
   const founder = uniqueEmail('founder');
   await page.goto('/sign-up');
   await page.getByLabel('Your name').fill('Ada Founder');
@@ -129,7 +133,10 @@ test('the account menu leads to name and password, and an owner renames and dele
 
   // The owner renames the studio, then deletes it after the dialog says what goes.
   await page.getByRole('link', { name: 'Back to your studios' }).click();
-  await page.getByRole('link', { name: /Temporary Kiln/ }).first().click();
+  await page
+    .getByRole('link', { name: /Temporary Kiln/ })
+    .first()
+    .click();
   await page.getByRole('button', { name: 'Account menu for Sol Renamed' }).click();
   await page.getByRole('menuitem', { name: 'Rename or delete this studio' }).click();
   const name = page.getByRole('textbox', { name: 'Studio name' });

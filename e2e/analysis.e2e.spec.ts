@@ -8,10 +8,15 @@ async function flashingGif(delayMs: number): Promise<Buffer> {
   const h = 48;
   const raw = Buffer.alloc(w * h * 4 * 4);
   for (let k = 0; k < 4; k++) raw.fill(k % 2 === 0 ? 255 : 0, k * w * h * 4, (k + 1) * w * h * 4);
-  return sharp(raw, { raw: { width: w, height: h * 4, channels: 4, pageHeight: h } }).gif({ delay: [delayMs, delayMs, delayMs, delayMs], loop: 0 }).toBuffer();
+  return sharp(raw, { raw: { width: w, height: h * 4, channels: 4, pageHeight: h } })
+    .gif({ delay: [delayMs, delayMs, delayMs, delayMs], loop: 0 })
+    .toBuffer();
 }
 
-test('the bench checks flashes on the emitted light at the viewing distance, gates playback, and shows what the eye resolves', async ({ page, guard }, testInfo) => {
+test('the bench checks flashes on the emitted light at the viewing distance, gates playback, and shows what the eye resolves', async ({
+  page,
+  guard,
+}, testInfo) => {
   void guard;
   await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
   await expect(page).toHaveURL(/\/bench/);
@@ -38,7 +43,10 @@ test('the bench checks flashes on the emitted light at the viewing distance, gat
   await expect(page.getByTestId('acuity')).toContainText('1.72′ a cell · cells visible at 20/20 (they blend beyond 1.03 m)');
 });
 
-test('the analysis panel: legibility, acuity, light, burn-in, a chart of an animation, a JSON download, and a test pattern for the panel', async ({ page, guard }, testInfo) => {
+test('the analysis panel: legibility, acuity, light, burn-in, a chart of an animation, a JSON download, and a test pattern for the panel', async ({
+  page,
+  guard,
+}, testInfo) => {
   void guard;
   await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
   await expect(page).toHaveURL(/\/bench/);

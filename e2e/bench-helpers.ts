@@ -7,9 +7,12 @@ const modules = path.resolve(__dirname, '../node_modules');
 
 /** The third-party test artworks (see e2e/fixtures/README.md), as PNG bytes. */
 export async function thirdPartyArtworks(page: Page): Promise<{ name: string; bytes: Buffer }[]> {
-  const icon = (name: string) => readFileSync(path.join(modules, '@hackernoon/pixel-icon-library/icons/PNG/for-dark-mode/48px/solid', `${name}.png`));
+  const icon = (name: string) =>
+    readFileSync(path.join(modules, '@hackernoon/pixel-icon-library/icons/PNG/for-dark-mode/48px/solid', `${name}.png`));
   const svg = readFileSync(path.join(modules, 'pixelarticons/svg/gamepad.svg'), 'utf8').replace('currentColor', '#ffffff');
-  const font = readFileSync(path.join(modules, '@fontsource/press-start-2p/files/press-start-2p-latin-400-normal.woff2')).toString('base64');
+  const font = readFileSync(path.join(modules, '@fontsource/press-start-2p/files/press-start-2p-latin-400-normal.woff2')).toString(
+    'base64',
+  );
   const [gamepad, text] = await page.evaluate(
     async ({ svg, font }) => {
       const toPng = async (canvas: HTMLCanvasElement) => {
@@ -26,7 +29,10 @@ export async function thirdPartyArtworks(page: Page): Promise<{ name: string; by
       ca.fillRect(0, 0, 96, 96);
       ca.imageSmoothingEnabled = false;
       ca.drawImage(img, 0, 0, 96, 96);
-      const face = new FontFace('PressStartTest', Uint8Array.from(atob(font), (c) => c.charCodeAt(0)));
+      const face = new FontFace(
+        'PressStartTest',
+        Uint8Array.from(atob(font), (c) => c.charCodeAt(0)),
+      );
       await face.load();
       document.fonts.add(face);
       const b = document.createElement('canvas');

@@ -24,7 +24,10 @@ async function openBenchAsEditor(page: Page): Promise<void> {
   await waitForDraw(page, 0);
 }
 
-test('for every built-in panel type, on third-party artworks, the WebGL canvas equals the server reference within one code value', async ({ page, guard }, testInfo) => {
+test('for every built-in panel type, on third-party artworks, the WebGL canvas equals the server reference within one code value', async ({
+  page,
+  guard,
+}, testInfo) => {
   void guard;
   await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
   await expect(page).toHaveURL(/\/bench/);
@@ -55,7 +58,10 @@ test('for every built-in panel type, on third-party artworks, the WebGL canvas e
   console.log(results.join('\n'));
 });
 
-test('upload through the library → open on the bench → change the glow → the canvas changes; the controls work by keyboard', async ({ page, guard }, testInfo) => {
+test('upload through the library → open on the bench → change the glow → the canvas changes; the controls work by keyboard', async ({
+  page,
+  guard,
+}, testInfo) => {
   void guard;
   await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
   await expect(page).toHaveURL(/\/bench/);
@@ -102,7 +108,10 @@ test('upload through the library → open on the bench → change the glow → t
   await expect(page.locator('#page-content')).toBeFocused();
 });
 
-test('level spacing and frame-rate control: a typed duty table sets the levels; FRC shows its average, is flash-checked on a still, and plays its flicker on request', async ({ page, guard }, testInfo) => {
+test('level spacing and frame-rate control: a typed duty table sets the levels; FRC shows its average, is flash-checked on a still, and plays its flicker on request', async ({
+  page,
+  guard,
+}, testInfo) => {
   void guard;
   await openBenchAsEditor(page);
   const snapshot = () => page.getByTestId('live-canvas').evaluate((c: HTMLCanvasElement) => c.toDataURL());
@@ -128,14 +137,22 @@ test('level spacing and frame-rate control: a typed duty table sets the levels; 
   await choose(page, 'Dither', 'Frame-rate control, 2 frames');
   await waitForDraw(page, draws0);
   await expect(page.getByTestId('frc-note')).toContainText('the preview shows the average the eye sees');
-  await expect(page.getByTestId('flash-ok').or(page.getByTestId('flash-warning'))).toContainText(/frame-rate control flicker/, { timeout: 30_000 });
+  await expect(page.getByTestId('flash-ok').or(page.getByTestId('flash-warning'))).toContainText(/frame-rate control flicker/, {
+    timeout: 30_000,
+  });
   withinOneCode(await drift(page), 'frame-rate control average');
   const toggle = page.getByRole('switch', { name: 'Show the flicker' });
-  if (await page.getByRole('button', { name: /I understand, allow the flicker/ }).isVisible()) await page.getByRole('button', { name: /I understand, allow the flicker/ }).click();
+  if (await page.getByRole('button', { name: /I understand, allow the flicker/ }).isVisible())
+    await page.getByRole('button', { name: /I understand, allow the flicker/ }).click();
   const averaged = await snapshot();
   await toggle.click();
   await expect(page.getByTestId('frc-note')).toContainText('plays each refresh of the cycle');
-  const shown = () => page.getByRole('switch', { name: 'Show the flicker' }).locator('xpath=ancestor::mat-slide-toggle').getAttribute('data-refreshes-shown').then(Number);
+  const shown = () =>
+    page
+      .getByRole('switch', { name: 'Show the flicker' })
+      .locator('xpath=ancestor::mat-slide-toggle')
+      .getAttribute('data-refreshes-shown')
+      .then(Number);
   await expect.poll(shown, { timeout: 15_000 }).toBeGreaterThan(4);
   // A refresh of the cycle is not the average.
   expect(await snapshot()).not.toEqual(averaged);
@@ -153,14 +170,18 @@ test('a bad file is refused with the reason, nothing is stored, and the page sta
   await expect(page).toHaveURL(/\/bench/);
   const studioId = studioIdOf(page.url());
   await page.goto(`/studios/${studioId}/artworks`);
-  await page.locator('input[type=file]').setInputFiles({ name: 'not-really.png', mimeType: 'image/png', buffer: Buffer.from('<svg xmlns="http://www.w3.org/2000/svg"/>') });
+  await page
+    .locator('input[type=file]')
+    .setInputFiles({ name: 'not-really.png', mimeType: 'image/png', buffer: Buffer.from('<svg xmlns="http://www.w3.org/2000/svg"/>') });
   await expect(page.getByRole('alert').filter({ hasText: 'not a PNG, GIF, JPEG or WebP' })).toBeVisible();
   await expect(page.getByRole('link', { name: /Open not-really/ })).toHaveCount(0);
   await page.getByRole('button', { name: 'Dismiss the failed upload of not-really.png' }).click();
   await expect(page.getByRole('textbox', { name: 'Search by name' })).toBeEnabled();
 
   // A failed upload, then a good one: the old error goes, and a small GIF's size reads in bytes (issue "Workflow", item 16).
-  await page.locator('input[type=file]').setInputFiles({ name: 'again-not.png', mimeType: 'image/png', buffer: Buffer.from('<html></html>') });
+  await page
+    .locator('input[type=file]')
+    .setInputFiles({ name: 'again-not.png', mimeType: 'image/png', buffer: Buffer.from('<html></html>') });
   await expect(page.getByRole('alert').filter({ hasText: 'not a PNG, GIF, JPEG or WebP' })).toBeVisible();
   const tinyGif = Buffer.from('R0lGODlhAQABAIAAAP+wAAAAACH5BAAAAAAALAAAAAABAAEAAAICRAEAOw==', 'base64');
   const name = `tiny-${Date.now().toString(36)}`;
@@ -219,8 +240,14 @@ test('controls another setting decides are read-only and say why; choices read a
   await page.keyboard.press('Escape');
 });
 
-for (const viewport of [{ width: 1280, height: 800 }, { width: 390, height: 844 }]) {
-  test(`at ${viewport.width}×${viewport.height} the preview stays in view while every control group is open and the controls scroll`, async ({ page, guard }) => {
+for (const viewport of [
+  { width: 1280, height: 800 },
+  { width: 390, height: 844 },
+]) {
+  test(`at ${viewport.width}×${viewport.height} the preview stays in view while every control group is open and the controls scroll`, async ({
+    page,
+    guard,
+  }) => {
     void guard;
     await page.setViewportSize(viewport);
     await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
@@ -247,7 +274,10 @@ for (const viewport of [{ width: 1280, height: 800 }, { width: 390, height: 844 
   });
 }
 
-test('the compare divider follows a drag across the stage, can be grabbed again at either edge, and moves by keyboard; both sides are labelled', async ({ page, guard }) => {
+test('the compare divider follows a drag across the stage, can be grabbed again at either edge, and moves by keyboard; both sides are labelled', async ({
+  page,
+  guard,
+}) => {
   void guard;
   await openBenchAsEditor(page);
   await choose(page, 'Compare with', 'Original artwork');
@@ -336,7 +366,10 @@ test('unsaved tuning is marked, can be reverted, and is never dropped by a panel
   await expect(glow).toHaveValue(String(PANEL_TYPES[1].defaults.glass.glowRadiusMm));
 });
 
-test('playback sits above the preview with speed and loop; without loop it stops on the last frame, and a drift check pauses it', async ({ page, guard }) => {
+test('playback sits above the preview with speed and loop; without loop it stops on the last frame, and a drift check pauses it', async ({
+  page,
+  guard,
+}) => {
   void guard;
   await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
   await expect(page).toHaveURL(/\/bench/);

@@ -1,6 +1,10 @@
 import { expect, signIn, test } from './fixtures';
 
-test('an editor works out an EL drive timing and saves it; the viewer sees it without edit controls', async ({ page, browser, guard }, testInfo) => {
+test('an editor works out an EL drive timing and saves it; the viewer sees it without edit controls', async ({
+  page,
+  browser,
+  guard,
+}, testInfo) => {
   await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
   await page.getByRole('link', { name: 'Drive timing' }).click();
   await expect(page.getByRole('heading', { name: 'High voltage: read before you probe' })).toBeVisible();
@@ -46,7 +50,9 @@ test('an editor works out an EL drive timing and saves it; the viewer sees it wi
   await context.close();
 });
 
-test('modes are read as written, switching standard keeps a mode that means something, and a timing too wide for the VBE block is refused beside its fields', async ({ page }) => {
+test('modes are read as written, switching standard keeps a mode that means something, and a timing too wide for the VBE block is refused beside its fields', async ({
+  page,
+}) => {
   await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
   await page.getByRole('link', { name: 'Drive timing' }).click();
   // The VGA BIOS mode, then CVT: the mode box shows a mode CVT can read, and the results follow it (issue "Workflow", item 7).
@@ -71,7 +77,9 @@ test('modes are read as written, switching standard keeps a mode that means some
   await page.getByRole('radio', { name: 'By hand' }).click();
   const horizontal = page.getByRole('group', { name: 'Horizontal (pixels)' });
   await horizontal.getByRole('spinbutton', { name: 'Active' }).fill('100000');
-  await expect(horizontal.getByRole('alert')).toContainText("the horizontal total (pixels) would be 100160, more than the VBE block's 16-bit HorizontalTotal field holds (at most 65535)");
+  await expect(horizontal.getByRole('alert')).toContainText(
+    "the horizontal total (pixels) would be 100160, more than the VBE block's 16-bit HorizontalTotal field holds (at most 65535)",
+  );
   await expect(page.getByLabel('CRTC information block bytes')).toHaveCount(0);
   await page.getByRole('textbox', { name: 'Name', exact: true }).fill('Too wide');
   await page.getByRole('button', { name: 'Save timing' }).click();

@@ -14,7 +14,10 @@ async function chooseMany(page: Page, select: RegExp, options: (string | RegExp)
 
 const xsrf = async (page: Page) => (await page.context().cookies()).find((c) => c.name === 'XSRF-TOKEN')!.value;
 
-test('a 2 × 2 comparison sheet: asked for on the Exports page, followed to Ready, downloaded, shared by a link that opens without an account, its cells equal to single reference renders', async ({ page, guard }, testInfo) => {
+test('a 2 × 2 comparison sheet: asked for on the Exports page, followed to Ready, downloaded, shared by a link that opens without an account, its cells equal to single reference renders', async ({
+  page,
+  guard,
+}, testInfo) => {
   void guard;
   await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
   await expect(page).toHaveURL(/\/bench/);
@@ -45,7 +48,10 @@ test('a 2 × 2 comparison sheet: asked for on the Exports page, followed to Read
   // A reload keeps it (the jobs and their state live on the server).
   await page.reload();
   await expect(page.getByRole('listitem').filter({ hasText: title }).getByText('Ready', { exact: true })).toBeVisible();
-  const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: new RegExp(`^Download ${title}: Sheet \\(PNG\\)`) }).click()]);
+  const [download] = await Promise.all([
+    page.waitForEvent('download'),
+    page.getByRole('link', { name: new RegExp(`^Download ${title}: Sheet \\(PNG\\)`) }).click(),
+  ]);
   expect(download.suggestedFilename()).toBe(`${title}.png`);
   const sheet = PNG.sync.read(Buffer.concat(await (await download.createReadStream()).toArray()));
 
@@ -62,7 +68,10 @@ test('a 2 × 2 comparison sheet: asked for on the Exports page, followed to Read
   const preview = clientPage.getByRole('img', { name: `Comparison sheet: ${title}` });
   await expect(preview).toBeVisible();
   expect(await preview.evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth)).toBe(sheet.width);
-  const [shared] = await Promise.all([clientPage.waitForEvent('download'), clientPage.getByRole('link', { name: /^Download Sheet \(PNG\)/ }).click()]);
+  const [shared] = await Promise.all([
+    clientPage.waitForEvent('download'),
+    clientPage.getByRole('link', { name: /^Download Sheet \(PNG\)/ }).click(),
+  ]);
   expect(PNG.sync.read(Buffer.concat(await (await shared.createReadStream()).toArray())).width).toBe(sheet.width);
   await client.close();
 
@@ -74,7 +83,10 @@ test('a 2 × 2 comparison sheet: asked for on the Exports page, followed to Read
   for (const artwork of made.artworks) {
     const row: PNG[] = [];
     for (const look of made.looks) {
-      const res = await page.request.post(`/api/studios/${studioId}/renders`, { headers: { 'X-XSRF-TOKEN': await xsrf(page) }, data: { artworkId: artwork.id, presetId: look.id, scale: 1 } });
+      const res = await page.request.post(`/api/studios/${studioId}/renders`, {
+        headers: { 'X-XSRF-TOKEN': await xsrf(page) },
+        data: { artworkId: artwork.id, presetId: look.id, scale: 1 },
+      });
       expect(res.ok()).toBe(true);
       row.push(PNG.sync.read(await (await page.request.get((await res.json()).render.url)).body()));
     }
@@ -90,7 +102,8 @@ test('a 2 × 2 comparison sheet: asked for on the Exports page, followed to Read
         for (let xx = 0; xx < render.width; xx++) {
           const s = ((at.y + yy) * sheet.width + at.x + xx) * 4;
           const p = (yy * render.width + xx) * 4;
-          if (sheet.data[s] !== render.data[p] || sheet.data[s + 1] !== render.data[p + 1] || sheet.data[s + 2] !== render.data[p + 2]) differing++;
+          if (sheet.data[s] !== render.data[p] || sheet.data[s + 1] !== render.data[p + 1] || sheet.data[s + 2] !== render.data[p + 2])
+            differing++;
         }
       }
       expect(differing, `cell ${r},${c}`).toBe(0);
@@ -136,7 +149,10 @@ test('Add to sheet on the bench starts a sheet with the artwork and look on the 
   await expect(page.getByRole('combobox', { name: /^Artworks/ })).toContainText('Walk cycle');
 });
 
-test('an animation through a look: made in the background, with its flash check, downloaded as GIF with every frame', async ({ page, guard }) => {
+test('an animation through a look: made in the background, with its flash check, downloaded as GIF with every frame', async ({
+  page,
+  guard,
+}) => {
   void guard;
   await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
   await expect(page).toHaveURL(/\/bench/);

@@ -14,7 +14,10 @@ export async function waitForMail(to: string, match: RegExp, timeoutMs = 10_000)
   while (Date.now() < deadline) {
     const res = await fetch(`http://127.0.0.1:${E2E.mailUiPort}/api/messages`);
     const messages = (await res.json()) as CaughtMail[];
-    const mail = messages.filter((m) => m.to.includes(to.toLowerCase())).reverse().find((m) => match.test(m.text));
+    const mail = messages
+      .filter((m) => m.to.includes(to.toLowerCase()))
+      .reverse()
+      .find((m) => match.test(m.text));
     if (mail) return mail.text.match(match)![0];
     await new Promise((r) => setTimeout(r, 200));
   }
@@ -37,7 +40,9 @@ export const test = base.extend<{ guard: { offHost: string[]; cspViolations: str
         if (/Content Security Policy|Refused to/i.test(msg.text())) cspViolations.push(msg.text());
       });
       void p.addInitScript(() => {
-        document.addEventListener('securitypolicyviolation', (e) => console.error(`Refused to load: CSP ${e.violatedDirective} ${e.blockedURI}`));
+        document.addEventListener('securitypolicyviolation', (e) =>
+          console.error(`Refused to load: CSP ${e.violatedDirective} ${e.blockedURI}`),
+        );
       });
     };
     watch(page);

@@ -24,7 +24,10 @@ async function downloadWith(page: Page, button: string | RegExp): Promise<{ name
 
 const fill = (n: number, v: number) => [...new Array(n).fill(v)];
 
-test('frame data from the drive timing page and the bench: the downloads hold exactly the cells, in the layout chosen', async ({ page, guard }, testInfo) => {
+test('frame data from the drive timing page and the bench: the downloads hold exactly the cells, in the layout chosen', async ({
+  page,
+  guard,
+}, testInfo) => {
   void guard;
   await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
   await expect(page).toHaveURL(/\/bench/);
@@ -51,7 +54,9 @@ test('frame data from the drive timing page and the bench: the downloads hold ex
   await choose(page, 'Look', 'Ordered dither, 4 levels');
   await expect(page.getByTestId('frame-data-size')).toContainText('76,800 bytes a frame');
   await page.getByRole('radio', { name: '1 bit' }).click();
-  await expect(page.getByRole('alert').filter({ hasText: 'This layout cannot hold the panel' })).toContainText('4 gray levels but 1 bit a cell holds 2');
+  await expect(page.getByRole('alert').filter({ hasText: 'This layout cannot hold the panel' })).toContainText(
+    '4 gray levels but 1 bit a cell holds 2',
+  );
   await expect(page.getByRole('button', { name: /^Download/ })).toBeDisabled();
   await choose(page, 'Gray by frame-rate control', '4 levels over 3 frames');
   await expect(page.getByTestId('frame-data-size')).toContainText('3 frames · 115,200 bytes in all');

@@ -1,7 +1,11 @@
 import { expect, inviteNewMember, signIn, test, waitForMail } from './fixtures';
 
 // Issue "Workflow", item 19: a member the owner removed is told so, not that the studio is missing.
-test('an invited member joins, is removed by the owner, and on reload reads that they are no longer a member', async ({ page, browser, guard }) => {
+test('an invited member joins, is removed by the owner, and on reload reads that they are no longer a member', async ({
+  page,
+  browser,
+  guard,
+}) => {
   await signIn(page, 'owner@kilnquartz.example', 'amber-glow-demo');
   await expect(page).toHaveURL(/\/bench$/);
   const invitee = await inviteNewMember(page, 'leaver');

@@ -4,7 +4,10 @@ import { syntheticPhoto } from '../shared/testing/synthetic-photo';
 import { choose } from './bench-helpers';
 import { expect, signIn, test } from './fixtures';
 
-test('panel match: pattern downloaded, photo uploaded, marks dragged and nudged by keyboard, checked against the pattern, fitted with progress, saved as a preset', async ({ page, guard }, testInfo) => {
+test('panel match: pattern downloaded, photo uploaded, marks dragged and nudged by keyboard, checked against the pattern, fitted with progress, saved as a preset', async ({
+  page,
+  guard,
+}, testInfo) => {
   test.setTimeout(180_000);
   void guard;
   // A photo of a 320 × 240 amber EL whose glow is wider than the look's (made from the pipeline: test data).
@@ -42,7 +45,10 @@ test('panel match: pattern downloaded, photo uploaded, marks dragged and nudged 
     await page.mouse.move(tx + 1, ty - 1, { steps: 5 });
     await page.mouse.up();
     // Within a few photo pixels of the square's centre (the screen shows about one photo pixel in three).
-    const [x, y] = (await mark.getAttribute('aria-label'))!.match(/at (\d+), (\d+) px/)!.slice(1).map(Number);
+    const [x, y] = (await mark.getAttribute('aria-label'))!
+      .match(/at (\d+), (\d+) px/)!
+      .slice(1)
+      .map(Number);
     expect(Math.hypot(x - photo.fiducials[i][0], y - photo.fiducials[i][1])).toBeLessThan(8);
   }
   const topLeft = page.getByRole('button', { name: /^top-left mark/ });
@@ -74,7 +80,10 @@ test('panel match: pattern downloaded, photo uploaded, marks dragged and nudged 
   await expect(page.getByRole('heading', { name })).toBeVisible();
   await page.goBack();
   await page.reload();
-  await page.getByRole('button', { name: /panel-photo\.jpg/ }).first().click();
+  await page
+    .getByRole('button', { name: /panel-photo\.jpg/ })
+    .first()
+    .click();
   await expect(page.getByRole('table', { name: /Fitted figures/ })).toBeVisible();
   await expect(page.getByText('Saved as a studio preset.')).toBeVisible();
 });

@@ -1,7 +1,11 @@
 import { waitForDraw } from './bench-helpers';
 import { expect, signIn, test } from './fixtures';
 
-test('an editor changes a preset → the viewer sees the new revision → the owner restores the old one → the share link shows the restored look', async ({ page, browser, guard }, testInfo) => {
+test('an editor changes a preset → the viewer sees the new revision → the owner restores the old one → the share link shows the restored look', async ({
+  page,
+  browser,
+  guard,
+}, testInfo) => {
   // Three people in three browsers, each drawing the bench: about 45 s here, so twice the usual budget.
   test.setTimeout(120_000);
   const name = `E2E look ${Date.now().toString(36)}`;
@@ -89,10 +93,16 @@ test('on a phone the presets table fits: the Changed column is on screen, panel 
   await expect(page).toHaveURL(/\/bench$/);
   // A preset of its own, so the table has a row whatever ran before.
   const xsrf = (await page.context().cookies()).find((c) => c.name === 'XSRF-TOKEN')!.value;
-  const created = await page.request.post(page.url().replace(/^(.*\/studios\/[^/]+)\/bench$/, '$1/presets').replace('/studios/', '/api/studios/'), {
-    headers: { 'X-XSRF-TOKEN': xsrf },
-    data: { name: `Phone look ${Date.now().toString(36)}`, panelTypeId: 'el-amber-640x480' },
-  });
+  const created = await page.request.post(
+    page
+      .url()
+      .replace(/^(.*\/studios\/[^/]+)\/bench$/, '$1/presets')
+      .replace('/studios/', '/api/studios/'),
+    {
+      headers: { 'X-XSRF-TOKEN': xsrf },
+      data: { name: `Phone look ${Date.now().toString(36)}`, panelTypeId: 'el-amber-640x480' },
+    },
+  );
   expect(created.status(), await created.text()).toBe(201);
   await page.goto(page.url().replace(/\/bench$/, '/presets'));
   const table = page.getByRole('table', { name: 'Presets' });

@@ -9,12 +9,20 @@ async function saveTiming(page: Page, studioId: string, name: string, mode: stri
   const xsrf = (await page.context().cookies()).find((c) => c.name === 'XSRF-TOKEN')!.value;
   const res = await page.request.post(`/api/studios/${studioId}/timings`, {
     headers: { 'X-XSRF-TOKEN': xsrf },
-    data: { name, panelTypeId: 'el-amber-640x480', source: { kind: 'standard', standard: 'dmt', mode }, interface: { dualScan: true, pixelsPerClock: 4 } },
+    data: {
+      name,
+      panelTypeId: 'el-amber-640x480',
+      source: { kind: 'standard', standard: 'dmt', mode },
+      interface: { dualScan: true, pixelsPerClock: 4 },
+    },
   });
   expect(res.status(), await res.text()).toBe(201);
 }
 
-test('an editor reads a ROM image, patches mode 12h with a saved timing after seeing the byte diff, and downloads the patched image', async ({ page, guard }, testInfo) => {
+test('an editor reads a ROM image, patches mode 12h with a saved timing after seeing the byte diff, and downloads the patched image', async ({
+  page,
+  guard,
+}, testInfo) => {
   void guard;
   await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
   await expect(page).toHaveURL(/\/bench/);
@@ -25,7 +33,9 @@ test('an editor reads a ROM image, patches mode 12h with a saved timing after se
   await expect(page.getByRole('heading', { name: 'Before you flash' })).toBeVisible();
 
   const cardName = `Card ${Date.now().toString(36)}`;
-  await page.locator('input[type=file]').setInputFiles({ name: `${cardName}.rom`, mimeType: 'application/octet-stream', buffer: Buffer.from(syntheticRom()) });
+  await page
+    .locator('input[type=file]')
+    .setInputFiles({ name: `${cardName}.rom`, mimeType: 'application/octet-stream', buffer: Buffer.from(syntheticRom()) });
   await expect(page.getByRole('heading', { name: cardName, exact: true })).toBeVisible();
   await expect(page.getByTestId('rom-checksum')).toHaveText('Good: the bytes sum to 00');
   await expect(page.getByText('at 0x1000, from the video save pointer table at 0x0800')).toBeVisible();
@@ -70,7 +80,9 @@ test('an editor reads a ROM image, patches mode 12h with a saved timing after se
 test('a file that is not an option ROM is refused with the reason; a viewer sees why the page is closed', async ({ page, browser }) => {
   await signIn(page, 'editor@kilnquartz.example', 'amber-glow-demo');
   await page.getByRole('link', { name: 'Video BIOS' }).click();
-  await page.locator('input[type=file]').setInputFiles({ name: 'notes.txt', mimeType: 'text/plain', buffer: Buffer.from('MZ not a rom at all') });
+  await page
+    .locator('input[type=file]')
+    .setInputFiles({ name: 'notes.txt', mimeType: 'text/plain', buffer: Buffer.from('MZ not a rom at all') });
   await expect(page.getByRole('alert').filter({ hasText: 'was not added' })).toContainText('it starts with 4D 5A, not 55 AA');
 
   const context = await browser.newContext();
@@ -88,7 +100,9 @@ test('on a phone the Video BIOS page stacks and nothing scrolls sideways', async
   await expect(page).toHaveURL(/\/bench/);
   await page.goto(page.url().replace(/\/bench.*$/, '/bios'));
   await expect(page.getByRole('heading', { name: 'Video BIOS', level: 1 })).toBeVisible();
-  await page.locator('input[type=file]').setInputFiles({ name: 'phone card.rom', mimeType: 'application/octet-stream', buffer: Buffer.from(syntheticRom()) });
+  await page
+    .locator('input[type=file]')
+    .setInputFiles({ name: 'phone card.rom', mimeType: 'application/octet-stream', buffer: Buffer.from(syntheticRom()) });
   await expect(page.getByRole('heading', { name: 'phone card', exact: true })).toBeVisible();
   expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
   await page.getByRole('heading', { name: 'Patch an entry' }).scrollIntoViewIfNeeded();

@@ -19,7 +19,10 @@ async function api(page: Page, method: 'post' | 'get', url: string, data?: objec
   return page.request[method](url, { headers: { 'X-XSRF-TOKEN': xsrf }, data });
 }
 
-test('item 2: on a slowed-down machine, two fields typed right after a panel-type switch both stick — box, slider, marker and what is saved', async ({ page, guard }) => {
+test('item 2: on a slowed-down machine, two fields typed right after a panel-type switch both stick — box, slider, marker and what is saved', async ({
+  page,
+  guard,
+}) => {
   void guard;
   test.setTimeout(180_000);
   const studioId = await openBench(page);
@@ -51,13 +54,27 @@ test('item 9: deleting an artwork names the live share links that show it, and w
   // Share links are the owner's to make.
   const studioId = await openBench(page, 'owner');
   const name = `Linked art ${Date.now().toString(36)}`;
-  const artworkId = await uploadArtwork(page, studioId, name, pngOf(8, 8, () => [255, 160, 0, 255]));
-  const preset = (await (await api(page, 'post', `/api/studios/${studioId}/presets`, { name: `Linked look ${Date.now().toString(36)}`, panelTypeId: 'el-amber-640x480' })).json()).preset;
+  const artworkId = await uploadArtwork(
+    page,
+    studioId,
+    name,
+    pngOf(8, 8, () => [255, 160, 0, 255]),
+  );
+  const preset = (
+    await (
+      await api(page, 'post', `/api/studios/${studioId}/presets`, {
+        name: `Linked look ${Date.now().toString(36)}`,
+        panelTypeId: 'el-amber-640x480',
+      })
+    ).json()
+  ).preset;
   expect((await api(page, 'post', `/api/studios/${studioId}/presets/${preset.id}/links`, { artworkId })).status()).toBe(201);
   await page.getByRole('link', { name: 'Artworks' }).click();
   await page.getByRole('button', { name: `Delete ${name}` }).click();
   const dialog = page.getByRole('alertdialog');
-  await expect(dialog).toContainText(`One live share link shows it (“${preset.name}”): they will show the studio’s newest other artwork instead.`);
+  await expect(dialog).toContainText(
+    `One live share link shows it (“${preset.name}”): they will show the studio’s newest other artwork instead.`,
+  );
   await dialog.getByRole('button', { name: 'Cancel' }).click();
 });
 
@@ -78,8 +95,20 @@ test('item 14: the current look and the revision compare show an artwork the use
   void guard;
   const studioId = await openBench(page);
   const name = `Look subject ${Date.now().toString(36)}`;
-  await uploadArtwork(page, studioId, name, pngOf(64, 48, (x, y) => ((x + y) % 8 < 4 ? [255, 255, 255, 255] : [0, 0, 0, 255])));
-  const preset = (await (await api(page, 'post', `/api/studios/${studioId}/presets`, { name: `Shown on ${Date.now().toString(36)}`, panelTypeId: 'el-amber-640x480' })).json()).preset;
+  await uploadArtwork(
+    page,
+    studioId,
+    name,
+    pngOf(64, 48, (x, y) => ((x + y) % 8 < 4 ? [255, 255, 255, 255] : [0, 0, 0, 255])),
+  );
+  const preset = (
+    await (
+      await api(page, 'post', `/api/studios/${studioId}/presets`, {
+        name: `Shown on ${Date.now().toString(36)}`,
+        panelTypeId: 'el-amber-640x480',
+      })
+    ).json()
+  ).preset;
   await page.goto(`/studios/${studioId}/presets/${preset.id}`);
   await choose(page, 'Shown on', name);
   await expect(page.getByRole('img', { name: `Reference render of ${preset.name} on ${name}` })).toBeVisible({ timeout: 30_000 });
@@ -114,7 +143,8 @@ test('item 4: four looks in a 2 × 2 split, each quadrant labelled', async ({ pa
   await expect(labels.nth(3)).toHaveText(/^D · /);
   await choose(page, 'Preset D', /D: Line art, no dither/);
   await expect(labels.nth(3)).toHaveText('D · Line art, no dither');
-  for (const q of ['Preset B, top right', 'Preset C, bottom left', 'Preset D, bottom right']) await expect(page.getByLabel(q)).toBeVisible();
+  for (const q of ['Preset B, top right', 'Preset C, bottom left', 'Preset D, bottom right'])
+    await expect(page.getByLabel(q)).toBeVisible();
   await waitForDraw(page, 0);
   await page.waitForTimeout(1500);
   await page.screenshot({ path: testInfo.outputPath('four.png') });
@@ -132,7 +162,13 @@ test('axe: no serious or critical accessibility violations on any page (WCAG 2.1
     const { violations, passes } = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa']).analyze();
     // A scan that checked nothing would pass too: it must have run the rules on this page.
     expect(passes.length, `${where}: rules that passed`).toBeGreaterThan(10);
-    for (const v of violations.filter((x) => x.impact === 'serious' || x.impact === 'critical')) found.push(`${where}: ${v.id} (${v.impact}) — ${v.help} — ${v.nodes.slice(0, 3).map((n) => n.target.join(' ')).join(' | ')}`);
+    for (const v of violations.filter((x) => x.impact === 'serious' || x.impact === 'critical'))
+      found.push(
+        `${where}: ${v.id} (${v.impact}) — ${v.help} — ${v.nodes
+          .slice(0, 3)
+          .map((n) => n.target.join(' '))
+          .join(' | ')}`,
+      );
   };
   for (const p of PAGES) {
     await page.goto(`/studios/${studioId}/${p}`);

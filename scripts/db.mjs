@@ -32,7 +32,7 @@ function ensureBinaries() {
   let bin = findBinDir();
   if (bin) return bin;
   if (!isRoot) throw new Error('PostgreSQL server binaries are missing: run `apt-get install -y postgresql` as root.');
-  console.log('[db] installing Debian\'s postgresql package…');
+  console.log("[db] installing Debian's postgresql package…");
   execFileSync('apt-get', ['update', '-qq'], { stdio: 'inherit' });
   execFileSync('apt-get', ['install', '-y', '-qq', '--no-install-recommends', 'postgresql'], {
     stdio: 'inherit',
@@ -63,7 +63,9 @@ function ensureDirs() {
       for (let dir = closed; dir !== path.dirname(dir); dir = path.dirname(dir)) {
         if (spawnSync('runuser', ['-u', 'postgres', '--', 'test', '-x', dir]).status !== 0) closed = dir;
       }
-      throw new Error(`PostgreSQL runs as the postgres user, which cannot enter ${closed} (and so not the cluster in ${dataRoot}). Let it pass with \`chmod o+x ${closed}\`, or clone the project into a folder other users can enter.`);
+      throw new Error(
+        `PostgreSQL runs as the postgres user, which cannot enter ${closed} (and so not the cluster in ${dataRoot}). Let it pass with \`chmod o+x ${closed}\`, or clone the project into a folder other users can enter.`,
+      );
     }
     if (!existsSync(logFile)) writeFileSync(logFile, '');
     chownSync(logFile, uid, gid);
@@ -109,7 +111,11 @@ export function start(databases = ['emberline']) {
     if (r.status !== 0) {
       const log = existsSync(logFile) ? readFileSync(logFile, 'utf8') : '';
       const taken = /Address already in use/.test(log.slice(-4000));
-      throw new Error(taken ? `port ${pgPort} on 127.0.0.1 is already taken (another PostgreSQL, perhaps from another checkout): stop it, or set DB_PORT to a free port.` : `pg_ctl start failed (see .data/pg.log):\n${r.stdout}\n${r.stderr}`);
+      throw new Error(
+        taken
+          ? `port ${pgPort} on 127.0.0.1 is already taken (another PostgreSQL, perhaps from another checkout): stop it, or set DB_PORT to a free port.`
+          : `pg_ctl start failed (see .data/pg.log):\n${r.stdout}\n${r.stderr}`,
+      );
     }
     console.log(`[db] PostgreSQL listening on 127.0.0.1:${pgPort}`);
   }

@@ -16,10 +16,23 @@ const mailUiPort = process.env.MAIL_UI_PORT ?? '1080';
 startDb([process.env.DB_NAME ?? 'emberline']);
 
 // Links in mails point at the dev server's page, which passes /api on.
-const env = { ...process.env, PORT: port, SMTP_PORT: smtpPort, MAIL_UI_PORT: mailUiPort, SEED_DEMO: '1', APP_URL: process.env.APP_URL ?? `http://127.0.0.1:${uiPort}`, STATIC_DIR: '/nonexistent' };
+const env = {
+  ...process.env,
+  PORT: port,
+  SMTP_PORT: smtpPort,
+  MAIL_UI_PORT: mailUiPort,
+  SEED_DEMO: '1',
+  APP_URL: process.env.APP_URL ?? `http://127.0.0.1:${uiPort}`,
+  STATIC_DIR: '/nonexistent',
+};
 supervise([
   { name: 'mail catcher', ...tsNode('server/mail/catcher.ts'), env },
-  { name: 'server (restarted when its files change)', command: 'npx', args: ['tsx', 'watch', '--clear-screen=false', 'server/main.ts'], env },
+  {
+    name: 'server (restarted when its files change)',
+    command: 'npx',
+    args: ['tsx', 'watch', '--clear-screen=false', 'server/main.ts'],
+    env,
+  },
   { name: 'web app (ng serve)', command: 'npx', args: ['ng', 'serve', '--port', uiPort], env },
 ]);
 console.log(`[dev] open http://127.0.0.1:${uiPort}/ (live reload; the API runs on ${port}); mail inbox at http://127.0.0.1:${mailUiPort}/`);

@@ -10,10 +10,34 @@ const smtpPort = process.env.E2E_SMTP_PORT ?? '1035';
 const mailUiPort = process.env.E2E_MAIL_UI_PORT ?? '1090';
 
 startDb(['postgres']);
-spawnSync('psql', ['-h', '127.0.0.1', '-p', String(pgPort), '-U', 'emberline', '-d', 'postgres', '-qc', 'DROP DATABASE IF EXISTS emberline_e2e WITH (FORCE)'], { stdio: 'inherit' });
+spawnSync(
+  'psql',
+  [
+    '-h',
+    '127.0.0.1',
+    '-p',
+    String(pgPort),
+    '-U',
+    'emberline',
+    '-d',
+    'postgres',
+    '-qc',
+    'DROP DATABASE IF EXISTS emberline_e2e WITH (FORCE)',
+  ],
+  { stdio: 'inherit' },
+);
 startDb(['emberline_e2e']);
 
-const env = { ...process.env, NODE_ENV: 'test', PORT: port, SMTP_PORT: smtpPort, MAIL_UI_PORT: mailUiPort, DB_NAME: 'emberline_e2e', SEED_DEMO: '1', APP_URL: `http://127.0.0.1:${port}` };
+const env = {
+  ...process.env,
+  NODE_ENV: 'test',
+  PORT: port,
+  SMTP_PORT: smtpPort,
+  MAIL_UI_PORT: mailUiPort,
+  DB_NAME: 'emberline_e2e',
+  SEED_DEMO: '1',
+  APP_URL: `http://127.0.0.1:${port}`,
+};
 supervise([
   { name: 'mail catcher', ...tsNode('server/mail/catcher.ts'), env },
   { name: 'server', ...tsNode('server/main.ts'), env },

@@ -1,7 +1,11 @@
 // Writes shared/color/cie1931.ts from shared/color/data/cie1931-2deg-1nm.csv.
 import { readFileSync, writeFileSync } from 'node:fs';
 
-const rows = readFileSync('shared/color/data/cie1931-2deg-1nm.csv', 'utf8').trim().split('\n').slice(1).map((l) => l.split(',').map(Number));
+const rows = readFileSync('shared/color/data/cie1931-2deg-1nm.csv', 'utf8')
+  .trim()
+  .split('\n')
+  .slice(1)
+  .map((l) => l.split(',').map(Number));
 const col = (i: number) => rows.map((r) => r[i]).join(',');
 writeFileSync(
   'shared/color/cie1931.ts',

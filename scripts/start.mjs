@@ -25,4 +25,6 @@ supervise([
   { name: 'mail catcher', ...tsNode('server/mail/catcher.ts'), env },
   { name: 'server', ...tsNode('server/main.ts'), env, restart: true },
 ]);
-console.log(`[start] open http://127.0.0.1:${port}/ — demo accounts and password are in README.md; mail inbox at http://127.0.0.1:${mailUiPort}/`);
+console.log(
+  `[start] open http://127.0.0.1:${port}/ — demo accounts and password are in README.md; mail inbox at http://127.0.0.1:${mailUiPort}/`,
+);

@@ -18,7 +18,8 @@ const run = (cmd, args, env = {}) => {
   if (r.status !== 0) finish(r.status ?? 1);
 };
 
-const psql = (sql) => spawnSync('psql', ['-h', '127.0.0.1', '-p', String(pgPort), '-U', 'emberline', '-d', 'postgres', '-qc', sql], { stdio: 'inherit' });
+const psql = (sql) =>
+  spawnSync('psql', ['-h', '127.0.0.1', '-p', String(pgPort), '-U', 'emberline', '-d', 'postgres', '-qc', sql], { stdio: 'inherit' });
 
 // Lint (ESLint, then the layers' dependency rules): seconds, so first.
 if (!only || only === 'unit') run('npm', ['run', '-s', 'lint']);
@@ -35,9 +36,12 @@ if (!only || only === 'reliability') run('npx', ['jest', '--ci', '-c', 'jest.rel
 if (!only || only === 'e2e') {
   const chromium = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
   if (!existsSync(chromium)) {
-    console.log('[test] installing Debian\'s chromium package for the browser tests…');
+    console.log("[test] installing Debian's chromium package for the browser tests…");
     execFileSync('apt-get', ['update', '-qq'], { stdio: 'inherit' });
-    execFileSync('apt-get', ['install', '-y', '-qq', '--no-install-recommends', 'chromium'], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
+    execFileSync('apt-get', ['install', '-y', '-qq', '--no-install-recommends', 'chromium'], {
+      stdio: 'inherit',
+      env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' },
+    });
   }
   run('npx', ['ng', 'build']);
   run('npx', ['playwright', 'test']);

@@ -59,7 +59,15 @@ export interface AppDeps {
 }
 
 /** The Express app with every route; `listen` is the caller's business (server/main.ts, tests). */
-export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; artworks: ArtworksService; renders: RendersService; renderEngine: RenderEngine; exports: ExportsService; matches: MatchesService; blobs: BlobStore } {
+export function createApp(deps: AppDeps): Express & {
+  apiSpecs: RouteSpec[];
+  artworks: ArtworksService;
+  renders: RendersService;
+  renderEngine: RenderEngine;
+  exports: ExportsService;
+  matches: MatchesService;
+  blobs: BlobStore;
+} {
   const { config, sequelize, mailer } = deps;
   // Studio routes read roles through the studios feature's cached lookup (core stays below features).
   useRoleLookup(roleIn);
@@ -90,13 +98,35 @@ export function createApp(deps: AppDeps): Express & { apiSpecs: RouteSpec[]; art
   const presets = new PresetsService();
   const exports = exportsService(config, blobs, artworks, renderEngine, deps.jobs);
   const matches = new MatchesService(blobs, renderEngine, deps.jobs, presets);
-  const studios = new StudiosService(outbox, config.appUrl, (_studioId, artworkIds) => artworks.removeFiles(artworkIds), async (studioId) => {
-    await renders.removeFor({ studioId });
-    await exports.removeFor(studioId);
-    await matches.removeFor(studioId);
-  });
+  const studios = new StudiosService(
+    outbox,
+    config.appUrl,
+    (_studioId, artworkIds) => artworks.removeFiles(artworkIds),
+    async (studioId) => {
+      await renders.removeFor({ studioId });
+      await exports.removeFor(studioId);
+      await matches.removeFor(studioId);
+    },
+  );
   const timings = new TimingsService();
-  const routers: ApiRouter[] = [health, authRoutes(auth, passport), studiosRoutes(studios), inviteLinkRoutes(studios), panelTypesRoutes(), rendersRoutes(renders), timingsRoutes(timings), romsRoutes(new RomsService(timings)), artworksRoutes(artworks, renders, presets), presetsRoutes(presets, config.appUrl, artworks, renders), shareRoutes(presets, artworks), exportsRoutes(exports, config.sessionSecret, config.appUrl), sharedExportRoutes(exports, config.sessionSecret), downloadRoutes(blobs, config.sessionSecret), matchesRoutes(matches), activityRoutes()];
+  const routers: ApiRouter[] = [
+    health,
+    authRoutes(auth, passport),
+    studiosRoutes(studios),
+    inviteLinkRoutes(studios),
+    panelTypesRoutes(),
+    rendersRoutes(renders),
+    timingsRoutes(timings),
+    romsRoutes(new RomsService(timings)),
+    artworksRoutes(artworks, renders, presets),
+    presetsRoutes(presets, config.appUrl, artworks, renders),
+    shareRoutes(presets, artworks),
+    exportsRoutes(exports, config.sessionSecret, config.appUrl),
+    sharedExportRoutes(exports, config.sessionSecret),
+    downloadRoutes(blobs, config.sessionSecret),
+    matchesRoutes(matches),
+    activityRoutes(),
+  ];
   const docs = new ApiRouter('/docs', 'Service');
   const specs = routers.flatMap((r) => r.specs);
   docs.route('get', '/', { policy: publicAccess, summary: 'This OpenAPI document' }, (_req, res) => {

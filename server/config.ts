@@ -34,7 +34,13 @@ function storageConfig(): Config['storage'] {
   const bucket = process.env.S3_BUCKET;
   if (!bucket) throw new Error('STORAGE=s3 needs S3_BUCKET (the bucket must exist)');
   const endpoint = process.env.S3_ENDPOINT || undefined;
-  return { kind, bucket, endpoint, region: process.env.S3_REGION ?? 'us-east-1', forcePathStyle: process.env.S3_FORCE_PATH_STYLE ? process.env.S3_FORCE_PATH_STYLE === 'true' : !!endpoint };
+  return {
+    kind,
+    bucket,
+    endpoint,
+    region: process.env.S3_REGION ?? 'us-east-1',
+    forcePathStyle: process.env.S3_FORCE_PATH_STYLE ? process.env.S3_FORCE_PATH_STYLE === 'true' : !!endpoint,
+  };
 }
 
 /** Builds the configuration from process.env; throws with the variable's name on bad values. */

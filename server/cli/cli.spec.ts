@@ -63,7 +63,10 @@ describe('cli', () => {
   test('render writes a PNG of cols × scale by rows × scale from a preset file', async () => {
     const dir = mkdtempSync(path.join(os.tmpdir(), 'emberline-cli-'));
     const input = path.join(dir, 'in.png');
-    writeFileSync(input, pngOf(20, 10, (x) => [x * 12, 0, 0, 255]));
+    writeFileSync(
+      input,
+      pngOf(20, 10, (x) => [x * 12, 0, 0, 255]),
+    );
     const doc = JSON.parse((await cli('presets', '--json')).out);
     const params = { ...doc.presets[0].parameters, cell: { ...doc.presets[0].parameters.cell, cols: 40, rows: 20 } };
     writeFileSync(path.join(dir, 'p.json'), JSON.stringify({ parameters: params }));
@@ -76,7 +79,10 @@ describe('cli', () => {
   test('render with an invalid preset file names the bad parameter', async () => {
     const dir = mkdtempSync(path.join(os.tmpdir(), 'emberline-cli-'));
     writeFileSync(path.join(dir, 'bad.json'), JSON.stringify({ source: {} }));
-    writeFileSync(path.join(dir, 'in.png'), pngOf(2, 2, () => [0, 0, 0, 255]));
+    writeFileSync(
+      path.join(dir, 'in.png'),
+      pngOf(2, 2, () => [0, 0, 0, 255]),
+    );
     const r = await cli('render', path.join(dir, 'in.png'), '--preset', path.join(dir, 'bad.json'), '--out', path.join(dir, 'o.png'));
     expect(r.code).toBe(2);
     expect(r.err).toMatch(/source\.fit/);
@@ -88,7 +94,13 @@ describe('cli drive timing', () => {
     const r = await cli('timing', '--mode', '640x480@60', '--standard', 'dmt', '--dual-scan', '--pixels-per-clock', '4', '--json');
     expect(r.code).toBe(0);
     const doc = JSON.parse(r.out);
-    expect(doc).toMatchObject({ pixelClockMHz: 25.175, h: { active: 640, frontPorch: 16, sync: 96, backPorch: 48, total: 800 }, v: { active: 480, frontPorch: 10, sync: 2, backPorch: 33, total: 525 }, hSyncPositive: false, vSyncPositive: false });
+    expect(doc).toMatchObject({
+      pixelClockMHz: 25.175,
+      h: { active: 640, frontPorch: 16, sync: 96, backPorch: 48, total: 800 },
+      v: { active: 480, frontPorch: 10, sync: 2, backPorch: 33, total: 525 },
+      hSyncPositive: false,
+      vSyncPositive: false,
+    });
     expect(doc.lineRateKHz).toBeCloseTo(31.469, 3);
     expect(doc.refreshHz).toBeCloseTo(59.94, 2);
     expect(doc.shiftClockMHz).toBeCloseTo(25.175 / 8, 3);
@@ -127,7 +139,10 @@ describe('cli frame-data', () => {
   const dir = mkdtempSync(path.join(os.tmpdir(), 'emberline-cli-fd-'));
   const input = path.join(dir, 'in.png');
   // A 640 × 480 card: left half white, right half black, so a 1-bit frame is 40 bytes of FF then 40 of 00 a row.
-  writeFileSync(input, pngOf(640, 480, (x) => (x < 320 ? [255, 255, 255, 255] : [0, 0, 0, 255])));
+  writeFileSync(
+    input,
+    pngOf(640, 480, (x) => (x < 320 ? [255, 255, 255, 255] : [0, 0, 0, 255])),
+  );
 
   test('--format c: the header’s array has cols·rows·bits/8 numbers that unpack to the image (MSB first, row by row) [calc]', async () => {
     const out = path.join(dir, 'title.h');
@@ -137,25 +152,71 @@ describe('cli frame-data', () => {
     const text = readFileSync(out, 'utf8');
     const m = /static const uint8_t title\[(\d+)\] = \{([^}]*)\}/.exec(text)!;
     expect(Number(m[1])).toBe(38400);
-    const bytes = m[2].split(',').map((s) => s.trim()).filter(Boolean).map((s) => parseInt(s, 16));
+    const bytes = m[2]
+      .split(',')
+      .map((s) => s.trim())
+      .filter(Boolean)
+      .map((s) => parseInt(s, 16));
     // Row 100: bytes 100·80 … 100·80 + 79. Row droop and glow do not reach the data.
     expect(bytes.slice(8000, 8080)).toEqual([...new Array(40).fill(0xff), ...new Array(40).fill(0)]);
   });
 
   test('--format bin with dual-scan planes and --format hex with FRC', async () => {
-    expect((await cli('frame-data', input, '--preset', 'el-amber-640x480.line-art', '--bits', '1', '--dual-scan', 'planes', '--format', 'bin', '--out', path.join(dir, 'f.bin'))).code).toBe(0);
+    expect(
+      (
+        await cli(
+          'frame-data',
+          input,
+          '--preset',
+          'el-amber-640x480.line-art',
+          '--bits',
+          '1',
+          '--dual-scan',
+          'planes',
+          '--format',
+          'bin',
+          '--out',
+          path.join(dir, 'f.bin'),
+        )
+      ).code,
+    ).toBe(0);
     expect(readFileSync(path.join(dir, 'f.bin')).length).toBe(38400);
-    const r = await cli('frame-data', input, '--preset', 'el-amber-640x480.standard', '--bits', '1', '--frc', '4', '--format', 'hex', '--out', path.join(dir, 'f.hex'));
+    const r = await cli(
+      'frame-data',
+      input,
+      '--preset',
+      'el-amber-640x480.standard',
+      '--bits',
+      '1',
+      '--frc',
+      '4',
+      '--format',
+      'hex',
+      '--out',
+      path.join(dir, 'f.hex'),
+    );
     expect(r.code).toBe(0);
     expect(r.err).toContain('3 frames of 38400 bytes');
     expect(readFileSync(path.join(dir, 'f.hex'), 'utf8').trimEnd().endsWith(':00000001FF')).toBe(true);
   });
 
   test.each([
-    [['frame-data', 'in.png', '--preset', 'el-amber-640x480.standard', '--format', 'c', '--out', 'x.h'], '--bits must be one of 1, 2, 4, got nothing'],
-    [['frame-data', 'in.png', '--preset', 'el-amber-640x480.standard', '--bits', '1', '--format', 'svg', '--out', 'x'], '--format must be one of bin, hex, c, got "svg"'],
-    [['frame-data', 'in.png', '--preset', 'el-amber-640x480.standard', '--bits', '1', '--dual-scan', 'yes', '--format', 'c', '--out', 'x'], '--dual-scan must be one of planes, interleaved'],
-    [['frame-data', 'in.png', '--preset', 'crt-green-p1.standard', '--bits', '2', '--format', 'c', '--out', 'x'], 'the preset has 16 gray levels but 2 bits a cell hold 4'],
+    [
+      ['frame-data', 'in.png', '--preset', 'el-amber-640x480.standard', '--format', 'c', '--out', 'x.h'],
+      '--bits must be one of 1, 2, 4, got nothing',
+    ],
+    [
+      ['frame-data', 'in.png', '--preset', 'el-amber-640x480.standard', '--bits', '1', '--format', 'svg', '--out', 'x'],
+      '--format must be one of bin, hex, c, got "svg"',
+    ],
+    [
+      ['frame-data', 'in.png', '--preset', 'el-amber-640x480.standard', '--bits', '1', '--dual-scan', 'yes', '--format', 'c', '--out', 'x'],
+      '--dual-scan must be one of planes, interleaved',
+    ],
+    [
+      ['frame-data', 'in.png', '--preset', 'crt-green-p1.standard', '--bits', '2', '--format', 'c', '--out', 'x'],
+      'the preset has 16 gray levels but 2 bits a cell hold 4',
+    ],
   ])('%j exits 2 with a clear message', async (argv, message) => {
     const args = argv.map((a) => (a === 'in.png' ? input : a === 'x' || a === 'x.h' ? path.join(dir, a) : a));
     const r = await cli(...args);
@@ -175,7 +236,16 @@ describe('cli rom-info and rom-patch', () => {
     const doc = JSON.parse(r.out);
     expect(doc).toMatchObject({ size: 32768, checksumOk: true, table: { offset: 0x1000, from: 'pointer' } });
     expect(doc.entries).toHaveLength(29);
-    expect(doc.entries[0x1b]).toMatchObject({ index: 0x1b, offset: 0x16c0, status: 'ok', standardMode: 'mode 12h', width: 640, height: 480, pixelClockMHz: 25.175, refreshHz: 59.94 });
+    expect(doc.entries[0x1b]).toMatchObject({
+      index: 0x1b,
+      offset: 0x16c0,
+      status: 'ok',
+      standardMode: 'mode 12h',
+      width: 640,
+      height: 480,
+      pixelClockMHz: 25.175,
+      refreshHz: 59.94,
+    });
     expect(doc.entries[0]).toMatchObject({ index: 0, status: 'empty', width: null });
   });
 
@@ -190,14 +260,33 @@ describe('cli rom-info and rom-patch', () => {
     expect(bytes.reduce((s, v) => (s + v) & 0xff, 0)).toBe(0);
     const info = JSON.parse((await cli('rom-info', out, '--json')).out);
     expect(info.entries[0x1b]).toMatchObject({ width: 640, height: 400, refreshHz: 70.086 }); // 25.175 MHz / (800 · 449) [calc]
-    const text = await cli('rom-patch', rom, '--entry', '27', '--mode', '640x400@70', '--standard', 'dmt', '--out', path.join(dir, 'p2.rom'));
+    const text = await cli(
+      'rom-patch',
+      rom,
+      '--entry',
+      '27',
+      '--mode',
+      '640x400@70',
+      '--standard',
+      'dmt',
+      '--out',
+      path.join(dir, 'p2.rom'),
+    );
     expect(text.out).toContain('0x16D0  0B → BF  CR06 Vertical total');
     expect(text.out).toContain('verify the burned chip');
   });
 
   test.each([
-    [['rom-patch', 'card.rom', '--entry', '27', '--mode', '640x400@70', '--standard', 'dmt', '--out', 'card.rom'], 2, '--out must be a new file'],
-    [['rom-patch', 'card.rom', '--entry', 'twelve', '--mode', '640x400@70', '--standard', 'dmt', '--out', 'x.rom'], 2, '--entry must be a whole number'],
+    [
+      ['rom-patch', 'card.rom', '--entry', '27', '--mode', '640x400@70', '--standard', 'dmt', '--out', 'card.rom'],
+      2,
+      '--out must be a new file',
+    ],
+    [
+      ['rom-patch', 'card.rom', '--entry', 'twelve', '--mode', '640x400@70', '--standard', 'dmt', '--out', 'x.rom'],
+      2,
+      '--entry must be a whole number',
+    ],
     [['rom-patch', 'card.rom', '--entry', '2', '--mode', '640x400@70', '--standard', 'dmt', '--out', 'x.rom'], 1, 'entry 2 is empty'],
     [['rom-info', 'card.rom', '--table-offset', '0x7FF0'], 1, 'does not fit in the 32768-byte image'],
   ])('%j exits %i with a clear message', async (argv, code, message) => {
@@ -223,7 +312,12 @@ describe('cli acuity and flash', () => {
       const raw = Buffer.alloc(w * h * 4 * 4);
       for (let k = 0; k < 4; k++) raw.fill(k % 2 === 0 ? 255 : 0, k * w * h * 4, (k + 1) * w * h * 4);
       const file = path.join(dir, `flash-${delayMs}.gif`);
-      writeFileSync(file, await sharp(raw, { raw: { width: w, height: h * 4, channels: 4, pageHeight: h } }).gif({ delay: [delayMs, delayMs, delayMs, delayMs], loop: 0 }).toBuffer());
+      writeFileSync(
+        file,
+        await sharp(raw, { raw: { width: w, height: h * 4, channels: 4, pageHeight: h } })
+          .gif({ delay: [delayMs, delayMs, delayMs, delayMs], loop: 0 })
+          .toBuffer(),
+      );
       return file;
     };
     // Amber EL: no persistence to speak of, so the panel follows the art. GIF delays are whole
@@ -242,10 +336,21 @@ describe('cli legibility', () => {
   test('--json: one-cell line pairs keep less contrast through a wider glow [calc]', async () => {
     const dir = mkdtempSync(path.join(os.tmpdir(), 'emberline-cli-leg-'));
     const file = path.join(dir, 'pairs.png');
-    writeFileSync(file, pngOf(640, 480, (x) => (x % 2 === 0 ? [255, 255, 255, 255] : [0, 0, 0, 255])));
+    writeFileSync(
+      file,
+      pngOf(640, 480, (x) => (x % 2 === 0 ? [255, 255, 255, 255] : [0, 0, 0, 255])),
+    );
     const preset = (glowRadiusMm: number) => {
       const p = path.join(dir, `glow-${glowRadiusMm}.json`);
-      writeFileSync(p, JSON.stringify(mergeParams(builtInPresetById('el-amber-640x480.line-art')!.parameters, { source: { fit: 'native' }, glass: { glowRadiusMm, glowShare: 0.9, haloShare: 0 } })));
+      writeFileSync(
+        p,
+        JSON.stringify(
+          mergeParams(builtInPresetById('el-amber-640x480.line-art')!.parameters, {
+            source: { fit: 'native' },
+            glass: { glowRadiusMm, glowShare: 0.9, haloShare: 0 },
+          }),
+        ),
+      );
       return p;
     };
     const sharp0 = JSON.parse((await cli('legibility', file, '--preset', preset(0), '--json')).out);

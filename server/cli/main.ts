@@ -45,7 +45,9 @@ commands:
 function number(value: string | undefined, name: string, min: number, max: number, integer = false): number {
   const n = Number(value);
   if (value === undefined || !Number.isFinite(n) || n < min || n > max || (integer && !Number.isInteger(n))) {
-    throw new UsageError(`--${name} must be ${integer ? 'a whole number' : 'a number'} from ${min} to ${max}, got ${value === undefined ? 'nothing' : `"${value}"`}`);
+    throw new UsageError(
+      `--${name} must be ${integer ? 'a whole number' : 'a number'} from ${min} to ${max}, got ${value === undefined ? 'nothing' : `"${value}"`}`,
+    );
   }
   return n;
 }
@@ -53,7 +55,8 @@ function number(value: string | undefined, name: string, min: number, max: numbe
 async function loadPreset(ref: string): Promise<PanelParams> {
   const builtIn = builtInPresetById(ref);
   if (builtIn) return builtIn.parameters;
-  if (!ref.endsWith('.json')) throw new UsageError(`--preset "${ref}" is neither a built-in preset id nor a .json file; \`presets\` lists the ids`);
+  if (!ref.endsWith('.json'))
+    throw new UsageError(`--preset "${ref}" is neither a built-in preset id nor a .json file; \`presets\` lists the ids`);
   let doc: unknown;
   try {
     doc = JSON.parse(await readFile(ref, 'utf8'));
@@ -62,12 +65,26 @@ async function loadPreset(ref: string): Promise<PanelParams> {
   }
   const params = (doc as { parameters?: unknown })?.parameters ?? doc;
   const parsed = panelParamsSchema.safeParse(params);
-  if (!parsed.success) throw new UsageError(`--preset ${ref} is not valid:\n${issuesOf(parsed.error).map((i) => `  ${i.path}: ${i.message}`).join('\n')}`);
+  if (!parsed.success)
+    throw new UsageError(
+      `--preset ${ref} is not valid:\n${issuesOf(parsed.error)
+        .map((i) => `  ${i.path}: ${i.message}`)
+        .join('\n')}`,
+    );
   return parsed.data;
 }
 
 async function render(args: string[]): Promise<void> {
-  const { values, positionals } = parseArgs({ args, allowPositionals: true, options: { preset: { type: 'string' }, scale: { type: 'string', default: '3' }, frame: { type: 'string', default: '0' }, out: { type: 'string' } } });
+  const { values, positionals } = parseArgs({
+    args,
+    allowPositionals: true,
+    options: {
+      preset: { type: 'string' },
+      scale: { type: 'string', default: '3' },
+      frame: { type: 'string', default: '0' },
+      out: { type: 'string' },
+    },
+  });
   if (positionals.length !== 1) throw new UsageError('render takes one input image');
   if (!values.preset) throw new UsageError('render needs --preset');
   if (!values.out) throw new UsageError('render needs --out <file.png>');
@@ -76,7 +93,12 @@ async function render(args: string[]): Promise<void> {
     throw new UsageError(`cannot read ${positionals[0]}`);
   });
   const started = performance.now();
-  const request = { input, parameters, scale: number(values.scale, 'scale', 1, 8, true), frame: number(values.frame, 'frame', 0, 100000, true) };
+  const request = {
+    input,
+    parameters,
+    scale: number(values.scale, 'scale', 1, 8, true),
+    frame: number(values.frame, 'frame', 0, 100000, true),
+  };
   // The same engine as the server: worker threads, one band of output rows per core.
   const engine = new RenderEngine();
   const { png, width, height } = await engine.render(request).finally(() => engine.close());
@@ -85,7 +107,10 @@ async function render(args: string[]): Promise<void> {
 }
 
 function emission(args: string[]): void {
-  const { values } = parseArgs({ args, options: { peak: { type: 'string' }, fwhm: { type: 'string', default: '0' }, json: { type: 'boolean', default: false } } });
+  const { values } = parseArgs({
+    args,
+    options: { peak: { type: 'string' }, fwhm: { type: 'string', default: '0' }, json: { type: 'boolean', default: false } },
+  });
   const peakNm = number(values.peak, 'peak', 380, 780);
   const fwhmNm = number(values.fwhm, 'fwhm', 0, 200);
   const c = emissionColour(spectrumToXyz([{ peakNm, fwhmNm, weight: 1 }]));
@@ -118,10 +143,20 @@ function timingOf(values: { mode?: string; standard?: string }) {
 }
 
 function timing(args: string[]): void {
-  const { values } = parseArgs({ args, options: { mode: { type: 'string' }, standard: { type: 'string' }, 'dual-scan': { type: 'boolean', default: false }, 'pixels-per-clock': { type: 'string', default: '1' }, json: { type: 'boolean', default: false } } });
+  const { values } = parseArgs({
+    args,
+    options: {
+      mode: { type: 'string' },
+      standard: { type: 'string' },
+      'dual-scan': { type: 'boolean', default: false },
+      'pixels-per-clock': { type: 'string', default: '1' },
+      json: { type: 'boolean', default: false },
+    },
+  });
   const t = timingOf(values);
   const ppc = Number(values['pixels-per-clock']);
-  if (!(PIXELS_PER_CLOCK as readonly number[]).includes(ppc)) throw new UsageError(`--pixels-per-clock must be one of ${PIXELS_PER_CLOCK.join(', ')}, got "${values['pixels-per-clock']}"`);
+  if (!(PIXELS_PER_CLOCK as readonly number[]).includes(ppc))
+    throw new UsageError(`--pixels-per-clock must be one of ${PIXELS_PER_CLOCK.join(', ')}, got "${values['pixels-per-clock']}"`);
   const iface: PanelInterface = { dualScan: values['dual-scan'] ?? false, pixelsPerClock: ppc as PanelInterface['pixelsPerClock'] };
   let panel;
   try {
@@ -131,7 +166,16 @@ function timing(args: string[]): void {
   }
   const f = figures(t);
   const r = (v: number) => Math.round(v * 1e4) / 1e4;
-  const doc = { pixelClockMHz: t.pixelClockMHz, h: t.h, v: t.v, hSyncPositive: t.hSyncPositive, vSyncPositive: t.vSyncPositive, lineRateKHz: r(f.lineRateKHz), refreshHz: r(f.refreshHz), shiftClockMHz: r(panel.shiftClockMHz) };
+  const doc = {
+    pixelClockMHz: t.pixelClockMHz,
+    h: t.h,
+    v: t.v,
+    hSyncPositive: t.hSyncPositive,
+    vSyncPositive: t.vSyncPositive,
+    lineRateKHz: r(f.lineRateKHz),
+    refreshHz: r(f.refreshHz),
+    shiftClockMHz: r(panel.shiftClockMHz),
+  };
   if (values.json) console.log(JSON.stringify(doc));
   else {
     console.log(`${t.name} (${t.origin}): ${t.pixelClockMHz} MHz, ${doc.lineRateKHz} kHz, ${doc.refreshHz} Hz`);
@@ -142,7 +186,10 @@ function timing(args: string[]): void {
 }
 
 function registers(args: string[]): void {
-  const { values } = parseArgs({ args, options: { mode: { type: 'string' }, standard: { type: 'string' }, json: { type: 'boolean', default: false } } });
+  const { values } = parseArgs({
+    args,
+    options: { mode: { type: 'string' }, standard: { type: 'string' }, json: { type: 'boolean', default: false } },
+  });
   let regs;
   try {
     regs = vgaRegisters(timingOf(values));
@@ -157,13 +204,25 @@ function registers(args: string[]): void {
 const oneOf = <T extends string | number>(value: string | undefined, name: string, allowed: readonly T[], fallback?: T): T => {
   if (value === undefined && fallback !== undefined) return fallback;
   const match = allowed.find((a) => String(a) === value);
-  if (match === undefined) throw new UsageError(`--${name} must be one of ${allowed.join(', ')}, got ${value === undefined ? 'nothing' : `"${value}"`}`);
+  if (match === undefined)
+    throw new UsageError(`--${name} must be one of ${allowed.join(', ')}, got ${value === undefined ? 'nothing' : `"${value}"`}`);
   return match;
 };
 
 /** The packed cells of one image through a preset, in a controller's layout, written as bin, Intel HEX or a C header. */
 async function frameDataCommand(args: string[]): Promise<void> {
-  const options = { preset: { type: 'string' }, bits: { type: 'string' }, 'bit-order': { type: 'string' }, 'pixels-per-clock': { type: 'string' }, 'dual-scan': { type: 'string' }, frc: { type: 'string' }, frame: { type: 'string', default: '0' }, name: { type: 'string' }, format: { type: 'string' }, out: { type: 'string' } } as const;
+  const options = {
+    preset: { type: 'string' },
+    bits: { type: 'string' },
+    'bit-order': { type: 'string' },
+    'pixels-per-clock': { type: 'string' },
+    'dual-scan': { type: 'string' },
+    frc: { type: 'string' },
+    frame: { type: 'string', default: '0' },
+    name: { type: 'string' },
+    format: { type: 'string' },
+    out: { type: 'string' },
+  } as const;
   const { values, positionals } = parseArgs({ args, allowPositionals: true, options });
   if (positionals.length !== 1) throw new UsageError('frame-data takes one input image');
   if (!values.preset) throw new UsageError('frame-data needs --preset');
@@ -173,7 +232,12 @@ async function frameDataCommand(args: string[]): Promise<void> {
     bitsPerCell: oneOf(values.bits, 'bits', BITS_PER_CELL),
     bitOrder: oneOf(values['bit-order'], 'bit-order', ['msb', 'lsb'] as const, 'msb'),
     pixelsPerClock: oneOf(values['pixels-per-clock'], 'pixels-per-clock', PIXELS_PER_CLOCK, 1),
-    scan: values['dual-scan'] === undefined ? 'single' : oneOf(values['dual-scan'], 'dual-scan', ['planes', 'interleaved'] as const) === 'planes' ? 'dual-planes' : 'dual-interleaved',
+    scan:
+      values['dual-scan'] === undefined
+        ? 'single'
+        : oneOf(values['dual-scan'], 'dual-scan', ['planes', 'interleaved'] as const) === 'planes'
+          ? 'dual-planes'
+          : 'dual-interleaved',
     frcLevels: values.frc === undefined ? 0 : number(values.frc, 'frc', 2, MAX_FRC_LEVELS, true),
   };
   const parameters = await loadPreset(values.preset);
@@ -190,7 +254,9 @@ async function frameDataCommand(args: string[]): Promise<void> {
   }
   const name = values.name ?? path.basename(values.out).replace(/\.[^.]*$/, '');
   await writeFile(values.out, encodeFrameData(data, format, name));
-  console.error(`wrote ${values.out}: ${FRAME_DATA_FORMAT_INFO[format].label}, ${data.frames} frame${data.frames > 1 ? 's' : ''} of ${data.frameBytes} bytes`);
+  console.error(
+    `wrote ${values.out}: ${FRAME_DATA_FORMAT_INFO[format].label}, ${data.frames} frame${data.frames > 1 ? 's' : ''} of ${data.frameBytes} bytes`,
+  );
   for (const line of data.description) console.error(`  ${line}`);
 }
 
@@ -214,7 +280,11 @@ async function readRomFile(file: string | undefined, tableOffset: number | undef
 
 /** Header, checksum and the VGA parameter table of an option ROM image. */
 async function romInfo(args: string[]): Promise<void> {
-  const { values, positionals } = parseArgs({ args, allowPositionals: true, options: { 'table-offset': { type: 'string' }, json: { type: 'boolean', default: false } } });
+  const { values, positionals } = parseArgs({
+    args,
+    allowPositionals: true,
+    options: { 'table-offset': { type: 'string' }, json: { type: 'boolean', default: false } },
+  });
   if (positionals.length !== 1) throw new UsageError('rom-info takes one ROM image');
   const { info } = await readRomFile(positionals[0], offsetArg(values['table-offset'], 'table-offset'));
   const entries = info.entries.map((e) => ({
@@ -233,13 +303,37 @@ async function romInfo(args: string[]): Promise<void> {
     confidence: e.confidence,
   }));
   if (values.json) {
-    console.log(JSON.stringify({ size: info.size, fileBytes: info.fileBytes, checksumOk: info.checksum.ok, checksum: info.checksum, pci: info.pci, table: info.table, entries, notes: info.notes }));
+    console.log(
+      JSON.stringify({
+        size: info.size,
+        fileBytes: info.fileBytes,
+        checksumOk: info.checksum.ok,
+        checksum: info.checksum,
+        pci: info.pci,
+        table: info.table,
+        entries,
+        notes: info.notes,
+      }),
+    );
     return;
   }
-  console.log(`${info.size} bytes (${info.size / 512} blocks of 512); checksum ${info.checksum.ok ? 'good (sum 00)' : `BAD (sum ${hex2(info.checksum.sum)}, should be 00)`}`);
-  if (info.pci) console.log(`PCI data at ${hex(info.pci.offset)}: vendor ${hex(info.pci.vendorId)}, device ${hex(info.pci.deviceId)}, class ${info.pci.classCode.toString(16).padStart(6, '0')}`);
-  console.log(info.table ? `parameter table at ${hex(info.table.offset)} (${info.table.from === 'pointer' ? `from the save pointer table at ${hex(info.table.pointerAt!)}` : 'offset given'})` : 'parameter table: not pointed at; entries found by scanning');
-  for (const e of info.entries) if (e.status !== 'empty') console.log(`  ${hex2(e.index)}h at ${hex(e.offset)}  ${(e.standardMode ?? '').padEnd(26)} ${e.status === 'ok' ? describeEntry(e) : `unclear: ${e.decoded!.problems.join('; ')}`}`);
+  console.log(
+    `${info.size} bytes (${info.size / 512} blocks of 512); checksum ${info.checksum.ok ? 'good (sum 00)' : `BAD (sum ${hex2(info.checksum.sum)}, should be 00)`}`,
+  );
+  if (info.pci)
+    console.log(
+      `PCI data at ${hex(info.pci.offset)}: vendor ${hex(info.pci.vendorId)}, device ${hex(info.pci.deviceId)}, class ${info.pci.classCode.toString(16).padStart(6, '0')}`,
+    );
+  console.log(
+    info.table
+      ? `parameter table at ${hex(info.table.offset)} (${info.table.from === 'pointer' ? `from the save pointer table at ${hex(info.table.pointerAt!)}` : 'offset given'})`
+      : 'parameter table: not pointed at; entries found by scanning',
+  );
+  for (const e of info.entries)
+    if (e.status !== 'empty')
+      console.log(
+        `  ${hex2(e.index)}h at ${hex(e.offset)}  ${(e.standardMode ?? '').padEnd(26)} ${e.status === 'ok' ? describeEntry(e) : `unclear: ${e.decoded!.problems.join('; ')}`}`,
+      );
   const empty = info.entries.filter((e) => e.status === 'empty').length;
   if (empty) console.log(`  (${empty} empty entries)`);
   for (const n of info.notes) console.log(`note: ${n}`);
@@ -247,44 +341,90 @@ async function romInfo(args: string[]): Promise<void> {
 
 /** Writes a timing into one entry of an image, fixes the checksum, and prints the byte diff. */
 async function romPatch(args: string[]): Promise<void> {
-  const { values, positionals } = parseArgs({ args, allowPositionals: true, options: { entry: { type: 'string' }, mode: { type: 'string' }, standard: { type: 'string' }, 'table-offset': { type: 'string' }, 'checksum-at': { type: 'string' }, out: { type: 'string' }, json: { type: 'boolean', default: false } } });
+  const { values, positionals } = parseArgs({
+    args,
+    allowPositionals: true,
+    options: {
+      entry: { type: 'string' },
+      mode: { type: 'string' },
+      standard: { type: 'string' },
+      'table-offset': { type: 'string' },
+      'checksum-at': { type: 'string' },
+      out: { type: 'string' },
+      json: { type: 'boolean', default: false },
+    },
+  });
   if (positionals.length !== 1) throw new UsageError('rom-patch takes one ROM image');
   const entry = offsetArg(values.entry, 'entry');
   if (entry === undefined) throw new UsageError('rom-patch needs --entry N (the index rom-info lists)');
   if (!values.out) throw new UsageError('rom-patch needs --out <patched.bin>');
-  if (path.resolve(values.out) === path.resolve(positionals[0])) throw new UsageError('--out must be a new file: keep the original image beside the patched one');
+  if (path.resolve(values.out) === path.resolve(positionals[0]))
+    throw new UsageError('--out must be a new file: keep the original image beside the patched one');
   const t = timingOf(values);
   const { bytes, info } = await readRomFile(positionals[0], offsetArg(values['table-offset'], 'table-offset'));
   let patch;
   try {
     patch = patchRom(bytes, info, entry, t, { checksumAt: offsetArg(values['checksum-at'], 'checksum-at') });
   } catch (err) {
-    throw err instanceof RangeError && !(err instanceof RomError) ? new UsageError(`a VGA CRT controller cannot hold ${t.name}: ${err.message}`) : err;
+    throw err instanceof RangeError && !(err instanceof RomError)
+      ? new UsageError(`a VGA CRT controller cannot hold ${t.name}: ${err.message}`)
+      : err;
   }
   await writeFile(values.out, patch.bytes);
   if (values.json) {
-    console.log(JSON.stringify({ entry, offset: info.entries.find((e) => e.index === entry)!.offset, mode: t.name, changes: patch.changes, checksum: patch.checksum, notes: patch.notes }));
+    console.log(
+      JSON.stringify({
+        entry,
+        offset: info.entries.find((e) => e.index === entry)!.offset,
+        mode: t.name,
+        changes: patch.changes,
+        checksum: patch.checksum,
+        notes: patch.notes,
+      }),
+    );
     return;
   }
   console.log(`entry ${hex2(entry)}h with ${t.name}: ${patch.changes.length} bytes changed, written to ${values.out}`);
   for (const c of patch.changes) console.log(`  ${hex(c.offset)}  ${hex2(c.old)} → ${hex2(c.new)}  ${c.field}`);
   for (const n of patch.notes) console.log(`note: ${n}`);
-  console.log('Keep the original image, verify the burned chip against the file, and have a way to recover (a second card or a programmer) before you flash.');
+  console.log(
+    'Keep the original image, verify the burned chip against the file, and have a way to recover (a second card or a programmer) before you flash.',
+  );
 }
 
 /** Minutes of arc a cell subtends at a distance, and whether 20/20 vision resolves the cells. */
 function acuityCommand(args: string[]): void {
-  const { values } = parseArgs({ args, options: { 'pitch-mm': { type: 'string' }, 'distance-mm': { type: 'string' }, json: { type: 'boolean', default: false } } });
+  const { values } = parseArgs({
+    args,
+    options: { 'pitch-mm': { type: 'string' }, 'distance-mm': { type: 'string' }, json: { type: 'boolean', default: false } },
+  });
   const a = acuity(number(values['pitch-mm'], 'pitch-mm', 0.001, 1000), number(values['distance-mm'], 'distance-mm', 1, 1e6));
   const r = (v: number) => Math.round(v * 1e4) / 1e4;
-  const doc = { arcminPerCell: r(a.arcminPerCell), cellsPerDegree: r(a.cellsPerDegree), resolvable: a.resolvable, limitDistanceMm: r(a.limitDistanceMm) };
+  const doc = {
+    arcminPerCell: r(a.arcminPerCell),
+    cellsPerDegree: r(a.cellsPerDegree),
+    resolvable: a.resolvable,
+    limitDistanceMm: r(a.limitDistanceMm),
+  };
   if (values.json) console.log(JSON.stringify(doc));
-  else console.log(`${doc.arcminPerCell}′ a cell (${doc.cellsPerDegree} cells a degree): ${a.resolvable ? 'the cells are resolvable' : 'the cells blend'} at 20/20; they blend beyond ${Math.round(a.limitDistanceMm)} mm`);
+  else
+    console.log(
+      `${doc.arcminPerCell}′ a cell (${doc.cellsPerDegree} cells a degree): ${a.resolvable ? 'the cells are resolvable' : 'the cells blend'} at 20/20; they blend beyond ${Math.round(a.limitDistanceMm)} mm`,
+    );
 }
 
 /** The flash check of an animation on a panel type, on the light the panel emits. */
 async function flashCommand(args: string[]): Promise<void> {
-  const { values, positionals } = parseArgs({ args, allowPositionals: true, options: { panel: { type: 'string' }, preset: { type: 'string' }, 'distance-mm': { type: 'string', default: '600' }, json: { type: 'boolean', default: false } } });
+  const { values, positionals } = parseArgs({
+    args,
+    allowPositionals: true,
+    options: {
+      panel: { type: 'string' },
+      preset: { type: 'string' },
+      'distance-mm': { type: 'string', default: '600' },
+      json: { type: 'boolean', default: false },
+    },
+  });
   if (positionals.length !== 1) throw new UsageError('flash takes one animation');
   if (!values.panel) throw new UsageError('flash needs --panel <panel type id>; `presets` lists them');
   const type = PANEL_TYPES.find((t) => t.id === values.panel);
@@ -296,19 +436,38 @@ async function flashCommand(args: string[]): Promise<void> {
   });
   const { frames } = await decodeImage(input);
   const report = flashCheck(frames, parameters, distanceMm);
-  const doc = { maxFlashesPerSecond: report.maxFlashesPerSecond, generalFlashFail: report.generalFlashFail, redFlashFail: report.redFlashFail, bt1702Fail: report.bt1702Fail, pass: report.pass, flashingSr: Math.round(report.flashingSr * 1e5) / 1e5, thresholdSr: report.thresholdSr, frames: frames.length };
+  const doc = {
+    maxFlashesPerSecond: report.maxFlashesPerSecond,
+    generalFlashFail: report.generalFlashFail,
+    redFlashFail: report.redFlashFail,
+    bt1702Fail: report.bt1702Fail,
+    pass: report.pass,
+    flashingSr: Math.round(report.flashingSr * 1e5) / 1e5,
+    thresholdSr: report.thresholdSr,
+    frames: frames.length,
+  };
   if (values.json) {
     console.log(JSON.stringify(doc));
     return;
   }
-  console.log(`${frames.length} frames on ${type.name} at ${distanceMm} mm: at most ${doc.maxFlashesPerSecond} flashes a second in one place`);
-  console.log(`  general flash (WCAG 2.2, 2.3.1): ${report.generalFlashFail ? 'FAILS' : 'passes'}; red flash: ${report.redFlashFail ? 'FAILS' : 'passes'}; ITU-R BT.1702: ${report.bt1702Fail ? 'FAILS' : 'passes'}`);
-  console.log('  This check informs; it does not certify. Avoid flashing content where you can; the figures do not replace an assessment by a specialist.');
+  console.log(
+    `${frames.length} frames on ${type.name} at ${distanceMm} mm: at most ${doc.maxFlashesPerSecond} flashes a second in one place`,
+  );
+  console.log(
+    `  general flash (WCAG 2.2, 2.3.1): ${report.generalFlashFail ? 'FAILS' : 'passes'}; red flash: ${report.redFlashFail ? 'FAILS' : 'passes'}; ITU-R BT.1702: ${report.bt1702Fail ? 'FAILS' : 'passes'}`,
+  );
+  console.log(
+    '  This check informs; it does not certify. Avoid flashing content where you can; the figures do not replace an assessment by a specialist.',
+  );
 }
 
 /** How much one-cell contrast an image keeps through a look, on the simulated output. */
 async function legibilityCommand(args: string[]): Promise<void> {
-  const { values, positionals } = parseArgs({ args, allowPositionals: true, options: { preset: { type: 'string' }, frame: { type: 'string', default: '0' }, json: { type: 'boolean', default: false } } });
+  const { values, positionals } = parseArgs({
+    args,
+    allowPositionals: true,
+    options: { preset: { type: 'string' }, frame: { type: 'string', default: '0' }, json: { type: 'boolean', default: false } },
+  });
   if (positionals.length !== 1) throw new UsageError('legibility takes one image');
   if (!values.preset) throw new UsageError('legibility needs --preset');
   const parameters = await loadPreset(values.preset);
@@ -320,7 +479,12 @@ async function legibilityCommand(args: string[]): Promise<void> {
   const l = legibility(panelEmissions(frames, parameters)[k], parameters);
   const doc = { score: Math.round(l.score * 1e4) / 1e4, lostShare: Math.round(l.lostShare * 1e4) / 1e4, edges: l.edges };
   if (values.json) console.log(JSON.stringify(doc));
-  else console.log(l.edges ? `${Math.round(l.score * 100)} % of one-cell contrast kept; ${(l.lostShare * 100).toFixed(1)} % of ${l.edges} detail edges below ${LOST_CONTRAST} Michelson contrast` : 'no one-cell detail in this image');
+  else
+    console.log(
+      l.edges
+        ? `${Math.round(l.score * 100)} % of one-cell contrast kept; ${(l.lostShare * 100).toFixed(1)} % of ${l.edges} detail edges below ${LOST_CONTRAST} Michelson contrast`
+        : 'no one-cell detail in this image',
+    );
 }
 
 /** Runs one CLI command; returns the process exit code. */

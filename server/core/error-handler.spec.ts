@@ -43,11 +43,20 @@ describe('errorHandler', () => {
   // The shapes pg and the session store raise while PostgreSQL is away (issue "Hardening", item 9).
   test.each([
     ['pg refused', Object.assign(new Error('connect ECONNREFUSED 127.0.0.1:54329'), { code: 'ECONNREFUSED' })],
-    ['pg AggregateError (IPv4 and IPv6 both refused)', Object.assign(new AggregateError([Object.assign(new Error('x'), { code: 'ECONNREFUSED' })], ''), {})],
-    ['server shutting down (SQLSTATE 57P01)', Object.assign(new Error('terminating connection due to administrator command'), { code: '57P01' })],
+    [
+      'pg AggregateError (IPv4 and IPv6 both refused)',
+      Object.assign(new AggregateError([Object.assign(new Error('x'), { code: 'ECONNREFUSED' })], ''), {}),
+    ],
+    [
+      'server shutting down (SQLSTATE 57P01)',
+      Object.assign(new Error('terminating connection due to administrator command'), { code: '57P01' }),
+    ],
     ['pool connect timeout', new Error('timeout exceeded when trying to connect')],
     ['connection terminated', new Error('Connection terminated unexpectedly')],
-    ['Sequelize wrapper', Object.assign(new Error('wrapped'), { name: 'SequelizeDatabaseError', parent: Object.assign(new Error('x'), { code: '57P03' }) })],
+    [
+      'Sequelize wrapper',
+      Object.assign(new Error('wrapped'), { name: 'SequelizeDatabaseError', parent: Object.assign(new Error('x'), { code: '57P03' }) }),
+    ],
   ])('%s is recognised as an outage', (_name, err) => {
     expect(isDatabaseDown(err)).toBe(true);
   });

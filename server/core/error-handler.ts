@@ -12,7 +12,12 @@ export const apiNotFound: RequestHandler = (req, res) => {
 /** The body and headers of every "database away" answer (health, routes, the session store). */
 export function databaseUnavailable(res: Parameters<RequestHandler>[1]): void {
   res.set('Retry-After', String(OUTAGE_RETRY_AFTER_S));
-  res.status(503).json({ error: { code: 'database_unavailable', message: 'The database is briefly unavailable. Try again in a few seconds; nothing was changed.' } });
+  res.status(503).json({
+    error: {
+      code: 'database_unavailable',
+      message: 'The database is briefly unavailable. Try again in a few seconds; nothing was changed.',
+    },
+  });
 }
 
 /**
@@ -39,7 +44,11 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   if (status >= 400 && status < 500) {
     const code = err.type === 'entity.too.large' ? 'body_too_large' : err.type === 'entity.parse.failed' ? 'bad_json' : 'bad_request';
     const message =
-      code === 'body_too_large' ? 'The request body is larger than allowed.' : code === 'bad_json' ? 'The request body is not valid JSON.' : 'The request could not be processed.';
+      code === 'body_too_large'
+        ? 'The request body is larger than allowed.'
+        : code === 'bad_json'
+          ? 'The request body is not valid JSON.'
+          : 'The request could not be processed.';
     res.status(status).json({ error: { code, message } });
     return;
   }
@@ -51,10 +60,30 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   res.status(500).json({ error: { code: 'internal', message: 'Something went wrong on our side. The error was logged.' } });
 };
 
-const SEQUELIZE_DOWN = ['SequelizeConnectionError', 'SequelizeConnectionRefusedError', 'SequelizeConnectionAcquireTimeoutError', 'SequelizeHostNotReachableError', 'SequelizeConnectionTimedOutError'];
+const SEQUELIZE_DOWN = [
+  'SequelizeConnectionError',
+  'SequelizeConnectionRefusedError',
+  'SequelizeConnectionAcquireTimeoutError',
+  'SequelizeHostNotReachableError',
+  'SequelizeConnectionTimedOutError',
+];
 /** Socket errors and PostgreSQL's "shutting down / cannot connect now / connection failure" SQLSTATEs. */
-const PG_DOWN_CODES = ['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', '57P01', '57P02', '57P03', '08000', '08003', '08006', '08001', '08004'];
-const PG_DOWN_MESSAGES = /Connection terminated|timeout exceeded when trying to connect|Client has encountered a connection error|the database system is (starting up|shutting down)/i;
+const PG_DOWN_CODES = [
+  'ECONNREFUSED',
+  'ECONNRESET',
+  'ETIMEDOUT',
+  'EPIPE',
+  '57P01',
+  '57P02',
+  '57P03',
+  '08000',
+  '08003',
+  '08006',
+  '08001',
+  '08004',
+];
+const PG_DOWN_MESSAGES =
+  /Connection terminated|timeout exceeded when trying to connect|Client has encountered a connection error|the database system is (starting up|shutting down)/i;
 
 /** True for any error that means "PostgreSQL is not reachable right now", whoever raised it. */
 export function isDatabaseDown(err: unknown): boolean {
@@ -65,5 +94,8 @@ export function isDatabaseDown(err: unknown): boolean {
   if (e.message && PG_DOWN_MESSAGES.test(e.message)) return true;
   // AggregateError (connecting to both 127.0.0.1 and ::1) and Sequelize's wrapped originals.
   if (Array.isArray(e.errors) && e.errors.some(isDatabaseDown)) return true;
-  return (e.parent !== undefined && e.parent !== err && isDatabaseDown(e.parent)) || (e.original !== undefined && e.original !== err && isDatabaseDown(e.original));
+  return (
+    (e.parent !== undefined && e.parent !== err && isDatabaseDown(e.parent)) ||
+    (e.original !== undefined && e.original !== err && isDatabaseDown(e.original))
+  );
 }

@@ -3,10 +3,7 @@ import { roleAtLeast, type Role } from '../../shared/model/roles';
 import { forbidden, notFound, unauthenticated } from './app-error';
 
 /** Who may call a route. Every /api route declares one; a route without one is a test failure. */
-export type Policy =
-  | { kind: 'public' }
-  | { kind: 'signedIn' }
-  | { kind: 'studio'; role: Role };
+export type Policy = { kind: 'public' } | { kind: 'signedIn' } | { kind: 'studio'; role: Role };
 
 export const POLICY = Symbol('emberline.policy');
 

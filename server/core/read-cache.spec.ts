@@ -44,7 +44,8 @@ test('a read cache keeps within its count and size bounds, oldest out first', as
 });
 
 test('the session cache never serves a session past its stored expiry, and forgets an account at once', () => {
-  const sess = (userId: string, expiresInMs: number) => ({ cookie: { expires: new Date(Date.now() + expiresInMs), originalMaxAge: expiresInMs }, passport: { user: { id: userId } } }) as never;
+  const sess = (userId: string, expiresInMs: number) =>
+    ({ cookie: { expires: new Date(Date.now() + expiresInMs), originalMaxAge: expiresInMs }, passport: { user: { id: userId } } }) as never;
   sessionCache.write('s1', sess('u1', 60_000), Date.now() + 60_000);
   sessionCache.write('s2', sess('u1', 60_000), Date.now() + 60_000);
   sessionCache.write('s3', sess('u2', 60_000), Date.now() + 60_000);

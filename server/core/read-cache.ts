@@ -4,7 +4,15 @@ type WriteOptions = { transaction?: Transaction | null } | undefined;
 /** The part of a Sequelize model class the cache hooks into. */
 type Hookable = { addHook(hook: string, name: string, fn: (...args: unknown[]) => void): void };
 
-const WRITE_HOOKS = ['afterCreate', 'afterBulkCreate', 'afterUpdate', 'afterBulkUpdate', 'afterDestroy', 'afterBulkDestroy', 'afterUpsert'] as const;
+const WRITE_HOOKS = [
+  'afterCreate',
+  'afterBulkCreate',
+  'afterUpdate',
+  'afterBulkUpdate',
+  'afterDestroy',
+  'afterBulkDestroy',
+  'afterUpsert',
+] as const;
 
 /**
  * Answers to hot reads (a member's role, a studio's library) kept in memory for a few seconds, so

@@ -18,7 +18,10 @@ export function nulPath(value: unknown, path = ''): string | null {
 /** Throws 400 when the body or query holds a NUL character (PostgreSQL text cannot store it). */
 export function assertNoNul(value: unknown, where: string): void {
   const path = nulPath(value);
-  if (path) throw new AppError(400, 'invalid_input', `The ${where} field "${path}" contains a NUL character. Remove it and try again.`, { issues: [{ path, message: 'must not contain a NUL character' }] });
+  if (path)
+    throw new AppError(400, 'invalid_input', `The ${where} field "${path}" contains a NUL character. Remove it and try again.`, {
+      issues: [{ path, message: 'must not contain a NUL character' }],
+    });
 }
 
 /** Refuses NUL characters anywhere in a JSON body or the query string, before any route runs. */

@@ -9,12 +9,21 @@ import { createHarness, TestClient, type Harness } from '../testing/harness';
 let h: Harness;
 beforeAll(async () => {
   const staticDir = mkdtempSync(path.join(os.tmpdir(), 'emberline-page-'));
-  writeFileSync(path.join(staticDir, 'index.html'), '<!doctype html><html><head><meta name="csp" content="__CSP_NONCE__"></head><body></body></html>');
+  writeFileSync(
+    path.join(staticDir, 'index.html'),
+    '<!doctype html><html><head><meta name="csp" content="__CSP_NONCE__"></head><body></body></html>',
+  );
   h = await createHarness({ staticDir });
 });
 afterAll(() => h.close());
 
-const directivesOf = (csp: string) => new Map(csp.split(';').map((d) => d.trim().split(/\s+/)).map(([name, ...values]) => [name, values]));
+const directivesOf = (csp: string) =>
+  new Map(
+    csp
+      .split(';')
+      .map((d) => d.trim().split(/\s+/))
+      .map(([name, ...values]) => [name, values]),
+  );
 
 test('the page: scripts from our origin only, styles by a fresh nonce that the page carries', async () => {
   const client = new TestClient(h.app);
@@ -24,7 +33,10 @@ test('the page: scripts from our origin only, styles by a fresh nonce that the p
   expect(directives.get('script-src')).toEqual(["'self'"]);
   expect(directives.get('object-src')).toEqual(["'none'"]);
   expect(directives.get('frame-ancestors')).toEqual(["'none'"]);
-  const nonce = directives.get('style-src')!.find((v) => v.startsWith("'nonce-"))!.slice(7, -1);
+  const nonce = directives
+    .get('style-src')!
+    .find((v) => v.startsWith("'nonce-"))!
+    .slice(7, -1);
   expect(nonce).toMatch(/^[A-Za-z0-9+/]{22}==$/);
   expect(first.text).toContain(`content="${nonce}"`);
   // A nonce used twice would be no nonce at all.

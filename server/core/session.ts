@@ -40,7 +40,10 @@ class SessionCache {
   /** Counts forgets: a read that started before one may have fetched what it removed. */
   private generation = 0;
 
-  constructor(private readonly ttlMs: number, private readonly max: number) {}
+  constructor(
+    private readonly ttlMs: number,
+    private readonly max: number,
+  ) {}
 
   read(sid: string, now = Date.now()): StoredSession | undefined {
     const e = this.entries.get(sid);
@@ -180,7 +183,9 @@ export const csrfProtection: RequestHandler[] = [
   (req, res, next) =>
     csrf.csrfSynchronisedProtection(req, res, (err?: unknown) => {
       if (err) {
-        res.status(403).json({ error: { code: 'csrf_invalid', message: 'The security token is missing or stale. Reload the page and try again.' } });
+        res
+          .status(403)
+          .json({ error: { code: 'csrf_invalid', message: 'The security token is missing or stale. Reload the page and try again.' } });
         return;
       }
       next();

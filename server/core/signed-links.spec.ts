@@ -7,7 +7,9 @@ describe('signed download links', () => {
     expect(verifyDownload('secret', signDownload('secret', link), 999_999)).toEqual(link);
   });
   it('answer 410 once expired', () => {
-    expect(() => verifyDownload('secret', signDownload('secret', link), 1_000_001)).toThrow(expect.objectContaining({ status: 410, code: 'link_expired' }));
+    expect(() => verifyDownload('secret', signDownload('secret', link), 1_000_001)).toThrow(
+      expect.objectContaining({ status: 410, code: 'link_expired' }),
+    );
   });
   it('answer 404 for another secret, a changed payload or a changed signature', () => {
     const token = signDownload('secret', link);

@@ -24,8 +24,10 @@ export function verifyDownload(secret: string, token: string, now = Date.now()):
   const [body, sig] = token.split('.');
   const given = Buffer.from(sig ?? '', 'base64url');
   const expected = mac(secret, body ?? '');
-  if (!body || given.length !== expected.length || !timingSafeEqual(given, expected)) throw new AppError(404, 'not_found', 'This download link is not valid. Open the export in Emberline to download it.');
+  if (!body || given.length !== expected.length || !timingSafeEqual(given, expected))
+    throw new AppError(404, 'not_found', 'This download link is not valid. Open the export in Emberline to download it.');
   const d = JSON.parse(Buffer.from(body, 'base64url').toString('utf8')) as SignedDownload;
-  if (now > d.expiresAt) throw new AppError(410, 'link_expired', 'This download link has expired. Open the export in Emberline again for a fresh one.');
+  if (now > d.expiresAt)
+    throw new AppError(410, 'link_expired', 'This download link has expired. Open the export in Emberline again for a fresh one.');
   return d;
 }

@@ -24,9 +24,18 @@ export const uploadOne: RequestHandler = (req, res, next) =>
       return next();
     }
     if (err instanceof multer.MulterError) {
-      if (err.code === 'LIMIT_FILE_SIZE') return next(new AppError(413, 'file_too_large', `The file is larger than the limit of ${IMAGE_LIMITS.maxBytes / 1024 / 1024} MiB.`));
+      if (err.code === 'LIMIT_FILE_SIZE')
+        return next(
+          new AppError(413, 'file_too_large', `The file is larger than the limit of ${IMAGE_LIMITS.maxBytes / 1024 / 1024} MiB.`),
+        );
       return next(new AppError(400, 'bad_upload', `The upload was refused: ${err.message}${err.field ? ` (${err.field})` : ''}.`));
     }
     // busboy's parse errors (an unterminated or malformed multipart body) are the client's.
-    next(new AppError(400, 'bad_upload', `The upload could not be read: ${(err as Error).message ?? 'malformed multipart body'}. Send the file again as multipart/form-data.`));
+    next(
+      new AppError(
+        400,
+        'bad_upload',
+        `The upload could not be read: ${(err as Error).message ?? 'malformed multipart body'}. Send the file again as multipart/form-data.`,
+      ),
+    );
   });

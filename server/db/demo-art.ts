@@ -5,7 +5,10 @@ import { pngOf } from '../render/png-of';
 /** A grayscale canvas for the demo drawings (0–255 per pixel). */
 class Sketch {
   readonly px: Uint8Array;
-  constructor(readonly width: number, readonly height: number) {
+  constructor(
+    readonly width: number,
+    readonly height: number,
+  ) {
     this.px = new Uint8Array(width * height);
   }
   set(x: number, y: number, v: number): void {
@@ -20,7 +23,9 @@ class Sketch {
   text(s: string, x: number, y: number, scale: number, v: number): void {
     [...s.toUpperCase()].forEach((ch, k) => {
       const glyph = EMBER_5X7[ch] ?? EMBER_5X7['?'];
-      glyph.forEach((row, gy) => [...row].forEach((c, gx) => c === '#' && this.rect(x + (k * 6 + gx) * scale, y + gy * scale, scale, scale, v)));
+      glyph.forEach((row, gy) =>
+        [...row].forEach((c, gx) => c === '#' && this.rect(x + (k * 6 + gx) * scale, y + gy * scale, scale, scale, v)),
+      );
     });
   }
   png(): Buffer {
@@ -51,8 +56,18 @@ function walkFrame(k: number): Sketch {
   const s = new Sketch(32, 32);
   s.disc(16, 6, 4, 255);
   s.rect(14, 11, 5, 10, 255);
-  const legs = [[-4, 4], [-1, 1], [4, -4], [1, -1]][k];
-  const arms = [[3, -3], [1, -1], [-3, 3], [-1, 1]][k];
+  const legs = [
+    [-4, 4],
+    [-1, 1],
+    [4, -4],
+    [1, -1],
+  ][k];
+  const arms = [
+    [3, -3],
+    [1, -1],
+    [-3, 3],
+    [-1, 1],
+  ][k];
   for (let t = 0; t < 10; t++) {
     s.set(15 + Math.round((legs[0] * t) / 10), 21 + t, 255);
     s.set(17 + Math.round((legs[1] * t) / 10), 21 + t, 255);
@@ -69,7 +84,9 @@ async function walkCycle(): Promise<Buffer> {
   const frames = [0, 1, 2, 3].map(walkFrame);
   const raw = Buffer.alloc(32 * 32 * 4 * 4);
   frames.forEach((f, k) => f.px.forEach((v, i) => raw.set([v, v, v, 255], (k * 1024 + i) * 4)));
-  return sharp(raw, { raw: { width: 32, height: 128, channels: 4, pageHeight: 32 } }).gif({ delay: [120, 120, 120, 120], loop: 0 }).toBuffer();
+  return sharp(raw, { raw: { width: 32, height: 128, channels: 4, pageHeight: 32 } })
+    .gif({ delay: [120, 120, 120, 120], loop: 0 })
+    .toBuffer();
 }
 
 /** The HUD font sheet: every glyph of Ember 5×7 on an 8 × 8 grid, 16 to a row. */
@@ -86,7 +103,14 @@ function comicStill(): Buffer {
   for (let y = 0; y < 160; y++) for (let x = 0; x < 320; x++) s.set(x, y, Math.round((1 - y / 160) * 70 + ((x * 7 + y * 13) % 9)));
   s.disc(250, 45, 22, 240);
   s.disc(240, 40, 20, 60);
-  const roofs = [[0, 110, 60], [60, 90, 50], [110, 120, 40], [150, 80, 70], [220, 105, 50], [270, 95, 50]];
+  const roofs = [
+    [0, 110, 60],
+    [60, 90, 50],
+    [110, 120, 40],
+    [150, 80, 70],
+    [220, 105, 50],
+    [270, 95, 50],
+  ];
   for (const [x, top, w] of roofs) {
     s.rect(x, top, w, 240 - top, 20);
     for (let wy = top + 10; wy < 200; wy += 18) for (let wx = x + 8; wx < x + w - 8; wx += 14) if ((wx + wy) % 3) s.rect(wx, wy, 6, 8, 200);
@@ -101,7 +125,9 @@ function comicStill(): Buffer {
 }
 
 /** The demo artworks of the fictional studio, drawn by code here. */
-export async function demoArtworks(): Promise<{ name: string; file: string; bytes: Buffer; sheet?: { frameWidth: number; frameHeight: number; frameDelayMs: number } }[]> {
+export async function demoArtworks(): Promise<
+  { name: string; file: string; bytes: Buffer; sheet?: { frameWidth: number; frameHeight: number; frameDelayMs: number } }[]
+> {
   return [
     { name: 'Title screen', file: 'title-screen.png', bytes: titleScreen() },
     { name: 'Walk cycle', file: 'walk-cycle.gif', bytes: await walkCycle() },

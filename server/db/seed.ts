@@ -45,27 +45,51 @@ export const DEMO_ROM_ID = 'e0b1a5e5-0000-4000-8000-00000000b001';
 async function seedDemoRom(sequelize: Sequelize): Promise<void> {
   await sequelize.transaction(async (transaction) => {
     await sequelize.query('SELECT pg_advisory_xact_lock(424243)', { transaction });
-    const [[done]] = (await sequelize.query('SELECT 1 AS seeded FROM seed_markers WHERE name = $1', { bind: [DEMO_ROM_MARKER], transaction })) as [unknown[], unknown];
+    const [[done]] = (await sequelize.query('SELECT 1 AS seeded FROM seed_markers WHERE name = $1', {
+      bind: [DEMO_ROM_MARKER],
+      transaction,
+    })) as [unknown[], unknown];
     if (done) return;
     if ((await Studio.findByPk(DEMO_STUDIO_ID, { transaction })) && !(await VideoRom.findByPk(DEMO_ROM_ID, { transaction }))) {
       const bytes = Buffer.from(syntheticRom());
-      await VideoRom.create({ id: DEMO_ROM_ID, studioId: DEMO_STUDIO_ID, name: 'Sample VGA card (demo)', bytes, size: bytes.length, sha256: createHash('sha256').update(bytes).digest('hex'), patchedFromId: null, patch: null, createdById: DEMO_ACCOUNTS[0].id }, { transaction });
+      await VideoRom.create(
+        {
+          id: DEMO_ROM_ID,
+          studioId: DEMO_STUDIO_ID,
+          name: 'Sample VGA card (demo)',
+          bytes,
+          size: bytes.length,
+          sha256: createHash('sha256').update(bytes).digest('hex'),
+          patchedFromId: null,
+          patch: null,
+          createdById: DEMO_ACCOUNTS[0].id,
+        },
+        { transaction },
+      );
     }
     await sequelize.query('INSERT INTO seed_markers (name) VALUES ($1)', { bind: [DEMO_ROM_MARKER], transaction });
   });
 }
 
 async function seedDemoStudio(sequelize: Sequelize, artworks?: ArtworksService): Promise<boolean> {
-  const [[done]] = (await sequelize.query('SELECT 1 AS seeded FROM seed_markers WHERE name = $1', { bind: [DEMO_MARKER] })) as [unknown[], unknown];
+  const [[done]] = (await sequelize.query('SELECT 1 AS seeded FROM seed_markers WHERE name = $1', { bind: [DEMO_MARKER] })) as [
+    unknown[],
+    unknown,
+  ];
   if (done) return false;
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   const art = artworks ? await demoArtworks() : [];
   await sequelize.transaction(async (transaction) => {
     await sequelize.query('SELECT pg_advisory_xact_lock(424243)', { transaction });
-    const [[again]] = (await sequelize.query('SELECT 1 AS seeded FROM seed_markers WHERE name = $1', { bind: [DEMO_MARKER], transaction })) as [unknown[], unknown];
+    const [[again]] = (await sequelize.query('SELECT 1 AS seeded FROM seed_markers WHERE name = $1', {
+      bind: [DEMO_MARKER],
+      transaction,
+    })) as [unknown[], unknown];
     if (again) return;
     // A database from before the marker existed already has its demo rows: record it and touch nothing.
-    const earlier = (await Studio.findByPk(DEMO_STUDIO_ID, { transaction })) ?? (await User.findOne({ where: { email: DEMO_ACCOUNTS.map((a) => a.email) }, transaction }));
+    const earlier =
+      (await Studio.findByPk(DEMO_STUDIO_ID, { transaction })) ??
+      (await User.findOne({ where: { email: DEMO_ACCOUNTS.map((a) => a.email) }, transaction }));
     if (earlier) {
       console.log('[seed] demo accounts exist from an earlier version; leaving them as they are');
     } else {
@@ -79,7 +103,10 @@ async function seedDemoStudio(sequelize: Sequelize, artworks?: ArtworksService):
 async function seedRows(transaction: Transaction, passwordHash: string, art: DemoArt[], artworks?: ArtworksService): Promise<void> {
   await Studio.create({ id: DEMO_STUDIO_ID, name: DEMO_STUDIO }, { transaction });
   for (const account of DEMO_ACCOUNTS) {
-    await User.create({ id: account.id, email: account.email, displayName: account.displayName, passwordHash, emailVerifiedAt: new Date() }, { transaction });
+    await User.create(
+      { id: account.id, email: account.email, displayName: account.displayName, passwordHash, emailVerifiedAt: new Date() },
+      { transaction },
+    );
     await Membership.create({ studioId: DEMO_STUDIO_ID, userId: account.id, role: account.role }, { transaction });
   }
   const ownerId = DEMO_ACCOUNTS[0].id;

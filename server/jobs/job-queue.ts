@@ -61,7 +61,12 @@ export class JobQueue {
     this.started ??= (async () => {
       await this.boss.start();
       for (const name of Object.values(QUEUES)) {
-        await this.boss.createQueue(name, { name, retryLimit: this.timing.retries, retryDelay: 1, expireInSeconds: this.timing.expireSeconds });
+        await this.boss.createQueue(name, {
+          name,
+          retryLimit: this.timing.retries,
+          retryDelay: 1,
+          expireInSeconds: this.timing.expireSeconds,
+        });
       }
     })().catch((err) => {
       this.started = null;
@@ -86,7 +91,14 @@ export class JobQueue {
 
   /** Stops taking jobs, lets the one running finish (up to `timeoutMs`), and closes the connections. */
   async stop(timeoutMs = 10_000): Promise<void> {
-    if (!this.started || !(await this.started.then(() => true, () => false))) return;
+    if (
+      !this.started ||
+      !(await this.started.then(
+        () => true,
+        () => false,
+      ))
+    )
+      return;
     await this.boss.stop({ graceful: true, timeout: timeoutMs, wait: true });
   }
 }

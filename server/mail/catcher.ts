@@ -90,9 +90,15 @@ export class MailCatcher {
     const escape = (s: string) => s.replace(/[&<>"]/g, (c) => `&#${c.charCodeAt(0)};`);
     const rows = [...this.messages]
       .reverse()
-      .map((m) => `<article><h2>${escape(m.subject)}</h2><p>To ${escape(m.to.join(', '))} · ${m.receivedAt}</p><pre>${escape(m.text)}</pre></article>`)
+      .map(
+        (m) =>
+          `<article><h2>${escape(m.subject)}</h2><p>To ${escape(m.to.join(', '))} · ${m.receivedAt}</p><pre>${escape(m.text)}</pre></article>`,
+      )
       .join('');
-    res.writeHead(200, { 'content-type': 'text/html; charset=utf-8', 'content-security-policy': "default-src 'none'; style-src 'unsafe-inline'" });
+    res.writeHead(200, {
+      'content-type': 'text/html; charset=utf-8',
+      'content-security-policy': "default-src 'none'; style-src 'unsafe-inline'",
+    });
     res.end(
       `<!doctype html><meta charset="utf-8"><title>Emberline mail catcher</title>` +
         `<style>body{font:14px system-ui;margin:2rem;max-width:60rem}article{border-bottom:1px solid #ccc;padding:1rem 0}pre{white-space:pre-wrap}</style>` +

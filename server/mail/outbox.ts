@@ -29,7 +29,8 @@ export class MailOutbox {
    */
   async post(kind: MailKind, message: MailMessage, accountId: string | null = null, transaction?: Transaction): Promise<boolean> {
     if (!(await this.count(kind, message.to, accountId, transaction))) return false;
-    const send = () => this.mailer.send(message).catch((err: Error) => console.error(`[mail] ${kind} mail could not be sent: ${err.message}`));
+    const send = () =>
+      this.mailer.send(message).catch((err: Error) => console.error(`[mail] ${kind} mail could not be sent: ${err.message}`));
     // After the transaction commits (if any), and after the response has been written.
     if (transaction) transaction.afterCommit(() => void setImmediate(send));
     else setImmediate(send);
@@ -46,10 +47,17 @@ export class MailOutbox {
       { bind: [recipient, accountId], transaction },
     )) as [{ toRecipient: number; byAccount: number }[], unknown];
     if (accountId && counts.byAccount >= MAIL_LIMITS.perAccountPerHour) {
-      throw new AppError(429, 'mail_throttled', `You have sent ${MAIL_LIMITS.perAccountPerHour} invitations in the last hour, the most allowed. Try again later.`);
+      throw new AppError(
+        429,
+        'mail_throttled',
+        `You have sent ${MAIL_LIMITS.perAccountPerHour} invitations in the last hour, the most allowed. Try again later.`,
+      );
     }
     if (counts.toRecipient >= MAIL_LIMITS.perRecipientPerHour) return false;
-    await this.sequelize.query('INSERT INTO mail_log (recipient, account_id, kind) VALUES ($1, $2, $3)', { bind: [recipient, accountId, kind], transaction });
+    await this.sequelize.query('INSERT INTO mail_log (recipient, account_id, kind) VALUES ($1, $2, $3)', {
+      bind: [recipient, accountId, kind],
+      transaction,
+    });
     return true;
   }
 }

@@ -75,7 +75,11 @@ beforeAll(() => freshDatabase(DATABASE));
  * For each delay: a fresh server, one request started by `act`, `kill -9` after the delay, a
  * restart (which reconciles storage), then `check`. Returns what each request answered.
  */
-async function crashDuring(delaysMs: number[], act: (session: ApiSession, killAfterMs: number) => Promise<Response>, check: () => Promise<number>): Promise<{ killAfterMs: number; status: string; rows: number }[]> {
+async function crashDuring(
+  delaysMs: number[],
+  act: (session: ApiSession, killAfterMs: number) => Promise<Response>,
+  check: () => Promise<number>,
+): Promise<{ killAfterMs: number; status: string; rows: number }[]> {
   const outcomes: { killAfterMs: number; status: string; rows: number }[] = [];
   for (const killAfterMs of delaysMs) {
     const server = await boot();
@@ -96,15 +100,23 @@ async function crashDuring(delaysMs: number[], act: (session: ApiSession, killAf
 test('kill -9 during uploads at several moments, then a restart: no orphan files, no rows without files', async () => {
   const noise = Buffer.alloc(1600 * 1600 * 3);
   for (let i = 0; i < noise.length; i++) noise[i] = (i * 2654435761) >>> 24;
-  const big = await sharp(noise, { raw: { width: 1600, height: 1600, channels: 3 } }).png({ compressionLevel: 1 }).toBuffer();
-  const upload = (session: ApiSession, killAfterMs: number) => session.upload(`/api/studios/${DEMO_STUDIO_ID}/artworks`, { name: `crash ${killAfterMs}` }, { name: 'big.png', bytes: big });
+  const big = await sharp(noise, { raw: { width: 1600, height: 1600, channels: 3 } })
+    .png({ compressionLevel: 1 })
+    .toBuffer();
+  const upload = (session: ApiSession, killAfterMs: number) =>
+    session.upload(`/api/studios/${DEMO_STUDIO_ID}/artworks`, { name: `crash ${killAfterMs}` }, { name: 'big.png', bytes: big });
   console.table(await crashDuring([5, 40, 120, 250, 500], upload, assertArtworksConsistent));
 });
 
 test('kill -9 during renders, then a restart: every render row has its file and no file is left without one', async () => {
   const render = async (session: ApiSession, killAfterMs: number) => {
     const [art] = (await (await session.send('GET', `/api/studios/${DEMO_STUDIO_ID}/artworks`)).json()).artworks as { id: string }[];
-    return session.send('POST', `/api/studios/${DEMO_STUDIO_ID}/renders`, { artworkId: art.id, presetId: 'el-amber-640x480.standard', patch: { viewing: { exposureEv: killAfterMs / 1000 } }, scale: 4 });
+    return session.send('POST', `/api/studios/${DEMO_STUDIO_ID}/renders`, {
+      artworkId: art.id,
+      presetId: 'el-amber-640x480.standard',
+      patch: { viewing: { exposureEv: killAfterMs / 1000 } },
+      scale: 4,
+    });
   };
   // 1500 ms lets one render finish before the kill, so a completed render's row and file are checked too.
   console.table(await crashDuring([20, 150, 400, 1500], render, assertRendersConsistent));
@@ -125,7 +137,13 @@ test('PostgreSQL stopped and started under load: 503 with Retry-After during the
       const started = Date.now();
       const res = await (signedIn ? session.send('GET', p) : fetch(`${server.url}${p}`)).catch(() => null);
       if (res) await res.arrayBuffer();
-      log.push({ at: started - t0, path: p, status: res?.status ?? 0, ms: Date.now() - started, retryAfter: res?.headers.get('retry-after') ?? null });
+      log.push({
+        at: started - t0,
+        path: p,
+        status: res?.status ?? 0,
+        ms: Date.now() - started,
+        retryAfter: res?.headers.get('retry-after') ?? null,
+      });
       await sleep(25);
     }
   };
@@ -156,7 +174,9 @@ test('PostgreSQL stopped and started under load: 503 with Retry-After during the
   const cachedUntil = (e: { path: string }) => stoppedAt + (e.path === '/api/health' ? CACHE_MS.health : CACHE_MS.library) + 300;
   const late = during.filter((e) => e.at > cachedUntil(e));
   const statuses = [...new Set(log.map((e) => e.status))].sort();
-  console.log(`[outage] ${log.length} requests; stopped at ${stoppedAt} ms, started at ${startedAt} ms, recovered at ${recoveredAt} ms; statuses ${statuses.join(', ')}; slowest answer during the outage ${Math.max(...during.map((e) => e.ms))} ms`);
+  console.log(
+    `[outage] ${log.length} requests; stopped at ${stoppedAt} ms, started at ${startedAt} ms, recovered at ${recoveredAt} ms; statuses ${statuses.join(', ')}; slowest answer during the outage ${Math.max(...during.map((e) => e.ms))} ms`,
+  );
   expect(statuses.every((s) => s === 200 || s === 503)).toBe(true);
   expect(during.every((e) => (e.status === 503 && e.retryAfter !== null) || (e.status === 200 && e.at <= cachedUntil(e)))).toBe(true);
   expect(late.length).toBeGreaterThan(10);

@@ -22,7 +22,12 @@ const artworks = `/api/studios/${DEMO_STUDIO_ID}/artworks`;
 
 beforeAll(async () => {
   await freshDatabase('emberline_reliability');
-  server = await startServer({ port: 4321, database: 'emberline_reliability', storageDir: mkdtempSync(path.join(os.tmpdir(), 'emberline-hostile-')), seed: true });
+  server = await startServer({
+    port: 4321,
+    database: 'emberline_reliability',
+    storageDir: mkdtempSync(path.join(os.tmpdir(), 'emberline-hostile-')),
+    seed: true,
+  });
   owner = await ApiSession.signIn(server.url, DEMO_ACCOUNTS[0].email, DEMO_PASSWORD);
 });
 afterAll(() => server?.kill());

@@ -19,7 +19,15 @@ const ROOT = path.resolve(__dirname, '../..');
 const storageDir = mkdtempSync(path.join(os.tmpdir(), 'emberline-jobs-'));
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 /** The app answers requests only; jobs go to the workers. A job active for 5 s is taken for dead. */
-const env = { NODE_ENV: 'test', DB_NAME: DATABASE, STORAGE_DIR: storageDir, SMTP_PORT: '9', JOB_WORKER_IN_PROCESS: '0', JOB_EXPIRE_SECONDS: '5', JOB_MAINTENANCE_SECONDS: '1' };
+const env = {
+  NODE_ENV: 'test',
+  DB_NAME: DATABASE,
+  STORAGE_DIR: storageDir,
+  SMTP_PORT: '9',
+  JOB_WORKER_IN_PROCESS: '0',
+  JOB_EXPIRE_SECONDS: '5',
+  JOB_MAINTENANCE_SECONDS: '1',
+};
 
 interface Worker {
   child: ChildProcess;
@@ -30,7 +38,11 @@ let server: ServerProcess;
 
 /** Starts `npm run worker`'s entry point and waits until it says it runs exports. */
 async function startWorker(): Promise<Worker> {
-  const child = spawn(process.execPath, ['--require', 'tsx/cjs', 'server/worker.ts'], { cwd: ROOT, env: { ...process.env, ...env }, stdio: ['ignore', 'pipe', 'pipe'] });
+  const child = spawn(process.execPath, ['--require', 'tsx/cjs', 'server/worker.ts'], {
+    cwd: ROOT,
+    env: { ...process.env, ...env },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
   running.push(child);
   let output = '';
   child.stdout!.on('data', (d) => (output += d));
@@ -63,7 +75,8 @@ interface Row {
   worked_by: string | null;
   files: Record<string, number> | null;
 }
-const rowOf = async (id: string) => (await query<Row>('SELECT id, status, progress, attempts, worked_by, files FROM exports WHERE id = $1', [id]))[0];
+const rowOf = async (id: string) =>
+  (await query<Row>('SELECT id, status, progress, attempts, worked_by, files FROM exports WHERE id = $1', [id]))[0];
 
 async function until(what: string, check: () => Promise<boolean>, ms = 90_000): Promise<void> {
   const deadline = Date.now() + ms;
@@ -85,7 +98,9 @@ beforeAll(async () => {
   await freshDatabase(DATABASE);
   server = await startServer({ port: PORT, database: DATABASE, storageDir, seed: true, env });
   owner = await ApiSession.signIn(server.url, DEMO_ACCOUNTS[0].email, DEMO_PASSWORD);
-  const list = (await (await owner.send('GET', `/api/studios/${DEMO_STUDIO_ID}/artworks?sort=name`)).json()) as { artworks: { id: string; name: string }[] };
+  const list = (await (await owner.send('GET', `/api/studios/${DEMO_STUDIO_ID}/artworks?sort=name`)).json()) as {
+    artworks: { id: string; name: string }[];
+  };
   artworkIds = list.artworks.filter((a) => a.name === 'Title screen' || a.name === 'Comic still: night kiln').map((a) => a.id);
   expect(artworkIds).toHaveLength(2);
 }, 120_000);
@@ -107,7 +122,19 @@ afterAll(async () => {
 test('a worker killed in the middle of a sheet: another runs the job again and exactly one result is left', async () => {
   const first = await startWorker();
   // Twelve 1920 × 1440 cells: long enough to be caught half done.
-  const id = await ask({ layout: 'grid', artworkIds, looks: ['el-amber-640x480.standard', 'el-amber-640x480.ordered', 'el-amber-640x480.line-art', 'crt-amber-p3.standard', 'crt-green-p1.standard', 'crt-white-p4.standard'], scale: 3 });
+  const id = await ask({
+    layout: 'grid',
+    artworkIds,
+    looks: [
+      'el-amber-640x480.standard',
+      'el-amber-640x480.ordered',
+      'el-amber-640x480.line-art',
+      'crt-amber-p3.standard',
+      'crt-green-p1.standard',
+      'crt-white-p4.standard',
+    ],
+    scale: 3,
+  });
   await until('the first worker to be two cells in', async () => {
     const r = await rowOf(id);
     return r.status === 'running' && r.progress >= 2 / 13;
@@ -127,7 +154,12 @@ test('a worker killed in the middle of a sheet: another runs the job again and e
   // Exactly one result: one file, of the size the row states, no temp file; and it downloads.
   const files = readdirSync(path.join(storageDir, 'exports', id)).sort();
   expect(files).toEqual(['renders.zip', 'sheet.pdf', 'sheet.png']);
-  for (const [format, name] of [['png', 'sheet.png'], ['pdf', 'sheet.pdf'], ['zip', 'renders.zip']]) expect(statSync(path.join(storageDir, 'exports', id, name)).size).toBe(done.files![format]);
+  for (const [format, name] of [
+    ['png', 'sheet.png'],
+    ['pdf', 'sheet.pdf'],
+    ['zip', 'renders.zip'],
+  ])
+    expect(statSync(path.join(storageDir, 'exports', id, name)).size).toBe(done.files![format]);
   const file = await owner.send('GET', `/api/studios/${DEMO_STUDIO_ID}/exports/${id}/file`);
   expect(file.status).toBe(200);
   expect(Buffer.from(await file.arrayBuffer()).length).toBe(done.files!.png);
@@ -136,10 +168,20 @@ test('a worker killed in the middle of a sheet: another runs the job again and e
 test('two workers on one database share a batch of jobs, each done once', async () => {
   const [a, b] = await Promise.all([startWorker(), startWorker()]);
   const ids: string[] = [];
-  for (let k = 0; k < 6; k++) ids.push(await ask({ layout: 'grid', artworkIds, looks: ['el-amber-640x480.standard', 'crt-green-p1.standard'], scale: 3, title: `Batch ${k + 1}` }));
+  for (let k = 0; k < 6; k++)
+    ids.push(
+      await ask({
+        layout: 'grid',
+        artworkIds,
+        looks: ['el-amber-640x480.standard', 'crt-green-p1.standard'],
+        scale: 3,
+        title: `Batch ${k + 1}`,
+      }),
+    );
   await until('the batch to finish', async () => (await Promise.all(ids.map(rowOf))).every((r) => r.status === 'done'));
   const rows = await Promise.all(ids.map(rowOf));
   expect(rows.map((r) => r.attempts)).toEqual(Array(6).fill(1));
   expect(new Set(rows.map((r) => r.worked_by))).toEqual(new Set([a.name, b.name]));
-  for (const r of rows) expect(readdirSync(path.join(storageDir, 'exports', r.id)).sort()).toEqual(['renders.zip', 'sheet.pdf', 'sheet.png']);
+  for (const r of rows)
+    expect(readdirSync(path.join(storageDir, 'exports', r.id)).sort()).toEqual(['renders.zip', 'sheet.pdf', 'sheet.png']);
 });

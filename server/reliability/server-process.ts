@@ -18,7 +18,14 @@ export interface ServerProcess {
 const ROOT = path.resolve(__dirname, '../..');
 
 /** Starts `server/main.ts` with node --require tsx/cjs (as `npm start` does) and waits until /api/health answers. */
-export async function startServer(options: { port: number; database: string; storageDir: string; seed?: boolean; env?: NodeJS.ProcessEnv; nodeArgs?: string[] }): Promise<ServerProcess> {
+export async function startServer(options: {
+  port: number;
+  database: string;
+  storageDir: string;
+  seed?: boolean;
+  env?: NodeJS.ProcessEnv;
+  nodeArgs?: string[];
+}): Promise<ServerProcess> {
   const env = {
     ...process.env,
     NODE_ENV: 'test',
@@ -33,8 +40,18 @@ export async function startServer(options: { port: number; database: string; sto
   };
   const url = `http://127.0.0.1:${options.port}`;
   // A server left over from an interrupted run would answer in our place: refuse to start beside it.
-  if (await fetch(`${url}/api/health`).then(() => true, () => false)) throw new Error(`port ${options.port} is taken by another process; stop it first`);
-  const child = spawn(process.execPath, [...(options.nodeArgs ?? []), '--require', 'tsx/cjs', 'server/main.ts'], { cwd: ROOT, env, stdio: ['ignore', 'pipe', 'pipe'] });
+  if (
+    await fetch(`${url}/api/health`).then(
+      () => true,
+      () => false,
+    )
+  )
+    throw new Error(`port ${options.port} is taken by another process; stop it first`);
+  const child = spawn(process.execPath, [...(options.nodeArgs ?? []), '--require', 'tsx/cjs', 'server/main.ts'], {
+    cwd: ROOT,
+    env,
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
   let output = '';
   child.stdout!.on('data', (d) => (output += d));
   child.stderr!.on('data', (d) => (output += d));
@@ -45,7 +62,10 @@ export async function startServer(options: { port: number; database: string; sto
   const deadline = Date.now() + 60_000;
   for (;;) {
     if (child.exitCode !== null) throw new Error(`the server exited while starting:\n${output}`);
-    const ok = await fetch(`${url}/api/health`).then((r) => r.ok, () => false);
+    const ok = await fetch(`${url}/api/health`).then(
+      (r) => r.ok,
+      () => false,
+    );
     if (ok) break;
     if (Date.now() > deadline) throw new Error(`the server did not answer within 60 s:\n${output}`);
     await new Promise((r) => setTimeout(r, 200));

@@ -15,7 +15,11 @@ const listening = (port: number) =>
     socket.once('connect', () => (socket.destroy(), resolve(true)));
     socket.once('error', () => resolve(false));
   });
-const healthy = () => fetch(`http://127.0.0.1:${PORTS.app}/api/health`).then((r) => r.ok, () => false);
+const healthy = () =>
+  fetch(`http://127.0.0.1:${PORTS.app}/api/health`).then(
+    (r) => r.ok,
+    () => false,
+  );
 
 async function until(what: string, check: () => boolean | Promise<boolean>, timeoutMs = 60_000): Promise<void> {
   const deadline = Date.now() + timeoutMs;
@@ -27,7 +31,15 @@ async function until(what: string, check: () => boolean | Promise<boolean>, time
 
 test('a killed server comes back; stopping npm start frees every port', async () => {
   for (const port of Object.values(PORTS)) expect({ port, taken: await listening(port) }).toEqual({ port, taken: false });
-  const env = { ...process.env, SKIP_BUILD: '1', PORT: String(PORTS.app), SMTP_PORT: String(PORTS.smtp), MAIL_UI_PORT: String(PORTS.mailUi), DB_NAME: 'emberline_supervision', STORAGE_DIR: path.join(ROOT, '.data/storage/emberline_supervision') };
+  const env = {
+    ...process.env,
+    SKIP_BUILD: '1',
+    PORT: String(PORTS.app),
+    SMTP_PORT: String(PORTS.smtp),
+    MAIL_UI_PORT: String(PORTS.mailUi),
+    DB_NAME: 'emberline_supervision',
+    STORAGE_DIR: path.join(ROOT, '.data/storage/emberline_supervision'),
+  };
   const start = spawn(process.execPath, ['scripts/start.mjs'], { cwd: ROOT, env, stdio: ['ignore', 'pipe', 'pipe'] });
   let output = '';
   start.stdout!.on('data', (d) => (output += d));
@@ -49,7 +61,15 @@ test('a killed server comes back; stopping npm start frees every port', async ()
 });
 
 test('when the mail catcher dies, everything stops and the log names it', async () => {
-  const env = { ...process.env, SKIP_BUILD: '1', PORT: String(PORTS.app), SMTP_PORT: String(PORTS.smtp), MAIL_UI_PORT: String(PORTS.mailUi), DB_NAME: 'emberline_supervision', STORAGE_DIR: path.join(ROOT, '.data/storage/emberline_supervision') };
+  const env = {
+    ...process.env,
+    SKIP_BUILD: '1',
+    PORT: String(PORTS.app),
+    SMTP_PORT: String(PORTS.smtp),
+    MAIL_UI_PORT: String(PORTS.mailUi),
+    DB_NAME: 'emberline_supervision',
+    STORAGE_DIR: path.join(ROOT, '.data/storage/emberline_supervision'),
+  };
   const start = spawn(process.execPath, ['scripts/start.mjs'], { cwd: ROOT, env, stdio: ['ignore', 'pipe', 'pipe'] });
   let output = '';
   start.stdout!.on('data', (d) => (output += d));

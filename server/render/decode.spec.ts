@@ -6,7 +6,9 @@ import { pngOf } from '../testing/images';
 function gif(frames: number, w: number, h: number, delay: number[]): Promise<Buffer> {
   const raw = Buffer.alloc(w * h * frames * 4);
   for (let f = 0; f < frames; f++) for (let i = 0; i < w * h; i++) raw.set([f % 2 ? 255 : 0, 80, 0, 255], (f * w * h + i) * 4);
-  return sharp(raw, { raw: { width: w, height: h * frames, channels: 4, pageHeight: h } }).gif({ delay, loop: 0 }).toBuffer();
+  return sharp(raw, { raw: { width: w, height: h * frames, channels: 4, pageHeight: h } })
+    .gif({ delay, loop: 0 })
+    .toBuffer();
 }
 
 describe('decodeImage', () => {

@@ -14,7 +14,27 @@ export const IMAGE_LIMITS = {
 };
 
 // Only the four loaders we accept may run; everything else libvips could parse is off.
-sharp.block({ operation: ['VipsForeignLoadSvg', 'VipsForeignLoadPdf', 'VipsForeignLoadMagick', 'VipsForeignLoadTiff', 'VipsForeignLoadHeif', 'VipsForeignLoadJp2k', 'VipsForeignLoadJxl', 'VipsForeignLoadFits', 'VipsForeignLoadOpenexr', 'VipsForeignLoadVips', 'VipsForeignLoadMatrix', 'VipsForeignLoadCsv', 'VipsForeignLoadPpm', 'VipsForeignLoadRad', 'VipsForeignLoadAnalyze', 'VipsForeignLoadOpenslide', 'VipsForeignLoadRaw'] });
+sharp.block({
+  operation: [
+    'VipsForeignLoadSvg',
+    'VipsForeignLoadPdf',
+    'VipsForeignLoadMagick',
+    'VipsForeignLoadTiff',
+    'VipsForeignLoadHeif',
+    'VipsForeignLoadJp2k',
+    'VipsForeignLoadJxl',
+    'VipsForeignLoadFits',
+    'VipsForeignLoadOpenexr',
+    'VipsForeignLoadVips',
+    'VipsForeignLoadMatrix',
+    'VipsForeignLoadCsv',
+    'VipsForeignLoadPpm',
+    'VipsForeignLoadRad',
+    'VipsForeignLoadAnalyze',
+    'VipsForeignLoadOpenslide',
+    'VipsForeignLoadRaw',
+  ],
+});
 
 export type ImageType = 'png' | 'gif' | 'jpeg' | 'webp';
 
@@ -45,7 +65,8 @@ const refuse = (code: string, message: string, details?: unknown) => new AppErro
  * given, is checked against the header's size too (frame count and minimum frame size).
  */
 export async function decodeImage(bytes: Buffer, limits = IMAGE_LIMITS, sheet?: SpriteSheet | null): Promise<DecodedImage> {
-  if (bytes.length > limits.maxBytes) throw new AppError(413, 'file_too_large', `The file is ${bytes.length} bytes; the limit is ${limits.maxBytes} bytes.`);
+  if (bytes.length > limits.maxBytes)
+    throw new AppError(413, 'file_too_large', `The file is ${bytes.length} bytes; the limit is ${limits.maxBytes} bytes.`);
   const type = sniffImageType(bytes);
   if (!type) throw refuse('unsupported_type', 'The file is not a PNG, GIF, JPEG or WebP image (checked by its content, not its name).');
   // libvips shows a cut-off GIF as far as it got; the format's trailer byte (0x3B) tells.
@@ -63,16 +84,27 @@ export async function decodeImage(bytes: Buffer, limits = IMAGE_LIMITS, sheet?: 
   const pages = meta.pages ?? 1;
   const height = meta.pageHeight ?? meta.height ?? 0;
   if (width * height > limits.maxPixels) {
-    throw refuse('too_many_pixels', `The image is ${width} × ${height} = ${width * height} pixels; the limit is ${limits.maxPixels} pixels per frame.`, { width, height });
+    throw refuse(
+      'too_many_pixels',
+      `The image is ${width} × ${height} = ${width * height} pixels; the limit is ${limits.maxPixels} pixels per frame.`,
+      { width, height },
+    );
   }
-  if (pages > limits.maxFrames) throw refuse('too_many_frames', `The animation has ${pages} frames; the limit is ${limits.maxFrames}.`, { frames: pages });
+  if (pages > limits.maxFrames)
+    throw refuse('too_many_frames', `The animation has ${pages} frames; the limit is ${limits.maxFrames}.`, { frames: pages });
   if (width * height * pages > limits.maxTotalPixels) {
-    throw refuse('too_many_pixels', `The animation has ${width * height * pages} pixels over all frames; the limit is ${limits.maxTotalPixels}.`);
+    throw refuse(
+      'too_many_pixels',
+      `The animation has ${width * height * pages} pixels over all frames; the limit is ${limits.maxTotalPixels}.`,
+    );
   }
   if (sheet) checkSheet(width, height, pages, sheet);
   let raw: { data: Buffer; info: OutputInfo };
   try {
-    raw = await sharp(bytes, { animated: true, limitInputPixels: limits.maxPixels, failOn: 'error' }).ensureAlpha().raw().toBuffer({ resolveWithObject: true });
+    raw = await sharp(bytes, { animated: true, limitInputPixels: limits.maxPixels, failOn: 'error' })
+      .ensureAlpha()
+      .raw()
+      .toBuffer({ resolveWithObject: true });
   } catch {
     throw refuse('unreadable_image', `The ${type.toUpperCase()} file could not be decoded: it is damaged or truncated.`);
   }

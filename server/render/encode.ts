@@ -6,7 +6,9 @@ import type { RgbaImage } from '../../shared/pipeline/types';
  * Renders are always opaque, so the alpha channel is dropped: a third less to compress.
  */
 export function encodePng(image: RgbaImage): Promise<Buffer> {
-  return sharp(Buffer.from(image.data.buffer, image.data.byteOffset, image.data.byteLength), { raw: { width: image.width, height: image.height, channels: 4 } })
+  return sharp(Buffer.from(image.data.buffer, image.data.byteOffset, image.data.byteLength), {
+    raw: { width: image.width, height: image.height, channels: 4 },
+  })
     .removeAlpha()
     .png({ compressionLevel: 2, adaptiveFiltering: false })
     .toBuffer();

@@ -58,7 +58,14 @@ export function glowStep(task: {
  * values): one round trip less than a separate sum step, and the rows are still in the cache
  * when compose reads them.
  */
-export function band(task: { emission: Float32Array; components: Float32Array[]; parameters: PanelParams; scale: number; rows: RowBand; out: Uint8Array }): number {
+export function band(task: {
+  emission: Float32Array;
+  components: Float32Array[];
+  parameters: PanelParams;
+  scale: number;
+  rows: RowBand;
+  out: Uint8Array;
+}): number {
   const { cell, glass } = task.parameters;
   const u = outputUniforms(task.parameters, task.scale);
   const plan = glowPlan(cell, glass);

@@ -27,16 +27,19 @@ const plans: [string, Parameters<typeof mergeParams>[1]][] = [
   ['no glow or halo', { glass: { glowShare: 0, haloShare: 0 } }],
 ];
 
-test.each(plans)('%s: a render split into 1, 2, 3 and 7 bands (rows; the glow blurred down in column bands) has the same pixels as the single-thread pipeline', async (_name, patch) => {
-  const p = mergeParams(parameters, patch);
-  const reference = renderCpu((await decodeImage(input)).frames, p, { scale: 3 });
-  for (const bands of [1, 2, 3, 7]) {
-    const { png, width, height } = await engine.render({ input, parameters: p, scale: 3, frame: 0 }, { bands });
-    expect([width, height]).toEqual([reference.width, reference.height]);
-    const raw = await sharp(png).ensureAlpha().raw().toBuffer();
-    expect({ bands, hash: sha(raw) }).toEqual({ bands, hash: sha(reference.data) });
-  }
-});
+test.each(plans)(
+  '%s: a render split into 1, 2, 3 and 7 bands (rows; the glow blurred down in column bands) has the same pixels as the single-thread pipeline',
+  async (_name, patch) => {
+    const p = mergeParams(parameters, patch);
+    const reference = renderCpu((await decodeImage(input)).frames, p, { scale: 3 });
+    for (const bands of [1, 2, 3, 7]) {
+      const { png, width, height } = await engine.render({ input, parameters: p, scale: 3, frame: 0 }, { bands });
+      expect([width, height]).toEqual([reference.width, reference.height]);
+      const raw = await sharp(png).ensureAlpha().raw().toBuffer();
+      expect({ bands, hash: sha(raw) }).toEqual({ bands, hash: sha(reference.data) });
+    }
+  },
+);
 
 test('a CRT render on the pool has the same pixels as the single-thread pipeline', async () => {
   const p = mergeParams(builtInPresetById('crt-green-p1.standard')!.parameters, { cell: { cols: 64, rows: 48 } });
@@ -55,7 +58,11 @@ test('a task that throws answers 500 render_failed and the pool keeps rendering;
 
 test('more renders than the queue holds are refused with 503 render_busy before they queue', async () => {
   const big = mergeParams(parameters, { cell: { cols: 640, rows: 480 } });
-  const results = await Promise.allSettled(Array.from({ length: 6 }, (_, i) => engine.render({ input, parameters: mergeParams(big, { viewing: { exposureEv: i / 10 } }), scale: 2, frame: 0 })));
+  const results = await Promise.allSettled(
+    Array.from({ length: 6 }, (_, i) =>
+      engine.render({ input, parameters: mergeParams(big, { viewing: { exposureEv: i / 10 } }), scale: 2, frame: 0 }),
+    ),
+  );
   const busy = results.filter((r) => r.status === 'rejected' && (r.reason as { code?: string }).code === 'render_busy');
   expect(results.filter((r) => r.status === 'fulfilled')).toHaveLength(3);
   expect(busy).toHaveLength(3);
@@ -63,7 +70,9 @@ test('more renders than the queue holds are refused with 503 render_busy before 
 });
 
 test('a render larger than the output limit is refused before it is queued', () => {
-  expect(() => RenderEngine.check({ parameters: mergeParams(parameters, { cell: { cols: 2048, rows: 2048 } }), scale: 8 })).toThrow(expect.objectContaining({ code: 'output_too_large' }));
+  expect(() => RenderEngine.check({ parameters: mergeParams(parameters, { cell: { cols: 2048, rows: 2048 } }), scale: 8 })).toThrow(
+    expect.objectContaining({ code: 'output_too_large' }),
+  );
 });
 
 test('decoded frames are cached by content: a second request does not decode again', async () => {

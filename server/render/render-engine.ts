@@ -68,7 +68,10 @@ class FrameCache {
       this.entries.set(key, hit);
       return hit.frames;
     }
-    const frames = framesOf(await decodeImage(input, undefined, sheet), sheet).map((f) => ({ delayMs: f.delayMs, image: { width: f.image.width, height: f.image.height, data: shared(f.image.data as Uint8Array) } }));
+    const frames = framesOf(await decodeImage(input, undefined, sheet), sheet).map((f) => ({
+      delayMs: f.delayMs,
+      image: { width: f.image.width, height: f.image.height, data: shared(f.image.data as Uint8Array) },
+    }));
     const bytes = frames.reduce((n, f) => n + f.image.data.byteLength, 0);
     if (bytes <= this.budget) {
       this.entries.set(key, { frames, bytes });
@@ -108,7 +111,12 @@ export class RenderEngine {
     this.threads = options.threads ?? Math.max(1, os.availableParallelism());
     this.maxPending = options.maxPending ?? this.threads * 8;
     this.frames = new FrameCache((options.frameCacheMb ?? 256) * 1024 * 1024);
-    this.pool = new Piscina({ filename: path.join(__dirname, 'pool-worker.cjs'), minThreads: this.threads, maxThreads: this.threads, idleTimeout: 60_000 });
+    this.pool = new Piscina({
+      filename: path.join(__dirname, 'pool-worker.cjs'),
+      minThreads: this.threads,
+      maxThreads: this.threads,
+      idleTimeout: 60_000,
+    });
   }
 
   /** Renders waiting or running now. */
@@ -124,9 +132,18 @@ export class RenderEngine {
   /** Checks the request's output size before anything is queued (400 naming the limit). */
   static check(req: Pick<RenderRequest, 'parameters' | 'scale'>): { width: number; height: number } {
     const u = outputUniforms(req.parameters, req.scale);
-    if (u.cellH < 1) throw new AppError(400, 'invalid_input', `scale ${req.scale} makes cells ${u.cellH.toFixed(2)} px tall; use a scale of at least ${Math.ceil(req.parameters.cell.pitchXMm / req.parameters.cell.pitchYMm)}.`);
+    if (u.cellH < 1)
+      throw new AppError(
+        400,
+        'invalid_input',
+        `scale ${req.scale} makes cells ${u.cellH.toFixed(2)} px tall; use a scale of at least ${Math.ceil(req.parameters.cell.pitchXMm / req.parameters.cell.pitchYMm)}.`,
+      );
     if (u.width * u.height > MAX_OUTPUT_PIXELS) {
-      throw new AppError(400, 'output_too_large', `The render would be ${u.width} × ${u.height} pixels; the limit is ${MAX_OUTPUT_PIXELS}. Lower the scale.`);
+      throw new AppError(
+        400,
+        'output_too_large',
+        `The render would be ${u.width} × ${u.height} pixels; the limit is ${MAX_OUTPUT_PIXELS}. Lower the scale.`,
+      );
     }
     return { width: u.width, height: u.height };
   }
@@ -150,16 +167,21 @@ export class RenderEngine {
   private async withRender<T>(req: RenderRequest, options: { bands?: number }, use: (image: RgbaImage) => Promise<T>): Promise<T> {
     const { width, height } = RenderEngine.check(req);
     if (this.pending >= this.maxPending) {
-      throw new AppError(503, 'render_busy', `The renderer has ${this.pending} renders in hand, its limit. Try again in a few seconds.`, { retryAfterSeconds: 2 });
+      throw new AppError(503, 'render_busy', `The renderer has ${this.pending} renders in hand, its limit. Try again in a few seconds.`, {
+        retryAfterSeconds: 2,
+      });
     }
     this.pending++;
     try {
       const frames = await this.frames.get(req.input, req.sheet);
-      if (req.frame >= frames.length) throw new AppError(400, 'invalid_input', `frame must be from 0 to ${frames.length - 1} for this image, got ${req.frame}.`);
+      if (req.frame >= frames.length)
+        throw new AppError(400, 'invalid_input', `frame must be from 0 to ${frames.length - 1} for this image, got ${req.frame}.`);
       const { cell, glass } = req.parameters;
       const plan = glowPlan(cell, glass);
       const components = glowComponents(plan).map((c) => componentSize(cell, c));
-      const buffers = [cell.cols * cell.rows * 4, width * height * 4, ...components.map((c) => c.width * c.height * 4)].map((n) => this.buffers.acquire(n));
+      const buffers = [cell.cols * cell.rows * 4, width * height * 4, ...components.map((c) => c.width * c.height * 4)].map((n) =>
+        this.buffers.acquire(n),
+      );
       try {
         const emission = new Float32Array(buffers[0]);
         const out = new Uint8Array(buffers[1]);
@@ -172,11 +194,24 @@ export class RenderEngine {
         const glowTask = { emission, parameters: req.parameters, components: componentData };
         const steps = (step: 'across' | 'down', extent: (c: { width: number; height: number }) => number) =>
           components.flatMap((c, k) => bandsOf(extent(c), threads).map(([from, to]) => ({ ...glowTask, step, k, from, to })));
-        await this.runAll('glowStep', steps('across', (c) => c.height));
-        await this.runAll('glowStep', steps('down', (c) => c.width));
+        await this.runAll(
+          'glowStep',
+          steps('across', (c) => c.height),
+        );
+        await this.runAll(
+          'glowStep',
+          steps('down', (c) => c.width),
+        );
         await this.runAll(
           'band',
-          bandsOf(height, threads).map(([y0, y1]) => ({ emission, components: componentData, parameters: req.parameters, scale: req.scale, rows: { y0, y1 }, out })),
+          bandsOf(height, threads).map(([y0, y1]) => ({
+            emission,
+            components: componentData,
+            parameters: req.parameters,
+            scale: req.scale,
+            rows: { y0, y1 },
+            out,
+          })),
         );
         return await use({ width, height, data: out });
       } finally {
@@ -204,7 +239,11 @@ export class RenderEngine {
     } catch (err) {
       if (err instanceof AppError) throw err;
       console.error(`[render] a ${name} task failed: ${(err as Error).message}`);
-      throw new AppError(500, 'render_failed', 'The render failed on our side and was logged. Try again; if it keeps failing, tell us which artwork and preset.');
+      throw new AppError(
+        500,
+        'render_failed',
+        'The render failed on our side and was logged. Try again; if it keeps failing, tell us which artwork and preset.',
+      );
     }
   }
 
@@ -213,15 +252,25 @@ export class RenderEngine {
    * small renders, each depending on the last), reporting progress as it goes. Answers the result,
    * or the refusal's words for a photo that cannot be fitted.
    */
-  async fitMatch(input: MatchInput, onProgress: (share: number, step: string) => void): Promise<{ result: MatchResult } | { refusal: string }> {
+  async fitMatch(
+    input: MatchInput,
+    onProgress: (share: number, step: string) => void,
+  ): Promise<{ result: MatchResult } | { refusal: string }> {
     const channel = new MessageChannel();
     channel.port1.on('message', (m: { share: number; step: string }) => onProgress(m.share, m.step));
     try {
       const photo = { ...input.photo, data: shared(input.photo.data as Uint8Array) };
-      return (await this.pool.run({ input: { ...input, photo }, port: channel.port2 }, { name: 'match', transferList: [channel.port2] })) as { result: MatchResult } | { refusal: string };
+      return (await this.pool.run(
+        { input: { ...input, photo }, port: channel.port2 },
+        { name: 'match', transferList: [channel.port2] },
+      )) as { result: MatchResult } | { refusal: string };
     } catch (err) {
       console.error(`[render] a match fit failed: ${(err as Error).message}`);
-      throw new AppError(500, 'render_failed', 'The fit failed on our side and was logged. Try again; if it keeps failing, tell us which photo.');
+      throw new AppError(
+        500,
+        'render_failed',
+        'The fit failed on our side and was logged. Try again; if it keeps failing, tell us which photo.',
+      );
     } finally {
       channel.port1.close();
     }

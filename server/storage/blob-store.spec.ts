@@ -17,13 +17,18 @@ beforeAll(async () => {
   fake = new S3rver({ port: 0, address: '127.0.0.1', silent: true, directory: mkdtempSync(path.join(os.tmpdir(), 'emberline-s3-')) });
   const { port } = await fake.run();
   endpoint = `http://127.0.0.1:${port}`;
-  await new S3Client({ endpoint, region: 'us-east-1', forcePathStyle: true, credentials }).send(new CreateBucketCommand({ Bucket: 'emberline-test' }));
+  await new S3Client({ endpoint, region: 'us-east-1', forcePathStyle: true, credentials }).send(
+    new CreateBucketCommand({ Bucket: 'emberline-test' }),
+  );
 });
 afterAll(() => fake.close());
 
 const stores: [string, () => BlobStore][] = [
   ['disk', () => new DiskBlobStore(mkdtempSync(path.join(os.tmpdir(), 'emberline-blobs-')))],
-  ['s3 (fake S3 server)', () => new S3BlobStore({ bucket: 'emberline-test', endpoint, region: 'us-east-1', forcePathStyle: true, credentials })],
+  [
+    's3 (fake S3 server)',
+    () => new S3BlobStore({ bucket: 'emberline-test', endpoint, region: 'us-east-1', forcePathStyle: true, credentials }),
+  ],
 ];
 
 describe.each(stores)('%s blob store', (_name, make) => {
@@ -55,7 +60,8 @@ describe.each(stores)('%s blob store', (_name, make) => {
   });
 
   it('refuses keys that could leave its folder or bucket prefix', async () => {
-    for (const key of ['../x', 'a/../../b', '/abs', 'a//b', 'a/./b', '']) await expect(store.put(key, Buffer.from('x'))).rejects.toThrow('bad storage key');
+    for (const key of ['../x', 'a/../../b', '/abs', 'a//b', 'a/./b', ''])
+      await expect(store.put(key, Buffer.from('x'))).rejects.toThrow('bad storage key');
     await expect(store.list('../')).rejects.toThrow('bad storage key');
   });
 });

@@ -1,4 +1,13 @@
-import { DeleteObjectsCommand, GetObjectCommand, HeadObjectCommand, ListObjectsV2Command, NoSuchKey, NotFound, PutObjectCommand, S3Client } from '@aws-sdk/client-s3';
+import {
+  DeleteObjectsCommand,
+  GetObjectCommand,
+  HeadObjectCommand,
+  ListObjectsV2Command,
+  NoSuchKey,
+  NotFound,
+  PutObjectCommand,
+  S3Client,
+} from '@aws-sdk/client-s3';
 import { getSignedUrl } from '@aws-sdk/s3-request-presigner';
 import { randomBytes } from 'node:crypto';
 import { access, mkdir, readdir, readFile, rename, rm, writeFile } from 'node:fs/promises';
@@ -47,7 +56,8 @@ process.env.AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED ??= 'true';
 const KEY = /^[a-z0-9][a-z0-9._-]*(\/[a-z0-9][a-z0-9._-]*)*$/i;
 const PREFIX = /^([a-z0-9][a-z0-9._-]*\/)+$/i;
 function checked(key: string, pattern = KEY): string {
-  if (!pattern.test(key) || key.split('/').some((part) => part === '..' || part === '.')) throw new Error(`bad storage key "${key.slice(0, 80)}"`);
+  if (!pattern.test(key) || key.split('/').some((part) => part === '..' || part === '.'))
+    throw new Error(`bad storage key "${key.slice(0, 80)}"`);
   return key;
 }
 
@@ -92,7 +102,9 @@ export class DiskBlobStore implements BlobStore {
   async list(prefix: string): Promise<string[]> {
     const dir = path.join(this.root, ...checked(prefix, PREFIX).split('/'));
     const entries = await readdir(dir, { recursive: true, withFileTypes: true }).catch(() => []);
-    return entries.filter((e) => e.isFile() && !e.name.endsWith('.tmp')).map((e) => `${prefix}${path.relative(dir, path.join(e.parentPath, e.name)).split(path.sep).join('/')}`);
+    return entries
+      .filter((e) => e.isFile() && !e.name.endsWith('.tmp'))
+      .map((e) => `${prefix}${path.relative(dir, path.join(e.parentPath, e.name)).split(path.sep).join('/')}`);
   }
 
   async presignedUrl(): Promise<null> {
@@ -126,7 +138,12 @@ export class S3BlobStore implements BlobStore {
 
   constructor(options: S3Options) {
     this.bucket = options.bucket;
-    this.s3 = new S3Client({ region: options.region, endpoint: options.endpoint, forcePathStyle: options.forcePathStyle, credentials: options.credentials });
+    this.s3 = new S3Client({
+      region: options.region,
+      endpoint: options.endpoint,
+      forcePathStyle: options.forcePathStyle,
+      credentials: options.credentials,
+    });
   }
 
   async put(key: string, bytes: Buffer): Promise<void> {
@@ -179,7 +196,16 @@ export class S3BlobStore implements BlobStore {
 
   presignedUrl(key: string, seconds: number, as: DownloadAs): Promise<string> {
     const disposition = `attachment; filename="${as.fileName.replace(/[^\w .-]/g, '_')}"`;
-    return getSignedUrl(this.s3, new GetObjectCommand({ Bucket: this.bucket, Key: checked(key), ResponseContentDisposition: disposition, ResponseContentType: as.contentType }), { expiresIn: seconds });
+    return getSignedUrl(
+      this.s3,
+      new GetObjectCommand({
+        Bucket: this.bucket,
+        Key: checked(key),
+        ResponseContentDisposition: disposition,
+        ResponseContentType: as.contentType,
+      }),
+      { expiresIn: seconds },
+    );
   }
 }
 

@@ -28,7 +28,10 @@ export class RenderStore {
 
   /** Removes render files whose key `isKnown` does not list (after a crash); returns how many. */
   async reconcile(isKnown: (keys: string[]) => Promise<Set<string>>): Promise<number> {
-    const keys = (await this.blobs.list('renders/')).map((k) => k.slice('renders/'.length)).filter((n) => /^[0-9a-f]{64}\.png$/.test(n)).map((n) => n.slice(0, 64));
+    const keys = (await this.blobs.list('renders/'))
+      .map((k) => k.slice('renders/'.length))
+      .filter((n) => /^[0-9a-f]{64}\.png$/.test(n))
+      .map((n) => n.slice(0, 64));
     const known = await isKnown(keys);
     const stale = keys.filter((k) => !known.has(k));
     await this.remove(stale);

@@ -36,7 +36,15 @@ export async function createHarness(overrides: Partial<Config> = {}): Promise<Ha
   activeMail = mail;
   const { smtpPort } = await mail.start(0, 0);
   const base = loadConfig();
-  const config: Config = { ...base, env: 'test', appUrl: 'http://app.test', smtp: { ...base.smtp, port: smtpPort }, staticDir: '/nonexistent', storageDir: path.join(os.tmpdir(), `emberline-test-${process.pid}`), ...overrides };
+  const config: Config = {
+    ...base,
+    env: 'test',
+    appUrl: 'http://app.test',
+    smtp: { ...base.smtp, port: smtpPort },
+    staticDir: '/nonexistent',
+    storageDir: path.join(os.tmpdir(), `emberline-test-${process.pid}`),
+    ...overrides,
+  };
   const sequelize = createSequelize(config.db);
   initModels(sequelize);
   const sessionPool = new Pool({ host: config.db.host, port: config.db.port, database: config.db.database, user: config.db.user, max: 3 });
@@ -103,7 +111,9 @@ export class TestClient {
   /** A multipart POST: text fields plus one file as the field "file". */
   async upload(path: string, fields: Record<string, string>, file: { name: string; bytes: Buffer }): Promise<request.Response> {
     if (!this.cookies.has('XSRF-TOKEN')) await this.send('get', '/api/auth/csrf');
-    let req = request(this.app).post(path).set('Cookie', [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; '));
+    let req = request(this.app)
+      .post(path)
+      .set('Cookie', [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; '));
     if (this.sendCsrf) req = req.set('X-XSRF-TOKEN', this.cookies.get('XSRF-TOKEN') ?? '');
     for (const [k, v] of Object.entries(fields)) req = req.field(k, v);
     return req.attach('file', file.bytes, file.name);

@@ -35,7 +35,8 @@ export interface WorldUsers {
 /** Creates the five accounts once (one argon2 hash for all). */
 export async function createUsers(): Promise<WorldUsers> {
   const passwordHash = await hashPassword(WORLD_PASSWORD);
-  const make = (tag: string) => User.create({ email: uniqueEmail(tag), displayName: `World ${tag}`, passwordHash, emailVerifiedAt: new Date() });
+  const make = (tag: string) =>
+    User.create({ email: uniqueEmail(tag), displayName: `World ${tag}`, passwordHash, emailVerifiedAt: new Date() });
   const [owner, editor, viewer, other, target] = await Promise.all(['owner', 'editor', 'viewer', 'other', 'target'].map(make));
   const otherStudio = await Studio.create({ name: 'Elsewhere' });
   await Membership.create({ studioId: otherStudio.id, userId: other.id, role: 'owner' });
@@ -51,7 +52,20 @@ export const TIMING_BODY = {
   interface: { dualScan: true, pixelsPerClock: 4 as const },
 };
 
-export async function createStudioWorld(users: WorldUsers, artworks?: ArtworksService): Promise<{ studio: Studio; invite: Invite; inviteToken: string; timing: SavedTiming; romId: string; artworkId: string; presetId: string; linkId: string; shareToken: string }> {
+export async function createStudioWorld(
+  users: WorldUsers,
+  artworks?: ArtworksService,
+): Promise<{
+  studio: Studio;
+  invite: Invite;
+  inviteToken: string;
+  timing: SavedTiming;
+  romId: string;
+  artworkId: string;
+  presetId: string;
+  linkId: string;
+  shareToken: string;
+}> {
   const studio = await Studio.create({ name: `Matrix ${Math.random().toString(36).slice(2, 7)}` });
   const roles: [User, Role][] = [
     [users.owner, 'owner'],
@@ -61,13 +75,45 @@ export async function createStudioWorld(users: WorldUsers, artworks?: ArtworksSe
   ];
   await Membership.bulkCreate(roles.map(([u, role]) => ({ studioId: studio.id, userId: u.id, role })));
   const { token, hash } = newToken();
-  const invite = await Invite.create({ studioId: studio.id, email: uniqueEmail('invitee'), role: 'viewer', tokenHash: hash, invitedById: users.owner.id, expiresAt: new Date(Date.now() + 86_400_000) });
-  const timing = await SavedTiming.create({ studioId: studio.id, ...TIMING_BODY, createdById: users.owner.id, updatedById: users.owner.id });
+  const invite = await Invite.create({
+    studioId: studio.id,
+    email: uniqueEmail('invitee'),
+    role: 'viewer',
+    tokenHash: hash,
+    invitedById: users.owner.id,
+    expiresAt: new Date(Date.now() + 86_400_000),
+  });
+  const timing = await SavedTiming.create({
+    studioId: studio.id,
+    ...TIMING_BODY,
+    createdById: users.owner.id,
+    updatedById: users.owner.id,
+  });
   const rom = Buffer.from(syntheticRom());
-  const romId = (await VideoRom.create({ studioId: studio.id, name: 'World card', bytes: rom, size: rom.length, sha256: '0'.repeat(64), patchedFromId: null, patch: null, createdById: users.owner.id })).id;
+  const romId = (
+    await VideoRom.create({
+      studioId: studio.id,
+      name: 'World card',
+      bytes: rom,
+      size: rom.length,
+      sha256: '0'.repeat(64),
+      patchedFromId: null,
+      patch: null,
+      createdById: users.owner.id,
+    })
+  ).id;
   // Every world has an artwork: a share link always shows one.
-  const library = artworks ?? new ArtworksService(new FileStore(new DiskBlobStore(path.join(os.tmpdir(), `emberline-world-${process.pid}`))));
-  const artworkId = (await library.upload(studio.id, users.owner.id, pngOf(8, 8, (x, y) => [x * 30, y * 30, 0, 255]), 'tile.png', {})).id;
+  const library =
+    artworks ?? new ArtworksService(new FileStore(new DiskBlobStore(path.join(os.tmpdir(), `emberline-world-${process.pid}`))));
+  const artworkId = (
+    await library.upload(
+      studio.id,
+      users.owner.id,
+      pngOf(8, 8, (x, y) => [x * 30, y * 30, 0, 255]),
+      'tile.png',
+      {},
+    )
+  ).id;
   const presets = new PresetsService();
   const actor = { studioId: studio.id, userId: users.owner.id, role: 'owner' as const };
   const preset = await presets.create(actor, { name: 'World look', panelTypeId: 'el-amber-640x480' });

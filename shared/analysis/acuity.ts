@@ -31,7 +31,8 @@ export interface Acuity {
 
 /** What a viewer at `distanceMm` sees of cells at `pitchMm` (and of a panel `widthMm` × `heightMm`, if given). */
 export function acuity(pitchMm: number, distanceMm: number, panel?: { widthMm: number; heightMm: number }): Acuity {
-  if (!(pitchMm > 0) || !(distanceMm > 0)) throw new RangeError(`pitch and distance must be positive, got ${pitchMm} mm and ${distanceMm} mm`);
+  if (!(pitchMm > 0) || !(distanceMm > 0))
+    throw new RangeError(`pitch and distance must be positive, got ${pitchMm} mm and ${distanceMm} mm`);
   const arcminPerCell = subtendedArcmin(pitchMm, distanceMm);
   const limitDistanceMm = pitchMm / (2 * Math.tan(MAR_20_20_ARCMIN / ARCMIN_PER_RADIAN / 2));
   const deg = (mm: number) => subtendedArcmin(mm, distanceMm) / 60;
@@ -40,6 +41,8 @@ export function acuity(pitchMm: number, distanceMm: number, panel?: { widthMm: n
     cellsPerDegree: 60 / arcminPerCell,
     resolvable: arcminPerCell >= MAR_20_20_ARCMIN,
     limitDistanceMm,
-    panelDegrees: panel ? { width: deg(panel.widthMm), height: deg(panel.heightMm), diagonal: deg(Math.hypot(panel.widthMm, panel.heightMm)) } : null,
+    panelDegrees: panel
+      ? { width: deg(panel.widthMm), height: deg(panel.heightMm), diagonal: deg(Math.hypot(panel.widthMm, panel.heightMm)) }
+      : null,
   };
 }

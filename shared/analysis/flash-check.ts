@@ -9,7 +9,17 @@ import { flashSafety, type FlashSafety, type PanelLight } from './flash-safety';
 /** The light a look makes the panel emit, as the flash check reads it. */
 export function panelLight(p: PanelParams): PanelLight {
   const v = p.viewing;
-  return { cols: p.cell.cols, rows: p.cell.rows, pitchXMm: p.cell.pitchXMm, pitchYMm: p.cell.pitchYMm, colour: outputUniforms(p, 1).colour, peakCdM2: v.peakCdM2, offCdM2: v.offCdM2, ambientCdM2: v.ambientCdM2, whiteCdM2: v.whiteCdM2 };
+  return {
+    cols: p.cell.cols,
+    rows: p.cell.rows,
+    pitchXMm: p.cell.pitchXMm,
+    pitchYMm: p.cell.pitchYMm,
+    colour: outputUniforms(p, 1).colour,
+    peakCdM2: v.peakCdM2,
+    offCdM2: v.offCdM2,
+    ambientCdM2: v.ambientCdM2,
+    whiteCdM2: v.whiteCdM2,
+  };
 }
 
 /** Most frames of an animation whose frame-rate-control cycle is checked (spread evenly over it). */
@@ -33,7 +43,13 @@ export function flashCheck(frames: readonly Frame[], p: PanelParams, distanceMm:
   if (!isFrc(p.drive.dither)) return sequence;
   const count = Math.min(frames.length, FRC_FRAMES_CHECKED);
   const checked = Array.from({ length: count }, (_, j) => Math.floor((j * frames.length) / count));
-  const cycles = checked.map((k) => flashSafety(frcCycle(frames[k], p, emissions[k]).map((emission) => ({ emission, delayMs: 1000 / p.drive.refreshHz })), light, distanceMm));
+  const cycles = checked.map((k) =>
+    flashSafety(
+      frcCycle(frames[k], p, emissions[k]).map((emission) => ({ emission, delayMs: 1000 / p.drive.refreshHz })),
+      light,
+      distanceMm,
+    ),
+  );
   const worst = [sequence, ...cycles].reduce((a, b) => ({
     ...a,
     maxFlashesPerSecond: Math.max(a.maxFlashesPerSecond, b.maxFlashesPerSecond),
@@ -42,7 +58,11 @@ export function flashCheck(frames: readonly Frame[], p: PanelParams, distanceMm:
     redFlashFail: a.redFlashFail || b.redFlashFail,
     bt1702Fail: a.bt1702Fail || b.bt1702Fail,
   }));
-  return { ...worst, pass: !worst.generalFlashFail && !worst.redFlashFail, frc: { refreshes: frcFrames(p.drive.dither), refreshHz: p.drive.refreshHz, framesChecked: count } };
+  return {
+    ...worst,
+    pass: !worst.generalFlashFail && !worst.redFlashFail,
+    frc: { refreshes: frcFrames(p.drive.dither), refreshHz: p.drive.refreshHz, framesChecked: count },
+  };
 }
 
 /**

@@ -7,7 +7,18 @@ import { FLASH_AREA_SR, flashSafety, type EmissionFrame, type PanelLight } from 
  * 26.2 mm radius, and 0.006 sr is 540 mm² (540 cells) [calc].
  */
 const WHITE: [number, number, number] = [1, 1, 1];
-const panel = (over: Partial<PanelLight> = {}): PanelLight => ({ cols: 64, rows: 48, pitchXMm: 1, pitchYMm: 1, colour: WHITE, peakCdM2: 100, offCdM2: 0, ambientCdM2: 0, whiteCdM2: 100, ...over });
+const panel = (over: Partial<PanelLight> = {}): PanelLight => ({
+  cols: 64,
+  rows: 48,
+  pitchXMm: 1,
+  pitchYMm: 1,
+  colour: WHITE,
+  peakCdM2: 100,
+  offCdM2: 0,
+  ambientCdM2: 0,
+  whiteCdM2: 100,
+  ...over,
+});
 
 /** `flashes` per second: lit and dark frames alternate, each 1000 / (2·flashes) ms; `lit(x, y, k)` says which cells are on in frame k. */
 function sequence(flashes: number, lit: (x: number, y: number, k: number) => boolean, frames = 8): EmissionFrame[] {
@@ -37,7 +48,11 @@ describe('flash safety on the emitted light', () => {
   });
 
   test('same area: two halves flashing twice a second out of phase are two 2-per-second flashes, not one 4-per-second flash [std WCAG 2.2 "pair of opposing changes"]', () => {
-    const r = flashSafety(sequence(2, (x, _y, k) => (x < 32) === (k % 2 === 0)), panel(), 300);
+    const r = flashSafety(
+      sequence(2, (x, _y, k) => x < 32 === (k % 2 === 0)),
+      panel(),
+      300,
+    );
     expect(r.maxFlashesPerSecond).toBe(2);
     expect(r.generalFlashFail).toBe(false);
     // The panel's mean light never changes, yet each half flashes.
@@ -47,7 +62,11 @@ describe('flash safety on the emitted light', () => {
 
   test('a balanced checkerboard finer than 0.1° does not count [std WCAG 2.2, the exception for fine balanced patterns]', () => {
     // 0.2 mm cells at 600 mm: a 0.1° block is 1.05 mm, five cells; each block's mean stays 0.5 (or 0.52/0.48 at odd edges).
-    const r = flashSafety(sequence(5, (x, y, k) => (x + y + k) % 2 === 0), panel({ pitchXMm: 0.2, pitchYMm: 0.2 }), 600);
+    const r = flashSafety(
+      sequence(5, (x, y, k) => (x + y + k) % 2 === 0),
+      panel({ pitchXMm: 0.2, pitchYMm: 0.2 }),
+      600,
+    );
     expect(r.block.mm).toBeCloseTo(1.047, 3);
     expect(r.generalFlashFail).toBe(false);
   });

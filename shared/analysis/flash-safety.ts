@@ -83,7 +83,11 @@ const toUv = (x: number, y: number, z: number): [number, number] => {
   return d > 0 ? [(4 * x) / d, (9 * y) / d] : WHITE_UV;
 };
 /** Linear sRGB → CIE XYZ (IEC 61966-2-1 matrix) [std]. */
-const toXyz = (r: number, g: number, b: number): [number, number, number] => [0.4124 * r + 0.3576 * g + 0.1805 * b, 0.2126 * r + 0.7152 * g + 0.0722 * b, 0.0193 * r + 0.1192 * g + 0.9505 * b];
+const toXyz = (r: number, g: number, b: number): [number, number, number] => [
+  0.4124 * r + 0.3576 * g + 0.1805 * b,
+  0.2126 * r + 0.7152 * g + 0.0722 * b,
+  0.0193 * r + 0.1192 * g + 0.9505 * b,
+];
 
 /**
  * The transitions of one block's sequence: the legs between turning points of a zig-zag that
@@ -206,7 +210,17 @@ export function flashSafety(frames: EmissionFrame[], panel: PanelLight, distance
     figures[k].changingShare = changing / blocks;
   }
   const thresholdSr = FLASH_AREA_SR;
-  const empty = { maxFlashesPerSecond: 0, flashingSr: 0, thresholdSr, generalFlashFail: false, redFlashFail: false, bt1702Fail: false, pass: true, block: { mm: blockMm, cols: bCols, rows: bRows }, frames: figures };
+  const empty = {
+    maxFlashesPerSecond: 0,
+    flashingSr: 0,
+    thresholdSr,
+    generalFlashFail: false,
+    redFlashFail: false,
+    bt1702Fail: false,
+    pass: true,
+    block: { mm: blockMm, cols: bCols, rows: bRows },
+    frames: figures,
+  };
   if (n < 2 || period <= 0) return empty;
 
   // The looping sequence over the first loop plus two seconds.
@@ -231,7 +245,12 @@ export function flashSafety(frames: EmissionFrame[], panel: PanelLight, distance
     const r = transitions(series, times, 0.2, (from, to) => redness[from % n][b] >= 0.8 || redness[to % n][b] >= 0.8);
     red.push(overLimit(r, windowStarts));
     for (let i = 0; i < len; i++) series[i] = cd[i % n][b];
-    bt.push(overLimit(transitions(series, times, 20, (from, to) => Math.min(series[from], series[to]) < 160), windowStarts));
+    bt.push(
+      overLimit(
+        transitions(series, times, 20, (from, to) => Math.min(series[from], series[to]) < 160),
+        windowStarts,
+      ),
+    );
   }
 
   // Area: blocks over the limit in the same one-second period, within one 10° field (a square of
@@ -246,10 +265,16 @@ export function flashSafety(frames: EmissionFrame[], panel: PanelLight, distance
     for (let w = 0; w < windowStarts.length; w++) {
       const sat = new Float64Array((bCols + 1) * (bRows + 1));
       for (let y = 0; y < bRows; y++)
-        for (let x = 0; x < bCols; x++) sat[(y + 1) * (bCols + 1) + x + 1] = (flags[y * bCols + x][w] ? 1 : 0) + sat[y * (bCols + 1) + x + 1] + sat[(y + 1) * (bCols + 1) + x] - sat[y * (bCols + 1) + x];
+        for (let x = 0; x < bCols; x++)
+          sat[(y + 1) * (bCols + 1) + x + 1] =
+            (flags[y * bCols + x][w] ? 1 : 0) + sat[y * (bCols + 1) + x + 1] + sat[(y + 1) * (bCols + 1) + x] - sat[y * (bCols + 1) + x];
       for (let y = 0; y + wy <= bRows; y++)
         for (let x = 0; x + wx <= bCols; x++) {
-          const count = sat[(y + wy) * (bCols + 1) + x + wx] - sat[y * (bCols + 1) + x + wx] - sat[(y + wy) * (bCols + 1) + x] + sat[y * (bCols + 1) + x];
+          const count =
+            sat[(y + wy) * (bCols + 1) + x + wx] -
+            sat[y * (bCols + 1) + x + wx] -
+            sat[(y + wy) * (bCols + 1) + x] +
+            sat[y * (bCols + 1) + x];
           best = Math.max(best, count * blockSr);
         }
     }
@@ -261,5 +286,13 @@ export function flashSafety(frames: EmissionFrame[], panel: PanelLight, distance
   const generalFlashFail = flashingSr > thresholdSr;
   const redFlashFail = redSr > thresholdSr;
   const bt1702Fail = btShare > 0.25;
-  return { ...empty, maxFlashesPerSecond: maxFlashes, flashingSr, generalFlashFail, redFlashFail, bt1702Fail, pass: !generalFlashFail && !redFlashFail };
+  return {
+    ...empty,
+    maxFlashesPerSecond: maxFlashes,
+    flashingSr,
+    generalFlashFail,
+    redFlashFail,
+    bt1702Fail,
+    pass: !generalFlashFail && !redFlashFail,
+  };
 }

@@ -4,7 +4,10 @@ import { driveLevels } from '../pipeline/render';
 import { burnIn, legibility, lightFigures, LOST_CONTRAST, testPattern } from './panel-report';
 
 /** A 48 × 32 amber EL look, no dither, so drive levels are the art's. */
-const base = mergeParams(BUILT_IN_PRESETS.find((p) => p.id === 'el-amber-640x480.line-art')!.parameters, { cell: { cols: 48, rows: 32 }, source: { fit: 'native' } });
+const base = mergeParams(BUILT_IN_PRESETS.find((p) => p.id === 'el-amber-640x480.line-art')!.parameters, {
+  cell: { cols: 48, rows: 32 },
+  source: { fit: 'native' },
+});
 
 /** Vertical line pairs one cell wide over the whole panel. */
 const linePairs = () => {
@@ -20,7 +23,9 @@ describe('legibility on the simulated output', () => {
   test('falls monotonically as the glow radius grows up to one pitch, on one-cell line pairs; detail starts to be lost there [calc]', () => {
     // Beyond about one pitch the glow is an even veil over one-cell detail: the structure is gone either way.
     const emission = driveLevels(linePairs(), base);
-    const scores = [0, 0.1, 0.2, 0.3].map((r) => legibility(emission, mergeParams(base, { glass: { glowRadiusMm: r, glowShare: 0.9, haloShare: 0 } })));
+    const scores = [0, 0.1, 0.2, 0.3].map((r) =>
+      legibility(emission, mergeParams(base, { glass: { glowRadiusMm: r, glowShare: 0.9, haloShare: 0 } })),
+    );
     for (let k = 1; k < scores.length; k++) expect(scores[k].score).toBeLessThan(scores[k - 1].score);
     expect(scores[0].score).toBeGreaterThan(0.9);
     expect(scores[0].lostShare).toBe(0);
@@ -41,7 +46,7 @@ describe('light, power and burn-in', () => {
   });
 
   test('the burn-in map of a static image is its duty map, and its worst region is where the image is brightest', () => {
-    const e = new Float32Array(48 * 32).map((_, i) => ((i % 48) < 16 && Math.floor(i / 48) < 16 ? 1 : 0.25));
+    const e = new Float32Array(48 * 32).map((_, i) => (i % 48 < 16 && Math.floor(i / 48) < 16 ? 1 : 0.25));
     const b = burnIn([e], [1000], base, 1000);
     expect(Array.from(b.duty)).toEqual(Array.from(e));
     expect(b.wear[0]).toBe(1);
@@ -69,11 +74,17 @@ describe('test pattern', () => {
     expect([0, 1, 2, 3].map((x) => code(x, 2))).toEqual([255, 0, 255, 0]); // 1-cell pairs
     expect([32, 33, 34, 35].map((x) => code(x, 2))).toEqual([255, 255, 0, 0]); // 2-cell pairs
     expect([0, 1, 2, 3].map((y) => code(1, 16 + y))).toEqual([255, 0, 255, 0]); // horizontal 1-cell pairs
-    const p = mergeParams(BUILT_IN_PRESETS.find((q) => q.id === 'crt-green-p1.standard')!.parameters, { cell: { cols: 96, rows: 64 }, source: { fit: 'native' }, drive: { dither: 'none' } });
+    const p = mergeParams(BUILT_IN_PRESETS.find((q) => q.id === 'crt-green-p1.standard')!.parameters, {
+      cell: { cols: 96, rows: 64 },
+      source: { fit: 'native' },
+      drive: { dither: 'none' },
+    });
     const levels = driveLevels(img, p);
     const ramp = new Set(Array.from({ length: 96 }, (_, x) => levels[40 * 96 + x].toFixed(4)));
     expect(ramp.size).toBe(p.drive.grayLevels);
     // Some text cells are lit in the fourth band.
-    expect(Array.from({ length: 96 * 16 }, (_, i) => img.data[((48 + Math.floor(i / 96)) * 96 + (i % 96)) * 4]).some((v) => v === 255)).toBe(true);
+    expect(
+      Array.from({ length: 96 * 16 }, (_, i) => img.data[((48 + Math.floor(i / 96)) * 96 + (i % 96)) * 4]).some((v) => v === 255),
+    ).toBe(true);
   });
 });

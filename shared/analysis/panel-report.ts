@@ -31,7 +31,9 @@ export interface Legibility {
 
 const luminanceAt = (img: RgbaImage, x: number, y: number) => {
   const i = (y * img.width + x) * 4;
-  return REC709[0] * SRGB_TO_LINEAR[img.data[i]] + REC709[1] * SRGB_TO_LINEAR[img.data[i + 1]] + REC709[2] * SRGB_TO_LINEAR[img.data[i + 2]];
+  return (
+    REC709[0] * SRGB_TO_LINEAR[img.data[i]] + REC709[1] * SRGB_TO_LINEAR[img.data[i + 1]] + REC709[2] * SRGB_TO_LINEAR[img.data[i + 2]]
+  );
 };
 const michelson = (a: number, b: number) => (a + b > 0 ? Math.abs(a - b) / (a + b) : 0);
 
@@ -93,7 +95,12 @@ export function lightFigures(emissions: Float32Array[], p: PanelParams): LightFr
       if (e[i] > max) max = e[i];
     }
     const mean = sum / e.length;
-    return { litShare: mean, relativePower: mean, meanCdM2: mean * v.peakCdM2 + v.offCdM2 + v.ambientCdM2, peakCdM2: max * v.peakCdM2 + v.offCdM2 + v.ambientCdM2 };
+    return {
+      litShare: mean,
+      relativePower: mean,
+      meanCdM2: mean * v.peakCdM2 + v.offCdM2 + v.ambientCdM2,
+      peakCdM2: max * v.peakCdM2 + v.offCdM2 + v.ambientCdM2,
+    };
   });
 }
 
@@ -167,9 +174,13 @@ export function testPattern(cols: number, rows: number, levels = 16): RgbaImage 
   const band = Math.max(4, Math.floor(rows / 4));
   const third = Math.floor(cols / 3);
   // Row band 1: vertical line pairs of 1, 2 and 3 cells, one per third of the width.
-  for (let k = 0; k < 3; k++) for (let y = 0; y < band; y++) for (let x = k * third; x < (k + 1) * third; x++) set(x, y, Math.floor((x - k * third) / (k + 1)) % 2 === 0 ? 255 : 0);
+  for (let k = 0; k < 3; k++)
+    for (let y = 0; y < band; y++)
+      for (let x = k * third; x < (k + 1) * third; x++) set(x, y, Math.floor((x - k * third) / (k + 1)) % 2 === 0 ? 255 : 0);
   // Row band 2: horizontal line pairs of 1, 2 and 3 cells.
-  for (let k = 0; k < 3; k++) for (let y = band; y < 2 * band; y++) for (let x = k * third; x < (k + 1) * third; x++) set(x, y, Math.floor((y - band) / (k + 1)) % 2 === 0 ? 255 : 0);
+  for (let k = 0; k < 3; k++)
+    for (let y = band; y < 2 * band; y++)
+      for (let x = k * third; x < (k + 1) * third; x++) set(x, y, Math.floor((y - band) / (k + 1)) % 2 === 0 ? 255 : 0);
   // Row band 3: the gray ramp, `levels` steps across the width (sRGB codes of equal light steps).
   for (let y = 2 * band; y < 3 * band; y++)
     for (let x = 0; x < cols; x++) {

@@ -3,7 +3,11 @@ import { z } from 'zod';
 import { nameSchema } from './text.schema';
 
 const whole = (name: string, min: number, max: number) =>
-  z.coerce.number({ message: `${name} must be a whole number from ${min} to ${max}` }).int({ message: `${name} must be a whole number from ${min} to ${max}` }).min(min, { message: `${name} must be a whole number from ${min} to ${max}` }).max(max, { message: `${name} must be a whole number from ${min} to ${max}` });
+  z.coerce
+    .number({ message: `${name} must be a whole number from ${min} to ${max}` })
+    .int({ message: `${name} must be a whole number from ${min} to ${max}` })
+    .min(min, { message: `${name} must be a whole number from ${min} to ${max}` })
+    .max(max, { message: `${name} must be a whole number from ${min} to ${max}` });
 
 /** Multipart text fields of an upload: an optional name and, for a sprite sheet, its grid. */
 export const uploadFieldsSchema = z
@@ -13,7 +17,10 @@ export const uploadFieldsSchema = z
     frameHeight: whole('frameHeight', 1, 4096).optional(),
     frameDelayMs: whole('frameDelayMs', 20, 10000).optional(),
   })
-  .refine((f) => (f.frameWidth === undefined) === (f.frameHeight === undefined), { message: 'give both frameWidth and frameHeight for a sprite sheet, or neither', path: ['frameWidth'] });
+  .refine((f) => (f.frameWidth === undefined) === (f.frameHeight === undefined), {
+    message: 'give both frameWidth and frameHeight for a sprite sheet, or neither',
+    path: ['frameWidth'],
+  });
 
 export const renameArtworkSchema = z.strictObject({ name: nameSchema(120) });
 
@@ -29,4 +36,7 @@ export const studioRenderSchema = z
     scale: whole('scale', 1, 8).default(3),
     frame: whole('frame', 0, 100000).default(0),
   })
-  .refine((f) => (f.presetId ? 1 : 0) + (f.parameters !== undefined ? 1 : 0) === 1, { message: 'give either presetId (optionally with patch) or parameters', path: ['presetId'] });
+  .refine((f) => (f.presetId ? 1 : 0) + (f.parameters !== undefined ? 1 : 0) === 1, {
+    message: 'give either presetId (optionally with patch) or parameters',
+    path: ['presetId'],
+  });

@@ -35,9 +35,7 @@ export interface InviteDto {
 
 /** What an invite link shows before it is accepted. */
 /** What an invite link shows; once accepted it shows nothing but that fact. */
-export type InvitePreviewDto =
-  | { accepted: true }
-  | { accepted: false; studioName: string; role: Role; email: string; expired: boolean };
+export type InvitePreviewDto = { accepted: true } | { accepted: false; studioName: string; role: Role; email: string; expired: boolean };
 
 /** The error body every failing /api call answers with. */
 export interface ApiErrorBody {

@@ -22,12 +22,19 @@ export const sheetRequestSchema = z
       .min(1, { message: 'choose at least one look' })
       .max(MAX_SHEET_LOOKS, { message: `choose at most ${MAX_SHEET_LOOKS} looks` })
       .refine((ids) => new Set(ids).size === ids.length, { message: 'each look may be chosen once' }),
-    scale: z.int({ message: 'scale must be a whole number from 1 to 4' }).min(1, { message: 'scale must be a whole number from 1 to 4' }).max(4, { message: 'scale must be a whole number from 1 to 4' }).default(2),
+    scale: z
+      .int({ message: 'scale must be a whole number from 1 to 4' })
+      .min(1, { message: 'scale must be a whole number from 1 to 4' })
+      .max(4, { message: 'scale must be a whole number from 1 to 4' })
+      .default(2),
     frame: z.int({ message: 'frame must be a whole number from 0' }).min(0, { message: 'frame must be a whole number from 0' }).default(0),
     /** Under each render: its legibility, light and power, as the bench's analysis computes them. */
     report: z.boolean({ message: 'report must be true or false' }).default(false),
   })
-  .refine((r) => r.artworkIds.length * r.looks.length <= MAX_SHEET_CELLS, { message: `a sheet holds at most ${MAX_SHEET_CELLS} cells (artworks × looks)`, path: ['looks'] })
+  .refine((r) => r.artworkIds.length * r.looks.length <= MAX_SHEET_CELLS, {
+    message: `a sheet holds at most ${MAX_SHEET_CELLS} cells (artworks × looks)`,
+    path: ['looks'],
+  })
   .refine((r) => r.layout !== 'ab-diff' || r.looks.length === 2, { message: 'an A/B sheet compares exactly two looks', path: ['looks'] });
 export type SheetRequest = z.infer<typeof sheetRequestSchema>;
 
@@ -39,8 +46,16 @@ export const animationRequestSchema = z.strictObject({
   title: nameSchema(120).optional(),
   artworkId: z.uuid({ message: 'artworkId must be an artwork id' }),
   look: z.string().min(1, { message: 'choose a look' }).max(100),
-  scale: z.int({ message: 'scale must be a whole number from 1 to 4' }).min(1, { message: 'scale must be a whole number from 1 to 4' }).max(4, { message: 'scale must be a whole number from 1 to 4' }).default(2),
-  distanceMm: z.number({ message: 'distanceMm must be a number from 50 to 100000' }).min(50, { message: 'distanceMm must be a number from 50 to 100000' }).max(100_000, { message: 'distanceMm must be a number from 50 to 100000' }).default(600),
+  scale: z
+    .int({ message: 'scale must be a whole number from 1 to 4' })
+    .min(1, { message: 'scale must be a whole number from 1 to 4' })
+    .max(4, { message: 'scale must be a whole number from 1 to 4' })
+    .default(2),
+  distanceMm: z
+    .number({ message: 'distanceMm must be a number from 50 to 100000' })
+    .min(50, { message: 'distanceMm must be a number from 50 to 100000' })
+    .max(100_000, { message: 'distanceMm must be a number from 50 to 100000' })
+    .default(600),
 });
 export type AnimationRequest = z.infer<typeof animationRequestSchema>;
 
@@ -56,7 +71,11 @@ export interface ExportFlash {
 
 /** A share link to an export: how long it works (none: until revoked). */
 export const exportLinkSchema = z.strictObject({
-  expiresInDays: z.int({ message: 'expiresInDays must be a whole number from 1 to 365' }).min(1, { message: 'expiresInDays must be a whole number from 1 to 365' }).max(365, { message: 'expiresInDays must be a whole number from 1 to 365' }).optional(),
+  expiresInDays: z
+    .int({ message: 'expiresInDays must be a whole number from 1 to 365' })
+    .min(1, { message: 'expiresInDays must be a whole number from 1 to 365' })
+    .max(365, { message: 'expiresInDays must be a whole number from 1 to 365' })
+    .optional(),
 });
 
 /** A share link to an export; the URL only in the answer that made it (the token is stored hashed). */
@@ -93,7 +112,13 @@ export type ExportFormat = (typeof EXPORT_FORMATS)[number];
 
 export const EXPORT_STATUSES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
 export type ExportStatus = (typeof EXPORT_STATUSES)[number];
-export const EXPORT_STATUS_LABELS: Readonly<Record<ExportStatus, string>> = { queued: 'Waiting', running: 'Rendering', done: 'Ready', failed: 'Failed', cancelled: 'Cancelled' };
+export const EXPORT_STATUS_LABELS: Readonly<Record<ExportStatus, string>> = {
+  queued: 'Waiting',
+  running: 'Rendering',
+  done: 'Ready',
+  failed: 'Failed',
+  cancelled: 'Cancelled',
+};
 
 /** One export as the studio sees it. */
 export interface ExportDto {

@@ -6,14 +6,29 @@ export const matchUploadSchema = z.strictObject({
   /** The look to start from: a built-in preset id, or studio:<preset id>. */
   look: z.string({ message: 'choose the look to start from' }).min(1, { message: 'choose the look to start from' }).max(100),
   /** The active area as measured on the panel, mm (default: the look's pitch × cells). */
-  activeWidthMm: z.coerce.number({ message: 'active width must be a number of millimetres' }).min(1, { message: 'active width must be from 1 to 2000 mm' }).max(2000, { message: 'active width must be from 1 to 2000 mm' }).optional(),
-  activeHeightMm: z.coerce.number({ message: 'active height must be a number of millimetres' }).min(1, { message: 'active height must be from 1 to 2000 mm' }).max(2000, { message: 'active height must be from 1 to 2000 mm' }).optional(),
+  activeWidthMm: z.coerce
+    .number({ message: 'active width must be a number of millimetres' })
+    .min(1, { message: 'active width must be from 1 to 2000 mm' })
+    .max(2000, { message: 'active width must be from 1 to 2000 mm' })
+    .optional(),
+  activeHeightMm: z.coerce
+    .number({ message: 'active height must be a number of millimetres' })
+    .min(1, { message: 'active height must be from 1 to 2000 mm' })
+    .max(2000, { message: 'active height must be from 1 to 2000 mm' })
+    .optional(),
   /** The camera's curve: sRGB (every camera's JPEG), or a stated gamma. */
-  cameraGamma: z.coerce.number({ message: 'camera gamma must be a number from 1 to 3' }).min(1, { message: 'camera gamma must be a number from 1 to 3' }).max(3, { message: 'camera gamma must be a number from 1 to 3' }).optional(),
+  cameraGamma: z.coerce
+    .number({ message: 'camera gamma must be a number from 1 to 3' })
+    .min(1, { message: 'camera gamma must be a number from 1 to 3' })
+    .max(3, { message: 'camera gamma must be a number from 1 to 3' })
+    .optional(),
 });
 export type MatchUpload = z.infer<typeof matchUploadSchema>;
 
-const point = z.tuple([z.number({ message: 'each mark is [x, y] in photo pixels' }), z.number({ message: 'each mark is [x, y] in photo pixels' })]);
+const point = z.tuple([
+  z.number({ message: 'each mark is [x, y] in photo pixels' }),
+  z.number({ message: 'each mark is [x, y] in photo pixels' }),
+]);
 /** The four marks, photo pixels: top-left, top-right, bottom-right, bottom-left. */
 export const matchMarksSchema = z.strictObject({ marks: z.array(point).length(4, { message: 'place exactly four marks' }) });
 
@@ -21,17 +36,31 @@ export const matchMarksSchema = z.strictObject({ marks: z.array(point).length(4,
 const levelCurve = z.boolean({ message: 'levelCurve must be true or false' }).optional();
 
 /** Saving a fit: as a new studio preset (a name), or as a new revision of the studio preset it started from. */
-export const matchSaveSchema = z.union([
-  z.strictObject({ name: z.string().trim().min(1, { message: 'give the preset a name' }).max(80, { message: 'a preset name has at most 80 characters' }), levelCurve }),
-  z.strictObject({ revisionOfLook: z.literal(true, { message: 'revisionOfLook must be true' }), levelCurve }),
-], { message: 'give a name for a new preset, or revisionOfLook: true for a new revision of the starting preset' });
+export const matchSaveSchema = z.union(
+  [
+    z.strictObject({
+      name: z.string().trim().min(1, { message: 'give the preset a name' }).max(80, { message: 'a preset name has at most 80 characters' }),
+      levelCurve,
+    }),
+    z.strictObject({ revisionOfLook: z.literal(true, { message: 'revisionOfLook must be true' }), levelCurve }),
+  ],
+  { message: 'give a name for a new preset, or revisionOfLook: true for a new revision of the starting preset' },
+);
 
 export const MATCH_STATUSES = ['marking', 'queued', 'running', 'done', 'failed'] as const;
 export type MatchStatus = (typeof MATCH_STATUSES)[number];
-export const MATCH_STATUS_LABELS: Readonly<Record<MatchStatus, string>> = { marking: 'Waiting for marks', queued: 'Waiting for a worker', running: 'Fitting', done: 'Fitted', failed: 'Could not fit' };
+export const MATCH_STATUS_LABELS: Readonly<Record<MatchStatus, string>> = {
+  marking: 'Waiting for marks',
+  queued: 'Waiting for a worker',
+  running: 'Fitting',
+  done: 'Fitted',
+  failed: 'Could not fit',
+};
 
 /** A fit's result as the API shows it (the images are separate downloads). */
-export type MatchResultDto = Pick<MatchResult, 'parameters' | 'levels' | 'quality' | 'cameraBlurMm' | 'notDetermined' | 'marks'> & { fitted: FittedValue[] };
+export type MatchResultDto = Pick<MatchResult, 'parameters' | 'levels' | 'quality' | 'cameraBlurMm' | 'notDetermined' | 'marks'> & {
+  fitted: FittedValue[];
+};
 
 export interface MatchDto {
   id: string;

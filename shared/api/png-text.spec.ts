@@ -2,7 +2,10 @@ import sharp from 'sharp';
 import zlib from 'node:zlib';
 import { crc32, readPngText, withPngText } from './png-text';
 
-const png = () => sharp({ create: { width: 4, height: 3, channels: 3, background: { r: 255, g: 176, b: 0 } } }).png().toBuffer();
+const png = () =>
+  sharp({ create: { width: 4, height: 3, channels: 3, background: { r: 255, g: 176, b: 0 } } })
+    .png()
+    .toBuffer();
 
 test('CRC-32 equals the reference implementation in zlib [general-purpose reference library], and the PNG check value of "IEND"', () => {
   for (const text of ['', 'IEND', 'iTXtEmberline', '123456789']) {
@@ -20,7 +23,7 @@ test('text goes in right after IHDR, every chunk CRC checks out, and the image s
   // Walk the chunks: IHDR first, then ours, each CRC valid.
   const view = new DataView(tagged.buffer);
   const types: string[] = [];
-  for (let at = 8; at < tagged.length; ) {
+  for (let at = 8; at < tagged.length;) {
     const length = view.getUint32(at);
     types.push(String.fromCharCode(...tagged.subarray(at + 4, at + 8)));
     expect(view.getUint32(at + 8 + length)).toBe(zlib.crc32(tagged.subarray(at + 4, at + 8 + length)));

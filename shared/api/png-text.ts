@@ -20,7 +20,8 @@ const SIGNATURE = [0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a];
 
 /** One uncompressed iTXt chunk: keyword (1–79 Latin-1 characters), no language tag, UTF-8 text. */
 function itxtChunk(keyword: string, text: string): Uint8Array {
-  if (!/^[\x20-\x7e\xa1-\xff]{1,79}$/.test(keyword)) throw new RangeError(`a PNG text keyword is 1 to 79 Latin-1 characters, got "${keyword}"`);
+  if (!/^[\x20-\x7e\xa1-\xff]{1,79}$/.test(keyword))
+    throw new RangeError(`a PNG text keyword is 1 to 79 Latin-1 characters, got "${keyword}"`);
   const utf8 = new TextEncoder().encode(text);
   const data = new Uint8Array(keyword.length + 5 + utf8.length);
   for (let i = 0; i < keyword.length; i++) data[i] = keyword.charCodeAt(i);
@@ -57,7 +58,7 @@ export function withPngText(png: Uint8Array, entries: Readonly<Record<string, st
 export function readPngText(png: Uint8Array): Record<string, string> {
   const view = new DataView(png.buffer, png.byteOffset, png.byteLength);
   const found: Record<string, string> = {};
-  for (let at = 8; at + 12 <= png.length; ) {
+  for (let at = 8; at + 12 <= png.length;) {
     const length = view.getUint32(at);
     const type = String.fromCharCode(...png.subarray(at + 4, at + 8));
     if (type === 'iTXt') {

@@ -18,13 +18,21 @@ export const updatePresetSchema = z.strictObject({
   message: noteSchema(500).optional(),
 });
 
-export const duplicatePresetSchema = z.strictObject({ studioId: z.uuid({ message: 'studioId must be a studio id' }), name: name.optional() });
+export const duplicatePresetSchema = z.strictObject({
+  studioId: z.uuid({ message: 'studioId must be a studio id' }),
+  name: name.optional(),
+});
 export const referenceSchema = z.strictObject({ isReference: z.boolean() });
 export const restoreSchema = z.strictObject({ message: noteSchema(500).optional() });
 
 export const shareLinkSchema = z.strictObject({
   artworkId: z.uuid({ message: 'artworkId must be an artwork id' }).optional(),
-  expiresInDays: z.number().int({ message: 'expiresInDays must be a whole number from 1 to 365' }).min(1, { message: 'expiresInDays must be a whole number from 1 to 365' }).max(365, { message: 'expiresInDays must be a whole number from 1 to 365' }).optional(),
+  expiresInDays: z
+    .number()
+    .int({ message: 'expiresInDays must be a whole number from 1 to 365' })
+    .min(1, { message: 'expiresInDays must be a whole number from 1 to 365' })
+    .max(365, { message: 'expiresInDays must be a whole number from 1 to 365' })
+    .optional(),
 });
 
 /** Emberline's own preset document format, for export and import. */

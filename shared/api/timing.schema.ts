@@ -5,7 +5,11 @@ import { STANDARDS } from '../drive/resolve';
 import { nameSchema } from './text.schema';
 
 const whole = (name: string, min: number, max: number) =>
-  z.number({ message: `${name} must be a whole number from ${min} to ${max}` }).int({ message: `${name} must be a whole number from ${min} to ${max}` }).min(min, { message: `${name} must be a whole number from ${min} to ${max}` }).max(max, { message: `${name} must be a whole number from ${min} to ${max}` });
+  z
+    .number({ message: `${name} must be a whole number from ${min} to ${max}` })
+    .int({ message: `${name} must be a whole number from ${min} to ${max}` })
+    .min(min, { message: `${name} must be a whole number from ${min} to ${max}` })
+    .max(max, { message: `${name} must be a whole number from ${min} to ${max}` });
 
 const axisSchema = (unit: string) =>
   z.strictObject({
@@ -20,11 +24,16 @@ export const timingSourceSchema = z.discriminatedUnion('kind', [
   z.strictObject({
     kind: z.literal('standard'),
     standard: z.enum(STANDARDS, { message: `standard must be one of ${STANDARDS.join(', ')}` }),
-    mode: z.string().regex(/^(\d{2,5}x\d{2,5}@\d{1,3}(\.\d+)?( RB)?|vga-mode-03h|vga-mode-12h)$/, { message: 'mode must look like 640x480@60 (or 1280x768@60 RB for a reduced-blanking DMT row)' }),
+    mode: z.string().regex(/^(\d{2,5}x\d{2,5}@\d{1,3}(\.\d+)?( RB)?|vga-mode-03h|vga-mode-12h)$/, {
+      message: 'mode must look like 640x480@60 (or 1280x768@60 RB for a reduced-blanking DMT row)',
+    }),
   }),
   z.strictObject({
     kind: z.literal('custom'),
-    pixelClockMHz: z.number({ message: 'pixel clock must be a number from 0.1 to 1000 MHz' }).min(0.1, { message: 'pixel clock must be a number from 0.1 to 1000 MHz' }).max(1000, { message: 'pixel clock must be a number from 0.1 to 1000 MHz' }),
+    pixelClockMHz: z
+      .number({ message: 'pixel clock must be a number from 0.1 to 1000 MHz' })
+      .min(0.1, { message: 'pixel clock must be a number from 0.1 to 1000 MHz' })
+      .max(1000, { message: 'pixel clock must be a number from 0.1 to 1000 MHz' }),
     h: axisSchema('pixels'),
     v: axisSchema('lines'),
     hSyncPositive: z.boolean(),
@@ -35,7 +44,10 @@ export type TimingSource = z.infer<typeof timingSourceSchema>;
 
 export const interfaceSchema = z.strictObject({
   dualScan: z.boolean(),
-  pixelsPerClock: z.union(PIXELS_PER_CLOCK.map((n) => z.literal(n)) as unknown as [z.ZodLiteral<1>, z.ZodLiteral<4>, z.ZodLiteral<8>, z.ZodLiteral<16>], { message: `pixels per clock must be one of ${PIXELS_PER_CLOCK.join(', ')}` }),
+  pixelsPerClock: z.union(
+    PIXELS_PER_CLOCK.map((n) => z.literal(n)) as unknown as [z.ZodLiteral<1>, z.ZodLiteral<4>, z.ZodLiteral<8>, z.ZodLiteral<16>],
+    { message: `pixels per clock must be one of ${PIXELS_PER_CLOCK.join(', ')}` },
+  ),
 });
 
 export const createTimingSchema = z.strictObject({

@@ -110,7 +110,9 @@ describe('emission colour', () => {
     const lift = Math.max(0, -Math.min(...lin));
     const lifted = lin.map((c) => c + lift);
     const peak = Math.max(...lifted);
-    const ref = new Color('srgb-linear', lifted.map((c) => c / peak) as [number, number, number]).to('srgb').coords.map((c) => Math.round(Number(c) * 255));
+    const ref = new Color('srgb-linear', lifted.map((c) => c / peak) as [number, number, number])
+      .to('srgb')
+      .coords.map((c) => Math.round(Number(c) * 255));
     const oursCodes = [1, 3, 5].map((i) => parseInt(ours.hex.slice(i, i + 2), 16));
     oursCodes.forEach((c, i) => expect(Math.abs(c - ref[i])).toBeLessThanOrEqual(1));
   });

@@ -44,8 +44,10 @@ const round3 = (v: number) => Math.round(v * 1000) / 1000;
  * reduced blanking v1 or v2. Throws RangeError on sizes or rates it cannot produce.
  */
 export function cvtTiming(width: number, height: number, refreshHz: number, variant: CvtVariant = 'cvt'): Timing {
-  if (!(Number.isInteger(width) && width >= 64 && width <= 8192)) throw new RangeError(`width must be a whole number from 64 to 8192, got ${width}`);
-  if (!(Number.isInteger(height) && height >= 64 && height <= 8192)) throw new RangeError(`height must be a whole number from 64 to 8192, got ${height}`);
+  if (!(Number.isInteger(width) && width >= 64 && width <= 8192))
+    throw new RangeError(`width must be a whole number from 64 to 8192, got ${width}`);
+  if (!(Number.isInteger(height) && height >= 64 && height <= 8192))
+    throw new RangeError(`height must be a whole number from 64 to 8192, got ${height}`);
   if (!(refreshHz >= 20 && refreshHz <= 480)) throw new RangeError(`refresh rate must be from 20 to 480 Hz, got ${refreshHz}`);
   const name = `${width}x${height}@${refreshHz}`;
   const vSync = cvtVSync(width, height);

@@ -16,11 +16,41 @@ function tracks(a: Axis, syncPositive: boolean, syncName: string, blankName: str
   const syncEnd = syncStart + a.sync;
   const syncSeg = (inSync: boolean) => (syncPositive ? inSync : !inSync);
   const list: Track[] = [
-    { label: syncName, kind: 'sync', segments: [[0, syncStart, syncSeg(false)], [syncStart, syncEnd, syncSeg(true)], [syncEnd, a.total, syncSeg(false)]] },
-    { label: blankName, kind: 'blank', segments: [[0, a.active, false], [a.active, a.total, true]] },
-    { label: 'Active data', kind: 'data', segments: [[0, a.active, true], [a.active, a.total, false]] },
+    {
+      label: syncName,
+      kind: 'sync',
+      segments: [
+        [0, syncStart, syncSeg(false)],
+        [syncStart, syncEnd, syncSeg(true)],
+        [syncEnd, a.total, syncSeg(false)],
+      ],
+    },
+    {
+      label: blankName,
+      kind: 'blank',
+      segments: [
+        [0, a.active, false],
+        [a.active, a.total, true],
+      ],
+    },
+    {
+      label: 'Active data',
+      kind: 'data',
+      segments: [
+        [0, a.active, true],
+        [a.active, a.total, false],
+      ],
+    },
   ];
-  if (clockLabel) list.push({ label: clockLabel, kind: 'clock', segments: [[0, a.active, true], [a.active, a.total, false]] });
+  if (clockLabel)
+    list.push({
+      label: clockLabel,
+      kind: 'clock',
+      segments: [
+        [0, a.active, true],
+        [a.active, a.total, false],
+      ],
+    });
   return list;
 }
 
@@ -37,7 +67,10 @@ function panel(title: string, a: Axis, unit: string, duration: string, list: Tra
     out += `<text x="12" y="${top + 18}" class="label">${esc(t.label)}</text>`;
     if (t.kind === 'data' || t.kind === 'clock') {
       const [s, e] = t.segments[0];
-      out += t.kind === 'data' ? `<rect x="${x(s)}" y="${hi}" width="${x(e) - x(s)}" height="${lo - hi}" class="data"/>` : `<rect x="${x(s)}" y="${hi}" width="${x(e) - x(s)}" height="${lo - hi}" class="clock"/>`;
+      out +=
+        t.kind === 'data'
+          ? `<rect x="${x(s)}" y="${hi}" width="${x(e) - x(s)}" height="${lo - hi}" class="data"/>`
+          : `<rect x="${x(s)}" y="${hi}" width="${x(e) - x(s)}" height="${lo - hi}" class="clock"/>`;
       out += `<line x1="${x(e)}" y1="${lo}" x2="${x(a.total)}" y2="${lo}" class="wave"/>`;
       return;
     }

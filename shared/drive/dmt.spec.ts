@@ -56,10 +56,13 @@ describe('the whole VESA DMT table [std]', () => {
     expect([...ids].sort((a, b) => a - b)).toEqual(Array.from({ length: 0x58 }, (_, i) => i + 1).filter((id) => id !== 0x0f));
   });
 
-  test.each(DMT_TIMINGS.map((t) => [t.name, t] as const))('%s refreshes within 1 Hz of its name (DMT names round: 72.809 Hz is "72") and is a possible timing', (name, t) => {
-    expect(Math.abs(figures(t).refreshHz - parseMode(name)!.refreshHz)).toBeLessThan(1);
-    expect(timingProblems(t)).toEqual([]);
-  });
+  test.each(DMT_TIMINGS.map((t) => [t.name, t] as const))(
+    '%s refreshes within 1 Hz of its name (DMT names round: 72.809 Hz is "72") and is a possible timing',
+    (name, t) => {
+      expect(Math.abs(figures(t).refreshHz - parseMode(name)!.refreshHz)).toBeLessThan(1);
+      expect(timingProblems(t)).toEqual([]);
+    },
+  );
 
   // DMT rows whose blanking the standard takes from CVT: the formula must give them back exactly.
   test.each([

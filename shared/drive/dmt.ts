@@ -7,7 +7,15 @@ const dmt = (id: number, name: string, clock: number, h: number[], v: number[], 
 });
 
 function mode(name: string, origin: 'dmt' | 'vga', clock: number, h: number[], v: number[], hPos: boolean, vPos: boolean): Timing {
-  return { name, origin, pixelClockMHz: clock, h: axis(h[0], h[1], h[2], h[3]), v: axis(v[0], v[1], v[2], v[3]), hSyncPositive: hPos, vSyncPositive: vPos };
+  return {
+    name,
+    origin,
+    pixelClockMHz: clock,
+    h: axis(h[0], h[1], h[2], h[3]),
+    v: axis(v[0], v[1], v[2], v[3]),
+    hSyncPositive: hPos,
+    vSyncPositive: vPos,
+  };
 }
 
 /**

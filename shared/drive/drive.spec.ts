@@ -7,7 +7,21 @@ import { decodeVgaRegisters, hex2, vbeCrtcInfoBlock, VbeFieldRangeError, vgaRegi
 import { resolveTiming } from './resolve';
 import { axis, figures, timingProblems, type Timing } from './timing';
 
-const row = (t: Timing) => [t.pixelClockMHz, t.h.active, t.h.frontPorch, t.h.sync, t.h.backPorch, t.h.total, t.v.active, t.v.frontPorch, t.v.sync, t.v.backPorch, t.v.total, t.hSyncPositive, t.vSyncPositive];
+const row = (t: Timing) => [
+  t.pixelClockMHz,
+  t.h.active,
+  t.h.frontPorch,
+  t.h.sync,
+  t.h.backPorch,
+  t.h.total,
+  t.v.active,
+  t.v.frontPorch,
+  t.v.sync,
+  t.v.backPorch,
+  t.v.total,
+  t.hSyncPositive,
+  t.vSyncPositive,
+];
 
 describe('VESA DMT [std]', () => {
   test.each([
@@ -85,24 +99,30 @@ describe('VESA CVT 1.2 [std; worked results agree with published modelines]', ()
 
   test('properties: totals are the sums of their parts, the clock is on the step, refresh near the request', () => {
     fc.assert(
-      fc.property(fc.integer({ min: 40, max: 240 }).map((w) => w * 8), fc.integer({ min: 240, max: 1600 }), fc.integer({ min: 50, max: 120 }), fc.constantFrom('cvt', 'cvt-rb', 'cvt-rb2' as const), (w, h, hz, variant) => {
-        const t = cvtTiming(w, h, hz, variant);
-        for (const a of [t.h, t.v]) expect(a.total).toBe(a.active + a.frontPorch + a.sync + a.backPorch);
-        expect(timingProblems(t)).toEqual([]);
-        const step = variant === 'cvt-rb2' ? 0.001 : 0.25;
-        expect(Math.abs(t.pixelClockMHz / step - Math.round(t.pixelClockMHz / step))).toBeLessThan(1e-6);
-        const f = figures(t);
-        // Normal blanking derives its clock from an estimated line period, rounds lines up (small
-        // heights with odd aspect ratios get long minimum porches) and the clock down: never above
-        // the request, and within 15 % of it.
-        expect(f.refreshHz).toBeLessThanOrEqual(hz + 1e-9);
-        expect(f.refreshHz).toBeGreaterThan(hz * 0.85);
-        // Reduced blanking derives the clock from the rate, rounded down: at or under it by at most one clock step.
-        if (variant !== 'cvt') {
+      fc.property(
+        fc.integer({ min: 40, max: 240 }).map((w) => w * 8),
+        fc.integer({ min: 240, max: 1600 }),
+        fc.integer({ min: 50, max: 120 }),
+        fc.constantFrom('cvt', 'cvt-rb', 'cvt-rb2' as const),
+        (w, h, hz, variant) => {
+          const t = cvtTiming(w, h, hz, variant);
+          for (const a of [t.h, t.v]) expect(a.total).toBe(a.active + a.frontPorch + a.sync + a.backPorch);
+          expect(timingProblems(t)).toEqual([]);
+          const step = variant === 'cvt-rb2' ? 0.001 : 0.25;
+          expect(Math.abs(t.pixelClockMHz / step - Math.round(t.pixelClockMHz / step))).toBeLessThan(1e-6);
+          const f = figures(t);
+          // Normal blanking derives its clock from an estimated line period, rounds lines up (small
+          // heights with odd aspect ratios get long minimum porches) and the clock down: never above
+          // the request, and within 15 % of it.
           expect(f.refreshHz).toBeLessThanOrEqual(hz + 1e-9);
-          expect(f.refreshHz).toBeGreaterThanOrEqual((hz * t.pixelClockMHz) / (t.pixelClockMHz + step) - 1e-9);
-        }
-      }),
+          expect(f.refreshHz).toBeGreaterThan(hz * 0.85);
+          // Reduced blanking derives the clock from the rate, rounded down: at or under it by at most one clock step.
+          if (variant !== 'cvt') {
+            expect(f.refreshHz).toBeLessThanOrEqual(hz + 1e-9);
+            expect(f.refreshHz).toBeGreaterThanOrEqual((hz * t.pixelClockMHz) / (t.pixelClockMHz + step) - 1e-9);
+          }
+        },
+      ),
       { numRuns: 200 },
     );
   });
@@ -126,7 +146,9 @@ describe('panel interface [calc]', () => {
     expect(w.join(' ')).toMatch(/panel is 640 × 400/);
     // Sources belong in docs and tests, not in what the user reads (issue "Workflow", item 13).
     expect(w.join(' ')).not.toMatch(/\[(mem|ds|std|cp|calc|paper|from memory)/);
-    expect(interfaceWarnings(fixedTiming('640x480@60')!, { dualScan: true, pixelsPerClock: 4 }, { family: 'el', cols: 640, rows: 480 })).toEqual([]);
+    expect(
+      interfaceWarnings(fixedTiming('640x480@60')!, { dualScan: true, pixelsPerClock: 4 }, { family: 'el', cols: 640, rows: 480 }),
+    ).toEqual([]);
   });
 
   test('an interface that cannot carry the width is refused', () => {
@@ -161,8 +183,18 @@ describe('VGA CRT controller registers [ds, widely reproduced BIOS tables]', () 
       fc.property(fc.constantFrom(...timings), fc.integer({ min: 1, max: 30 }), fc.integer({ min: 1, max: 40 }), (base, vfp, vbp) => {
         const t: Timing = { ...base, v: axis(base.v.active, vfp, base.v.sync, vbp), blanking: undefined };
         const regs = vgaRegisters(t);
-        const d = decodeVgaRegisters(regs.crtc.map((f) => f.value), regs.layout.charWidth);
-        expect(d).toMatchObject({ hTotal: t.h.total, hActive: t.h.active, hSyncStart: t.h.active + t.h.frontPorch, vTotal: t.v.total, vActive: t.v.active, vSyncStart: t.v.active + t.v.frontPorch });
+        const d = decodeVgaRegisters(
+          regs.crtc.map((f) => f.value),
+          regs.layout.charWidth,
+        );
+        expect(d).toMatchObject({
+          hTotal: t.h.total,
+          hActive: t.h.active,
+          hSyncStart: t.h.active + t.h.frontPorch,
+          vTotal: t.v.total,
+          vActive: t.v.active,
+          vSyncStart: t.v.active + t.v.frontPorch,
+        });
         expect(d.vSyncEndLow4).toBe((t.v.active + t.v.frontPorch + t.v.sync) & 15);
       }),
       { numRuns: 200 },
@@ -181,7 +213,11 @@ describe('VGA CRT controller registers [ds, widely reproduced BIOS tables]', () 
         for (const b of f.bits) {
           const [hi, lo = hi] = b.range.split(':').map(Number);
           for (let bit = lo; bit <= hi; bit++) covered.push(bit);
-          expect({ register: f.name, range: b.range, fits: b.value >= 0 && b.value < 2 ** (hi - lo + 1) }).toEqual({ register: f.name, range: b.range, fits: true });
+          expect({ register: f.name, range: b.range, fits: b.value >= 0 && b.value < 2 ** (hi - lo + 1) }).toEqual({
+            register: f.name,
+            range: b.range,
+            fits: true,
+          });
           sum += b.value * 2 ** lo;
         }
         expect({ register: f.name, bits: covered.sort((a, b) => a - b) }).toEqual({ register: f.name, bits: [0, 1, 2, 3, 4, 5, 6, 7] });
@@ -197,7 +233,17 @@ describe('VBE 3.0 CRTCInfoBlock [ds, from memory]', () => {
   test('640×480@60 DMT: 59 bytes, little-endian words, flags for −/− sync, clock in Hz, refresh in 0.01 Hz', () => {
     const { fields, bytes } = vbeCrtcInfoBlock(fixedTiming('640x480@60')!);
     expect(bytes).toHaveLength(59);
-    expect(fields).toMatchObject({ HorizontalTotal: 800, HorizontalSyncStart: 656, HorizontalSyncEnd: 752, VerticalTotal: 525, VerticalSyncStart: 490, VerticalSyncEnd: 492, Flags: 12, PixelClock: 25175000, RefreshRate: 5994 });
+    expect(fields).toMatchObject({
+      HorizontalTotal: 800,
+      HorizontalSyncStart: 656,
+      HorizontalSyncEnd: 752,
+      VerticalTotal: 525,
+      VerticalSyncStart: 490,
+      VerticalSyncEnd: 492,
+      Flags: 12,
+      PixelClock: 25175000,
+      RefreshRate: 5994,
+    });
     expect(bytes.slice(0, 2)).toEqual([0x20, 0x03]);
     // 25 175 000 Hz = 0x018023D8.
     expect(bytes.slice(13, 17)).toEqual([0xd8, 0x23, 0x80, 0x01]);
@@ -206,7 +252,9 @@ describe('VBE 3.0 CRTCInfoBlock [ds, from memory]', () => {
   test('a value wider than its field is refused with the field and its width, never cut to its low bytes', () => {
     const huge: Timing = { ...fixedTiming('640x480@60')!, h: axis(100000, 16, 96, 48), v: axis(100000, 10, 2, 33) };
     expect(() => vbeCrtcInfoBlock(huge)).toThrow(VbeFieldRangeError);
-    expect(() => vbeCrtcInfoBlock(huge)).toThrow("the horizontal total (pixels) would be 100160, more than the VBE block's 16-bit HorizontalTotal field holds (at most 65535)");
+    expect(() => vbeCrtcInfoBlock(huge)).toThrow(
+      "the horizontal total (pixels) would be 100160, more than the VBE block's 16-bit HorizontalTotal field holds (at most 65535)",
+    );
     // 16-bit words hold 65535 exactly.
     const edge: Timing = { ...fixedTiming('640x480@60')!, h: axis(65535 - 160, 16, 96, 48) };
     expect(vbeCrtcInfoBlock(edge).fields.HorizontalTotal).toBe(65535);
@@ -220,7 +268,21 @@ describe('timing diagram', () => {
   test('an SVG with the line and frame measurements written on it', () => {
     const svg = timingDiagramSvg(fixedTiming('640x480@60')!, { dualScan: true, pixelsPerClock: 4 });
     expect(svg.startsWith('<svg')).toBe(true);
-    for (const text of ['active 640', 'front 16', 'sync 96', 'back 48', 'active 480', 'front 10', 'sync 2', 'back 33', 'HSYNC (−)', 'VSYNC (−)', 'Shift clock ÷8', '25.175 MHz']) expect(svg).toContain(text);
+    for (const text of [
+      'active 640',
+      'front 16',
+      'sync 96',
+      'back 48',
+      'active 480',
+      'front 10',
+      'sync 2',
+      'back 33',
+      'HSYNC (−)',
+      'VSYNC (−)',
+      'Shift clock ÷8',
+      '25.175 MHz',
+    ])
+      expect(svg).toContain(text);
     expect(svg).not.toMatch(/href=|<script/);
   });
 });
@@ -260,7 +322,11 @@ describe('9-dot text modes [ds, widely reproduced BIOS tables]', () => {
   });
 
   test('mode 12h keeps its 8-dot sequencer 01 0F 00 06', () => {
-    expect(vgaRegisters(VGA_MODE_12H).sequencer.map((f) => hex2(f.value)).join(' ')).toBe('01 0F 00 06');
+    expect(
+      vgaRegisters(VGA_MODE_12H)
+        .sequencer.map((f) => hex2(f.value))
+        .join(' '),
+    ).toBe('01 0F 00 06');
   });
 
   test('720×400@70, refused before, gets 9-dot registers that agree with mode 03h except where its porches differ', () => {

@@ -17,7 +17,12 @@ export interface TimingEvaluation {
  * Resolves and checks a timing request (mode exists, figures possible, interface fits the width)
  * and computes its figures and the panel's warnings. Throws RangeError with the reason.
  */
-export function evaluateTiming(req: { name: string; panelTypeId: string; source: TimingSource; interface: PanelInterface }): TimingEvaluation {
+export function evaluateTiming(req: {
+  name: string;
+  panelTypeId: string;
+  source: TimingSource;
+  interface: PanelInterface;
+}): TimingEvaluation {
   const panelType = panelTypeById(req.panelTypeId);
   if (!panelType) throw new RangeError(`panelTypeId "${req.panelTypeId}" is not a built-in panel type`);
   const timing = timingFromSource(req.source, req.name);
@@ -26,6 +31,10 @@ export function evaluateTiming(req: { name: string; panelTypeId: string; source:
   // A timing the VBE block cannot carry is refused, not silently cut to its low bytes.
   vbeCrtcInfoBlock(timing);
   const panel = interfaceFigures(timing, req.interface);
-  const warnings = interfaceWarnings(timing, req.interface, { family: panelType.family, cols: panelType.defaults.cell.cols, rows: panelType.defaults.cell.rows });
+  const warnings = interfaceWarnings(timing, req.interface, {
+    family: panelType.family,
+    cols: panelType.defaults.cell.cols,
+    rows: panelType.defaults.cell.rows,
+  });
   return { timing, figures: figures(timing), panel, warnings };
 }

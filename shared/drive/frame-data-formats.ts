@@ -39,7 +39,10 @@ export function toIntelHex(bytes: Uint8Array): string {
 
 /** A C identifier from a name people gave: lower case, other characters as '_', never starting with a digit. */
 export function cIdentifier(name: string): string {
-  const id = name.toLowerCase().replace(/[^a-z0-9]+/g, '_').replace(/^_+|_+$/g, '');
+  const id = name
+    .toLowerCase()
+    .replace(/[^a-z0-9]+/g, '_')
+    .replace(/^_+|_+$/g, '');
   return !id ? 'frame_data' : /^[0-9]/.test(id) ? `frame_${id}` : id;
 }
 
@@ -51,7 +54,8 @@ export function toCHeader(data: FrameData, name: string): string {
   const id = cIdentifier(name);
   const macro = id.toUpperCase();
   const rows: string[] = [];
-  for (let at = 0; at < data.bytes.length; at += 16) rows.push(`  ${Array.from(data.bytes.subarray(at, at + 16), (b) => `0x${hex2(b)}`).join(', ')},`);
+  for (let at = 0; at < data.bytes.length; at += 16)
+    rows.push(`  ${Array.from(data.bytes.subarray(at, at + 16), (b) => `0x${hex2(b)}`).join(', ')},`);
   return [
     `/* Frame data "${name.replace(/\*\//g, '* /')}", made by Emberline.`,
     ...data.description.map((line) => ` * ${line.replace(/\*\//g, '* /')}`),

@@ -49,16 +49,27 @@ const card = (cols: number, rows: number) => {
   const data = new Uint8Array(cols * rows * 4);
   for (let y = 0; y < rows; y++)
     for (let x = 0; x < cols; x++) {
-      const v = y < rows / 3 ? Math.round((x / (cols - 1)) * 255) : y < (2 * rows) / 3 ? ((x >> 1) + (y >> 1)) % 2 ? 255 : 0 : x % 3 === 0 ? 255 : 60;
+      const v =
+        y < rows / 3
+          ? Math.round((x / (cols - 1)) * 255)
+          : y < (2 * rows) / 3
+            ? ((x >> 1) + (y >> 1)) % 2
+              ? 255
+              : 0
+            : x % 3 === 0
+              ? 255
+              : 60;
       data.set([v, v, v, 255], (y * cols + x) * 4);
     }
   return { width: cols, height: rows, data };
 };
 
 const base = builtInPresetById('el-amber-640x480.standard')!.parameters;
-const panel = (patch: Partial<PanelParams['drive']> = {}, cols = 64, rows = 32) => mergeParams(base, { cell: { cols, rows }, source: { fit: 'native' }, drive: patch });
+const panel = (patch: Partial<PanelParams['drive']> = {}, cols = 64, rows = 32) =>
+  mergeParams(base, { cell: { cols, rows }, source: { fit: 'native' }, drive: patch });
 /** The drive level k (0 … L − 1) of every cell, from the pipeline itself. */
-const levelsOf = (p: PanelParams, image = card(p.cell.cols, p.cell.rows)) => Array.from(driveLevels(image, p), (v) => Math.round(v * (p.drive.grayLevels - 1)));
+const levelsOf = (p: PanelParams, image = card(p.cell.cols, p.cell.rows)) =>
+  Array.from(driveLevels(image, p), (v) => Math.round(v * (p.drive.grayLevels - 1)));
 
 const layouts = fc.record({
   bitsPerCell: fc.constantFrom(1, 2, 4),
@@ -87,10 +98,20 @@ describe('frame data: round trips through an independent unpacker [calc]', () =>
   test('1 bit, MSB first: the first byte holds cells 0–7 of row 0, cell 0 in bit 7 (worked by hand)', () => {
     const image = { width: 16, height: 2, data: new Uint8Array(16 * 2 * 4) };
     // Lit: cells 0 and 7 of row 0, cell 8 of row 0, cell 15 of row 1.
-    for (const [x, y] of [[0, 0], [7, 0], [8, 0], [15, 1]]) image.data.set([255, 255, 255, 255], (y * 16 + x) * 4);
+    for (const [x, y] of [
+      [0, 0],
+      [7, 0],
+      [8, 0],
+      [15, 1],
+    ])
+      image.data.set([255, 255, 255, 255], (y * 16 + x) * 4);
     const p = mergeParams(panel({ grayLevels: 2, dither: 'none' }, 16, 2), {});
-    expect(Array.from(frameData(image, p, { bitsPerCell: 1, bitOrder: 'msb', pixelsPerClock: 1, scan: 'single', frcLevels: 0 }).bytes)).toEqual([0b10000001, 0b10000000, 0, 0b00000001]);
-    expect(Array.from(frameData(image, p, { bitsPerCell: 1, bitOrder: 'lsb', pixelsPerClock: 1, scan: 'single', frcLevels: 0 }).bytes)).toEqual([0b10000001, 0b00000001, 0, 0b10000000]);
+    expect(
+      Array.from(frameData(image, p, { bitsPerCell: 1, bitOrder: 'msb', pixelsPerClock: 1, scan: 'single', frcLevels: 0 }).bytes),
+    ).toEqual([0b10000001, 0b10000000, 0, 0b00000001]);
+    expect(
+      Array.from(frameData(image, p, { bitsPerCell: 1, bitOrder: 'lsb', pixelsPerClock: 1, scan: 'single', frcLevels: 0 }).bytes),
+    ).toEqual([0b10000001, 0b00000001, 0, 0b10000000]);
     // Dual-scan interleaved, 4 cells a clock: byte 0 = upper cells 0–3 | lower cells 0–3 (row 1).
     const dual = frameData(image, p, { bitsPerCell: 1, bitOrder: 'msb', pixelsPerClock: 4, scan: 'dual-interleaved', frcLevels: 0 }).bytes;
     expect(Array.from(dual)).toEqual([0b10000000, 0b00010000, 0b10000000, 0b00000001]);
@@ -104,7 +125,9 @@ describe('frame data: round trips through an independent unpacker [calc]', () =>
       expect(data.frames).toBe(n - 1);
       expect(data.bytes.length).toBe(((64 * 32) / 8) * (n - 1));
       const k = levelsOf({ ...p, drive: { ...p.drive, grayLevels: n } });
-      const frames = Array.from({ length: n - 1 }, (_, f) => unpack(data.bytes.subarray(f * data.frameBytes, (f + 1) * data.frameBytes), layout, 64, 32));
+      const frames = Array.from({ length: n - 1 }, (_, f) =>
+        unpack(data.bytes.subarray(f * data.frameBytes, (f + 1) * data.frameBytes), layout, 64, 32),
+      );
       for (let i = 0; i < 64 * 32; i++) {
         const [x, y] = [i % 64, Math.floor(i / 64)];
         expect(frames.reduce((s, fr) => s + fr[i], 0)).toBe(k[i]);
@@ -139,7 +162,9 @@ describe('frame data: round trips through an independent unpacker [calc]', () =>
     const data = frameData(card(64, 32), p, layout);
     expect(data.frames).toBe(3);
     expect(data.bytes.length).toBe(((64 * 32 * 2) / 8) * 3);
-    const frames = Array.from({ length: 3 }, (_, f) => unpack(data.bytes.subarray(f * data.frameBytes, (f + 1) * data.frameBytes), layout, 64, 32));
+    const frames = Array.from({ length: 3 }, (_, f) =>
+      unpack(data.bytes.subarray(f * data.frameBytes, (f + 1) * data.frameBytes), layout, 64, 32),
+    );
     // The cycle's mean level, in light, is what the preview shows.
     const shown = driveLevels(card(64, 32), p);
     for (let i = 0; i < 64 * 32; i++) {
@@ -153,12 +178,25 @@ describe('frame data: round trips through an independent unpacker [calc]', () =>
 
   test('a layout that cannot hold the panel says what to change', () => {
     const p16 = panel({ grayLevels: 16, dither: 'none' });
-    const l = (patch: Partial<FrameLayout>): FrameLayout => ({ bitsPerCell: 1, bitOrder: 'msb', pixelsPerClock: 1, scan: 'single', frcLevels: 0, ...patch });
-    expect(() => frameData(card(64, 32), p16, l({ bitsPerCell: 2 }))).toThrow('the preset has 16 gray levels but 2 bits a cell hold 4; choose 4 bits, frame-rate control, or a preset with fewer levels');
+    const l = (patch: Partial<FrameLayout>): FrameLayout => ({
+      bitsPerCell: 1,
+      bitOrder: 'msb',
+      pixelsPerClock: 1,
+      scan: 'single',
+      frcLevels: 0,
+      ...patch,
+    });
+    expect(() => frameData(card(64, 32), p16, l({ bitsPerCell: 2 }))).toThrow(
+      'the preset has 16 gray levels but 2 bits a cell hold 4; choose 4 bits, frame-rate control, or a preset with fewer levels',
+    );
     expect(() => frameData(card(64, 32), p16, l({ bitsPerCell: 2, frcLevels: 4 }))).toThrow('use 1 bit per cell, not 2');
     expect(() => frameData(card(64, 32), p16, l({ frcLevels: 17 }))).toThrow('frame-rate control takes 2 to 16 gray levels, got 17');
-    expect(() => frameData(card(60, 32), panel({}, 60, 32), l({}))).toThrow('a row of 60 cells at 1 bit is not a whole number of bytes; use a panel whose width is a multiple of 8');
-    expect(() => frameData(card(64, 31), panel({}, 64, 31), l({ scan: 'dual-planes' }))).toThrow('dual-scan needs an even number of rows, got 31');
+    expect(() => frameData(card(60, 32), panel({}, 60, 32), l({}))).toThrow(
+      'a row of 60 cells at 1 bit is not a whole number of bytes; use a panel whose width is a multiple of 8',
+    );
+    expect(() => frameData(card(64, 31), panel({}, 64, 31), l({ scan: 'dual-planes' }))).toThrow(
+      'dual-scan needs an even number of rows, got 31',
+    );
   });
 });
 
@@ -169,7 +207,10 @@ function parseIntelHex(text: string): Uint8Array {
   let ended = false;
   for (const line of text.trim().split('\n')) {
     expect(line[0]).toBe(':');
-    const b = line.slice(1).match(/../g)!.map((h) => parseInt(h, 16));
+    const b = line
+      .slice(1)
+      .match(/../g)!
+      .map((h) => parseInt(h, 16));
     expect(b.reduce((s, v) => s + v, 0) % 256).toBe(0);
     const [count, hi, lo, type] = b;
     const data = b.slice(4, 4 + count);
@@ -200,18 +241,37 @@ describe('frame data files', () => {
     expect(cIdentifier('4 levels')).toBe('frame_4_levels');
     const m = /static const uint8_t title_screen_4_levels\[(\d+)\] = \{([^}]*)\};/.exec(header)!;
     expect(Number(m[1])).toBe(153600);
-    const numbers = m[2].split(',').map((s) => s.trim()).filter(Boolean).map((s) => parseInt(s, 16));
+    const numbers = m[2]
+      .split(',')
+      .map((s) => s.trim())
+      .filter(Boolean)
+      .map((s) => parseInt(s, 16));
     expect(Buffer.from(numbers).equals(Buffer.from(data.bytes))).toBe(true);
-    for (const macro of ['TITLE_SCREEN_4_LEVELS_COLS 640', 'TITLE_SCREEN_4_LEVELS_ROWS 480', 'TITLE_SCREEN_4_LEVELS_BITS_PER_CELL 4', 'TITLE_SCREEN_4_LEVELS_FRAME_BYTES 153600']) expect(header).toContain(`#define ${macro}`);
+    for (const macro of [
+      'TITLE_SCREEN_4_LEVELS_COLS 640',
+      'TITLE_SCREEN_4_LEVELS_ROWS 480',
+      'TITLE_SCREEN_4_LEVELS_BITS_PER_CELL 4',
+      'TITLE_SCREEN_4_LEVELS_FRAME_BYTES 153600',
+    ])
+      expect(header).toContain(`#define ${macro}`);
     expect(header).toContain('Dual scan, interleaved per shift clock');
   });
 
   const cc = spawnSync('cc', ['--version']).status === 0;
   (cc ? test : test.skip)('the C header compiles, and the program built from it prints the same bytes', () => {
-    const small = frameData(card(64, 32), panel({ grayLevels: 2 }), { bitsPerCell: 1, bitOrder: 'lsb', pixelsPerClock: 8, scan: 'dual-planes', frcLevels: 0 });
+    const small = frameData(card(64, 32), panel({ grayLevels: 2 }), {
+      bitsPerCell: 1,
+      bitOrder: 'lsb',
+      pixelsPerClock: 8,
+      scan: 'dual-planes',
+      frcLevels: 0,
+    });
     const dir = mkdtempSync(path.join(tmpdir(), 'emberline-frame-data-'));
     writeFileSync(path.join(dir, 'frame.h'), toCHeader(small, 'frame'));
-    writeFileSync(path.join(dir, 'main.c'), '#include <stdio.h>\n#include "frame.h"\nint main(void) { for (unsigned i = 0; i < sizeof frame; i++) printf("%02x", frame[i]); printf(" %d\\n", FRAME_FRAME_BYTES); return 0; }\n');
+    writeFileSync(
+      path.join(dir, 'main.c'),
+      '#include <stdio.h>\n#include "frame.h"\nint main(void) { for (unsigned i = 0; i < sizeof frame; i++) printf("%02x", frame[i]); printf(" %d\\n", FRAME_FRAME_BYTES); return 0; }\n',
+    );
     execFileSync('cc', ['-std=c99', '-Wall', '-Werror', '-o', path.join(dir, 'main'), path.join(dir, 'main.c')]);
     const [hexBytes, frameBytes] = execFileSync(path.join(dir, 'main')).toString().trim().split(' ');
     expect(hexBytes).toBe(Buffer.from(small.bytes).toString('hex'));
@@ -228,7 +288,16 @@ describe('frame data files', () => {
 describe('frame data layout diagram', () => {
   test('each bit names the cell it carries, as the unpacker reads it', () => {
     const layout: FrameLayout = { bitsPerCell: 1, bitOrder: 'msb', pixelsPerClock: 4, scan: 'dual-interleaved', frcLevels: 0 };
-    expect([7, 6, 5, 4, 3, 2, 1, 0].map((b) => bitCell(layout, 640, 480, 0, 0, b)).map((c) => `${c.x},${c.y}`)).toEqual(['0,0', '1,0', '2,0', '3,0', '0,240', '1,240', '2,240', '3,240']);
+    expect([7, 6, 5, 4, 3, 2, 1, 0].map((b) => bitCell(layout, 640, 480, 0, 0, b)).map((c) => `${c.x},${c.y}`)).toEqual([
+      '0,0',
+      '1,0',
+      '2,0',
+      '3,0',
+      '0,240',
+      '1,240',
+      '2,240',
+      '3,240',
+    ]);
     const lsb2: FrameLayout = { bitsPerCell: 2, bitOrder: 'lsb', pixelsPerClock: 1, scan: 'single', frcLevels: 0 };
     expect(bitCell(lsb2, 640, 480, 0, 0, 0)).toEqual({ x: 0, y: 0, codeBit: 0, lower: false });
     expect(bitCell(lsb2, 640, 480, 0, 0, 7)).toEqual({ x: 3, y: 0, codeBit: 1, lower: false });

@@ -55,15 +55,22 @@ export interface FrameData {
 export function checkFrameLayout(layout: FrameLayout, cols: number, rows: number, grayLevels: number): void {
   const { bitsPerCell: bits, pixelsPerClock: ppc, frcLevels } = layout;
   if (!BITS_PER_CELL.includes(bits)) throw new RangeError(`bits per cell must be 1, 2 or 4, got ${bits}`);
-  if (!PIXELS_PER_CLOCK.includes(ppc)) throw new RangeError(`pixels per shift clock must be one of ${PIXELS_PER_CLOCK.join(', ')}, got ${ppc}`);
-  if ((cols * bits) % 8 !== 0) throw new RangeError(`a row of ${cols} cells at ${bits} bit${bits > 1 ? 's' : ''} is not a whole number of bytes; use a panel whose width is a multiple of ${8 / bits}`);
+  if (!PIXELS_PER_CLOCK.includes(ppc))
+    throw new RangeError(`pixels per shift clock must be one of ${PIXELS_PER_CLOCK.join(', ')}, got ${ppc}`);
+  if ((cols * bits) % 8 !== 0)
+    throw new RangeError(
+      `a row of ${cols} cells at ${bits} bit${bits > 1 ? 's' : ''} is not a whole number of bytes; use a panel whose width is a multiple of ${8 / bits}`,
+    );
   if (cols % ppc !== 0) throw new RangeError(`${cols} cells a row do not divide into ${ppc} per shift clock`);
   if (layout.scan !== 'single' && rows % 2 !== 0) throw new RangeError(`dual-scan needs an even number of rows, got ${rows}`);
   if (frcLevels) {
-    if (!(Number.isInteger(frcLevels) && frcLevels >= 2 && frcLevels <= MAX_FRC_LEVELS)) throw new RangeError(`frame-rate control takes 2 to ${MAX_FRC_LEVELS} gray levels, got ${frcLevels}`);
+    if (!(Number.isInteger(frcLevels) && frcLevels >= 2 && frcLevels <= MAX_FRC_LEVELS))
+      throw new RangeError(`frame-rate control takes 2 to ${MAX_FRC_LEVELS} gray levels, got ${frcLevels}`);
     if (bits !== 1) throw new RangeError(`frame-rate control makes gray on an on/off panel: use 1 bit per cell, not ${bits}`);
   } else if (grayLevels > 2 ** bits) {
-    throw new RangeError(`the preset has ${grayLevels} gray levels but ${bits} bit${bits > 1 ? 's' : ''} a cell hold${bits > 1 ? '' : 's'} ${2 ** bits}; choose ${grayLevels <= 4 ? '2 or 4 bits' : '4 bits'}, frame-rate control, or a preset with fewer levels`);
+    throw new RangeError(
+      `the preset has ${grayLevels} gray levels but ${bits} bit${bits > 1 ? 's' : ''} a cell hold${bits > 1 ? '' : 's'} ${2 ** bits}; choose ${grayLevels <= 4 ? '2 or 4 bits' : '4 bits'}, frame-rate control, or a preset with fewer levels`,
+    );
   }
 }
 
@@ -80,7 +87,11 @@ function codesOf(indices: Uint8Array, cols: number, layout: FrameLayout, steps: 
   const max = 2 ** layout.bitsPerCell - 1;
   for (let i = 0; i < indices.length; i++) {
     const k = indices[i];
-    codes[i] = layout.frcLevels ? ((f + frcPhase(i % cols, Math.floor(i / cols), frames)) % frames < k ? 1 : 0) : Math.round((k * max) / steps);
+    codes[i] = layout.frcLevels
+      ? (f + frcPhase(i % cols, Math.floor(i / cols), frames)) % frames < k
+        ? 1
+        : 0
+      : Math.round((k * max) / steps);
   }
   return codes;
 }
@@ -111,7 +122,16 @@ export function fieldShift(layout: FrameLayout, slot: number): number {
 }
 
 /** Packs one frame's codes into its planes, in the layout's order. */
-function packFrame(codes: Uint8Array, cols: number, rows: number, layout: FrameLayout, out: Uint8Array, offset: number, planes: number, planeBytes: number): void {
+function packFrame(
+  codes: Uint8Array,
+  cols: number,
+  rows: number,
+  layout: FrameLayout,
+  out: Uint8Array,
+  offset: number,
+  planes: number,
+  planeBytes: number,
+): void {
   const perByte = 8 / layout.bitsPerCell;
   const cellsPerPlane = (cols * rows) / planes;
   for (let plane = 0; plane < planes; plane++) {
@@ -140,22 +160,41 @@ export function frameData(image: Frame['image'], p: PanelParams, layout: FrameLa
   const levelsCount = layout.frcLevels || levelCount(p.drive);
   // 1-bit frame-rate control lights a cell in some frames and not others: its levels are even
   // steps of light, and it is the temporal dither itself (the look's own FRC dither gives way).
-  const drive: PanelParams['drive'] = layout.frcLevels ? { ...p.drive, grayLevels: layout.frcLevels, levelSpacing: 'linear', dither: isFrc(p.drive.dither) ? 'none' : p.drive.dither } : p.drive;
+  const drive: PanelParams['drive'] = layout.frcLevels
+    ? { ...p.drive, grayLevels: layout.frcLevels, levelSpacing: 'linear', dither: isFrc(p.drive.dither) ? 'none' : p.drive.dither }
+    : p.drive;
   // The frame-rate-control dither (drive.dither) sends each refresh of its cycle as a frame of levels.
   const cycle = layout.frcLevels ? 1 : frcFrames(drive.dither);
   const lights = levelLights(drive);
-  const indices = Array.from({ length: cycle }, (_, r) => levelIndices(driveLevels(image, { ...p, drive }, isFrc(drive.dither) ? r : undefined), lights));
+  const indices = Array.from({ length: cycle }, (_, r) =>
+    levelIndices(driveLevels(image, { ...p, drive }, isFrc(drive.dither) ? r : undefined), lights),
+  );
   const frames = layout.frcLevels ? layout.frcLevels - 1 : cycle;
   const planes = layout.scan === 'dual-planes' ? 2 : 1;
   const frameBytes = (cols * rows * layout.bitsPerCell) / 8;
   const planeBytes = frameBytes / planes;
   const bytes = new Uint8Array(frameBytes * frames);
-  for (let f = 0; f < frames; f++) packFrame(codesOf(indices[cycle > 1 ? f : 0], cols, layout, levelsCount - 1, f, frames), cols, rows, layout, bytes, f * frameBytes, planes, planeBytes);
+  for (let f = 0; f < frames; f++)
+    packFrame(
+      codesOf(indices[cycle > 1 ? f : 0], cols, layout, levelsCount - 1, f, frames),
+      cols,
+      rows,
+      layout,
+      bytes,
+      f * frameBytes,
+      planes,
+      planeBytes,
+    );
   const description = describeLayout(layout, cols, rows, levelsCount);
-  if (cycle > 1) description.push(`Frame-rate control: ${cycle} frames, one a refresh, then again from the first; a cell between two levels shows the upper one in some of them (in frame f when (f + x + y) mod ${cycle} is below its share of ${cycle}).`);
+  if (cycle > 1)
+    description.push(
+      `Frame-rate control: ${cycle} frames, one a refresh, then again from the first; a cell between two levels shows the upper one in some of them (in frame f when (f + x + y) mod ${cycle} is below its share of ${cycle}).`,
+    );
   if (drive.levelSpacing !== 'linear') {
     const shares = Array.from(levelLights(drive), (l) => `${+(l * 100).toFixed(2)} %`).join(', ');
-    description.push(`The levels are ${drive.levelSpacing === 'table' ? 'the duty table' : 'even steps to the eye'}: level 0 to ${levelsCount - 1} should light the cell at ${shares} of full on; the controller's own level table must do the same.`);
+    description.push(
+      `The levels are ${drive.levelSpacing === 'table' ? 'the duty table' : 'even steps to the eye'}: level 0 to ${levelsCount - 1} should light the cell at ${shares} of full on; the controller's own level table must do the same.`,
+    );
   }
   return { layout, cols, rows, frames, planes, planeBytes, frameBytes, bytes, levels: levelsCount, description };
 }
@@ -169,13 +208,21 @@ export function describeLayout(layout: FrameLayout, cols: number, rows: number, 
     `The first cell of each byte sits in its ${layout.bitOrder === 'msb' ? 'most' : 'least'} significant bit${bits > 1 ? 's' : ''}${bits > 1 ? '; a cell keeps its own bit order (its high bit toward the byte’s high bit)' : ''}.`,
   ];
   if (layout.scan === 'single') lines.push('Single scan: rows top to bottom, cells left to right.');
-  if (layout.scan === 'dual-planes') lines.push(`Dual scan as two planes: the upper half (rows 0–${rows / 2 - 1}), then the lower half (rows ${rows / 2}–${rows - 1}), each row by row.`);
+  if (layout.scan === 'dual-planes')
+    lines.push(
+      `Dual scan as two planes: the upper half (rows 0–${rows / 2 - 1}), then the lower half (rows ${rows / 2}–${rows - 1}), each row by row.`,
+    );
   if (layout.scan === 'dual-interleaved') {
-    lines.push(`Dual scan, interleaved per shift clock: each clock carries ${layout.pixelsPerClock} cell${layout.pixelsPerClock > 1 ? 's' : ''} of upper row r, then ${layout.pixelsPerClock} of lower row r + ${rows / 2}; lines r = 0 to ${rows / 2 - 1}.`);
+    lines.push(
+      `Dual scan, interleaved per shift clock: each clock carries ${layout.pixelsPerClock} cell${layout.pixelsPerClock > 1 ? 's' : ''} of upper row r, then ${layout.pixelsPerClock} of lower row r + ${rows / 2}; lines r = 0 to ${rows / 2 - 1}.`,
+    );
   } else {
     lines.push(`${layout.pixelsPerClock} cell${layout.pixelsPerClock > 1 ? 's' : ''} a shift clock.`);
   }
   if (bits > 1) lines.push(`Codes: drive level k of ${levels} as round(k · ${2 ** bits - 1} / ${levels - 1}).`);
-  if (layout.frcLevels) lines.push(`Frame-rate control: ${levels} gray levels over ${levels - 1} frames, one after another; a cell of level k (0–${levels - 1}) is lit in frame f when (f + x + y) mod ${levels - 1} < k.`);
+  if (layout.frcLevels)
+    lines.push(
+      `Frame-rate control: ${levels} gray levels over ${levels - 1} frames, one after another; a cell of level k (0–${levels - 1}) is lit in frame f when (f + x + y) mod ${levels - 1} < k.`,
+    );
   return lines;
 }

@@ -33,7 +33,8 @@ export interface InterfaceFigures {
 export function interfaceFigures(t: Timing, iface: PanelInterface): InterfaceFigures {
   const paths = iface.dualScan ? 2 : 1;
   if (iface.dualScan && t.v.active % 2 !== 0) throw new RangeError(`dual-scan needs an even number of rows, got ${t.v.active}`);
-  if (t.h.active % iface.pixelsPerClock !== 0) throw new RangeError(`${t.h.active} pixels a line do not divide into ${iface.pixelsPerClock} per shift clock`);
+  if (t.h.active % iface.pixelsPerClock !== 0)
+    throw new RangeError(`${t.h.active} pixels a line do not divide into ${iface.pixelsPerClock} per shift clock`);
   const { refreshHz } = figures(t);
   const activeShiftClocksPerLine = t.h.active / iface.pixelsPerClock;
   const lineClocksPerFrame = t.v.active / paths;
@@ -59,12 +60,18 @@ export interface PanelLimits {
 export function interfaceWarnings(t: Timing, iface: PanelInterface, panel: PanelLimits): string[] {
   const warnings: string[] = [];
   const { refreshHz, lineRateKHz } = figures(t);
-  if (t.h.active !== panel.cols || t.v.active !== panel.rows) warnings.push(`The timing is ${t.h.active} × ${t.v.active} but the panel is ${panel.cols} × ${panel.rows}.`);
+  if (t.h.active !== panel.cols || t.v.active !== panel.rows)
+    warnings.push(`The timing is ${t.h.active} × ${t.v.active} but the panel is ${panel.cols} × ${panel.rows}.`);
   // Half a hertz of slack so 59.94 Hz video rates count as 60.
   // 60–120 Hz: EL datasheet families, from memory (docs/references.md). The source stays here, not in the user's warning.
-  if (panel.family === 'el' && (refreshHz < 59.5 || refreshHz > 120.5)) warnings.push(`EL panels are usually refreshed at 60–120 Hz; this timing gives ${refreshHz.toFixed(2)} Hz.`);
-  if (panel.family === 'el' && !iface.dualScan && panel.rows >= 400) warnings.push('Panels of 400 rows or more are usually dual-scan; check the panel documentation.');
-  if (panel.family === 'crt' && (lineRateKHz < 15 || lineRateKHz > 70)) warnings.push(`A line rate of ${lineRateKHz.toFixed(2)} kHz is outside what fixed-frequency monochrome monitors take (about 15–32 kHz; multisync up to ~70 kHz).`);
+  if (panel.family === 'el' && (refreshHz < 59.5 || refreshHz > 120.5))
+    warnings.push(`EL panels are usually refreshed at 60–120 Hz; this timing gives ${refreshHz.toFixed(2)} Hz.`);
+  if (panel.family === 'el' && !iface.dualScan && panel.rows >= 400)
+    warnings.push('Panels of 400 rows or more are usually dual-scan; check the panel documentation.');
+  if (panel.family === 'crt' && (lineRateKHz < 15 || lineRateKHz > 70))
+    warnings.push(
+      `A line rate of ${lineRateKHz.toFixed(2)} kHz is outside what fixed-frequency monochrome monitors take (about 15–32 kHz; multisync up to ~70 kHz).`,
+    );
   if (refreshHz < 50) warnings.push(`${refreshHz.toFixed(1)} Hz flickers visibly on most emissive panels.`);
   return warnings;
 }

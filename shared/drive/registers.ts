@@ -34,7 +34,13 @@ export interface VgaLayout {
 }
 
 /** Pixel counts that must be whole characters. */
-const characterEdges = (t: Timing) => [['horizontal total', t.h.total], ['active width', t.h.active], ['sync start', t.h.active + t.h.frontPorch], ['sync width', t.h.sync]] as const;
+const characterEdges = (t: Timing) =>
+  [
+    ['horizontal total', t.h.total],
+    ['active width', t.h.active],
+    ['sync start', t.h.active + t.h.frontPorch],
+    ['sync width', t.h.sync],
+  ] as const;
 
 /**
  * The character clock a timing fits: 8 dots when every horizontal edge is a multiple of 8, else
@@ -47,7 +53,9 @@ export function vgaLayoutFor(t: Timing): VgaLayout {
   // Text rows of 16 lines (400-line modes) or 14 (350-line modes), else 8.
   if (fits(9)) return { charWidth: 9, memory: 'text', charHeight: t.v.active % 16 === 0 ? 16 : t.v.active % 14 === 0 ? 14 : 8 };
   const [name, px] = characterEdges(t).find(([, v]) => v % 8 !== 0)!;
-  throw new RangeError(`${name} ${px} px is not a multiple of the 8-pixel character clock (nor are all edges multiples of the 9-pixel text clock)`);
+  throw new RangeError(
+    `${name} ${px} px is not a multiple of the 8-pixel character clock (nor are all edges multiples of the 9-pixel text clock)`,
+  );
 }
 
 const bit = (v: number, n: number) => (v >> n) & 1;
@@ -93,7 +101,9 @@ export function vgaRegisters(t: Timing): VgaRegisters {
   const crtc = [
     reg(0x00, 'Horizontal total', [{ range: '7:0', meaning: `characters per line − 5 (${hTotal} − 5)`, value: hTotal - 5 }]),
     reg(0x01, 'Horizontal display end', [{ range: '7:0', meaning: `displayed characters − 1 (${hDisplay} − 1)`, value: hDisplay - 1 }]),
-    reg(0x02, 'Start horizontal blanking', [{ range: '7:0', meaning: `character where blanking starts (${hBlankStart})`, value: hBlankStart }]),
+    reg(0x02, 'Start horizontal blanking', [
+      { range: '7:0', meaning: `character where blanking starts (${hBlankStart})`, value: hBlankStart },
+    ]),
     reg(0x03, 'End horizontal blanking', [
       { range: '7', meaning: 'compatibility read (always 1)', value: 1 },
       { range: '6:5', meaning: 'display enable skew', value: 0 },
@@ -121,36 +131,93 @@ export function vgaRegisters(t: Timing): VgaRegisters {
       { range: '7', meaning: 'double scan off', value: 0 },
       { range: '6', meaning: 'line compare, bit 9', value: bit(lineCompare, 9) },
       { range: '5', meaning: 'start vertical blanking, bit 9', value: bit(vBlankStart, 9) },
-      { range: '4:0', meaning: text ? `scan lines per character row − 1 (${layout.charHeight} − 1)` : 'scan lines per character row − 1 (graphics: 0)', value: layout.charHeight - 1 },
+      {
+        range: '4:0',
+        meaning: text ? `scan lines per character row − 1 (${layout.charHeight} − 1)` : 'scan lines per character row − 1 (graphics: 0)',
+        value: layout.charHeight - 1,
+      },
     ]),
-    reg(0x0a, 'Cursor start', [{ range: '7:0', meaning: text ? `cursor from scan line ${layout.charHeight - 3}, shown` : 'not used for this mode (0)', value: text ? layout.charHeight - 3 : 0 }]),
-    reg(0x0b, 'Cursor end', [{ range: '7:0', meaning: text ? `cursor to scan line ${layout.charHeight - 2}, no skew` : 'not used for this mode (0)', value: text ? layout.charHeight - 2 : 0 }]),
-    ...[0x0c, 0x0d, 0x0e, 0x0f].map((i) => reg(i, ['Start address high', 'Start address low', 'Cursor location high', 'Cursor location low'][i - 0x0c], [{ range: '7:0', meaning: 'page 0, cursor home (0)', value: 0 }])),
-    reg(0x10, 'Vertical retrace start', [{ range: '7:0', meaning: `line where sync starts, bits 7–0 (${vSyncStart})`, value: vSyncStart & 0xff }]),
+    reg(0x0a, 'Cursor start', [
+      {
+        range: '7:0',
+        meaning: text ? `cursor from scan line ${layout.charHeight - 3}, shown` : 'not used for this mode (0)',
+        value: text ? layout.charHeight - 3 : 0,
+      },
+    ]),
+    reg(0x0b, 'Cursor end', [
+      {
+        range: '7:0',
+        meaning: text ? `cursor to scan line ${layout.charHeight - 2}, no skew` : 'not used for this mode (0)',
+        value: text ? layout.charHeight - 2 : 0,
+      },
+    ]),
+    ...[0x0c, 0x0d, 0x0e, 0x0f].map((i) =>
+      reg(i, ['Start address high', 'Start address low', 'Cursor location high', 'Cursor location low'][i - 0x0c], [
+        { range: '7:0', meaning: 'page 0, cursor home (0)', value: 0 },
+      ]),
+    ),
+    reg(0x10, 'Vertical retrace start', [
+      { range: '7:0', meaning: `line where sync starts, bits 7–0 (${vSyncStart})`, value: vSyncStart & 0xff },
+    ]),
     reg(0x11, 'Vertical retrace end', [
       { range: '7', meaning: 'protect CR00–CR07', value: 1 },
       { range: '6', meaning: 'memory refresh bandwidth', value: 0 },
       { range: '5:4', meaning: 'vertical interrupt enabled, cleared', value: 0 },
       { range: '3:0', meaning: `sync end, bits 3–0 (${vSyncEnd} mod 16)`, value: vSyncEnd & 0x0f },
     ]),
-    reg(0x12, 'Vertical display end', [{ range: '7:0', meaning: `last displayed line, bits 7–0 (${vDisplayEnd})`, value: vDisplayEnd & 0xff }]),
+    reg(0x12, 'Vertical display end', [
+      { range: '7:0', meaning: `last displayed line, bits 7–0 (${vDisplayEnd})`, value: vDisplayEnd & 0xff },
+    ]),
     text
       ? reg(0x13, 'Offset', [{ range: '7:0', meaning: `words per text row (${hDisplay} columns / 2)`, value: (hDisplay / 2) & 0xff }])
-      : reg(0x13, 'Offset', [{ range: '7:0', meaning: `words per line of one plane (${t.h.active} / 16)`, value: (t.h.active / 16) & 0xff }]),
-    reg(0x14, 'Underline location', [{ range: '7:0', meaning: text ? 'underline on scan line 31 (below the character: none shown)' : 'byte addressing, no underline', value: text ? 0x1f : 0 }]),
-    reg(0x15, 'Start vertical blanking', [{ range: '7:0', meaning: `line where blanking starts, bits 7–0 (${vBlankStart})`, value: vBlankStart & 0xff }]),
-    reg(0x16, 'End vertical blanking', [{ range: '7:0', meaning: `blanking end, bits 7–0 (${vBlankEnd} mod 256)`, value: vBlankEnd & 0xff }]),
+      : reg(0x13, 'Offset', [
+          { range: '7:0', meaning: `words per line of one plane (${t.h.active} / 16)`, value: (t.h.active / 16) & 0xff },
+        ]),
+    reg(0x14, 'Underline location', [
+      {
+        range: '7:0',
+        meaning: text ? 'underline on scan line 31 (below the character: none shown)' : 'byte addressing, no underline',
+        value: text ? 0x1f : 0,
+      },
+    ]),
+    reg(0x15, 'Start vertical blanking', [
+      { range: '7:0', meaning: `line where blanking starts, bits 7–0 (${vBlankStart})`, value: vBlankStart & 0xff },
+    ]),
+    reg(0x16, 'End vertical blanking', [
+      { range: '7:0', meaning: `blanking end, bits 7–0 (${vBlankEnd} mod 256)`, value: vBlankEnd & 0xff },
+    ]),
     text
-      ? reg(0x17, 'Mode control', [{ range: '7:0', meaning: 'sync on, word mode, wrap, CGA/Hercules compatibility off (as mode 03h)', value: 0xa3 }])
-      : reg(0x17, 'Mode control', [{ range: '7:0', meaning: 'sync on, byte mode, wrap, CGA/Hercules compatibility off (as mode 12h)', value: 0xe3 }]),
+      ? reg(0x17, 'Mode control', [
+          { range: '7:0', meaning: 'sync on, word mode, wrap, CGA/Hercules compatibility off (as mode 03h)', value: 0xa3 },
+        ])
+      : reg(0x17, 'Mode control', [
+          { range: '7:0', meaning: 'sync on, byte mode, wrap, CGA/Hercules compatibility off (as mode 12h)', value: 0xe3 },
+        ]),
     reg(0x18, 'Line compare', [{ range: '7:0', meaning: 'split screen off (0x3FF), bits 7–0', value: lineCompare & 0xff }]),
   ];
   const clockSelect = Math.abs(t.pixelClockMHz - 25.175) < 0.01 ? 0 : Math.abs(t.pixelClockMHz - 28.322) < 0.01 ? 1 : 2;
   const misc = reg(0x3c2, 'Miscellaneous output', [
-    { range: '7', meaning: `vertical sync polarity (${t.vSyncPositive ? '0 = positive' : '1 = negative'})`, value: t.vSyncPositive ? 0 : 1 },
-    { range: '6', meaning: `horizontal sync polarity (${t.hSyncPositive ? '0 = positive' : '1 = negative'})`, value: t.hSyncPositive ? 0 : 1 },
+    {
+      range: '7',
+      meaning: `vertical sync polarity (${t.vSyncPositive ? '0 = positive' : '1 = negative'})`,
+      value: t.vSyncPositive ? 0 : 1,
+    },
+    {
+      range: '6',
+      meaning: `horizontal sync polarity (${t.hSyncPositive ? '0 = positive' : '1 = negative'})`,
+      value: t.hSyncPositive ? 0 : 1,
+    },
     { range: '5', meaning: 'odd/even page select', value: 1 },
-    { range: '3:2', meaning: clockSelect === 0 ? 'clock 0: 25.175 MHz' : clockSelect === 1 ? 'clock 1: 28.322 MHz' : `clock 2: external/programmable (${t.pixelClockMHz} MHz)`, value: clockSelect },
+    {
+      range: '3:2',
+      meaning:
+        clockSelect === 0
+          ? 'clock 0: 25.175 MHz'
+          : clockSelect === 1
+            ? 'clock 1: 28.322 MHz'
+            : `clock 2: external/programmable (${t.pixelClockMHz} MHz)`,
+      value: clockSelect,
+    },
     { range: '1', meaning: 'video RAM enabled', value: 1 },
     { range: '0', meaning: 'CRTC at 3Dx (colour I/O addresses)', value: 1 },
   ]);
@@ -160,7 +227,9 @@ export function vgaRegisters(t: Timing): VgaRegisters {
       { range: '3', meaning: 'dot clock not halved', value: 0 },
       { range: '0', meaning: text ? '9-dot characters (0)' : '8-dot characters (1)', value: text ? 0 : 1 },
     ]),
-    reg(0x02, 'Map mask', [{ range: '3:0', meaning: text ? 'planes 0 and 1 (characters and attributes)' : 'all four planes', value: text ? 0x3 : 0xf }]),
+    reg(0x02, 'Map mask', [
+      { range: '3:0', meaning: text ? 'planes 0 and 1 (characters and attributes)' : 'all four planes', value: text ? 0x3 : 0xf },
+    ]),
     reg(0x03, 'Character map select', [{ range: '7:0', meaning: 'font 0 for both character sets', value: 0 }]),
     reg(0x04, 'Memory mode', [
       { range: '3', meaning: 'chain 4 off', value: 0 },
@@ -168,8 +237,13 @@ export function vgaRegisters(t: Timing): VgaRegisters {
       { range: '1', meaning: 'more than 64 KiB of memory', value: 1 },
     ]),
   ];
-  const notes = [text ? '9-pixel character clock; text memory layout of mode 03h (80 columns, 16-line characters, offset = columns / 2, mode control A3).' : '8-pixel character clock; 16-colour planar memory layout (offset = width / 16, mode control E3).'];
-  if (clockSelect === 2) notes.push(`${t.pixelClockMHz} MHz is neither standard VGA crystal: program it in the card's clock synthesiser (chip-specific).`);
+  const notes = [
+    text
+      ? '9-pixel character clock; text memory layout of mode 03h (80 columns, 16-line characters, offset = columns / 2, mode control A3).'
+      : '8-pixel character clock; 16-colour planar memory layout (offset = width / 16, mode control E3).',
+  ];
+  if (clockSelect === 2)
+    notes.push(`${t.pixelClockMHz} MHz is neither standard VGA crystal: program it in the card's clock synthesiser (chip-specific).`);
   return { crtc, misc, sequencer, layout, notes };
 }
 
@@ -197,7 +271,9 @@ export class VbeFieldRangeError extends RangeError {
     readonly bits: number,
     readonly max: number,
   ) {
-    super(`${VBE_FIELD_LABELS[field] ?? field} would be ${value}, more than the VBE block's ${bits}-bit ${field} field holds (at most ${max})`);
+    super(
+      `${VBE_FIELD_LABELS[field] ?? field} would be ${value}, more than the VBE block's ${bits}-bit ${field} field holds (at most ${max})`,
+    );
   }
 }
 
@@ -223,7 +299,17 @@ export function vbeCrtcInfoBlock(t: Timing): { fields: Record<string, number>; b
     RefreshRate: refresh,
   };
   // A value wider than its field would be cut to its low bytes without a word: refuse it.
-  const widths: Record<keyof typeof fields, number> = { HorizontalTotal: 2, HorizontalSyncStart: 2, HorizontalSyncEnd: 2, VerticalTotal: 2, VerticalSyncStart: 2, VerticalSyncEnd: 2, Flags: 1, PixelClock: 4, RefreshRate: 2 };
+  const widths: Record<keyof typeof fields, number> = {
+    HorizontalTotal: 2,
+    HorizontalSyncStart: 2,
+    HorizontalSyncEnd: 2,
+    VerticalTotal: 2,
+    VerticalSyncStart: 2,
+    VerticalSyncEnd: 2,
+    Flags: 1,
+    PixelClock: 4,
+    RefreshRate: 2,
+  };
   for (const [name, bytes] of Object.entries(widths) as [keyof typeof fields, number][]) {
     const max = 2 ** (8 * bytes) - 1;
     if (!(fields[name] >= 0 && fields[name] <= max)) throw new VbeFieldRangeError(name, fields[name], bytes * 8, max);
@@ -245,7 +331,10 @@ export function vbeCrtcInfoBlock(t: Timing): { fields: Record<string, number>; b
 }
 
 /** Reads a timing back from CR00–CR18 (characters of `charWidth` pixels): what the registers encode. */
-export function decodeVgaRegisters(crtc: number[], CHAR: 8 | 9 = 8): { hTotal: number; hActive: number; hSyncStart: number; vTotal: number; vActive: number; vSyncStart: number; vSyncEndLow4: number } {
+export function decodeVgaRegisters(
+  crtc: number[],
+  CHAR: 8 | 9 = 8,
+): { hTotal: number; hActive: number; hSyncStart: number; vTotal: number; vActive: number; vSyncStart: number; vSyncEndLow4: number } {
   const o = crtc[0x07];
   const b = (v: number, n: number) => (v >> n) & 1;
   return {

@@ -12,7 +12,10 @@ export function resolveTiming(modeText: string, standard: Standard): Timing {
   if (bios) return bios;
   const mode = parseMode(modeText);
   if (!mode) throw new RangeError(`write the mode as width x height @ refresh, like 640x480@60 (got "${modeText}")`);
-  if (mode.reducedBlanking && standard !== 'dmt') throw new RangeError(`"RB" names a reduced-blanking DMT row; for ${modeName({ ...mode, reducedBlanking: undefined })} choose CVT reduced blanking instead`);
+  if (mode.reducedBlanking && standard !== 'dmt')
+    throw new RangeError(
+      `"RB" names a reduced-blanking DMT row; for ${modeName({ ...mode, reducedBlanking: undefined })} choose CVT reduced blanking instead`,
+    );
   if (standard === 'dmt') {
     const t = fixedTiming(modeName(mode));
     if (!t) throw new RangeError(`${modeName(mode)} is not among the fixed (DMT/VGA) timings; use a CVT standard for other modes`);

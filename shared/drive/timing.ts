@@ -60,14 +60,19 @@ export function timingProblems(t: Timing): string[] {
   const words = { active: 'active', frontPorch: 'front porch', sync: 'sync width', backPorch: 'back porch' } as const;
   const check = (name: string, a: Axis, unit: string, one: string) => {
     for (const key of ['active', 'frontPorch', 'sync', 'backPorch'] as const) {
-      if (!Number.isInteger(a[key]) || a[key] < 0) problems.push(`${name} ${words[key]} must be a whole number of ${unit} ≥ 0, got ${a[key]}`);
+      if (!Number.isInteger(a[key]) || a[key] < 0)
+        problems.push(`${name} ${words[key]} must be a whole number of ${unit} ≥ 0, got ${a[key]}`);
     }
     if (a.active < 1) problems.push(`${name} active must be at least 1 ${one}`);
     if (a.sync < 1) problems.push(`${name} sync width must be at least 1 ${one}`);
-    if (a.total !== a.active + a.frontPorch + a.sync + a.backPorch) problems.push(`${name} total ${a.total} is not active + front porch + sync + back porch = ${a.active + a.frontPorch + a.sync + a.backPorch}`);
+    if (a.total !== a.active + a.frontPorch + a.sync + a.backPorch)
+      problems.push(
+        `${name} total ${a.total} is not active + front porch + sync + back porch = ${a.active + a.frontPorch + a.sync + a.backPorch}`,
+      );
   };
   check('Horizontal', t.h, 'pixels', 'pixel');
   check('Vertical', t.v, 'lines', 'line');
-  if (!(t.pixelClockMHz > 0 && t.pixelClockMHz <= 1000)) problems.push(`pixel clock must be above 0 and at most 1000 MHz, got ${t.pixelClockMHz}`);
+  if (!(t.pixelClockMHz > 0 && t.pixelClockMHz <= 1000))
+    problems.push(`pixel clock must be above 0 and at most 1000 MHz, got ${t.pixelClockMHz}`);
   return problems;
 }

@@ -16,7 +16,14 @@ describe('reading a video option ROM', () => {
     const info = readRom(rom);
     expect(info.size).toBe(32768);
     expect(info.checksum).toEqual({ sum: 0, ok: true, byteAt: 32767, value: rom[32767] });
-    expect(info.pci).toMatchObject({ offset: 0x40, vendorId: 0x1234, deviceId: 0x1111, classCode: 0x030000, imageBytes: 32768, lastImage: true });
+    expect(info.pci).toMatchObject({
+      offset: 0x40,
+      vendorId: 0x1234,
+      deviceId: 0x1111,
+      classCode: 0x030000,
+      imageBytes: 32768,
+      lastImage: true,
+    });
     expect(info.table).toEqual({ offset: TABLE, from: 'pointer', pointerAt: SAVE_POINTERS });
     expect(info.entries).toHaveLength(29);
     expect(info.entries.filter((e) => e.status === 'ok').map((e) => e.index)).toEqual([0x18, 0x1b]);
@@ -26,10 +33,34 @@ describe('reading a video option ROM', () => {
     expect(e12.standardMode).toBe('mode 12h');
     // Mode 12h: 640×480 at 25.175 MHz, 800 × 525 totals, sync 96 px and 2 lines, both negative
     // [ds]; refresh 25.175 MHz / (800 · 525) = 59.94 Hz [calc].
-    expect(e12.decoded).toMatchObject({ width: 640, height: 480, hTotal: 800, vTotal: 525, hSyncWidth: 96, vSyncStart: 490, vSyncWidth: 2, hSyncPositive: false, vSyncPositive: false, charWidth: 8, memory: 'graphics', pixelClockMHz: 25.175, problems: [] });
+    expect(e12.decoded).toMatchObject({
+      width: 640,
+      height: 480,
+      hTotal: 800,
+      vTotal: 525,
+      hSyncWidth: 96,
+      vSyncStart: 490,
+      vSyncWidth: 2,
+      hSyncPositive: false,
+      vSyncPositive: false,
+      charWidth: 8,
+      memory: 'graphics',
+      pixelClockMHz: 25.175,
+      problems: [],
+    });
     expect(e12.decoded!.refreshHz).toBeCloseTo(59.94, 2);
     // Mode 03h: 720×400 text, 9-dot characters at 28.322 MHz, 900 × 449, 70.09 Hz [ds; calc].
-    expect(info.entries[0x18].decoded).toMatchObject({ width: 720, height: 400, hTotal: 900, vTotal: 449, hSyncWidth: 108, charWidth: 9, memory: 'text', pixelClockMHz: 28.322, vSyncPositive: true });
+    expect(info.entries[0x18].decoded).toMatchObject({
+      width: 720,
+      height: 400,
+      hTotal: 900,
+      vTotal: 449,
+      hSyncWidth: 108,
+      charWidth: 9,
+      memory: 'text',
+      pixelClockMHz: 28.322,
+      vSyncPositive: true,
+    });
     expect(info.entries[0x18].decoded!.refreshHz).toBeCloseTo(70.09, 2);
   });
 
@@ -53,9 +84,24 @@ describe('reading a video option ROM', () => {
   });
 
   test.each([
-    ['not an option ROM', () => Uint8Array.from([0x4d, 0x5a, 0x90, 0, ...new Array(600).fill(0)]), 'not_a_rom', 'it starts with 4D 5A, not 55 AA'],
-    ['cut short', () => syntheticRom().slice(0, 16384), 'truncated', 'the header declares 32768 bytes (64 blocks of 512) but the file has 16384'],
-    ['a table pointer beyond the image', () => syntheticRom({ pointer: 0x9000 }), 'table_out_of_range', 'points to the parameter table at C000:9000, beyond the end of the 32768-byte image'],
+    [
+      'not an option ROM',
+      () => Uint8Array.from([0x4d, 0x5a, 0x90, 0, ...new Array(600).fill(0)]),
+      'not_a_rom',
+      'it starts with 4D 5A, not 55 AA',
+    ],
+    [
+      'cut short',
+      () => syntheticRom().slice(0, 16384),
+      'truncated',
+      'the header declares 32768 bytes (64 blocks of 512) but the file has 16384',
+    ],
+    [
+      'a table pointer beyond the image',
+      () => syntheticRom({ pointer: 0x9000 }),
+      'table_out_of_range',
+      'points to the parameter table at C000:9000, beyond the end of the 32768-byte image',
+    ],
   ])('%s: a clear error', (_, make, code, message) => {
     const read = () => readRom(make());
     expect(read).toThrow(RomError);
@@ -78,7 +124,9 @@ describe('reading a video option ROM', () => {
     const info = readRom(rom);
     expect(info.checksum.ok).toBe(false);
     expect(info.checksum.sum).toBe(0xff);
-    expect(() => patchRom(rom, info, 0x1b, fixedTiming('640x400@70')!)).toThrow("the image's checksum is wrong before any change (its bytes sum to 0xFF, not 00)");
+    expect(() => patchRom(rom, info, 0x1b, fixedTiming('640x400@70')!)).toThrow(
+      "the image's checksum is wrong before any change (its bytes sum to 0xFF, not 00)",
+    );
   });
 });
 
@@ -113,7 +161,9 @@ describe('patching an entry', () => {
     expect(patch.bytes.length).toBe(rom.length);
     // The vertical registers of a 449-line, 400-line frame are those of the published mode 03h
     // entry (CR06 BF, CR07 1F, CR10 9C, CR11 8E, CR12 8F) [ds].
-    expect([0x06, 0x07, 0x10, 0x11, 0x12].map((i) => patch.bytes[crtc + i])).toEqual([0x06, 0x07, 0x10, 0x11, 0x12].map((i) => MODE_03H[10 + i]));
+    expect([0x06, 0x07, 0x10, 0x11, 0x12].map((i) => patch.bytes[crtc + i])).toEqual(
+      [0x06, 0x07, 0x10, 0x11, 0x12].map((i) => MODE_03H[10 + i]),
+    );
     // And the timing registers are the register table's own values for the timing.
     const regs = vgaRegisters(timing);
     for (const i of [0, 1, 2, 3, 4, 5, 6, 0x10, 0x11, 0x12, 0x15, 0x16]) expect(patch.bytes[crtc + i]).toBe(regs.crtc[i].value);
@@ -125,7 +175,14 @@ describe('patching an entry', () => {
     const info = readRom(patched);
     expect(info.checksum.ok).toBe(true);
     expect(info.entries[0x1b].status).toBe('ok');
-    expect(info.entries[0x1b].decoded).toMatchObject({ width: 640, height: 400, vTotal: 449, pixelClockMHz: 25.175, vSyncPositive: true, hSyncPositive: false });
+    expect(info.entries[0x1b].decoded).toMatchObject({
+      width: 640,
+      height: 400,
+      vTotal: 449,
+      pixelClockMHz: 25.175,
+      vSyncPositive: true,
+      hSyncPositive: false,
+    });
     expect(info.entries[0x1b].decoded!.refreshHz).toBeCloseTo(70.09, 2);
   });
 
@@ -136,8 +193,12 @@ describe('patching an entry', () => {
     expect(patch.checksum.at).toBe(0x7ff0);
     expect(patch.bytes[32767]).toBe(rom[32767]);
     expect(sum(patch.bytes)).toBe(0);
-    expect(() => patchRom(rom, info, 0x1b, fixedTiming('640x400@70')!, { checksumAt: at12h + 3 })).toThrow('would fall inside the entry being patched');
-    expect(() => patchRom(rom, info, 0x1b, fixedTiming('640x400@70')!, { checksumAt: 40000 })).toThrow('the checksum byte must lie in the image');
+    expect(() => patchRom(rom, info, 0x1b, fixedTiming('640x400@70')!, { checksumAt: at12h + 3 })).toThrow(
+      'would fall inside the entry being patched',
+    );
+    expect(() => patchRom(rom, info, 0x1b, fixedTiming('640x400@70')!, { checksumAt: 40000 })).toThrow(
+      'the checksum byte must lie in the image',
+    );
   });
 
   test('empty entries, missing entries and a graphics entry with a 9-dot timing are refused', () => {

@@ -20,7 +20,17 @@ import type { Timing } from './timing';
 
 export const ENTRY_BYTES = 64;
 /** Where each part of an entry starts. */
-export const ENTRY = { columns: 0, rowsMinus1: 1, charHeight: 2, pageSize: 3, sequencer: 5, misc: 9, crtc: 10, attribute: 35, graphics: 55 } as const;
+export const ENTRY = {
+  columns: 0,
+  rowsMinus1: 1,
+  charHeight: 2,
+  pageSize: 3,
+  sequencer: 5,
+  misc: 9,
+  crtc: 10,
+  attribute: 35,
+  graphics: 55,
+} as const;
 /** Entries of the standard table (index 00h–1Ch). */
 export const STANDARD_ENTRIES = 29;
 /** The segment an option ROM for video runs at. */
@@ -30,17 +40,47 @@ export const MAX_ROM_BYTES = 512 * 1024;
 
 /** What a standard table's index holds on a VGA [ds, from memory; the order of the IBM table]. */
 export const STANDARD_MODE_OF_INDEX: Record<number, string> = {
-  0x00: 'mode 00h (200 lines)', 0x01: 'mode 01h (200 lines)', 0x02: 'mode 02h (200 lines)', 0x03: 'mode 03h (200 lines)',
-  0x04: 'mode 04h', 0x05: 'mode 05h', 0x06: 'mode 06h', 0x07: 'mode 07h',
-  0x08: 'reserved', 0x09: 'reserved', 0x0a: 'reserved', 0x0b: 'reserved', 0x0c: 'reserved',
-  0x0d: 'mode 0Dh', 0x0e: 'mode 0Eh', 0x0f: 'mode 0Fh (64 KiB)', 0x10: 'mode 10h (64 KiB)',
-  0x11: 'mode 0Fh', 0x12: 'mode 10h',
-  0x13: 'mode 00h (350 lines)', 0x14: 'mode 01h (350 lines)', 0x15: 'mode 02h (350 lines)', 0x16: 'mode 03h (350 lines)',
-  0x17: 'modes 00h/01h (400 lines)', 0x18: 'modes 02h/03h (400 lines)', 0x19: 'mode 07h (400 lines)',
-  0x1a: 'mode 11h', 0x1b: 'mode 12h', 0x1c: 'mode 13h',
+  0x00: 'mode 00h (200 lines)',
+  0x01: 'mode 01h (200 lines)',
+  0x02: 'mode 02h (200 lines)',
+  0x03: 'mode 03h (200 lines)',
+  0x04: 'mode 04h',
+  0x05: 'mode 05h',
+  0x06: 'mode 06h',
+  0x07: 'mode 07h',
+  0x08: 'reserved',
+  0x09: 'reserved',
+  0x0a: 'reserved',
+  0x0b: 'reserved',
+  0x0c: 'reserved',
+  0x0d: 'mode 0Dh',
+  0x0e: 'mode 0Eh',
+  0x0f: 'mode 0Fh (64 KiB)',
+  0x10: 'mode 10h (64 KiB)',
+  0x11: 'mode 0Fh',
+  0x12: 'mode 10h',
+  0x13: 'mode 00h (350 lines)',
+  0x14: 'mode 01h (350 lines)',
+  0x15: 'mode 02h (350 lines)',
+  0x16: 'mode 03h (350 lines)',
+  0x17: 'modes 00h/01h (400 lines)',
+  0x18: 'modes 02h/03h (400 lines)',
+  0x19: 'mode 07h (400 lines)',
+  0x1a: 'mode 11h',
+  0x1b: 'mode 12h',
+  0x1c: 'mode 13h',
 };
 
-export type RomErrorCode = 'not_a_rom' | 'truncated' | 'too_large' | 'table_out_of_range' | 'bad_checksum' | 'no_entry' | 'entry_unusable' | 'timing_unfit' | 'checksum_at';
+export type RomErrorCode =
+  | 'not_a_rom'
+  | 'truncated'
+  | 'too_large'
+  | 'table_out_of_range'
+  | 'bad_checksum'
+  | 'no_entry'
+  | 'entry_unusable'
+  | 'timing_unfit'
+  | 'checksum_at';
 
 /** A ROM image that cannot be read or patched, with what is wrong and what to do. */
 export class RomError extends Error {
@@ -127,15 +167,20 @@ export function decodeEntry(e: ParamEntry): DecodedEntry {
   const doubled = c[0x09] & 0x80 || (memory === 'graphics' && (c[0x09] & 0x1f) > 0) ? 2 : 1;
   const problems: string[] = [];
   const chars = c[0x01] + 1;
-  if (c[0x04] < chars || c[0x04] >= c[0x00] + 5) problems.push(`horizontal sync starts at character ${c[0x04]}, outside the blanking between ${chars} and ${c[0x00] + 5}`);
+  if (c[0x04] < chars || c[0x04] >= c[0x00] + 5)
+    problems.push(`horizontal sync starts at character ${c[0x04]}, outside the blanking between ${chars} and ${c[0x00] + 5}`);
   if (c[0x02] < c[0x01]) problems.push(`horizontal blanking starts (character ${c[0x02]}) inside the display (${chars} characters)`);
-  if (r.vSyncStart < r.vActive || r.vSyncStart >= r.vTotal) problems.push(`vertical sync starts at line ${r.vSyncStart}, outside the blanking between ${r.vActive} and ${r.vTotal}`);
+  if (r.vSyncStart < r.vActive || r.vSyncStart >= r.vTotal)
+    problems.push(`vertical sync starts at line ${r.vSyncStart}, outside the blanking between ${r.vActive} and ${r.vTotal}`);
   if (r.vTotal < 100) problems.push(`a frame of ${r.vTotal} lines is shorter than any VGA mode`);
   if (!(e.misc & 0x02)) problems.push('the miscellaneous output register leaves video memory disabled');
-  if (refreshHz !== null && (refreshHz < 40 || refreshHz > 100)) problems.push(`it refreshes at ${refreshHz.toFixed(1)} Hz, outside the 40–100 Hz of working modes`);
-  if (![1, 2].some((k) => e.columns * k === chars)) problems.push(`the columns byte (${e.columns}) does not match the ${chars} characters CR01 displays`);
+  if (refreshHz !== null && (refreshHz < 40 || refreshHz > 100))
+    problems.push(`it refreshes at ${refreshHz.toFixed(1)} Hz, outside the 40–100 Hz of working modes`);
+  if (![1, 2].some((k) => e.columns * k === chars))
+    problems.push(`the columns byte (${e.columns}) does not match the ${chars} characters CR01 displays`);
   const rows = e.rowsMinus1 + 1;
-  if (![1, 2].some((k) => rows * e.charHeight * k === r.vActive)) problems.push(`${rows} rows of ${e.charHeight} lines do not fill the ${r.vActive} displayed lines`);
+  if (![1, 2].some((k) => rows * e.charHeight * k === r.vActive))
+    problems.push(`${rows} rows of ${e.charHeight} lines do not fill the ${r.vActive} displayed lines`);
   return {
     width: r.hActive,
     height: r.vActive,
@@ -197,20 +242,35 @@ export interface RomInfo {
 
 /** The header and the checksum; RomError when the image is not an option ROM or is cut short. */
 export function romHeader(b: Uint8Array): Pick<RomInfo, 'fileBytes' | 'size' | 'checksum' | 'pci'> {
-  if (b.length > MAX_ROM_BYTES) throw new RomError('too_large', `the file is ${b.length} bytes; a video option ROM is at most ${MAX_ROM_BYTES / 1024} KiB`);
+  if (b.length > MAX_ROM_BYTES)
+    throw new RomError('too_large', `the file is ${b.length} bytes; a video option ROM is at most ${MAX_ROM_BYTES / 1024} KiB`);
   if (b.length < 3 || b[0] !== 0x55 || b[1] !== 0xaa) {
     const start = Array.from(b.subarray(0, 2), hex2).join(' ') || 'nothing';
-    throw new RomError('not_a_rom', `this is not an option ROM image: it starts with ${start}, not 55 AA. Upload the dump of the card's BIOS chip (or the file the card's flash tool saves)`);
+    throw new RomError(
+      'not_a_rom',
+      `this is not an option ROM image: it starts with ${start}, not 55 AA. Upload the dump of the card's BIOS chip (or the file the card's flash tool saves)`,
+    );
   }
   const size = b[2] * 512;
   if (size === 0) throw new RomError('not_a_rom', 'the header gives the image a size of 0 blocks (byte 2 must count 512-byte blocks)');
-  if (b.length < size) throw new RomError('truncated', `the header declares ${size} bytes (${b[2]} blocks of 512) but the file has ${b.length}: the image is cut short. Read the chip again and upload the whole dump`);
+  if (b.length < size)
+    throw new RomError(
+      'truncated',
+      `the header declares ${size} bytes (${b[2]} blocks of 512) but the file has ${b.length}: the image is cut short. Read the chip again and upload the whole dump`,
+    );
   let sum = 0;
   for (let i = 0; i < size; i++) sum = (sum + b[i]) & 0xff;
   let pci: PciData | null = null;
   const p = u16(b, 0x18);
   if (p >= 0x1a && p + 0x18 <= size && b[p] === 0x50 && b[p + 1] === 0x43 && b[p + 2] === 0x49 && b[p + 3] === 0x52) {
-    pci = { offset: p, vendorId: u16(b, p + 4), deviceId: u16(b, p + 6), classCode: b[p + 0x0d] | (b[p + 0x0e] << 8) | (b[p + 0x0f] << 16), imageBytes: u16(b, p + 0x10) * 512, lastImage: !!(b[p + 0x15] & 0x80) };
+    pci = {
+      offset: p,
+      vendorId: u16(b, p + 4),
+      deviceId: u16(b, p + 6),
+      classCode: b[p + 0x0d] | (b[p + 0x0e] << 8) | (b[p + 0x0f] << 16),
+      imageBytes: u16(b, p + 0x10) * 512,
+      lastImage: !!(b[p + 0x15] & 0x80),
+    };
   }
   return { fileBytes: b.length, size, checksum: { sum, ok: sum === 0, byteAt: size - 1, value: b[size - 1] }, pci };
 }
@@ -248,7 +308,11 @@ function tableEntries(b: Uint8Array, size: number, start: number, from: string):
       standardMode: STANDARD_MODE_OF_INDEX[index] ?? null,
       status: empty ? 'empty' : ok ? 'ok' : 'unclear',
       decoded,
-      confidence: empty ? 'All zero: no mode here.' : ok ? `In the table ${from}; every field agrees with the others.` : `In the table ${from}, but it does not decode cleanly: ${decoded!.problems.join('; ')}.`,
+      confidence: empty
+        ? 'All zero: no mode here.'
+        : ok
+          ? `In the table ${from}; every field agrees with the others.`
+          : `In the table ${from}, but it does not decode cleanly: ${decoded!.problems.join('; ')}.`,
     });
   }
   return entries;
@@ -287,26 +351,52 @@ function scannedEntries(b: Uint8Array, size: number): RomEntry[] {
 export function readRom(b: Uint8Array, opts: { tableOffset?: number } = {}): RomInfo {
   const header = romHeader(b);
   const { size } = header;
-  const notes = ['Only the standard VGA parameter table is read; vendor extension registers (clock synthesiser, extended CRTC bits, flat-panel tables) are out of scope.'];
-  if (b.length > size) notes.push(`The file has ${b.length - size} bytes after the ${size} the header declares (another image or padding); they are kept as they are.`);
+  const notes = [
+    'Only the standard VGA parameter table is read; vendor extension registers (clock synthesiser, extended CRTC bits, flat-panel tables) are out of scope.',
+  ];
+  if (b.length > size)
+    notes.push(
+      `The file has ${b.length - size} bytes after the ${size} the header declares (another image or padding); they are kept as they are.`,
+    );
   if (header.pci && !header.pci.lastImage) notes.push('The PCI data says further images follow this one; only the first is read.');
   if (opts.tableOffset !== undefined) {
     const t = opts.tableOffset;
-    if (!Number.isInteger(t) || t < 0 || t + ENTRY_BYTES > size) throw new RomError('table_out_of_range', `a table at ${hex(Math.max(0, Math.trunc(t) || 0))} does not fit in the ${size}-byte image; give an offset from 0 to ${hex(size - ENTRY_BYTES)}`);
-    return { ...header, table: { offset: t, from: 'given', pointerAt: null }, entries: tableEntries(b, size, t, `at the offset given (${hex(t)})`), notes };
+    if (!Number.isInteger(t) || t < 0 || t + ENTRY_BYTES > size)
+      throw new RomError(
+        'table_out_of_range',
+        `a table at ${hex(Math.max(0, Math.trunc(t) || 0))} does not fit in the ${size}-byte image; give an offset from 0 to ${hex(size - ENTRY_BYTES)}`,
+      );
+    return {
+      ...header,
+      table: { offset: t, from: 'given', pointerAt: null },
+      entries: tableEntries(b, size, t, `at the offset given (${hex(t)})`),
+      notes,
+    };
   }
   const pointers = savePointerTables(b, size);
   const inRange = pointers.filter((p) => p.target + ENTRY_BYTES <= size);
   const usable = inRange.find((p) => tableEntries(b, size, p.target, '').some((e) => e.status === 'ok'));
   if (usable) {
-    return { ...header, table: { offset: usable.target, from: 'pointer', pointerAt: usable.at }, entries: tableEntries(b, size, usable.target, `that the video save pointer table (at ${hex(usable.at)}) points to`), notes };
+    return {
+      ...header,
+      table: { offset: usable.target, from: 'pointer', pointerAt: usable.at },
+      entries: tableEntries(b, size, usable.target, `that the video save pointer table (at ${hex(usable.at)}) points to`),
+      notes,
+    };
   }
   const outside = pointers.find((p) => p.target + ENTRY_BYTES > size);
   if (outside) {
-    throw new RomError('table_out_of_range', `the video save pointer table at ${hex(outside.at)} points to the parameter table at C000:${outside.target.toString(16).toUpperCase().padStart(4, '0')}, beyond the end of the ${size}-byte image: the image is cut short or the pointer is damaged. If you know where the table is, give its offset`);
+    throw new RomError(
+      'table_out_of_range',
+      `the video save pointer table at ${hex(outside.at)} points to the parameter table at C000:${outside.target.toString(16).toUpperCase().padStart(4, '0')}, beyond the end of the ${size}-byte image: the image is cut short or the pointer is damaged. If you know where the table is, give its offset`,
+    );
   }
   const entries = scannedEntries(b, size);
-  notes.push(entries.length ? 'No video save pointer table was found (many BIOSes fill it in only at start-up), so the entries below were found by scanning.' : 'No video save pointer table was found and no 64 bytes of the image decode to a VGA mode: the image may keep its modes in a vendor format. If you know where the table is, give its offset.');
+  notes.push(
+    entries.length
+      ? 'No video save pointer table was found (many BIOSes fill it in only at start-up), so the entries below were found by scanning.'
+      : 'No video save pointer table was found and no 64 bytes of the image decode to a VGA mode: the image may keep its modes in a vendor format. If you know where the table is, give its offset.',
+  );
   return { ...header, table: null, entries, notes };
 }
 
@@ -336,21 +426,43 @@ export interface RomPatch {
  * or `checksumAt`) is set so all bytes sum to 0 mod 256.
  */
 export function patchRom(b: Uint8Array, info: RomInfo, index: number, timing: Timing, opts: { checksumAt?: number } = {}): RomPatch {
-  if (!info.checksum.ok) throw new RomError('bad_checksum', `the image's checksum is wrong before any change (its bytes sum to ${hex(info.checksum.sum, 2)}, not 00): the dump may be damaged. Read the chip again before patching`);
+  if (!info.checksum.ok)
+    throw new RomError(
+      'bad_checksum',
+      `the image's checksum is wrong before any change (its bytes sum to ${hex(info.checksum.sum, 2)}, not 00): the dump may be damaged. Read the chip again before patching`,
+    );
   const entry = info.entries.find((e) => e.index === index);
-  if (!entry) throw new RomError('no_entry', `there is no entry ${index} in this image's table; choose one of ${info.entries.map((e) => e.index).join(', ') || 'none'}`);
-  if (entry.status !== 'ok' || !entry.decoded) throw new RomError('entry_unusable', `entry ${index} ${entry.status === 'empty' ? 'is empty' : 'does not decode cleanly'}; patch an entry that holds a working mode`);
+  if (!entry)
+    throw new RomError(
+      'no_entry',
+      `there is no entry ${index} in this image's table; choose one of ${info.entries.map((e) => e.index).join(', ') || 'none'}`,
+    );
+  if (entry.status !== 'ok' || !entry.decoded)
+    throw new RomError(
+      'entry_unusable',
+      `entry ${index} ${entry.status === 'empty' ? 'is empty' : 'does not decode cleanly'}; patch an entry that holds a working mode`,
+    );
   const at = entry.offset;
   const old = readEntry(b, at);
   const regs = vgaRegisters(timing);
-  if (entry.decoded.memory === 'graphics' && regs.layout.charWidth !== 8) throw new RomError('timing_unfit', `a graphics entry counts 8-pixel characters, and ${timing.name}'s horizontal edges are not multiples of 8 px`);
+  if (entry.decoded.memory === 'graphics' && regs.layout.charWidth !== 8)
+    throw new RomError(
+      'timing_unfit',
+      `a graphics entry counts 8-pixel characters, and ${timing.name}'s horizontal edges are not multiples of 8 px`,
+    );
   const oldChars = old.crtc[0x01] + 1;
   const newChars = timing.h.active / regs.layout.charWidth;
   const newOffset = (old.crtc[0x13] * newChars) / oldChars;
-  if (!Number.isInteger(newOffset) || newOffset > 255) throw new RomError('timing_unfit', `the line offset (CR13 ${hex2(old.crtc[0x13])} for ${oldChars} characters) does not scale to ${newChars} characters in whole words`);
+  if (!Number.isInteger(newOffset) || newOffset > 255)
+    throw new RomError(
+      'timing_unfit',
+      `the line offset (CR13 ${hex2(old.crtc[0x13])} for ${oldChars} characters) does not scale to ${newChars} characters in whole words`,
+    );
   const checksumAt = opts.checksumAt ?? info.checksum.byteAt;
-  if (!Number.isInteger(checksumAt) || checksumAt < 0 || checksumAt >= info.size) throw new RomError('checksum_at', `the checksum byte must lie in the image (0 to ${hex(info.size - 1)}), not at ${checksumAt}`);
-  if (checksumAt >= at && checksumAt < at + ENTRY_BYTES) throw new RomError('checksum_at', `the checksum byte at ${hex(checksumAt)} would fall inside the entry being patched`);
+  if (!Number.isInteger(checksumAt) || checksumAt < 0 || checksumAt >= info.size)
+    throw new RomError('checksum_at', `the checksum byte must lie in the image (0 to ${hex(info.size - 1)}), not at ${checksumAt}`);
+  if (checksumAt >= at && checksumAt < at + ENTRY_BYTES)
+    throw new RomError('checksum_at', `the checksum byte at ${hex(checksumAt)} would fall inside the entry being patched`);
 
   const out = new Uint8Array(b);
   const changes: PatchChange[] = [];
@@ -366,18 +478,25 @@ export function patchRom(b: Uint8Array, info: RomInfo, index: number, timing: Ti
   else notes.push(`The columns byte (${old.columns}) is kept: it does not scale to ${newChars} characters in whole columns.`);
   const rows = ((old.rowsMinus1 + 1) * timing.v.active) / entry.decoded.height;
   if (Number.isInteger(rows) && rows >= 1 && rows <= 256) set(at + ENTRY.rowsMinus1, rows - 1, 'Rows − 1');
-  else notes.push(`The rows byte (${old.rowsMinus1 + 1} rows) is kept: ${timing.v.active} lines do not divide into whole rows of the entry's height.`);
+  else
+    notes.push(
+      `The rows byte (${old.rowsMinus1 + 1} rows) is kept: ${timing.v.active} lines do not divide into whole rows of the entry's height.`,
+    );
   const sr01 = (old.sequencer[0] & ~1) | (regs.layout.charWidth === 8 ? 1 : 0);
   set(at + ENTRY.sequencer, sr01, 'SR01 Clocking mode');
   set(at + ENTRY.misc, (old.misc & 0x23) | (regs.misc.value & 0xcc), 'Miscellaneous output');
-  for (const i of [0x00, 0x01, 0x02, 0x03, 0x04, 0x05, 0x06, 0x10, 0x11, 0x12, 0x15, 0x16]) set(at + ENTRY.crtc + i, regs.crtc[i].value, crtcName(i));
+  for (const i of [0x00, 0x01, 0x02, 0x03, 0x04, 0x05, 0x06, 0x10, 0x11, 0x12, 0x15, 0x16])
+    set(at + ENTRY.crtc + i, regs.crtc[i].value, crtcName(i));
   // Overflow: every bit but line compare bit 8 follows the timing; maximum scan line: only the blanking bit.
   set(at + ENTRY.crtc + 0x07, (regs.crtc[0x07].value & ~0x10) | (old.crtc[0x07] & 0x10), crtcName(0x07));
   set(at + ENTRY.crtc + 0x09, (old.crtc[0x09] & ~0x20) | (regs.crtc[0x09].value & 0x20), crtcName(0x09));
   set(at + ENTRY.crtc + 0x13, newOffset, crtcName(0x13));
-  if (regs.layout.charWidth === 9 && entry.decoded.charWidth === 8) notes.push('The entry now counts 9-pixel characters: the attribute controller\'s line-graphics bit (AR10 bit 2) is kept as it was.');
+  if (regs.layout.charWidth === 9 && entry.decoded.charWidth === 8)
+    notes.push("The entry now counts 9-pixel characters: the attribute controller's line-graphics bit (AR10 bit 2) is kept as it was.");
   notes.push(...regs.notes.filter((n) => n.includes('synthesiser')));
-  notes.push('Kept as they were: SR02–SR04, CR08, CR0A–CR0F, CR14, CR17, CR18, the attribute and graphics registers and the page size (the memory layout, not the timing).');
+  notes.push(
+    'Kept as they were: SR02–SR04, CR08, CR0A–CR0F, CR14, CR17, CR18, the attribute and graphics registers and the page size (the memory layout, not the timing).',
+  );
 
   let sum = 0;
   for (let i = 0; i < info.size; i++) if (i !== checksumAt) sum = (sum + out[i]) & 0xff;

@@ -1,7 +1,19 @@
 import pixelmatch from 'pixelmatch';
 import type { RgbaImage } from '../pipeline/types';
 import { fitText, printable, textWidth } from './pixel-text';
-import { composeSheet, differenceMap, fitNearest, LABEL_LINES, MIN_COLUMN_WIDTH, scaleBarMm, SHEET_COLOURS, SHEET_GAP, SHEET_MARGIN, sheetGeometry, type Rect } from './sheet';
+import {
+  composeSheet,
+  differenceMap,
+  fitNearest,
+  LABEL_LINES,
+  MIN_COLUMN_WIDTH,
+  scaleBarMm,
+  SHEET_COLOURS,
+  SHEET_GAP,
+  SHEET_MARGIN,
+  sheetGeometry,
+  type Rect,
+} from './sheet';
 
 const solid = (width: number, height: number, rgb: [number, number, number]): RgbaImage => {
   const data = new Uint8Array(width * height * 4);
@@ -12,15 +24,22 @@ const pixel = (img: RgbaImage, x: number, y: number) => Array.from(img.data.suba
 /** Pixels of a rectangle that are not the sheet's background. */
 const inked = (img: RgbaImage, r: Rect) => {
   let n = 0;
-  for (let y = r.y; y < r.y + r.height; y++) for (let x = r.x; x < r.x + r.width; x++) if (pixel(img, x, y).slice(0, 3).join() !== SHEET_COLOURS.background.join()) n++;
+  for (let y = r.y; y < r.y + r.height; y++)
+    for (let x = r.x; x < r.x + r.width; x++) if (pixel(img, x, y).slice(0, 3).join() !== SHEET_COLOURS.background.join()) n++;
   return n;
 };
 
 describe('sheet geometry [calc: the layout rules written in sheet.ts, worked by hand here]', () => {
   it('puts a 2 × 2 grid of 400 × 200 cells where the rules say', () => {
     const g = sheetGeometry([
-      [{ width: 400, height: 200 }, { width: 400, height: 200 }],
-      [{ width: 400, height: 200 }, { width: 400, height: 200 }],
+      [
+        { width: 400, height: 200 },
+        { width: 400, height: 200 },
+      ],
+      [
+        { width: 400, height: 200 },
+        { width: 400, height: 200 },
+      ],
     ]);
     // width = 2 margins + 2 columns + 1 gap
     expect(g.width).toBe(2 * SHEET_MARGIN + 2 * 400 + SHEET_GAP);
@@ -35,8 +54,14 @@ describe('sheet geometry [calc: the layout rules written in sheet.ts, worked by 
 
   it('sizes each column to its widest image (at least the minimum) and centres narrower ones', () => {
     const g = sheetGeometry([
-      [{ width: 640, height: 100 }, { width: 100, height: 50 }],
-      [{ width: 320, height: 300 }, { width: 80, height: 40 }],
+      [
+        { width: 640, height: 100 },
+        { width: 100, height: 50 },
+      ],
+      [
+        { width: 320, height: 300 },
+        { width: 80, height: 40 },
+      ],
     ]);
     expect(g.cells[0][0].slot.width).toBe(640);
     expect(g.cells[0][1].slot.width).toBe(MIN_COLUMN_WIDTH);
@@ -64,13 +89,25 @@ describe('composed sheet [calc]', () => {
       { image: solid(300, 200, [255, 255, 255]), lines: ['Soft', 'Walk cycle', ''], pxPerMm: 10 },
     ],
   ];
-  const { image, geometry } = composeSheet({ title: 'Kiln & Quartz: looks', subtitle: 'Grid', footer: ['Kiln & Quartz · 2026-12-03', 'Pipeline 4'], rows: cells });
+  const { image, geometry } = composeSheet({
+    title: 'Kiln & Quartz: looks',
+    subtitle: 'Grid',
+    footer: ['Kiln & Quartz · 2026-12-03', 'Pipeline 4'],
+    rows: cells,
+  });
 
   it('copies every cell image exactly into its rectangle', () => {
     cells.forEach((row, r) =>
       row.forEach((cell, c) => {
         const at = geometry.cells[r][c].image;
-        for (const [dx, dy] of [[0, 0], [299, 0], [0, 199], [299, 199], [150, 100]]) expect(pixel(image, at.x + dx, at.y + dy)).toEqual(pixel(cell.image, dx, dy));
+        for (const [dx, dy] of [
+          [0, 0],
+          [299, 0],
+          [0, 199],
+          [299, 199],
+          [150, 100],
+        ])
+          expect(pixel(image, at.x + dx, at.y + dy)).toEqual(pixel(cell.image, dx, dy));
         // Just outside the image: the sheet, not the cell.
         expect(pixel(image, at.x - 1, at.y)).not.toEqual(pixel(cell.image, 0, 0));
       }),
@@ -95,7 +132,12 @@ describe('composed sheet [calc]', () => {
     const bar = geometry.cells[0][0].bar;
     const y = bar.y + 6;
     let run = 0;
-    while (pixel(image, bar.x + run, y).slice(0, 3).join() === SHEET_COLOURS.bar.join()) run++;
+    while (
+      pixel(image, bar.x + run, y)
+        .slice(0, 3)
+        .join() === SHEET_COLOURS.bar.join()
+    )
+      run++;
     expect(run).toBe(100);
   });
 

@@ -89,7 +89,8 @@ export function sheetGeometry(sizes: { width: number; height: number }[][], labe
   const labelHeight = LABEL_GAP + labelLines * LINE + LINE;
   const rows = sizes.length;
   const cols = rows ? sizes[0].length : 0;
-  if (!rows || !cols || sizes.some((r) => r.length !== cols)) throw new RangeError('a sheet needs at least one cell and rows of equal length');
+  if (!rows || !cols || sizes.some((r) => r.length !== cols))
+    throw new RangeError('a sheet needs at least one cell and rows of equal length');
   const colWidth = Array.from({ length: cols }, (_, c) => Math.max(MIN_COLUMN_WIDTH, ...sizes.map((r) => r[c].width)));
   const rowImage = sizes.map((r) => Math.max(...r.map((s) => s.height)));
   const width = 2 * SHEET_MARGIN + colWidth.reduce((a, b) => a + b, 0) + SHEET_GAP * (cols - 1);
@@ -99,7 +100,12 @@ export function sheetGeometry(sizes: { width: number; height: number }[][], labe
     let x = SHEET_MARGIN;
     const row = r.map((s, c) => {
       const slot = { x, y, width: colWidth[c], height: rowImage[ri] };
-      const image = { x: x + Math.floor((colWidth[c] - s.width) / 2), y: y + Math.floor((rowImage[ri] - s.height) / 2), width: s.width, height: s.height };
+      const image = {
+        x: x + Math.floor((colWidth[c] - s.width) / 2),
+        y: y + Math.floor((rowImage[ri] - s.height) / 2),
+        width: s.width,
+        height: s.height,
+      };
       const label = { x, y: y + rowImage[ri] + LABEL_GAP, width: colWidth[c], height: labelLines * LINE };
       const bar = { x, y: label.y + label.height, width: colWidth[c], height: LINE };
       x += colWidth[c] + SHEET_GAP;
@@ -128,7 +134,10 @@ export function scaleBarMm(pxPerMm: number, maxPx: number): number {
 /** The sheet as an opaque RGBA image, and where everything went. */
 export function composeSheet(input: SheetInput): { image: RgbaImage; geometry: SheetGeometry } {
   const labelLines = Math.max(LABEL_LINES, ...input.rows.flat().map((c) => c.lines.length));
-  const geometry = sheetGeometry(input.rows.map((r) => r.map((c) => ({ width: c.image.width, height: c.image.height }))), labelLines);
+  const geometry = sheetGeometry(
+    input.rows.map((r) => r.map((c) => ({ width: c.image.width, height: c.image.height }))),
+    labelLines,
+  );
   const image: RgbaImage = { width: geometry.width, height: geometry.height, data: new Uint8Array(geometry.width * geometry.height * 4) };
   const { background, text, muted, bar } = SHEET_COLOURS;
   fillRect(image, 0, 0, image.width, image.height, background);
@@ -139,7 +148,9 @@ export function composeSheet(input: SheetInput): { image: RgbaImage; geometry: S
     row.forEach((cell, c) => {
       const g = geometry.cells[r][c];
       blit(image, cell.image, g.image.x, g.image.y);
-      cell.lines.forEach((line, k) => drawText(image, fitText(line, LABEL_SCALE, g.label.width), g.label.x, g.label.y + k * LINE, LABEL_SCALE, k === 0 ? text : muted));
+      cell.lines.forEach((line, k) =>
+        drawText(image, fitText(line, LABEL_SCALE, g.label.width), g.label.x, g.label.y + k * LINE, LABEL_SCALE, k === 0 ? text : muted),
+      );
       if (cell.pxPerMm) {
         const mm = scaleBarMm(cell.pxPerMm, Math.min(200, g.bar.width / 3));
         const px = Math.round(mm * cell.pxPerMm);
@@ -153,7 +164,9 @@ export function composeSheet(input: SheetInput): { image: RgbaImage; geometry: S
     }),
   );
   fillRect(image, footer.x, footer.y - Math.floor(SHEET_GAP / 2), footer.width, 1, muted);
-  input.footer.slice(0, FOOTER_LINES).forEach((line, k) => drawText(image, fitText(line, LABEL_SCALE, footer.width), footer.x, footer.y + k * LINE, LABEL_SCALE, muted));
+  input.footer
+    .slice(0, FOOTER_LINES)
+    .forEach((line, k) => drawText(image, fitText(line, LABEL_SCALE, footer.width), footer.x, footer.y + k * LINE, LABEL_SCALE, muted));
   return { image, geometry };
 }
 
@@ -201,7 +214,8 @@ export function fitNearest(src: RgbaImage, w: number, h: number): RgbaImage {
  * through orange to red (255 codes), by its largest channel difference on a square-root scale.
  */
 export function differenceMap(a: RgbaImage, b: RgbaImage): { image: RgbaImage; diff: PixelDiff } {
-  if (a.width !== b.width || a.height !== b.height) throw new RangeError(`the two renders differ in size: ${a.width} × ${a.height} and ${b.width} × ${b.height}`);
+  if (a.width !== b.width || a.height !== b.height)
+    throw new RangeError(`the two renders differ in size: ${a.width} × ${a.height} and ${b.width} × ${b.height}`);
   const data = new Uint8Array(a.width * a.height * 4);
   for (let i = 0; i < data.length; i += 4) {
     const d = Math.max(Math.abs(a.data[i] - b.data[i]), Math.abs(a.data[i + 1] - b.data[i + 1]), Math.abs(a.data[i + 2] - b.data[i + 2]));

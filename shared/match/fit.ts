@@ -95,10 +95,16 @@ const mean = (a: ArrayLike<number>) => {
   for (let i = 0; i < a.length; i++) s += a[i];
   return s / a.length;
 };
-const shrink = (r: CellRect, by: number): CellRect => ({ x: r.x + by, y: r.y + by, w: Math.max(1, r.w - 2 * by), h: Math.max(1, r.h - 2 * by) });
+const shrink = (r: CellRect, by: number): CellRect => ({
+  x: r.x + by,
+  y: r.y + by,
+  w: Math.max(1, r.w - 2 * by),
+  h: Math.max(1, r.h - 2 * by),
+});
 const cellsOf = (layout: MatchLayout, r: CellRect): Float32Array => {
   const out = new Float32Array(r.w * r.h);
-  for (let y = 0; y < r.h; y++) out.set(layout.levels.subarray((r.y + y) * layout.cols + r.x, (r.y + y) * layout.cols + r.x + r.w), y * r.w);
+  for (let y = 0; y < r.h; y++)
+    out.set(layout.levels.subarray((r.y + y) * layout.cols + r.x, (r.y + y) * layout.cols + r.x + r.w), y * r.w);
   return out;
 };
 
@@ -126,7 +132,9 @@ export function fitPanel(input: MatchInput, progress: Progress = () => {}): Matc
   const centre = pixelsPerCell(h.forward, layout.cols / 2, layout.rows / 2);
   const ppc = Math.min(centre.across, centre.down);
   if (ppc < MIN_PIXELS_PER_CELL) {
-    throw new MatchRefusal(`The panel covers only ${ppc.toFixed(1)} photo pixels a cell; at least ${MIN_PIXELS_PER_CELL} are needed to see a cell's shape. Move closer or zoom in, keeping all four corner squares in the frame.`);
+    throw new MatchRefusal(
+      `The panel covers only ${ppc.toFixed(1)} photo pixels a cell; at least ${MIN_PIXELS_PER_CELL} are needed to see a cell's shape. Move closer or zoom in, keeping all four corner squares in the frame.`,
+    );
   }
 
   progress(0.1, 'Checking exposure and the pattern');
@@ -136,18 +144,24 @@ export function fitPanel(input: MatchInput, progress: Progress = () => {}): Matc
   const fullY = patchMean(photo, h, full);
   const clippedShare = mean(rectify(photo.clipped, photo, h.forward, full, 2, 2).data);
   if (clippedShare > MAX_CLIPPED_SHARE) {
-    throw new MatchRefusal(`${(clippedShare * 100).toFixed(0)} % of the full-on patch is clipped at white, so the photo cannot show how light falls off. Shorten the exposure (one stop or more) and take it again; a full-on patch at about 200 of 255 is right.`);
+    throw new MatchRefusal(
+      `${(clippedShare * 100).toFixed(0)} % of the full-on patch is clipped at white, so the photo cannot show how light falls off. Shorten the exposure (one stop or more) and take it again; a full-on patch at about 200 of 255 is right.`,
+    );
   }
   // Black crushed to the camera's floor hides the faint end of glow and halo.
   const crushed = mean(rectify(photo.y, photo, h.forward, darkPatch, 2, 2, { taps: 1 }).data.map((v) => (v <= CRUSHED_LIGHT ? 1 : 0)));
   const agreement = patternAgreement(photo, h, layout);
   if (agreement < MIN_PATTERN_AGREEMENT) {
-    throw new MatchRefusal(`The photo does not show the match pattern for ${layout.cols} × ${layout.rows} cells where the marks say (agreement ${agreement.toFixed(2)}; a good photo gives over 0.8). Check that the panel shows this pattern, and that the first mark is on the panel's top-left square and the others follow clockwise.`);
+    throw new MatchRefusal(
+      `The photo does not show the match pattern for ${layout.cols} × ${layout.rows} cells where the marks say (agreement ${agreement.toFixed(2)}; a good photo gives over 0.8). Check that the panel shows this pattern, and that the first mark is on the panel's top-left square and the others follow clockwise.`,
+    );
   }
 
   const fullCode = Math.round(srgbEncode(Math.min(1, fullY.y)) * 255);
   if (fullCode < MIN_FULL_ON_CODE) {
-    throw new MatchRefusal(`The photo is too dark: the full-on patch reaches only ${fullCode} of 255. Lengthen the exposure or open the aperture (keep the panel's brightness as it is); a full-on patch at about 200 of 255 is right.`);
+    throw new MatchRefusal(
+      `The photo is too dark: the full-on patch reaches only ${fullCode} of 255. Lengthen the exposure or open the aperture (keep the panel's brightness as it is); a full-on patch at about 200 of 255 is right.`,
+    );
   }
   progress(0.15, 'Measuring colour, levels and grid');
   const signal = fullY.y - dark.y;
@@ -167,13 +181,23 @@ export function fitPanel(input: MatchInput, progress: Progress = () => {}): Matc
     cell: { ...base.cell, pitchXMm: roundTo(pitchX * (periodX.value / 2), 1e-4), pitchYMm: roundTo(pitchY * (periodY.value / 2), 1e-4) },
     glass: { ...base.glass, haloFromGlass: false, haloRadiusMm: base.glass.haloFromGlass ? haloOf(base) : base.glass.haloRadiusMm },
   };
-  const shape = fitShape(photo, h, layout, start, Math.min(6, Math.max(2, Math.floor(ppc))), (share) => progress(0.2 + 0.75 * share, 'Fitting fill, glow and halo'));
+  const shape = fitShape(photo, h, layout, start, Math.min(6, Math.max(2, Math.floor(ppc))), (share) =>
+    progress(0.2 + 0.75 * share, 'Fitting fill, glow and halo'),
+  );
 
   progress(0.97, 'Writing the result');
   const parameters = structuredClone(shape.parameters);
-  parameters.emission = { ...parameters.emission, colourSource: 'chromaticity', chromaX: roundTo(colour.x, 1e-4), chromaY: roundTo(colour.y, 1e-4) };
+  parameters.emission = {
+    ...parameters.emission,
+    colourSource: 'chromaticity',
+    chromaX: roundTo(colour.x, 1e-4),
+    chromaY: roundTo(colour.y, 1e-4),
+  };
   const checked = panelParamsSchema.safeParse(parameters);
-  if (!checked.success) throw new MatchRefusal(`The fit left the parameters' ranges (${checked.error.issues[0].message}). The photo is probably not of this pattern or badly blurred; take it again in focus.`);
+  if (!checked.success)
+    throw new MatchRefusal(
+      `The fit left the parameters' ranges (${checked.error.issues[0].message}). The photo is probably not of this pattern or badly blurred; take it again in focus.`,
+    );
   const fitted: FittedValue[] = [
     value('cell', 'pitchXMm', base, parameters, pitchX * (periodX.spread / 2), 'Active area ÷ columns × the line pairs’ measured period'),
     value('cell', 'pitchYMm', base, parameters, pitchY * (periodY.spread / 2), 'Active area ÷ rows × the line pairs’ measured period'),
@@ -189,14 +213,29 @@ export function fitPanel(input: MatchInput, progress: Progress = () => {}): Matc
     `Pitch in millimetres comes from the active area you entered (${options.activeWidthMm} × ${options.activeHeightMm} mm); the photo measures the grid’s period in cells (${periodX.value.toFixed(3)} across and ${periodY.value.toFixed(3)} down for line pairs of 2).`,
     'Level curve: measured below; the look keeps its own level spacing.',
   ];
-  if (crushed > MAX_CRUSHED_SHARE) notDetermined.push(`Faint light: ${(crushed * 100).toFixed(0)} % of the dark patch is at the camera’s black, so the faint ends of glow and halo are cut off and their shares come out low. Leave a little room light on the panel face, or lengthen the exposure as far as the full-on patch allows.`);
+  if (crushed > MAX_CRUSHED_SHARE)
+    notDetermined.push(
+      `Faint light: ${(crushed * 100).toFixed(0)} % of the dark patch is at the camera’s black, so the faint ends of glow and halo are cut off and their shares come out low. Leave a little room light on the panel face, or lengthen the exposure as far as the full-on patch allows.`,
+    );
   const halo = fitted.find((f) => f.key === 'haloShare');
-  if (halo && halo.uncertainty > halo.value / 2) notDetermined.push(`Halo: too faint in this photo to measure well (share ${halo.value.toFixed(3)} ± ${halo.uncertainty.toFixed(3)}); a longer exposure shows more of it, as long as the full-on patch does not clip.`);
+  if (halo && halo.uncertainty > halo.value / 2)
+    notDetermined.push(
+      `Halo: too faint in this photo to measure well (share ${halo.value.toFixed(3)} ± ${halo.uncertainty.toFixed(3)}); a longer exposure shows more of it, as long as the full-on patch does not clip.`,
+    );
   return {
     parameters,
     fitted,
     levels,
-    quality: { agreement, rmsResidual: shape.rms, pixelsPerCell: ppc, clippedShare, crushedShare: crushed, marksMovedPx: moved, periodCells: [periodX.value, periodY.value], iterations: shape.iterations },
+    quality: {
+      agreement,
+      rmsResidual: shape.rms,
+      pixelsPerCell: ppc,
+      clippedShare,
+      crushedShare: crushed,
+      marksMovedPx: moved,
+      periodCells: [periodX.value, periodY.value],
+      iterations: shape.iterations,
+    },
     cameraBlurMm,
     notDetermined,
     residual: { photo: shape.photo, model: shape.model, scale: shape.scale },
@@ -206,9 +245,25 @@ export function fitPanel(input: MatchInput, progress: Progress = () => {}): Matc
 
 const haloOf = (p: PanelParams) => 2 * p.glass.glassThicknessMm * Math.tan(Math.asin(1 / p.glass.refractiveIndex));
 
-function value(group: keyof PanelParams, key: string, before: PanelParams, after: PanelParams, uncertainty: number, from: string): FittedValue {
+function value(
+  group: keyof PanelParams,
+  key: string,
+  before: PanelParams,
+  after: PanelParams,
+  uncertainty: number,
+  from: string,
+): FittedValue {
   const s = spec(group, key);
-  return { group, key, label: `${s.label} (${GROUP_LABELS[group]})`, unit: s.unit, before: (before[group] as Record<string, number>)[key], value: (after[group] as Record<string, number>)[key], uncertainty, from };
+  return {
+    group,
+    key,
+    label: `${s.label} (${GROUP_LABELS[group]})`,
+    unit: s.unit,
+    before: (before[group] as Record<string, number>)[key],
+    value: (after[group] as Record<string, number>)[key],
+    uncertainty,
+    from,
+  };
 }
 
 /**
@@ -225,7 +280,9 @@ function register(photo: LinearPhoto, layout: MatchLayout, given: Point[]): { h:
     const typical = [...contrasts].sort((a, b) => a - b)[2];
     found.forEach((f, i) => {
       if (f.contrast < typical * 0.3 || f.contrast <= 0) {
-        throw new MatchRefusal(`The ${MARK_NAMES[i]} mark is not on a lit corner square. Drag it onto the centre of the ${MARK_NAMES[i]} square of the pattern (use the magnifier).`);
+        throw new MatchRefusal(
+          `The ${MARK_NAMES[i]} mark is not on a lit corner square. Drag it onto the centre of the ${MARK_NAMES[i]} square of the pattern (use the magnifier).`,
+        );
       }
     });
     marks = found.map((f) => f.at);
@@ -278,7 +335,8 @@ function patchMean(photo: LinearPhoto, h: Homography, r: CellRect, blocks = 1): 
   for (let by = 0; by < blocks; by++) {
     for (let bx = 0; bx < blocks; bx++) {
       const vals: number[] = [];
-      for (let j = Math.floor((by * r.h) / blocks); j < Math.floor(((by + 1) * r.h) / blocks); j++) for (let i = Math.floor((bx * r.w) / blocks); i < Math.floor(((bx + 1) * r.w) / blocks); i++) vals.push(samples.data[j * r.w + i]);
+      for (let j = Math.floor((by * r.h) / blocks); j < Math.floor(((by + 1) * r.h) / blocks); j++)
+        for (let i = Math.floor((bx * r.w) / blocks); i < Math.floor(((bx + 1) * r.w) / blocks); i++) vals.push(samples.data[j * r.w + i]);
       parts.push(mean(vals));
     }
   }
@@ -322,7 +380,8 @@ function chromaticity(photo: LinearPhoto, h: Homography, r: CellRect, dark: Cell
   };
   const [x, y] = of(() => true);
   const parts: [number, number][] = [];
-  for (let b = 0; b < 16; b++) parts.push(of((i) => Math.floor(((i % r.w) * 4) / r.w) + 4 * Math.floor((Math.floor(i / r.w) * 4) / r.h) === b));
+  for (let b = 0; b < 16; b++)
+    parts.push(of((i) => Math.floor(((i % r.w) * 4) / r.w) + 4 * Math.floor((Math.floor(i / r.w) * 4) / r.h) === b));
   const se = (k: 0 | 1, m: number) => Math.sqrt(parts.reduce((s, p) => s + (p[k] - m) ** 2, 0) / (parts.length - 1) / parts.length);
   return { x, y, ux: se(0, x), uy: se(1, y) };
 }
@@ -374,7 +433,9 @@ function gridPeriod(photo: LinearPhoto, h: Homography, box: CellRect, along: 'x'
   };
   const other = along === 'x' ? img.height : img.width;
   const value = period(0, other);
-  const quarters = [0, 1, 2, 3].map((q) => period(Math.floor((q * other) / 4), Math.max(Math.floor((q * other) / 4) + 1, Math.floor(((q + 1) * other) / 4))));
+  const quarters = [0, 1, 2, 3].map((q) =>
+    period(Math.floor((q * other) / 4), Math.max(Math.floor((q * other) / 4) + 1, Math.floor(((q + 1) * other) / 4))),
+  );
   const sd = Math.sqrt(quarters.reduce((acc, v) => acc + (v - value) ** 2, 0) / 3);
   return { value, spread: sd / 2 };
 }
@@ -413,7 +474,14 @@ const set = (p: PanelParams, k: Knob, v: number) => {
  * found by a scan. Uncertainties come from the residual's curvature (JᵀJ over every fitted
  * figure), widened for neighbouring samples that are not independent.
  */
-function fitShape(photo: LinearPhoto, h: Homography, layout: MatchLayout, start: PanelParams, scale: number, progress: (share: number) => void): ShapeFit {
+function fitShape(
+  photo: LinearPhoto,
+  h: Homography,
+  layout: MatchLayout,
+  start: PanelParams,
+  scale: number,
+  progress: (share: number) => void,
+): ShapeFit {
   // The compared tile: the isolated cells and half a spacing round them, at most 3 × 3 of them.
   const margin = Math.floor(layout.spacing / 2);
   const box = layout.isolated;
@@ -440,7 +508,9 @@ function fitShape(photo: LinearPhoto, h: Homography, layout: MatchLayout, start:
   const crt = start.cell.mode === 'crt';
   const shapeKnobs: Knob[] = [
     { group: 'cell', key: 'fillX', from: 'Isolated cells’ profiles across' },
-    crt ? { group: 'cell', key: 'spotSigma', from: 'Isolated lines’ profiles down' } : { group: 'cell', key: 'fillY', from: 'Isolated cells’ profiles down' },
+    crt
+      ? { group: 'cell', key: 'spotSigma', from: 'Isolated lines’ profiles down' }
+      : { group: 'cell', key: 'fillY', from: 'Isolated cells’ profiles down' },
     { group: 'glass', key: 'glowRadiusMm', from: 'Isolated cells’ radial profiles' },
   ];
   const shareKnobs: Knob[] = [
@@ -469,7 +539,8 @@ function fitShape(photo: LinearPhoto, h: Homography, layout: MatchLayout, start:
     const out = new Float32Array(n);
     const x0 = tx0 - window.x0;
     const y0 = ty0 - window.y0;
-    for (let j = 0; j < target.height; j++) out.set(m.data.subarray((y0 + j) * m.width + x0, (y0 + j) * m.width + x0 + target.width), j * target.width);
+    for (let j = 0; j < target.height; j++)
+      out.set(m.data.subarray((y0 + j) * m.width + x0, (y0 + j) * m.width + x0 + target.width), j * target.width);
     return out;
   };
   let evaluations = 0;
@@ -478,7 +549,15 @@ function fitShape(photo: LinearPhoto, h: Homography, layout: MatchLayout, start:
   const cache = new Map<string, Float32Array>();
   const component = (p: PanelParams, which: 'direct' | 'glow' | 'halo', blur: number): Float32Array => {
     const glass = { ...p.glass, glowShare: which === 'glow' ? 1 : 0, haloShare: which === 'halo' ? 1 : 0 };
-    const key = JSON.stringify([which, p.cell.fillX, p.cell.fillY, p.cell.spotSigma, which === 'glow' ? p.glass.glowRadiusMm : 0, which === 'halo' ? p.glass.haloRadiusMm : 0, blur]);
+    const key = JSON.stringify([
+      which,
+      p.cell.fillX,
+      p.cell.fillY,
+      p.cell.spotSigma,
+      which === 'glow' ? p.glass.glowRadiusMm : 0,
+      which === 'halo' ? p.glass.haloRadiusMm : 0,
+      blur,
+    ]);
     let hit = cache.get(key);
     if (!hit) {
       evaluations++;
@@ -542,10 +621,13 @@ function fitShape(photo: LinearPhoto, h: Homography, layout: MatchLayout, start:
   let blur = 0.5;
   const pitch = Math.min(start.cell.pitchXMm, start.cell.pitchYMm);
   const radii: number[] = [];
-  for (let r = Math.min(maxRadiusMm, Math.max(pitch, 0.4 * start.glass.haloRadiusMm)); r <= maxRadiusMm + 1e-9; r += pitch / 2) radii.push(r);
+  for (let r = Math.min(maxRadiusMm, Math.max(pitch, 0.4 * start.glass.haloRadiusMm)); r <= maxRadiusMm + 1e-9; r += pitch / 2)
+    radii.push(r);
   const pickRadius = () => {
     if (radii.length === 0) return;
-    const best = radii.map((r) => ({ r, ssr: project({ ...params, glass: { ...params.glass, haloRadiusMm: r } }, blur).ssr })).reduce((a, b) => (b.ssr < a.ssr ? b : a));
+    const best = radii
+      .map((r) => ({ r, ssr: project({ ...params, glass: { ...params.glass, haloRadiusMm: r } }, blur).ssr }))
+      .reduce((a, b) => (b.ssr < a.ssr ? b : a));
     params = { ...params, glass: { ...params.glass, haloRadiusMm: roundTo(best.r, 0.01) } };
   };
   pickRadius();
@@ -640,7 +722,9 @@ function fitShape(photo: LinearPhoto, h: Homography, layout: MatchLayout, start:
   });
   // The ring radius's uncertainty: half a glow sample, the pipeline's own resolution of the ring.
   const plan = glowPlan(params.cell, params.glass);
-  fitted.push(value('glass', 'haloRadiusMm', start, params, pitch / plan.halo.oversample / 2, 'Isolated cells’ radial profiles (ring), by a scan'));
+  fitted.push(
+    value('glass', 'haloRadiusMm', start, params, pitch / plan.halo.oversample / 2, 'Isolated cells’ radial profiles (ring), by a scan'),
+  );
   return {
     parameters: params,
     fitted,

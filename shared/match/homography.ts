@@ -64,7 +64,17 @@ export function solveHomography(src: readonly Point[], dst: readonly Point[]): H
 
 /** The inverse of a 3 × 3 ml-matrix (through gl-matrix, which inverts 3 × 3 in closed form). */
 function inverse3(m: Matrix): Matrix {
-  const g = mat3.fromValues(m.get(0, 0), m.get(1, 0), m.get(2, 0), m.get(0, 1), m.get(1, 1), m.get(2, 1), m.get(0, 2), m.get(1, 2), m.get(2, 2));
+  const g = mat3.fromValues(
+    m.get(0, 0),
+    m.get(1, 0),
+    m.get(2, 0),
+    m.get(0, 1),
+    m.get(1, 1),
+    m.get(2, 1),
+    m.get(0, 2),
+    m.get(1, 2),
+    m.get(2, 2),
+  );
   mat3.invert(g, g);
   return new Matrix([
     [g[0], g[3], g[6]],
@@ -90,7 +100,9 @@ export function checkMarks(marks: readonly Point[], width: number, height: numbe
   if (marks.length !== 4) throw new MarkError(`Place exactly four marks, one on each corner square; got ${marks.length}.`);
   marks.forEach(([x, y], i) => {
     if (!Number.isFinite(x) || !Number.isFinite(y) || x < 0 || y < 0 || x > width || y > height) {
-      throw new MarkError(`The ${MARK_NAMES[i]} mark is outside the photo (${width} × ${height} px). Drag it onto the ${MARK_NAMES[i]} corner square.`);
+      throw new MarkError(
+        `The ${MARK_NAMES[i]} mark is outside the photo (${width} × ${height} px). Drag it onto the ${MARK_NAMES[i]} corner square.`,
+      );
     }
   });
   const span = Math.max(...marks.flatMap((p) => marks.map((q) => Math.hypot(p[0] - q[0], p[1] - q[1]))));
@@ -104,10 +116,16 @@ export function checkMarks(marks: readonly Point[], width: number, height: numbe
   // No three on one line: each mark at least 2 % of the span away from the line through two others.
   for (let k = 0; k < 4; k++) {
     const [a, b, c] = [0, 1, 2, 3].filter((i) => i !== k).map((i) => marks[i]);
-    for (const [p, q, r] of [[a, b, c], [b, c, a], [c, a, b]] as const) {
+    for (const [p, q, r] of [
+      [a, b, c],
+      [b, c, a],
+      [c, a, b],
+    ] as const) {
       const cross = (q[0] - p[0]) * (r[1] - p[1]) - (q[1] - p[1]) * (r[0] - p[0]);
       if (Math.abs(cross) / Math.hypot(q[0] - p[0], q[1] - p[1]) < span * 0.02) {
-        throw new MarkError('Three of the marks lie on one line, so they cannot be the corners of the panel. Place each on its own corner square of the pattern.');
+        throw new MarkError(
+          'Three of the marks lie on one line, so they cannot be the corners of the panel. Place each on its own corner square of the pattern.',
+        );
       }
     }
   }
@@ -117,6 +135,12 @@ export function checkMarks(marks: readonly Point[], width: number, height: numbe
     const r = marks[(i + 2) % 4];
     return Math.sign((q[0] - p[0]) * (r[1] - q[1]) - (q[1] - p[1]) * (r[0] - q[0]));
   });
-  if (turns.every((t) => t < 0)) throw new MarkError('The marks go round the panel anticlockwise. Place them top-left, top-right, bottom-right, bottom-left, as the corner squares appear on the panel.');
-  if (!turns.every((t) => t > 0)) throw new MarkError('The marks are out of order: their outline crosses itself. Place them top-left, top-right, bottom-right, bottom-left.');
+  if (turns.every((t) => t < 0))
+    throw new MarkError(
+      'The marks go round the panel anticlockwise. Place them top-left, top-right, bottom-right, bottom-left, as the corner squares appear on the panel.',
+    );
+  if (!turns.every((t) => t > 0))
+    throw new MarkError(
+      'The marks are out of order: their outline crosses itself. Place them top-left, top-right, bottom-right, bottom-left.',
+    );
 }

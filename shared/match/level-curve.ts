@@ -13,7 +13,9 @@ export function dutyTableFromLevels(levels: MatchResult['levels']): number[] {
   const table = levels.map((l, k) => (k === levels.length - 1 ? 1 : Math.round(Math.min(1, Math.max(0, l.measured / top)) * 1000) / 1000));
   const flat = table.findIndex((v, k) => k > 0 && !(v > table[k - 1]));
   if (flat > 0) {
-    throw new RangeError(`The measured curve does not rise from level ${flat - 1} (${table[flat - 1]}) to level ${flat} (${table[flat]}), so it cannot be a duty table. Save without it, or photograph the pattern again with a longer exposure.`);
+    throw new RangeError(
+      `The measured curve does not rise from level ${flat - 1} (${table[flat - 1]}) to level ${flat} (${table[flat]}), so it cannot be a duty table. Save without it, or photograph the pattern again with a longer exposure.`,
+    );
   }
   return table;
 }

@@ -41,7 +41,8 @@ const shot = (over: Partial<SyntheticShot> = {}): SyntheticShot => ({
 /** Marks placed by hand: a few pixels off each square's centre. */
 const BY_HAND: Point[] = [0, 1, 2, 3].map((i) => [i % 2 ? 3 : -2, i > 1 ? 2 : -3]);
 /** A synthetic photo and its fit, in a worker thread (fixtures: shared/testing/match-fixtures.ts). */
-const fitPhoto = (...args: Parameters<typeof fitSynthetic>) => inWorker<Awaited<ReturnType<typeof fitSynthetic>>>(require.resolve('../testing/match-fixtures'), 'fitSynthetic', ...args);
+const fitPhoto = (...args: Parameters<typeof fitSynthetic>) =>
+  inWorker<Awaited<ReturnType<typeof fitSynthetic>>>(require.resolve('../testing/match-fixtures'), 'fitSynthetic', ...args);
 
 describe('homography by direct linear transform', () => {
   it('maps the unit square onto a quad as the closed-form square-to-quad projection does, to float32 precision (gl-matrix) [paper: Heckbert 1989, "Fundamentals of Texture Mapping", §2.2.3]', () => {
@@ -114,7 +115,8 @@ describe('match pattern', () => {
   it('has four lit corner squares whose centres are the stated fiducials [calc]', () => {
     const f = layout.fiducialSize;
     for (const [cx, cy] of layout.fiducials) {
-      for (let y = cy - f / 2; y < cy + f / 2; y++) for (let x = cx - f / 2; x < cx + f / 2; x++) expect(layout.levels[y * layout.cols + x]).toBe(1);
+      for (let y = cy - f / 2; y < cy + f / 2; y++)
+        for (let x = cx - f / 2; x < cx + f / 2; x++) expect(layout.levels[y * layout.cols + x]).toBe(1);
       // The cells just inside the square's inner edges are dark.
       const ix = cx < layout.cols / 2 ? cx + f / 2 : cx - f / 2 - 1;
       expect(layout.levels[(cy | 0) * layout.cols + ix]).toBe(0);
@@ -193,7 +195,13 @@ describe('photos the fit refuses, with the reason', () => {
   const options: MatchOptions = { camera: { kind: 'srgb' }, activeWidthMm: 38.4, activeHeightMm: 28.8 };
   /** The refusal's message (a fit that succeeds fails the test). */
   const refusal = async (over: Partial<SyntheticShot>, offsets = BY_HAND): Promise<string> => {
-    const err = await fitPhoto(mergeParams(small, { emission: { colourSource: 'chromaticity', chromaX: 0.5, chromaY: 0.42 } }), smallShot(over), small, offsets, options).then(
+    const err = await fitPhoto(
+      mergeParams(small, { emission: { colourSource: 'chromaticity', chromaX: 0.5, chromaY: 0.42 } }),
+      smallShot(over),
+      small,
+      offsets,
+      options,
+    ).then(
       () => new WorkerError('none', 'the fit did not refuse the photo'),
       (e: WorkerError) => e,
     );
@@ -209,7 +217,12 @@ describe('photos the fit refuses, with the reason', () => {
   });
   it('a mark placed off the panel', async () => {
     // The bottom-left mark on the dark table beside the panel, 60 px from its square.
-    expect(await refusal({}, BY_HAND.map((p, i) => (i === 3 ? [p[0] - 45, p[1] + 42] : p)))).toMatch(/bottom-left mark is not on a lit corner square/);
+    expect(
+      await refusal(
+        {},
+        BY_HAND.map((p, i) => (i === 3 ? [p[0] - 45, p[1] + 42] : p)),
+      ),
+    ).toMatch(/bottom-left mark is not on a lit corner square/);
   });
   it('a photo that is too dark', async () => {
     expect(await refusal({ exposure: 0.02, ambient: 0 })).toMatch(/too dark: the full-on patch reaches only \d+ of 255/);

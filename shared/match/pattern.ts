@@ -59,7 +59,9 @@ export function matchLayout(cols: number, rows: number, levels: number | readonl
   const levelLights = typeof levels === 'number' ? Array.from({ length: levels }, (_, k) => k / (levels - 1)) : [...levels];
   const grayLevels = levelLights.length;
   if (cols < MIN_PATTERN_COLS || rows < MIN_PATTERN_ROWS) {
-    throw new RangeError(`A match pattern needs a panel of at least ${MIN_PATTERN_COLS} × ${MIN_PATTERN_ROWS} cells; this one has ${cols} × ${rows}.`);
+    throw new RangeError(
+      `A match pattern needs a panel of at least ${MIN_PATTERN_COLS} × ${MIN_PATTERN_ROWS} cells; this one has ${cols} × ${rows}.`,
+    );
   }
   const f = Math.min(12, Math.max(3, Math.round(Math.min(cols, rows) / 20)));
   const gap = Math.max(f, 4);
@@ -70,7 +72,8 @@ export function matchLayout(cols: number, rows: number, levels: number | readonl
   const bandH = Math.floor(innerH * 0.62);
   // The top band: isolated cells in two fifths, then line pairs across, line pairs down and full on.
   const unit = Math.floor((innerW - 3 * gap) / 5);
-  const box = (k: number): CellRect => (k === 0 ? { x: x0, y: y0, w: 2 * unit, h: bandH } : { x: x0 + (k + 1) * unit + k * gap, y: y0, w: unit, h: bandH });
+  const box = (k: number): CellRect =>
+    k === 0 ? { x: x0, y: y0, w: 2 * unit, h: bandH } : { x: x0 + (k + 1) * unit + k * gap, y: y0, w: unit, h: bandH };
   const rampY = y0 + bandH + gap;
   const rampH = rows - y0 - rampY;
   const rampGap = Math.max(2, Math.floor(gap / 2));
@@ -118,7 +121,12 @@ export function matchLayout(cols: number, rows: number, levels: number | readonl
 /** The match pattern for a look: its panel's grid and levels, the isolated cells spaced by its halo. */
 export function patternFor(p: PanelParams): MatchLayout {
   const haloMm = p.glass.haloFromGlass ? haloRadiusFromGlass(p.glass.glassThicknessMm, p.glass.refractiveIndex) : p.glass.haloRadiusMm;
-  return matchLayout(p.cell.cols, p.cell.rows, Array.from(levelLights(p.drive)), p.glass.haloShare > 0 ? haloMm / Math.min(p.cell.pitchXMm, p.cell.pitchYMm) : 0);
+  return matchLayout(
+    p.cell.cols,
+    p.cell.rows,
+    Array.from(levelLights(p.drive)),
+    p.glass.haloShare > 0 ? haloMm / Math.min(p.cell.pitchXMm, p.cell.pitchYMm) : 0,
+  );
 }
 
 /** The isolated lit cells of a layout, as [x, y] cells. */

@@ -27,7 +27,15 @@ export const CLIP_CODE = 254;
 export function linearise(photo: RgbaImage, curve: CameraCurve): LinearPhoto {
   const table = Float32Array.from({ length: 256 }, (_, i) => (curve.kind === 'srgb' ? srgbDecode(i / 255) : (i / 255) ** curve.gamma));
   const n = photo.width * photo.height;
-  const out: LinearPhoto = { width: photo.width, height: photo.height, r: new Float32Array(n), g: new Float32Array(n), b: new Float32Array(n), y: new Float32Array(n), clipped: new Uint8Array(n) };
+  const out: LinearPhoto = {
+    width: photo.width,
+    height: photo.height,
+    r: new Float32Array(n),
+    g: new Float32Array(n),
+    b: new Float32Array(n),
+    y: new Float32Array(n),
+    clipped: new Uint8Array(n),
+  };
   const d = photo.data;
   for (let i = 0; i < n; i++) {
     const R = d[i * 4];
@@ -67,7 +75,15 @@ export interface Rectified {
  * sample spans each way, at most 4, or `taps` both ways), so a photo denser than the samples is averaged rather than
  * aliased. `toPhoto` maps cell coordinates to photo pixels; `shift` moves the grid (in cells).
  */
-export function rectify(plane: ArrayLike<number>, photo: Pick<LinearPhoto, 'width' | 'height'>, toPhoto: mat3, rect: CellRect, sx: number, sy: number, options: { shift?: [number, number]; taps?: number } = {}): Rectified {
+export function rectify(
+  plane: ArrayLike<number>,
+  photo: Pick<LinearPhoto, 'width' | 'height'>,
+  toPhoto: mat3,
+  rect: CellRect,
+  sx: number,
+  sy: number,
+  options: { shift?: [number, number]; taps?: number } = {},
+): Rectified {
   const width = Math.round(rect.w * sx);
   const height = Math.round(rect.h * sy);
   const data = new Float32Array(width * height);

@@ -30,7 +30,8 @@ const SPECS = new Map(PARAMS.map((spec) => [`${spec.group}.${spec.key}`, spec]))
 export function formatParamValue(spec: ParamSpec, value: unknown): string {
   if (spec.kind === 'bool') return value ? 'on' : 'off';
   if (spec.kind === 'enum') return spec.optionLabels[String(value)] ?? String(value);
-  if (spec.kind === 'list') return `${Array.isArray(value) ? value.map((v: number) => String(+v.toFixed(6))).join(', ') : String(value)} ${spec.unit}`;
+  if (spec.kind === 'list')
+    return `${Array.isArray(value) ? value.map((v: number) => String(+v.toFixed(6))).join(', ') : String(value)} ${spec.unit}`;
   const decimals = spec.kind === 'int' ? 0 : Math.max(0, Math.min(6, Math.ceil(-Math.log10(spec.step) - 1e-9)));
   const n = typeof value === 'number' ? value.toFixed(decimals) : String(value);
   return spec.unit ? `${n} ${spec.unit}` : n;
@@ -55,14 +56,23 @@ export function describeValue(path: string, value: unknown): string {
   return spec ? formatParamValue(spec, value) : String(value);
 }
 
-const DOCUMENT_FIELDS: Readonly<Record<string, string>> = { format: 'Format', version: 'Format version', name: 'Name', panelTypeId: 'Panel type', parameters: 'Parameters' };
+const DOCUMENT_FIELDS: Readonly<Record<string, string>> = {
+  format: 'Format',
+  version: 'Format version',
+  name: 'Name',
+  panelTypeId: 'Panel type',
+  parameters: 'Parameters',
+};
 
 /**
  * A path into a preset document ("$.parameters.glass.glowRadiusMm", with or without "$.") as the
  * user reads it: "Glow radius (Glass)", "Drive settings", "Name".
  */
 export function fieldLabel(path: string): string {
-  const parts = path.replace(/^\$\.?/, '').split('.').filter(Boolean);
+  const parts = path
+    .replace(/^\$\.?/, '')
+    .split('.')
+    .filter(Boolean);
   if (!parts.length) return 'The document';
   if (parts[0] !== 'parameters') return DOCUMENT_FIELDS[parts[0]] ?? parts[0];
   if (parts.length === 1) return 'Parameters';
@@ -73,7 +83,13 @@ export function fieldLabel(path: string): string {
   return spec ? `${spec.label} (${group})` : `${group} “${parts[2]}”`;
 }
 
-const ARTICLE: Readonly<Record<string, string>> = { object: 'a group of settings', number: 'a number', string: 'text', boolean: 'on or off (true or false)', array: 'a list' };
+const ARTICLE: Readonly<Record<string, string>> = {
+  object: 'a group of settings',
+  number: 'a number',
+  string: 'text',
+  boolean: 'on or off (true or false)',
+  array: 'a list',
+};
 
 /** A validation message in plain words (the schema library's own phrasing for type errors and unknown keys). */
 export function plainMessage(message: string): string {

@@ -22,9 +22,19 @@ describe('parameter schema', () => {
   test.each([
     ['out of range', { glass: { glowRadiusMm: -3 } }, 'glass.glowRadiusMm', 'Glow radius (Glass) must be a number from 0 to 20 mm, got -3'],
     ['NaN', { viewing: { peakCdM2: Number.NaN } }, 'viewing.peakCdM2', 'Peak luminance (Viewing) must be a number from 1 to 2000 cd/m²'],
-    ['not whole', { drive: { grayLevels: 2.5 } }, 'drive.grayLevels', 'Gray levels (Drive) must be a whole number from 2 to 16 levels, got 2.5'],
+    [
+      'not whole',
+      { drive: { grayLevels: 2.5 } },
+      'drive.grayLevels',
+      'Gray levels (Drive) must be a whole number from 2 to 16 levels, got 2.5',
+    ],
     ['wrong type', { cell: { cols: '640' } }, 'cell.cols', 'Columns (Cell) must be a whole number from 8 to 2048 cells'],
-    ['unknown option', { drive: { dither: 'blue-noise' } }, 'drive.dither', 'Dither (Drive) must be one of none, bayer2, bayer4, bayer8, cluster4, floyd-steinberg'],
+    [
+      'unknown option',
+      { drive: { dither: 'blue-noise' } },
+      'drive.dither',
+      'Dither (Drive) must be one of none, bayer2, bayer4, bayer8, cluster4, floyd-steinberg',
+    ],
   ])('%s is refused with the name, range and value', (_name, patch, path, message) => {
     const value = mergeParams(base, {});
     Object.assign((value as unknown as Record<string, object>)[path.split('.')[0]], Object.values(patch)[0]);
@@ -56,7 +66,6 @@ describe('parameter schema', () => {
 });
 
 describe('words for parameters (what the user reads)', () => {
-
   test('every option of every choice has its own label, never its code', () => {
     for (const p of PARAMS) {
       if (p.kind !== 'enum') continue;
@@ -67,7 +76,11 @@ describe('words for parameters (what the user reads)', () => {
 
   test('a change reads as label, value and unit at the control’s precision', () => {
     const base = PANEL_TYPES[0].defaults;
-    const after = mergeParams(base, { glass: { haloShare: 0.1, glowRadiusMm: 0.4 }, drive: { dither: 'bayer4' }, source: { fit: 'native' } });
+    const after = mergeParams(base, {
+      glass: { haloShare: 0.1, glowRadiusMm: 0.4 },
+      drive: { dither: 'bayer4' },
+      source: { fit: 'native' },
+    });
     const words = paramDiff(base, after).map(describeChange);
     expect(words).toContain(`Halo share ${base.glass.haloShare.toFixed(3)} → 0.100`);
     expect(words).toContain(`Glow radius ${base.glass.glowRadiusMm.toFixed(2)} mm → 0.40 mm`);

@@ -32,7 +32,9 @@ const SCALE = 4;
  * by the panel's edges (7σ of the widest component each side: e^(−49/2) is below 10⁻¹⁰) [calc].
  */
 function panelSize(p: PanelParams): number {
-  const haloMm = p.glass.haloFromGlass ? 2 * p.glass.glassThicknessMm * Math.tan(Math.asin(1 / p.glass.refractiveIndex)) : p.glass.haloRadiusMm;
+  const haloMm = p.glass.haloFromGlass
+    ? 2 * p.glass.glassThicknessMm * Math.tan(Math.asin(1 / p.glass.refractiveIndex))
+    : p.glass.haloRadiusMm;
   const widest = Math.max(p.glass.glowRadiusMm, haloMm) / Math.min(p.cell.pitchXMm, p.cell.pitchYMm);
   return Math.max(16, 2 * Math.ceil(7 * widest) + 2);
 }
@@ -115,38 +117,45 @@ function crtDirect(y: number, s: number, sigma: number, rows: number): number {
 }
 
 /** A uniform grey image of N × N. */
-const grey = (code: number, N: number) => ({ width: N, height: N, data: new Uint8Array(N * N * 4).map((_, i) => (i % 4 === 3 ? 255 : code)) });
+const grey = (code: number, N: number) => ({
+  width: N,
+  height: N,
+  data: new Uint8Array(N * N * 4).map((_, i) => (i % 4 === 3 ? 255 : code)),
+});
 
 describe('the light formula by hand, per panel type', () => {
-  test.each(PANEL_TYPES.map((t) => [t.name, t] as const))('%s: full on, off and a mid grey match the formula within ±1 code value', (_name, type) => {
-    const p = flatField(type.defaults);
-    const N = p.cell.cols;
-    const steps = p.drive.grayLevels - 1;
-    // Input code 128: linear 0.21586 [std: IEC 61966-2-1]; with no dither the level is the nearest one in light.
-    const midLinear = Number(new Color('srgb', [128 / 255, 0, 0]).to('srgb-linear').coords[0]);
-    const cases = [
-      { code: 255, level: 1 },
-      { code: 0, level: 0 },
-      { code: 128, level: Math.floor(midLinear * steps + 0.5) / steps },
-    ];
-    const checked: string[] = [];
-    for (const { code, level } of cases) {
-      const out = renderCpu([{ image: grey(code, N), delayMs: 100 }], p, { scale: SCALE });
-      const cellH = (SCALE * p.cell.pitchYMm) / p.cell.pitchXMm;
-      // Pixels in the middle of the panel (away from edges), one per output row of a cell pitch.
-      const x = (N / 2) * SCALE + 1;
-      for (let y = Math.floor((N / 2) * cellH); y < Math.floor((N / 2 + 1) * cellH); y++) {
-        const glowShares = p.glass.glowShare + p.glass.haloShare;
-        const direct = p.cell.mode === 'crt' ? crtDirect(y, cellH, p.cell.spotSigma * cellH, N) : 1;
-        const v = level * ((1 - glowShares) * direct + glowShares);
-        const expected = codesFor(p, v);
-        const got = Array.from(out.data.subarray((y * out.width + x) * 4, (y * out.width + x) * 4 + 3));
-        expect({ code, y, off: got.map((g, k) => Math.abs(g - expected[k]) > 1) }).toEqual({ code, y, off: [false, false, false] });
-        checked.push(`${code}@${y}`);
+  test.each(PANEL_TYPES.map((t) => [t.name, t] as const))(
+    '%s: full on, off and a mid grey match the formula within ±1 code value',
+    (_name, type) => {
+      const p = flatField(type.defaults);
+      const N = p.cell.cols;
+      const steps = p.drive.grayLevels - 1;
+      // Input code 128: linear 0.21586 [std: IEC 61966-2-1]; with no dither the level is the nearest one in light.
+      const midLinear = Number(new Color('srgb', [128 / 255, 0, 0]).to('srgb-linear').coords[0]);
+      const cases = [
+        { code: 255, level: 1 },
+        { code: 0, level: 0 },
+        { code: 128, level: Math.floor(midLinear * steps + 0.5) / steps },
+      ];
+      const checked: string[] = [];
+      for (const { code, level } of cases) {
+        const out = renderCpu([{ image: grey(code, N), delayMs: 100 }], p, { scale: SCALE });
+        const cellH = (SCALE * p.cell.pitchYMm) / p.cell.pitchXMm;
+        // Pixels in the middle of the panel (away from edges), one per output row of a cell pitch.
+        const x = (N / 2) * SCALE + 1;
+        for (let y = Math.floor((N / 2) * cellH); y < Math.floor((N / 2 + 1) * cellH); y++) {
+          const glowShares = p.glass.glowShare + p.glass.haloShare;
+          const direct = p.cell.mode === 'crt' ? crtDirect(y, cellH, p.cell.spotSigma * cellH, N) : 1;
+          const v = level * ((1 - glowShares) * direct + glowShares);
+          const expected = codesFor(p, v);
+          const got = Array.from(out.data.subarray((y * out.width + x) * 4, (y * out.width + x) * 4 + 3));
+          expect({ code, y, off: got.map((g, k) => Math.abs(g - expected[k]) > 1) }).toEqual({ code, y, off: [false, false, false] });
+          checked.push(`${code}@${y}`);
+        }
       }
-    }
-    expect(checked.length).toBeGreaterThanOrEqual(3 * SCALE * 0.8);
-  });
+      expect(checked.length).toBeGreaterThanOrEqual(3 * SCALE * 0.8);
+    },
+  );
 
   test('the hand formula is not trivially satisfied: a CRT row between lines is darker than one on a line', () => {
     // Guards the CRT branch above: at 4 px a pitch with σ = 0.3 pitch the profile is far from flat [calc].

@@ -6,9 +6,11 @@ import { panelEmission, panelEmissions, panelGlow, renderCpu } from './render';
 import { unpackFrames } from './frames';
 
 const small = (p: PanelParams, patch: Partial<PanelParams['cell']> = {}) => mergeParams(p, { cell: { cols: 24, rows: 16, ...patch } });
-const imageArb = fc.record({ width: fc.integer({ min: 1, max: 30 }), height: fc.integer({ min: 1, max: 20 }) }).chain(({ width, height }) =>
-  fc.uint8Array({ minLength: width * height * 4, maxLength: width * height * 4 }).map((data) => ({ width, height, data })),
-);
+const imageArb = fc
+  .record({ width: fc.integer({ min: 1, max: 30 }), height: fc.integer({ min: 1, max: 20 }) })
+  .chain(({ width, height }) =>
+    fc.uint8Array({ minLength: width * height * 4, maxLength: width * height * 4 }).map((data) => ({ width, height, data })),
+  );
 
 describe('render (property tests with fast-check)', () => {
   test('every built-in preset: output bytes in range, opaque, of the stated size [calc]', () => {
@@ -38,16 +40,24 @@ describe('render (property tests with fast-check)', () => {
 
   test('the glow field conserves the light of cells away from the edges [calc]', () => {
     fc.assert(
-      fc.property(fc.double({ min: 0.05, max: 1.2, noNaN: true }), fc.double({ min: 0, max: 0.5, noNaN: true }), fc.double({ min: 0.3, max: 1, noNaN: true }), (radius, share, fill) => {
-        const p = mergeParams(PANEL_TYPES[0].defaults, { cell: { cols: 64, rows: 64, fillX: fill, fillY: fill }, glass: { glowRadiusMm: radius, glowShare: share, haloShare: 0 } });
-        const emission = new Float32Array(64 * 64);
-        for (let y = 28; y < 36; y++) for (let x = 28; x < 36; x++) emission[y * 64 + x] = ((x * 7 + y * 3) % 5) / 4;
-        const glow = panelGlow(emission, p);
-        const m = glow.width / 64;
-        const glowLight = glow.data.reduce((a, b) => a + b, 0) / (m * m);
-        const emitted = emission.reduce((a, b) => a + b, 0) * fill * fill;
-        expect(glowLight).toBeCloseTo(share * emitted, 3);
-      }),
+      fc.property(
+        fc.double({ min: 0.05, max: 1.2, noNaN: true }),
+        fc.double({ min: 0, max: 0.5, noNaN: true }),
+        fc.double({ min: 0.3, max: 1, noNaN: true }),
+        (radius, share, fill) => {
+          const p = mergeParams(PANEL_TYPES[0].defaults, {
+            cell: { cols: 64, rows: 64, fillX: fill, fillY: fill },
+            glass: { glowRadiusMm: radius, glowShare: share, haloShare: 0 },
+          });
+          const emission = new Float32Array(64 * 64);
+          for (let y = 28; y < 36; y++) for (let x = 28; x < 36; x++) emission[y * 64 + x] = ((x * 7 + y * 3) % 5) / 4;
+          const glow = panelGlow(emission, p);
+          const m = glow.width / 64;
+          const glowLight = glow.data.reduce((a, b) => a + b, 0) / (m * m);
+          const emitted = emission.reduce((a, b) => a + b, 0) * fill * fill;
+          expect(glowLight).toBeCloseTo(share * emitted, 3);
+        },
+      ),
       { numRuns: 30 },
     );
   });
@@ -72,7 +82,10 @@ describe('render (property tests with fast-check)', () => {
     const p = mergeParams(PANEL_TYPES.find((t) => t.id === 'crt-green-p39')!.defaults, { cell: { cols: 8, rows: 8 } });
     const lit = { width: 8, height: 8, data: new Uint8Array(256).fill(255) };
     const dark = { width: 8, height: 8, data: Uint8Array.from({ length: 256 }, (_, i) => (i % 4 === 3 ? 255 : 0)) };
-    const frames = [{ image: lit, delayMs: 1000 / 60 }, { image: dark, delayMs: 1000 / 60 }];
+    const frames = [
+      { image: lit, delayMs: 1000 / 60 },
+      { image: dark, delayMs: 1000 / 60 },
+    ];
     const second = panelEmission(frames, p, 1);
     const tau = p.emission.decayMs;
     expect(second[0]).toBeCloseTo(Math.exp(-(1000 / 60) / tau), 5);
@@ -96,38 +109,41 @@ describe('luminance of a flat full-on panel equals peak / white', () => {
     const c = code / 255;
     return c <= 0.04045 ? c / 12.92 : ((c + 0.055) / 1.055) ** 2.4;
   };
-  test.each(PANEL_TYPES.map((t) => [t.id, t] as const))('%s: relative luminance of a flat full-on field is peak/white within 1 %% [calc] from the light formula', (_id, type) => {
-    const white = 200;
-    const peak = 0.15 * white; // low enough that every built-in colour fits under display white
-    const p = mergeParams(type.defaults, {
-      cell: { cols: 12, rows: 12, fillX: 1, fillY: 1 },
-      drive: { dither: 'none', rowLoading: 0 },
-      glass: { glowShare: 0, haloShare: 0 },
-      viewing: { offCdM2: 0, ambientCdM2: 0, whiteCdM2: white, peakCdM2: peak, exposureEv: 0, knee: 1 },
-    });
-    const lit = { width: 12, height: 12, data: new Uint8Array(12 * 12 * 4).fill(255) };
-    const scale = 4;
-    const out = renderCpu([{ image: lit, delayMs: 0 }], p, { scale });
-    // Mean over whole cells away from the edges (a CRT's scan lines average to 1 over each line pitch).
-    let sum = 0;
-    let n = 0;
-    const cellH = out.height / 12;
-    for (let y = Math.round(3 * cellH); y < Math.round(9 * cellH); y++) {
-      for (let x = 3 * scale; x < 9 * scale; x++) {
-        const o = (y * out.width + x) * 4;
-        sum += 0.2126 * decode(out.data[o]) + 0.7152 * decode(out.data[o + 1]) + 0.0722 * decode(out.data[o + 2]);
-        n++;
+  test.each(PANEL_TYPES.map((t) => [t.id, t] as const))(
+    '%s: relative luminance of a flat full-on field is peak/white within 1 %% [calc] from the light formula',
+    (_id, type) => {
+      const white = 200;
+      const peak = 0.15 * white; // low enough that every built-in colour fits under display white
+      const p = mergeParams(type.defaults, {
+        cell: { cols: 12, rows: 12, fillX: 1, fillY: 1 },
+        drive: { dither: 'none', rowLoading: 0 },
+        glass: { glowShare: 0, haloShare: 0 },
+        viewing: { offCdM2: 0, ambientCdM2: 0, whiteCdM2: white, peakCdM2: peak, exposureEv: 0, knee: 1 },
+      });
+      const lit = { width: 12, height: 12, data: new Uint8Array(12 * 12 * 4).fill(255) };
+      const scale = 4;
+      const out = renderCpu([{ image: lit, delayMs: 0 }], p, { scale });
+      // Mean over whole cells away from the edges (a CRT's scan lines average to 1 over each line pitch).
+      let sum = 0;
+      let n = 0;
+      const cellH = out.height / 12;
+      for (let y = Math.round(3 * cellH); y < Math.round(9 * cellH); y++) {
+        for (let x = 3 * scale; x < 9 * scale; x++) {
+          const o = (y * out.width + x) * 4;
+          sum += 0.2126 * decode(out.data[o]) + 0.7152 * decode(out.data[o + 1]) + 0.0722 * decode(out.data[o + 2]);
+          n++;
+        }
       }
-    }
-    expect(Math.abs(sum / n / (peak / white) - 1)).toBeLessThan(0.01);
-  });
+      expect(Math.abs(sum / n / (peak / white) - 1)).toBeLessThan(0.01);
+    },
+  );
 });
 
 test('every built-in preset shows its full-on colour under display white (largest linear channel at most 1) [calc from the light formula]', () => {
   for (const preset of BUILT_IN_PRESETS) {
     const u = outputUniforms(preset.parameters, 1);
     const v = preset.parameters.viewing;
-    const largest = Math.max(...u.colour) * (v.peakCdM2 + v.offCdM2 + v.ambientCdM2) * 2 ** v.exposureEv / v.whiteCdM2;
+    const largest = (Math.max(...u.colour) * (v.peakCdM2 + v.offCdM2 + v.ambientCdM2) * 2 ** v.exposureEv) / v.whiteCdM2;
     expect({ preset: preset.id, fits: largest <= 1 }).toEqual({ preset: preset.id, fits: true });
   }
 });
@@ -136,7 +152,12 @@ describe('unpackFrames [calc: frames × width × height × 4 bytes]', () => {
   it('cuts raw RGBA into frames with their delays, and refuses bytes that do not add up', () => {
     const buffer = new Uint8Array(2 * 3 * 4 * 2).map((_, i) => i).buffer;
     const frames = unpackFrames(buffer, { width: 2, height: 3, delaysMs: [100, 250] });
-    expect(frames.map((f) => [f.delayMs, f.image.width, f.image.height, f.image.data[0]])).toEqual([[100, 2, 3, 0], [250, 2, 3, 24]]);
-    expect(() => unpackFrames(new ArrayBuffer(47), { width: 2, height: 3, delaysMs: [100, 250] })).toThrow('arrived incomplete (47 of 48 bytes)');
+    expect(frames.map((f) => [f.delayMs, f.image.width, f.image.height, f.image.data[0]])).toEqual([
+      [100, 2, 3, 0],
+      [250, 2, 3, 24],
+    ]);
+    expect(() => unpackFrames(new ArrayBuffer(47), { width: 2, height: 3, delaysMs: [100, 250] })).toThrow(
+      'arrived incomplete (47 of 48 bytes)',
+    );
   });
 });

@@ -27,7 +27,9 @@ export function refreshesOf(delayMs: number, refreshHz: number): number {
 export function driveLevels(frame: Frame['image'], p: PanelParams, refresh?: number): Float32Array {
   const rgb = fitToGrid(frame, p.cell, p.source.fit);
   const demand = tone(rgb, p.source);
-  return refresh === undefined ? quantise(demand, p.cell.cols, p.cell.rows, p.drive) : quantiseRefresh(demand, p.cell.cols, p.cell.rows, p.drive, refresh);
+  return refresh === undefined
+    ? quantise(demand, p.cell.cols, p.cell.rows, p.drive)
+    : quantiseRefresh(demand, p.cell.cols, p.cell.rows, p.drive, refresh);
 }
 
 /** Stages 1–4 for one image: fit, tone, levels, row loading → emission per cell (0–1); `refresh` as in driveLevels. */

@@ -32,7 +32,9 @@ export function checkSpriteSheet(width: number, height: number, sheet: SpriteShe
   }
   const count = (width / w) * (height / h);
   if (count > limits.maxFrames) {
-    throw new RangeError(`a ${width} × ${height} sheet cut into ${w} × ${h} frames makes ${count} frames; the limit is ${limits.maxFrames}`);
+    throw new RangeError(
+      `a ${width} × ${height} sheet cut into ${w} × ${h} frames makes ${count} frames; the limit is ${limits.maxFrames}`,
+    );
   }
   return count;
 }

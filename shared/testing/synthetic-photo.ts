@@ -78,7 +78,13 @@ export async function syntheticPhoto(truth: PanelParams, shot: SyntheticShot): P
     for (let x = 0; x < shot.width; x++) {
       const [cx, cy] = [x + 0.5, y + 0.5];
       const w = m[2] * cx + m[5] * cy + m[8];
-      seen[y * shot.width + x] = bilinear(light.data, light.width, light.height, (m[0] * cx + m[3] * cy + m[6]) / w, (m[1] * cx + m[4] * cy + m[7]) / w);
+      seen[y * shot.width + x] = bilinear(
+        light.data,
+        light.width,
+        light.height,
+        (m[0] * cx + m[3] * cy + m[6]) / w,
+        (m[1] * cx + m[4] * cy + m[7]) / w,
+      );
     }
   }
   const blurred = gaussianBlur({ width: shot.width, height: shot.height, data: seen }, shot.blur).data;
@@ -91,7 +97,9 @@ export async function syntheticPhoto(truth: PanelParams, shot: SyntheticShot): P
       rgb[i * 3 + c] = Math.round(srgbEncode(Math.min(1, Math.max(0, noisy))) * 255);
     }
   }
-  const jpeg = await sharp(rgb, { raw: { width: shot.width, height: shot.height, channels: 3 } }).jpeg({ quality: shot.quality, chromaSubsampling: '4:4:4' }).toBuffer();
+  const jpeg = await sharp(rgb, { raw: { width: shot.width, height: shot.height, channels: 3 } })
+    .jpeg({ quality: shot.quality, chromaSubsampling: '4:4:4' })
+    .toBuffer();
   const decoded = await sharp(jpeg).ensureAlpha().raw().toBuffer({ resolveWithObject: true });
   const image = { width: decoded.info.width, height: decoded.info.height, data: new Uint8Array(decoded.data) };
   const fiducials = layout.fiducials.map(([cx, cy]) => applyHomography(h.forward, cx * u.cellW, cy * u.cellH));

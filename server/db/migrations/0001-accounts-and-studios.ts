@@ -65,7 +65,5 @@ export async function up(qi: QueryInterface): Promise<void> {
 }
 
 export async function down(qi: QueryInterface): Promise<void> {
-  await qi.sequelize.query(
-    'DROP TABLE sign_in_limits, sessions, password_resets, invites, memberships, studios, users CASCADE',
-  );
+  await qi.sequelize.query('DROP TABLE sign_in_limits, sessions, password_resets, invites, memberships, studios, users CASCADE');
 }

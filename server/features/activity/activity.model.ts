@@ -1,4 +1,12 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize, type Transaction } from 'sequelize';
+import {
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type Sequelize,
+  type Transaction,
+} from 'sequelize';
 
 /** What happened in a studio, by whom. */
 export class Activity extends Model<InferAttributes<Activity>, InferCreationAttributes<Activity>> {
@@ -27,6 +35,12 @@ export function initActivity(sequelize: Sequelize): void {
 }
 
 /** Records one event in the studio's feed (inside the caller's transaction when given). */
-export function record(studioId: string, actorId: string | null, kind: string, summary: string, transaction?: Transaction): Promise<Activity> {
+export function record(
+  studioId: string,
+  actorId: string | null,
+  kind: string,
+  summary: string,
+  transaction?: Transaction,
+): Promise<Activity> {
   return Activity.create({ studioId, actorId, kind, summary: summary.slice(0, 300) }, { transaction });
 }

@@ -43,14 +43,19 @@ export const artworkDto = (a: Artwork): ArtworkDto => {
 export const LIBRARY_CACHE_MS = 5_000;
 export const libraryCache = new ReadCache<readonly ArtworkDto[]>('artwork-lists', LIBRARY_CACHE_MS, { maxEntries: 2_000 });
 export const artworkCache = new ReadCache<ArtworkDto | null>('artworks', LIBRARY_CACHE_MS, { maxEntries: 20_000 });
-export const thumbnailCache = new ReadCache<Buffer>('thumbnails', 60_000, { maxEntries: 5_000, maxSize: 32 * 1024 * 1024, sizeOf: (b) => b.length });
+export const thumbnailCache = new ReadCache<Buffer>('thumbnails', 60_000, {
+  maxEntries: 5_000,
+  maxSize: 32 * 1024 * 1024,
+  sizeOf: (b) => b.length,
+});
 
 /** A studio's artwork library: uploads, thumbnails, decoded frames. */
 export class ArtworksService {
   constructor(
     private readonly files: FileStore,
     /** Decodes a stored original into frames; the render engine's cached decoder in the app. */
-    private readonly decode: (bytes: Buffer, sheet: SpriteSheet | null) => Promise<Frame[]> = async (bytes, sheet) => framesOf(await decodeImage(bytes, undefined, sheet), sheet),
+    private readonly decode: (bytes: Buffer, sheet: SpriteSheet | null) => Promise<Frame[]> = async (bytes, sheet) =>
+      framesOf(await decodeImage(bytes, undefined, sheet), sheet),
   ) {}
 
   list(studioId: string, q: string | undefined, sort: 'newest' | 'oldest' | 'name'): Promise<readonly ArtworkDto[]> {
@@ -78,12 +83,24 @@ export class ArtworksService {
   }
 
   /** Decodes (type by content, limits first), writes original and thumbnail, then the row. */
-  async upload(studioId: string, userId: string, bytes: Buffer, fileName: string, fields: { name?: string; frameWidth?: number; frameHeight?: number; frameDelayMs?: number }, transaction?: Transaction): Promise<ArtworkDto> {
-    const sheet: SpriteSheet | null = fields.frameWidth && fields.frameHeight ? { frameWidth: fields.frameWidth, frameHeight: fields.frameHeight, frameDelayMs: fields.frameDelayMs ?? 100 } : null;
+  async upload(
+    studioId: string,
+    userId: string,
+    bytes: Buffer,
+    fileName: string,
+    fields: { name?: string; frameWidth?: number; frameHeight?: number; frameDelayMs?: number },
+    transaction?: Transaction,
+  ): Promise<ArtworkDto> {
+    const sheet: SpriteSheet | null =
+      fields.frameWidth && fields.frameHeight
+        ? { frameWidth: fields.frameWidth, frameHeight: fields.frameHeight, frameDelayMs: fields.frameDelayMs ?? 100 }
+        : null;
     const decoded = await decodeImage(bytes, undefined, sheet);
     const frames = framesOf(decoded, sheet);
     const first = frames[0].image;
-    const thumbnail = await sharp(Buffer.from(first.data.buffer, first.data.byteOffset, first.data.byteLength), { raw: { width: first.width, height: first.height, channels: 4 } })
+    const thumbnail = await sharp(Buffer.from(first.data.buffer, first.data.byteOffset, first.data.byteLength), {
+      raw: { width: first.width, height: first.height, channels: 4 },
+    })
       .resize(THUMB_PX, THUMB_PX, { fit: 'inside', kernel: first.width < THUMB_PX ? 'nearest' : 'lanczos3', withoutEnlargement: false })
       .png()
       .toBuffer();
@@ -94,8 +111,29 @@ export class ArtworksService {
     try {
       const fromFile = withoutControls(fileName.replace(/\.[^.]+$/, ''));
       const name = (fields.name ?? fromFile).slice(0, 120) || 'Untitled';
-      const row = await Artwork.create({ id, studioId, name, type: decoded.type, width: first.width, height: first.height, frameCount: frames.length, delaysMs: frames.map((f) => f.delayMs), bytes: bytes.length, sheet, createdById: userId }, { transaction });
-      await record(studioId, userId, 'artwork.uploaded', `uploaded artwork “${name}”${frames.length > 1 ? ` (${frames.length} frames)` : ''}`, transaction);
+      const row = await Artwork.create(
+        {
+          id,
+          studioId,
+          name,
+          type: decoded.type,
+          width: first.width,
+          height: first.height,
+          frameCount: frames.length,
+          delaysMs: frames.map((f) => f.delayMs),
+          bytes: bytes.length,
+          sheet,
+          createdById: userId,
+        },
+        { transaction },
+      );
+      await record(
+        studioId,
+        userId,
+        'artwork.uploaded',
+        `uploaded artwork “${name}”${frames.length > 1 ? ` (${frames.length} frames)` : ''}`,
+        transaction,
+      );
       return artworkDto(row);
     } catch (err) {
       await this.files.remove(FOLDER, id);
@@ -128,7 +166,8 @@ export class ArtworksService {
 
   private readFile(id: string, name: string): Promise<Buffer> {
     return this.files.read(FOLDER, id, name).catch((err: unknown) => {
-      if (err instanceof BlobNotFound) throw new AppError(404, 'file_missing', "The artwork's stored file is missing. Delete the artwork and upload it again.");
+      if (err instanceof BlobNotFound)
+        throw new AppError(404, 'file_missing', "The artwork's stored file is missing. Delete the artwork and upload it again.");
       throw err;
     });
   }
@@ -147,7 +186,9 @@ export class ArtworksService {
   async reconcile(): Promise<number> {
     const ids = await this.files.ids(FOLDER);
     if (!ids.length) return 0;
-    const known = new Set((await Artwork.findAll({ attributes: ['id'], where: { id: ids.filter((i) => /^[0-9a-f-]{36}$/.test(i)) } })).map((a) => a.id));
+    const known = new Set(
+      (await Artwork.findAll({ attributes: ['id'], where: { id: ids.filter((i) => /^[0-9a-f-]{36}$/.test(i)) } })).map((a) => a.id),
+    );
     const orphans = ids.filter((i) => !known.has(i));
     for (const id of orphans) await this.files.remove(FOLDER, id).catch(() => undefined);
     return orphans.length;

@@ -42,7 +42,14 @@ test('a sprite sheet is cut into frames with its delay', async () => {
   const sheet = pngOf(32, 16, (x, y) => [Math.floor(x / 8) * 60, y < 8 ? 0 : 200, 0, 255]);
   const res = await editor.upload(url(), { frameWidth: '8', frameHeight: '8', frameDelayMs: '120' }, { name: 'walk.png', bytes: sheet });
   expect(res.status).toBe(201);
-  expect(res.body.artwork).toMatchObject({ width: 8, height: 8, frameCount: 8, delaysMs: Array(8).fill(120), name: 'walk', sheet: { frameWidth: 8, frameHeight: 8, frameDelayMs: 120 } });
+  expect(res.body.artwork).toMatchObject({
+    width: 8,
+    height: 8,
+    frameCount: 8,
+    delaysMs: Array(8).fill(120),
+    name: 'walk',
+    sheet: { frameWidth: 8, frameHeight: 8, frameDelayMs: 120 },
+  });
   const frames = (await editor.get(res.body.artwork.framesUrl)).body as Buffer;
   expect(frames.length).toBe(8 * 8 * 4 * 8);
   // Frame 1 (second cell of the top row) has red 60.
@@ -53,7 +60,10 @@ test('a sprite sheet is cut into frames with its delay', async () => {
 });
 
 describe('sprite-sheet bombs are refused from the header, before any frame is cut (security items 19, 32)', () => {
-  const flat = (side: number) => sharp({ create: { width: side, height: side, channels: 4, background: '#ffb000' } }).png({ compressionLevel: 9 }).toBuffer();
+  const flat = (side: number) =>
+    sharp({ create: { width: side, height: side, channels: 4, background: '#ffb000' } })
+      .png({ compressionLevel: 9 })
+      .toBuffer();
   test.each([
     ['4000 × 4000 cut into 1 × 1 frames (16 million)', 4000, 1, 'sheet_does_not_fit', /smaller than the minimum of 4 × 4/],
     ['2000 × 2000 cut into 4 × 4 frames (250 000)', 2000, 4, 'sheet_too_many_frames', /makes 250000 frames; the limit is 240/],
@@ -104,9 +114,18 @@ test('rename and delete; a deleted artwork and its files are gone', async () => 
 test('studio render of an artwork equals the upload render of the same file and parameters', async () => {
   const a = (await editor.upload(url(), {}, { name: 'same.png', bytes: art })).body.artwork;
   const patch = { cell: { cols: 24, rows: 16 } };
-  const viaStudio = await editor.post(`/api/studios/${studioId}/renders`, { artworkId: a.id, presetId: 'crt-amber-p3.standard', patch, scale: 2 });
+  const viaStudio = await editor.post(`/api/studios/${studioId}/renders`, {
+    artworkId: a.id,
+    presetId: 'crt-amber-p3.standard',
+    patch,
+    scale: 2,
+  });
   expect([200, 201]).toContain(viaStudio.status);
-  const viaUpload = await editor.upload('/api/renders', { presetId: 'crt-amber-p3.standard', patch: JSON.stringify(patch), scale: '2' }, { name: 'same.png', bytes: art });
+  const viaUpload = await editor.upload(
+    '/api/renders',
+    { presetId: 'crt-amber-p3.standard', patch: JSON.stringify(patch), scale: '2' },
+    { name: 'same.png', bytes: art },
+  );
   // Different owners, different keys; the same pixels.
   expect(viaUpload.body.render.key).not.toBe(viaStudio.body.render.key);
   const [a1, b1] = await Promise.all([editor.get(viaStudio.body.render.url), editor.get(viaUpload.body.render.url)]);
@@ -151,7 +170,12 @@ describe('bad input answers 4xx with a message, never 500 (issue "Hardening", it
     const cookies = ['emberline.sid', 'XSRF-TOKEN'].map((n) => `${n}=${editor.cookie(n)}`).join('; ');
     const boundary = '----emberline-test';
     const body = `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="cut.png"\r\nContent-Type: image/png\r\n\r\n${art.subarray(0, 40).toString('latin1')}`;
-    const res = await request(h.app).post(url()).set('Cookie', cookies).set('X-XSRF-TOKEN', editor.cookie('XSRF-TOKEN')!).set('Content-Type', `multipart/form-data; boundary=${boundary}`).send(body);
+    const res = await request(h.app)
+      .post(url())
+      .set('Cookie', cookies)
+      .set('X-XSRF-TOKEN', editor.cookie('XSRF-TOKEN')!)
+      .set('Content-Type', `multipart/form-data; boundary=${boundary}`)
+      .send(body);
     expect(res.status).toBe(400);
     expect(res.body.error.code).toBe('bad_upload');
     expect((await editor.get(url())).status).toBe(200);

@@ -19,7 +19,13 @@ const fresh = () => new TestClient(h.app);
 const linkIn = (text: string, path: string) => text.match(new RegExp(`${path}\\?token=([A-Za-z0-9_-]+)`))![1];
 const lastMailId = () => h.mail.messages.at(-1)?.id ?? 0;
 const sessionsOf = async (userId: string) =>
-  Number(((await h.sequelize.query(`SELECT count(*)::int AS n FROM sessions WHERE sess->'passport'->'user'->>'id' = $1`, { bind: [userId] }))[0] as { n: number }[])[0].n);
+  Number(
+    (
+      (
+        await h.sequelize.query(`SELECT count(*)::int AS n FROM sessions WHERE sess->'passport'->'user'->>'id' = $1`, { bind: [userId] })
+      )[0] as { n: number }[]
+    )[0].n,
+  );
 
 describe('e-mail ownership before studio work (item 2; security item 27)', () => {
   test('sign-up creates no account and no session until the mailed link is opened', async () => {
@@ -66,10 +72,20 @@ describe('e-mail ownership before studio work (item 2; security item 27)', () =>
     const since = lastMailId();
     expect((await owner.post(`/api/studios/${studioId}/invites`, { email: invitee, role: 'viewer' })).status).toBe(201);
     const inviteToken = (await h.mail.waitFor(invitee, 5000, since)).text.match(/invites\/([A-Za-z0-9_-]+)/)![1];
-    const other = await fresh().post('/api/auth/sign-up', { email: uniqueEmail('bystander'), displayName: 'B', password: 'a fine passphrase', inviteToken });
+    const other = await fresh().post('/api/auth/sign-up', {
+      email: uniqueEmail('bystander'),
+      displayName: 'B',
+      password: 'a fine passphrase',
+      inviteToken,
+    });
     expect(other.status).toBe(202);
     const client = fresh();
-    const res = await client.post('/api/auth/sign-up', { email: invitee, displayName: 'Invitee', password: 'a fine passphrase', inviteToken });
+    const res = await client.post('/api/auth/sign-up', {
+      email: invitee,
+      displayName: 'Invitee',
+      password: 'a fine passphrase',
+      inviteToken,
+    });
     expect(res.status).toBe(201);
     expect(res.body.user.emailVerified).toBe(true);
     expect((await client.post(`/api/invites/${inviteToken}/accept`)).status).toBe(200);
@@ -118,7 +134,9 @@ describe('password reset and change end other sessions; old links die (items 2, 
     const b = fresh();
     await b.post('/api/auth/sign-in', { email, password: 'correct horse battery' });
     expect((await a.post('/api/auth/password', { currentPassword: 'wrong', newPassword: 'x'.repeat(10) })).status).toBe(400);
-    expect((await a.post('/api/auth/password', { currentPassword: 'correct horse battery', newPassword: 'another good one' })).status).toBe(200);
+    expect((await a.post('/api/auth/password', { currentPassword: 'correct horse battery', newPassword: 'another good one' })).status).toBe(
+      200,
+    );
     expect(await sessionsOf(id)).toBe(1);
     expect((await a.get('/api/studios')).status).toBe(200);
     expect((await b.get('/api/studios')).status).toBe(401);
@@ -142,7 +160,9 @@ describe('sign-in back-off (item 4; security items 3, 29)', () => {
   test('150 parallel wrong guesses: only the free ones are checked, the rest wait; a reset clears the account', async () => {
     const { email, password } = await fresh().signUp();
     const client = fresh();
-    const results = await Promise.all(Array.from({ length: 150 }, () => client.post('/api/auth/sign-in', { email, password: 'wrong guess' })));
+    const results = await Promise.all(
+      Array.from({ length: 150 }, () => client.post('/api/auth/sign-in', { email, password: 'wrong guess' })),
+    );
     const checked = results.filter((r) => r.status === 401).length;
     const refused = results.filter((r) => r.status === 429);
     // Atomic counting: at most the free failures plus the one that starts the first delay are checked.
@@ -151,7 +171,10 @@ describe('sign-in back-off (item 4; security items 3, 29)', () => {
     expect(refused.length).toBe(150 - checked);
     expect(Number(refused[0].headers['retry-after'])).toBeGreaterThanOrEqual(1);
     // Not a hard lock: the wait is bounded by the cap, and a completed reset clears it at once.
-    const [[row]] = (await h.sequelize.query(`SELECT extract(epoch FROM blocked_until - now()) AS wait FROM sign_in_throttle WHERE key = $1`, { bind: [`account:${email}`] })) as [{ wait: number }[], unknown];
+    const [[row]] = (await h.sequelize.query(
+      `SELECT extract(epoch FROM blocked_until - now()) AS wait FROM sign_in_throttle WHERE key = $1`,
+      { bind: [`account:${email}`] },
+    )) as [{ wait: number }[], unknown];
     expect(Number(row.wait)).toBeLessThanOrEqual(THROTTLE.account.capSeconds);
     // The back-off is the account's: the owner, from another address, waits too until the reset.
     expect((await fresh().post('/api/auth/sign-in', { email, password })).status).toBe(429);
@@ -164,10 +187,16 @@ describe('sign-in back-off (item 4; security items 3, 29)', () => {
 
   test('the delay doubles and survives a restart (counted in PostgreSQL)', async () => {
     const { email, password } = await fresh().signUp();
-    await h.sequelize.query(`INSERT INTO sign_in_throttle (key, failures, blocked_until, updated_at) VALUES ($1, $2, now() - interval '1 second', now())`, { bind: [`account:${email}`, THROTTLE.account.free + 3] });
+    await h.sequelize.query(
+      `INSERT INTO sign_in_throttle (key, failures, blocked_until, updated_at) VALUES ($1, $2, now() - interval '1 second', now())`,
+      { bind: [`account:${email}`, THROTTLE.account.free + 3] },
+    );
     const restarted = new TestClient(h.restartedApp());
     expect((await restarted.post('/api/auth/sign-in', { email, password: 'wrong' })).status).toBe(401);
-    const [[row]] = (await h.sequelize.query(`SELECT failures, extract(epoch FROM blocked_until - updated_at) AS wait FROM sign_in_throttle WHERE key = $1`, { bind: [`account:${email}`] })) as [{ failures: number; wait: string }[], unknown];
+    const [[row]] = (await h.sequelize.query(
+      `SELECT failures, extract(epoch FROM blocked_until - updated_at) AS wait FROM sign_in_throttle WHERE key = $1`,
+      { bind: [`account:${email}`] },
+    )) as [{ failures: number; wait: string }[], unknown];
     // Failure n past the free ones waits 2^(n-1) s: the 4th past the free ones waits 8 s [cp: doubling back-off].
     expect(row.failures).toBe(THROTTLE.account.free + 4);
     expect(Number(row.wait)).toBeCloseTo(8, 3);
@@ -189,7 +218,8 @@ describe('sign-in back-off (item 4; security items 3, 29)', () => {
     const sprayer = fresh();
     sprayer.headers = { 'X-Forwarded-For': `2001:db8::${Date.now().toString(16).slice(-4)}:7` };
     let statuses: number[] = [];
-    for (let i = 0; i < THROTTLE.address.free + 3; i++) statuses.push((await sprayer.post('/api/auth/sign-in', { email: uniqueEmail('spray'), password: 'x' })).status);
+    for (let i = 0; i < THROTTLE.address.free + 3; i++)
+      statuses.push((await sprayer.post('/api/auth/sign-in', { email: uniqueEmail('spray'), password: 'x' })).status);
     expect(statuses.slice(0, THROTTLE.address.free)).toEqual(Array(THROTTLE.address.free).fill(401));
     expect(statuses).toContain(429);
     const bystander = fresh();
@@ -279,7 +309,10 @@ describe('mail abuse (item 6; security item 31)', () => {
     const owner = fresh();
     const { id } = await owner.signUp();
     const studioId = (await owner.post('/api/studios', { name: 'Busy Inviter' })).body.studio.id;
-    await h.sequelize.query(`INSERT INTO mail_log (recipient, account_id, kind) SELECT 'x' || g || '@test.example', $1, 'invite' FROM generate_series(1, $2) g`, { bind: [id, MAIL_LIMITS.perAccountPerHour] });
+    await h.sequelize.query(
+      `INSERT INTO mail_log (recipient, account_id, kind) SELECT 'x' || g || '@test.example', $1, 'invite' FROM generate_series(1, $2) g`,
+      { bind: [id, MAIL_LIMITS.perAccountPerHour] },
+    );
     const res = await owner.post(`/api/studios/${studioId}/invites`, { email: uniqueEmail('one-too-many'), role: 'viewer' });
     expect(res.status).toBe(429);
     expect(res.body.error.code).toBe('mail_throttled');
@@ -291,7 +324,13 @@ describe('sessions only when something must be kept (item 12; security item 35)'
 
   test('2 000 anonymous reads write no session row', async () => {
     const before = await count();
-    const paths = ['/api/health', '/api/auth/me', '/api/panel-types', '/api/invites/not-a-real-token-aaaaaaaaaaaa', '/api/share/not-a-real-token-aaaaaaaaaaaa'];
+    const paths = [
+      '/api/health',
+      '/api/auth/me',
+      '/api/panel-types',
+      '/api/invites/not-a-real-token-aaaaaaaaaaaa',
+      '/api/share/not-a-real-token-aaaaaaaaaaaa',
+    ];
     // 20 rounds × 20 clients × 5 paths, each request without cookies as a script would send it.
     for (let round = 0; round < 20; round++) {
       await Promise.all(Array.from({ length: 20 }, () => Promise.all(paths.map((p) => request(h.app).get(p)))));
@@ -309,7 +348,9 @@ describe('sessions only when something must be kept (item 12; security item 35)'
   });
 
   test('expired sessions are pruned', async () => {
-    await h.sequelize.query(`INSERT INTO sessions (sid, sess, expire) VALUES ('expired-test-sid', '{"cookie":{}}', now() - interval '1 day')`);
+    await h.sequelize.query(
+      `INSERT INTO sessions (sid, sess, expire) VALUES ('expired-test-sid', '{"cookie":{}}', now() - interval '1 day')`,
+    );
     const { sessionStore } = await import('../../core/session');
     const { Pool } = await import('pg');
     const pool = new Pool({ ...h.config.db, max: 1 });

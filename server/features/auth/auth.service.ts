@@ -51,7 +51,13 @@ export class AuthService {
       });
       return null;
     }
-    await EmailVerification.create({ email: body.email, displayName: body.displayName, passwordHash, tokenHash: hash, expiresAt: new Date(Date.now() + VERIFY_TTL_MS) });
+    await EmailVerification.create({
+      email: body.email,
+      displayName: body.displayName,
+      passwordHash,
+      tokenHash: hash,
+      expiresAt: new Date(Date.now() + VERIFY_TTL_MS),
+    });
     await this.outbox.post('verify', {
       to: body.email,
       subject: 'Finish creating your Emberline account',
@@ -63,9 +69,19 @@ export class AuthService {
   /** Opens a verification link: creates the account with the password chosen at sign-up. */
   async verifyEmail(token: string): Promise<User> {
     return this.sequelize.transaction(async (transaction) => {
-      const pending = await EmailVerification.findOne({ where: { tokenHash: hashToken(token) }, lock: transaction.LOCK.UPDATE, transaction });
-      if (!pending || pending.usedAt) throw new AppError(400, 'verify_link_invalid', 'This link was already used or is not valid. Sign in, or sign up again for a new link.');
-      if (pending.expiresAt.getTime() < Date.now()) throw new AppError(400, 'verify_link_expired', 'This link has expired. Sign up again for a new one.');
+      const pending = await EmailVerification.findOne({
+        where: { tokenHash: hashToken(token) },
+        lock: transaction.LOCK.UPDATE,
+        transaction,
+      });
+      if (!pending || pending.usedAt)
+        throw new AppError(
+          400,
+          'verify_link_invalid',
+          'This link was already used or is not valid. Sign in, or sign up again for a new link.',
+        );
+      if (pending.expiresAt.getTime() < Date.now())
+        throw new AppError(400, 'verify_link_expired', 'This link has expired. Sign up again for a new one.');
       await pending.update({ usedAt: new Date() }, { transaction });
       // Every other pending sign-up of the address dies with this one.
       await EmailVerification.update({ usedAt: new Date() }, { where: { email: pending.email, usedAt: { [Op.is]: null } }, transaction });
@@ -75,7 +91,10 @@ export class AuthService {
         return existing.update({ emailVerifiedAt: new Date() }, { transaction });
       }
       if (existing) throw conflict('account_exists', 'This address already has an account. Sign in, or reset the password.');
-      return User.create({ email: pending.email, displayName: pending.displayName, passwordHash: pending.passwordHash, emailVerifiedAt: new Date() }, { transaction });
+      return User.create(
+        { email: pending.email, displayName: pending.displayName, passwordHash: pending.passwordHash, emailVerifiedAt: new Date() },
+        { transaction },
+      );
     });
   }
 
@@ -84,7 +103,13 @@ export class AuthService {
     const user = await User.findByPk(userId);
     if (!user || user.emailVerifiedAt) return;
     const { token, hash } = newToken();
-    await EmailVerification.create({ email: user.email, displayName: user.displayName, passwordHash: user.passwordHash, tokenHash: hash, expiresAt: new Date(Date.now() + VERIFY_TTL_MS) });
+    await EmailVerification.create({
+      email: user.email,
+      displayName: user.displayName,
+      passwordHash: user.passwordHash,
+      tokenHash: hash,
+      expiresAt: new Date(Date.now() + VERIFY_TTL_MS),
+    });
     await this.outbox.post('verify', {
       to: user.email,
       subject: 'Confirm your address for Emberline',
@@ -142,8 +167,10 @@ export class AuthService {
     const passwordHash = await hashPassword(password);
     const user = await this.sequelize.transaction(async (transaction) => {
       const reset = await PasswordReset.findOne({ where: { tokenHash: hashToken(token) }, lock: transaction.LOCK.UPDATE, transaction });
-      if (!reset || reset.usedAt) throw new AppError(400, 'reset_link_invalid', 'This reset link was already used or replaced by a newer one. Ask for a new one.');
-      if (reset.expiresAt.getTime() < Date.now()) throw new AppError(400, 'reset_link_invalid', 'This reset link has expired. Ask for a new one.');
+      if (!reset || reset.usedAt)
+        throw new AppError(400, 'reset_link_invalid', 'This reset link was already used or replaced by a newer one. Ask for a new one.');
+      if (reset.expiresAt.getTime() < Date.now())
+        throw new AppError(400, 'reset_link_invalid', 'This reset link has expired. Ask for a new one.');
       await PasswordReset.update({ usedAt: new Date() }, { where: { userId: reset.userId, usedAt: { [Op.is]: null } }, transaction });
       const account = (await User.findByPk(reset.userId, { transaction, lock: transaction.LOCK.UPDATE }))!;
       await account.update({ passwordHash, emailVerifiedAt: account.emailVerifiedAt ?? new Date() }, { transaction });
@@ -159,7 +186,10 @@ export class AuthService {
     const user = await User.findByPk(userId);
     if (!user) throw new AppError(404, 'not_found', 'The account was not found.');
     await user.update({ displayName });
-    await this.sequelize.query(`UPDATE sessions SET sess = jsonb_set(sess::jsonb, '{passport,user,displayName}', to_jsonb($2::text))::json WHERE sess->'passport'->'user'->>'id' = $1`, { bind: [userId, displayName] });
+    await this.sequelize.query(
+      `UPDATE sessions SET sess = jsonb_set(sess::jsonb, '{passport,user,displayName}', to_jsonb($2::text))::json WHERE sess->'passport'->'user'->>'id' = $1`,
+      { bind: [userId, displayName] },
+    );
     sessionCache.forgetUser(userId, null);
     return user.toDto();
   }
@@ -167,7 +197,9 @@ export class AuthService {
   async changePassword(userId: string, current: string, next: string, keepSessionId: string): Promise<void> {
     const user = await User.findByPk(userId);
     if (!user || !(await verifyPassword(user.passwordHash, current))) {
-      throw new AppError(400, 'invalid_input', 'The current password is not right.', { issues: [{ path: 'currentPassword', message: 'is not right' }] });
+      throw new AppError(400, 'invalid_input', 'The current password is not right.', {
+        issues: [{ path: 'currentPassword', message: 'is not right' }],
+      });
     }
     const passwordHash = await hashPassword(next);
     await this.sequelize.transaction(async (transaction) => {
@@ -180,7 +212,9 @@ export class AuthService {
   /** An open invite for exactly this address proves the mailbox (its link was mailed there). */
   private async inviteProves(token: string, email: string): Promise<boolean> {
     if (!/^[A-Za-z0-9_-]{20,100}$/.test(token)) return false;
-    const invite = await Invite.findOne({ where: { tokenHash: hashToken(token), acceptedAt: { [Op.is]: null }, expiresAt: { [Op.gt]: new Date() } } });
+    const invite = await Invite.findOne({
+      where: { tokenHash: hashToken(token), acceptedAt: { [Op.is]: null }, expiresAt: { [Op.gt]: new Date() } },
+    });
     return invite?.email === email;
   }
 }

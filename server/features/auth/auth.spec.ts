@@ -108,7 +108,10 @@ describe('sign-in', () => {
     expect((await client.get('/api/studios')).status).toBe(200);
     const sid = decodeURIComponent(sidOf(client)!).slice(2).split('.')[0];
     const thirteenHoursAgo = Date.now() - 13 * 3_600_000;
-    await h.sequelize.query(`UPDATE sessions SET sess = jsonb_set(sess::jsonb, '{signedInAt}', to_jsonb(${thirteenHoursAgo}::bigint))::json WHERE sid = $1`, { bind: [sid] });
+    await h.sequelize.query(
+      `UPDATE sessions SET sess = jsonb_set(sess::jsonb, '{signedInAt}', to_jsonb(${thirteenHoursAgo}::bigint))::json WHERE sid = $1`,
+      { bind: [sid] },
+    );
     // A change made outside the session store shows once its read cache lets go (at most 10 s).
     sessionCache.forget(sid);
     expect((await client.get('/api/studios')).status).toBe(401);
@@ -138,7 +141,10 @@ describe('password reset by e-mail (real SMTP to the catcher)', () => {
     const since = h.mail.messages.length;
     await new TestClient(h.app).post('/api/auth/password-reset', { email });
     const token = (await h.mail.waitFor(email, 5000, since)).text.match(/token=([A-Za-z0-9_-]+)/)![1];
-    await h.sequelize.query(`UPDATE password_resets SET expires_at = now() - interval '1 minute' WHERE user_id = (SELECT id FROM users WHERE email = $1)`, { bind: [email] });
+    await h.sequelize.query(
+      `UPDATE password_resets SET expires_at = now() - interval '1 minute' WHERE user_id = (SELECT id FROM users WHERE email = $1)`,
+      { bind: [email] },
+    );
     const res = await new TestClient(h.app).post('/api/auth/password-reset/confirm', { token, password: 'whatever works' });
     expect(res.status).toBe(400);
   });
@@ -190,7 +196,13 @@ describe('requests (security items 13, 15, 16)', () => {
     await client.get('/api/auth/me');
     const bad = await client.send('post', '/api/auth/sign-in');
     expect(bad.status).toBe(400);
-    const raw = await (await import('supertest')).default(h.app).post('/api/auth/sign-in').set('content-type', 'application/json').send('{"email":');
+    const raw = await (
+      await import('supertest')
+    )
+      .default(h.app)
+      .post('/api/auth/sign-in')
+      .set('content-type', 'application/json')
+      .send('{"email":');
     expect(raw.status).toBeGreaterThanOrEqual(400);
     expect(raw.status).toBeLessThan(500);
     expect(JSON.stringify(raw.body)).not.toMatch(/at .*\.ts:\d+/);
@@ -202,7 +214,12 @@ describe('requests (security items 13, 15, 16)', () => {
   test('security headers: API answers forbid every script, object and frame (security item 14)', async () => {
     const res = await new TestClient(h.app).get('/api/health');
     const csp: string = res.headers['content-security-policy'];
-    const directives = new Map(csp.split(';').map((d) => d.trim().split(/\s+/)).map(([name, ...values]) => [name, values.join(' ')]));
+    const directives = new Map(
+      csp
+        .split(';')
+        .map((d) => d.trim().split(/\s+/))
+        .map(([name, ...values]) => [name, values.join(' ')]),
+    );
     // No script-src or object-src of its own: both fall back to default-src 'none'.
     expect(directives.get('default-src')).toBe("'none'");
     expect(directives.has('script-src')).toBe(false);

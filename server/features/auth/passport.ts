@@ -10,7 +10,9 @@ import { User } from './user.model';
 export const BAD_CREDENTIALS = 'The e-mail or password is not right.';
 
 const tooMany = (retryAfterSeconds: number) =>
-  new AppError(429, 'too_many_attempts', `Too many failed sign-ins. Wait ${retryAfterSeconds} s and try again, or reset the password.`, { retryAfterSeconds });
+  new AppError(429, 'too_many_attempts', `Too many failed sign-ins. Wait ${retryAfterSeconds} s and try again, or reset the password.`, {
+    retryAfterSeconds,
+  });
 
 /**
  * Sign-in through passport-local. The verify callback is where the back-off lives: the attempt is
@@ -22,7 +24,9 @@ export function configurePassport(auth: AuthService, throttle: SignInThrottle): 
   const passport = new Passport() as PassportStatic;
   // The session keeps the account's public fields, so a request needs no users query. Whatever
   // changes them signs in again (verification) or ends the sessions (password reset and change).
-  passport.serializeUser((user, done) => done(null, { id: user.id, email: user.email, displayName: user.displayName, emailVerified: user.emailVerified }));
+  passport.serializeUser((user, done) =>
+    done(null, { id: user.id, email: user.email, displayName: user.displayName, emailVerified: user.emailVerified }),
+  );
   passport.deserializeUser((stored: Express.User | string, done) => {
     if (typeof stored === 'object' && stored?.id) return done(null, stored);
     // Sessions from before the fields were kept hold the id alone.
@@ -45,12 +49,15 @@ export function configurePassport(auth: AuthService, throttle: SignInThrottle): 
     return user.toDto();
   };
   passport.use(
-    new LocalStrategy({ usernameField: 'email', passwordField: 'password', passReqToCallback: true, session: false }, (req, email, password, done) => {
-      verify(req, email, password).then(
-        (user) => done(null, user, user ? undefined : { message: BAD_CREDENTIALS }),
-        (err) => done(err),
-      );
-    }),
+    new LocalStrategy(
+      { usernameField: 'email', passwordField: 'password', passReqToCallback: true, session: false },
+      (req, email, password, done) => {
+        verify(req, email, password).then(
+          (user) => done(null, user, user ? undefined : { message: BAD_CREDENTIALS }),
+          (err) => done(err),
+        );
+      },
+    ),
   );
   return passport;
 }

@@ -37,7 +37,8 @@ export class SignInThrottle {
   /** Reserves an attempt on `key`, or returns how long to wait. */
   async reserve(key: string, rule: ThrottleRule): Promise<Refusal | null> {
     const n = `CASE WHEN t.updated_at < now() - make_interval(secs => ${THROTTLE.windowSeconds}) THEN 1 ELSE t.failures + 1 END`;
-    const delay = (count: string) => `make_interval(secs => LEAST(${rule.capSeconds}, CASE WHEN ${count} <= ${rule.free} THEN 0 ELSE power(2, ${count} - ${rule.free} - 1) END))`;
+    const delay = (count: string) =>
+      `make_interval(secs => LEAST(${rule.capSeconds}, CASE WHEN ${count} <= ${rule.free} THEN 0 ELSE power(2, ${count} - ${rule.free} - 1) END))`;
     const [rows] = (await this.sequelize.query(
       `INSERT INTO sign_in_throttle AS t (key, failures, blocked_until, updated_at)
        VALUES ($1, 1, now() + ${delay('1')}, now())
@@ -47,7 +48,10 @@ export class SignInThrottle {
       { bind: [key] },
     )) as [{ failures: number }[], unknown];
     if (rows.length) return null;
-    const [[row]] = (await this.sequelize.query('SELECT ceil(extract(epoch FROM blocked_until - now()))::int AS wait FROM sign_in_throttle WHERE key = $1', { bind: [key] })) as [{ wait: number }[], unknown];
+    const [[row]] = (await this.sequelize.query(
+      'SELECT ceil(extract(epoch FROM blocked_until - now()))::int AS wait FROM sign_in_throttle WHERE key = $1',
+      { bind: [key] },
+    )) as [{ wait: number }[], unknown];
     return { retryAfterSeconds: Math.max(1, row?.wait ?? 1) };
   }
 

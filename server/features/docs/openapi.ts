@@ -10,7 +10,12 @@ export function openApiDocument(specs: RouteSpec[]): object {
   const paths: Record<string, Record<string, object>> = {};
   for (const spec of specs) {
     const path = spec.path.replace(/:([A-Za-z]+)/g, '{$1}');
-    const parameters = [...spec.path.matchAll(/:([A-Za-z]+)/g)].map((m) => ({ name: m[1], in: 'path', required: true, schema: { type: 'string' } }));
+    const parameters = [...spec.path.matchAll(/:([A-Za-z]+)/g)].map((m) => ({
+      name: m[1],
+      in: 'path',
+      required: true,
+      schema: { type: 'string' },
+    }));
     const ok = String(spec.status ?? 200);
     paths[path] ??= {};
     paths[path][spec.method] = {
@@ -18,7 +23,14 @@ export function openApiDocument(specs: RouteSpec[]): object {
       summary: spec.summary,
       description: describePolicy(spec.policy),
       ...(parameters.length ? { parameters } : {}),
-      ...(spec.body ? { requestBody: { required: true, content: { 'application/json': { schema: z.toJSONSchema(spec.body, { io: 'input', unrepresentable: 'any' }) } } } } : {}),
+      ...(spec.body
+        ? {
+            requestBody: {
+              required: true,
+              content: { 'application/json': { schema: z.toJSONSchema(spec.body, { io: 'input', unrepresentable: 'any' }) } },
+            },
+          }
+        : {}),
       ...(spec.policy.kind === 'public' ? { security: [] } : {}),
       responses: {
         [ok]: { description: 'Success' },
@@ -28,7 +40,7 @@ export function openApiDocument(specs: RouteSpec[]): object {
   }
   return {
     openapi: '3.1.0',
-    info: { title: 'Emberline API', version: '1' , description: 'Mutations need the X-XSRF-TOKEN header echoing the XSRF-TOKEN cookie.' },
+    info: { title: 'Emberline API', version: '1', description: 'Mutations need the X-XSRF-TOKEN header echoing the XSRF-TOKEN cookie.' },
     paths,
     components: {
       securitySchemes: { session: { type: 'apiKey', in: 'cookie', name: 'emberline.sid' } },
@@ -36,7 +48,13 @@ export function openApiDocument(specs: RouteSpec[]): object {
         Error: {
           type: 'object',
           required: ['error'],
-          properties: { error: { type: 'object', required: ['code', 'message'], properties: { code: { type: 'string' }, message: { type: 'string' }, details: {} } } },
+          properties: {
+            error: {
+              type: 'object',
+              required: ['code', 'message'],
+              properties: { code: { type: 'string' }, message: { type: 'string' }, details: {} },
+            },
+          },
         },
       },
     },

@@ -31,7 +31,9 @@ export interface AnimationWork {
  * delays in the format's hundredths of a second), with a manifest that carries the look and the
  * flash check of what the panel emits.
  */
-export async function makeAnimation(work: AnimationWork): Promise<{ files: Partial<Record<ExportFormat, Buffer>>; width: number; height: number; flash: ExportFlash } | null> {
+export async function makeAnimation(
+  work: AnimationWork,
+): Promise<{ files: Partial<Record<ExportFormat, Buffer>>; width: number; height: number; flash: ExportFlash } | null> {
   const { spec } = work;
   const frames = await work.frames(work.source.input, work.source.sheet);
   const images: RgbaImage[] = [];
@@ -42,7 +44,15 @@ export async function makeAnimation(work: AnimationWork): Promise<{ files: Parti
   if (!(await work.beforeStep(frames.length, 'Encoding APNG and GIF'))) return null;
   const { width, height } = images[0];
   const delays = frames.map((f) => f.delayMs);
-  const apng = Buffer.from(UPNG.encode(images.map((i) => i.data.slice().buffer as ArrayBuffer), width, height, 0, delays));
+  const apng = Buffer.from(
+    UPNG.encode(
+      images.map((i) => i.data.slice().buffer as ArrayBuffer),
+      width,
+      height,
+      0,
+      delays,
+    ),
+  );
   const gif = GIFEncoder();
   images.forEach((image, k) => {
     const palette = quantize(image.data, 256);
@@ -50,7 +60,14 @@ export async function makeAnimation(work: AnimationWork): Promise<{ files: Parti
   });
   gif.finish();
   const report = flashCheck(frames, spec.look.parameters, spec.distanceMm);
-  const flash: ExportFlash = { distanceMm: spec.distanceMm, maxFlashesPerSecond: report.maxFlashesPerSecond, generalFlashFail: report.generalFlashFail, redFlashFail: report.redFlashFail, bt1702Fail: report.bt1702Fail, pass: report.pass };
+  const flash: ExportFlash = {
+    distanceMm: spec.distanceMm,
+    maxFlashesPerSecond: report.maxFlashesPerSecond,
+    generalFlashFail: report.generalFlashFail,
+    redFlashFail: report.redFlashFail,
+    bt1702Fail: report.bt1702Fail,
+    pass: report.pass,
+  };
   const manifest = {
     format: ANIMATION_MANIFEST_FORMAT,
     version: 1,
@@ -67,7 +84,17 @@ export async function makeAnimation(work: AnimationWork): Promise<{ files: Parti
     delaysMs: delays,
     pipelineVersion: PIPELINE_VERSION,
     files: { apng: 'animation.png', gif: 'animation.gif (256 colours a frame; delays rounded to 10 ms)' },
-    flashCheck: { ...flash, flashingSr: report.flashingSr, thresholdSr: report.thresholdSr, note: 'This check informs; it does not certify. Avoid flashing content where you can; the figures do not replace an assessment by a specialist (WCAG 2.2 success criterion 2.3.1, ITU-R BT.1702).' },
+    flashCheck: {
+      ...flash,
+      flashingSr: report.flashingSr,
+      thresholdSr: report.thresholdSr,
+      note: 'This check informs; it does not certify. Avoid flashing content where you can; the figures do not replace an assessment by a specialist (WCAG 2.2 success criterion 2.3.1, ITU-R BT.1702).',
+    },
   };
-  return { files: { apng, gif: Buffer.from(gif.bytes()), json: Buffer.from(`${JSON.stringify(manifest, null, 2)}\n`) }, width, height, flash };
+  return {
+    files: { apng, gif: Buffer.from(gif.bytes()), json: Buffer.from(`${JSON.stringify(manifest, null, 2)}\n`) },
+    width,
+    height,
+    flash,
+  };
 }

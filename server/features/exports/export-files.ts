@@ -13,9 +13,17 @@ export const EXPORT_FILES: Readonly<Record<ExportFormat, { name: string; type: s
 };
 
 /** Which files each kind of export makes, in the order they are offered. */
-export const FORMATS_OF: Readonly<Record<ExportKind, readonly ExportFormat[]>> = { sheet: ['png', 'pdf', 'zip'], animation: ['apng', 'gif', 'json'] };
+export const FORMATS_OF: Readonly<Record<ExportKind, readonly ExportFormat[]>> = {
+  sheet: ['png', 'pdf', 'zip'],
+  animation: ['apng', 'gif', 'json'],
+};
 
 /** A look as manifests state it: which it was, and its parameters as a preset document (the format preset import reads). */
 export function lookManifest(look: LookSpec) {
-  return { id: look.id, revision: look.revision, panelTypeName: look.panelTypeName, preset: { format: PRESET_FORMAT, version: 1 as const, name: look.name, panelTypeId: look.panelTypeId, parameters: look.parameters } };
+  return {
+    id: look.id,
+    revision: look.revision,
+    panelTypeName: look.panelTypeName,
+    preset: { format: PRESET_FORMAT, version: 1 as const, name: look.name, panelTypeId: look.panelTypeId, parameters: look.parameters },
+  };
 }

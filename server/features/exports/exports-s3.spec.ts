@@ -21,7 +21,8 @@ let editor: TestClient;
 let studioId: string;
 let endpoint: string;
 const BUCKET = 'emberline-exports-test';
-const keys = async (prefix: string) => ((await s3.send(new ListObjectsV2Command({ Bucket: BUCKET, Prefix: prefix }))).Contents ?? []).map((o) => o.Key!);
+const keys = async (prefix: string) =>
+  ((await s3.send(new ListObjectsV2Command({ Bucket: BUCKET, Prefix: prefix }))).Contents ?? []).map((o) => o.Key!);
 
 beforeAll(async () => {
   fake = new S3rver({ port: 0, address: '127.0.0.1', silent: true, directory: mkdtempSync(path.join(os.tmpdir(), 'emberline-s3-')) });
@@ -43,18 +44,32 @@ afterAll(async () => {
 });
 
 test('artworks, renders and an export live in the bucket; the download is a presigned link to it; deleting removes the objects', async () => {
-  const upload = await editor.upload(`/api/studios/${studioId}/artworks`, { name: 'Ramp' }, { name: 'ramp.png', bytes: pngOf(32, 24, (x) => [x * 8, x * 8, x * 8, 255]) });
+  const upload = await editor.upload(
+    `/api/studios/${studioId}/artworks`,
+    { name: 'Ramp' },
+    { name: 'ramp.png', bytes: pngOf(32, 24, (x) => [x * 8, x * 8, x * 8, 255]) },
+  );
   expect(upload.status).toBe(201);
   const artworkId = upload.body.artwork.id;
   expect((await keys(`artworks/${artworkId}/`)).sort()).toEqual([`artworks/${artworkId}/original`, `artworks/${artworkId}/thumbnail.png`]);
   const render = await editor.post(`/api/studios/${studioId}/renders`, { artworkId, presetId: 'vfd-bluegreen-256x64.standard', scale: 1 });
   expect(await keys(`renders/${render.body.render.key}`)).toHaveLength(1);
 
-  const asked = await editor.post(`/api/studios/${studioId}/exports`, { layout: 'grid', artworkIds: [artworkId], looks: ['vfd-bluegreen-256x64.standard'], scale: 1 });
+  const asked = await editor.post(`/api/studios/${studioId}/exports`, {
+    layout: 'grid',
+    artworkIds: [artworkId],
+    looks: ['vfd-bluegreen-256x64.standard'],
+    scale: 1,
+  });
   expect(asked.status).toBe(202);
   const id = asked.body.export.id;
-  for (let i = 0; i < 200 && (await editor.get(`/api/studios/${studioId}/exports/${id}`)).body.export.status !== 'done'; i++) await new Promise((r) => setTimeout(r, 150));
-  expect((await keys(`exports/${id}/`)).sort()).toEqual([`exports/${id}/renders.zip`, `exports/${id}/sheet.pdf`, `exports/${id}/sheet.png`]);
+  for (let i = 0; i < 200 && (await editor.get(`/api/studios/${studioId}/exports/${id}`)).body.export.status !== 'done'; i++)
+    await new Promise((r) => setTimeout(r, 150));
+  expect((await keys(`exports/${id}/`)).sort()).toEqual([
+    `exports/${id}/renders.zip`,
+    `exports/${id}/sheet.pdf`,
+    `exports/${id}/sheet.png`,
+  ]);
 
   const res = await editor.get(`/api/studios/${studioId}/exports/${id}/file?format=png`);
   expect(res.status).toBe(303);

@@ -1,5 +1,15 @@
 import { Op } from 'sequelize';
-import { EXPORT_STATUS_LABELS, MAX_ANIMATION_FRAMES, type AnimationRequest, type ExportDto, type ExportFlash, type ExportFormat, type ExportLinkDto, type SharedExportDto, type SheetRequest } from '../../../shared/api/export.schema';
+import {
+  EXPORT_STATUS_LABELS,
+  MAX_ANIMATION_FRAMES,
+  type AnimationRequest,
+  type ExportDto,
+  type ExportFlash,
+  type ExportFormat,
+  type ExportLinkDto,
+  type SharedExportDto,
+  type SheetRequest,
+} from '../../../shared/api/export.schema';
 import type { SpriteSheet } from '../../../shared/pipeline/sprite-sheet';
 import { LABEL_LINES, MAX_SHEET_PIXELS, REPORT_LINES, sheetGeometry, type SheetLayout } from '../../../shared/export/sheet';
 import type { Role } from '../../../shared/model/roles';
@@ -43,7 +53,12 @@ export interface ExportActor {
   role: Role;
 }
 
-const linkDto = (l: ExportLink): ExportLinkDto => ({ id: l.id, expiresAt: l.expiresAt?.toISOString() ?? null, revokedAt: l.revokedAt?.toISOString() ?? null, createdAt: l.createdAt.toISOString() });
+const linkDto = (l: ExportLink): ExportLinkDto => ({
+  id: l.id,
+  expiresAt: l.expiresAt?.toISOString() ?? null,
+  revokedAt: l.revokedAt?.toISOString() ?? null,
+  createdAt: l.createdAt.toISOString(),
+});
 
 /** What the export job carries: the row is the whole request. */
 export interface ExportJob {
@@ -51,8 +66,20 @@ export interface ExportJob {
 }
 
 /** The service as the app and the workers make it: files in the storage folder, stale after the job's every attempt has expired. */
-export function exportsService(config: Config, blobs: BlobStore, artworks: ArtworksService, engine: RenderEngine, jobs: JobQueue): ExportsService {
-  return new ExportsService(new FileStore(blobs), artworks, engine, jobs, (config.jobs.retries + 1) * config.jobs.expireSeconds * 1000 + 60_000);
+export function exportsService(
+  config: Config,
+  blobs: BlobStore,
+  artworks: ArtworksService,
+  engine: RenderEngine,
+  jobs: JobQueue,
+): ExportsService {
+  return new ExportsService(
+    new FileStore(blobs),
+    artworks,
+    engine,
+    jobs,
+    (config.jobs.retries + 1) * config.jobs.expireSeconds * 1000 + 60_000,
+  );
 }
 
 /**
@@ -77,26 +104,61 @@ export class ExportsService {
     if (!studio) throw notFound('The studio');
     const found = await Artwork.findAll({ where: { id: body.artworkIds, studioId: actor.studioId } });
     const missing = body.artworkIds.filter((id) => !found.some((a) => a.id === id));
-    if (missing.length) throw new AppError(400, 'invalid_input', `${missing.length === 1 ? 'One chosen artwork is' : `${missing.length} chosen artworks are`} not in this studio's library (deleted, or another studio's). Choose again from the list.`, { issues: missing.map((id) => ({ path: 'artworkIds', message: `no artwork ${id} in this studio` })) });
+    if (missing.length)
+      throw new AppError(
+        400,
+        'invalid_input',
+        `${missing.length === 1 ? 'One chosen artwork is' : `${missing.length} chosen artworks are`} not in this studio's library (deleted, or another studio's). Choose again from the list.`,
+        { issues: missing.map((id) => ({ path: 'artworkIds', message: `no artwork ${id} in this studio` })) },
+      );
     const artworks = body.artworkIds.map((id) => found.find((a) => a.id === id)!);
     const short = artworks.find((a) => body.frame >= a.frameCount);
-    if (short) throw new AppError(400, 'invalid_input', `Frame ${body.frame + 1} is past the end of “${short.name}”, which has ${short.frameCount === 1 ? 'one frame' : `${short.frameCount} frames`}. Choose frame 1 to ${Math.min(...artworks.map((a) => a.frameCount))}.`);
+    if (short)
+      throw new AppError(
+        400,
+        'invalid_input',
+        `Frame ${body.frame + 1} is past the end of “${short.name}”, which has ${short.frameCount === 1 ? 'one frame' : `${short.frameCount} frames`}. Choose frame 1 to ${Math.min(...artworks.map((a) => a.frameCount))}.`,
+      );
     const looks = await Promise.all(body.looks.map((ref) => this.look(actor.studioId, ref)));
 
     // The whole sheet's size, from the renders' sizes, before anything is queued.
     const sizes = looks.map((l) => RenderEngine.check({ parameters: l.parameters, scale: body.scale }));
     if (body.layout === 'ab-diff' && (sizes[0].width !== sizes[1].width || sizes[0].height !== sizes[1].height)) {
-      throw new AppError(400, 'invalid_input', `An A/B sheet compares two renders of one size, and these differ: “${looks[0].name}” renders at ${sizes[0].width} × ${sizes[0].height} px, “${looks[1].name}” at ${sizes[1].width} × ${sizes[1].height} px. Choose two looks of one panel type.`);
+      throw new AppError(
+        400,
+        'invalid_input',
+        `An A/B sheet compares two renders of one size, and these differ: “${looks[0].name}” renders at ${sizes[0].width} × ${sizes[0].height} px, “${looks[1].name}” at ${sizes[1].width} × ${sizes[1].height} px. Choose two looks of one panel type.`,
+      );
     }
-    const row = (cells: { width: number; height: number }[]) => (body.layout === 'grid' ? cells : body.layout === 'side-by-side' ? [cells[0], ...cells] : [...cells, cells[0]]);
-    const geometry = sheetGeometry(artworks.map(() => row(sizes)), body.report ? LABEL_LINES + REPORT_LINES : LABEL_LINES);
+    const row = (cells: { width: number; height: number }[]) =>
+      body.layout === 'grid' ? cells : body.layout === 'side-by-side' ? [cells[0], ...cells] : [...cells, cells[0]];
+    const geometry = sheetGeometry(
+      artworks.map(() => row(sizes)),
+      body.report ? LABEL_LINES + REPORT_LINES : LABEL_LINES,
+    );
     if (geometry.width * geometry.height > MAX_SHEET_PIXELS) {
-      throw new AppError(400, 'output_too_large', `The sheet would be ${geometry.width} × ${geometry.height} pixels; the limit is ${MAX_SHEET_PIXELS / 1e6} million. Lower the scale or choose fewer artworks or looks.`);
+      throw new AppError(
+        400,
+        'output_too_large',
+        `The sheet would be ${geometry.width} × ${geometry.height} pixels; the limit is ${MAX_SHEET_PIXELS / 1e6} million. Lower the scale or choose fewer artworks or looks.`,
+      );
     }
 
-    const spec: SheetSpec = { studioName: studio.name, layout: body.layout, scale: body.scale, frame: body.frame, artworks: artworks.map((a) => ({ id: a.id, name: a.name })), looks, report: body.report };
+    const spec: SheetSpec = {
+      studioName: studio.name,
+      layout: body.layout,
+      scale: body.scale,
+      frame: body.frame,
+      artworks: artworks.map((a) => ({ id: a.id, name: a.name })),
+      looks,
+      report: body.report,
+    };
     const title = body.title ?? `${studio.name}: ${DEFAULT_TITLES[body.layout](looks.length)}`;
-    return this.queue(actor, { title, kind: 'sheet', layout: body.layout, spec }, `asked for the comparison sheet “${title}” (${artworks.length * looks.length} cells)`);
+    return this.queue(
+      actor,
+      { title, kind: 'sheet', layout: body.layout, spec },
+      `asked for the comparison sheet “${title}” (${artworks.length * looks.length} cells)`,
+    );
   }
 
   /** An animated export: every frame of one animation through one look, checked in full before it is queued. */
@@ -104,23 +166,61 @@ export class ExportsService {
     const studio = await Studio.findByPk(actor.studioId);
     if (!studio) throw notFound('The studio');
     const artwork = await Artwork.findOne({ where: { id: body.artworkId, studioId: actor.studioId } });
-    if (!artwork) throw new AppError(400, 'invalid_input', "The chosen artwork is not in this studio's library (deleted, or another studio's). Choose again from the list.", { issues: [{ path: 'artworkId', message: 'no such artwork in this studio' }] });
-    if (artwork.frameCount < 2) throw new AppError(400, 'invalid_input', `“${artwork.name}” is a still (one frame): an animated export needs an animation (GIF, APNG, animated WebP or a sprite sheet). For stills, make a comparison sheet.`);
-    if (artwork.frameCount > MAX_ANIMATION_FRAMES) throw new AppError(400, 'invalid_input', `“${artwork.name}” has ${artwork.frameCount} frames; an animated export takes at most ${MAX_ANIMATION_FRAMES}. Shorten the animation.`);
+    if (!artwork)
+      throw new AppError(
+        400,
+        'invalid_input',
+        "The chosen artwork is not in this studio's library (deleted, or another studio's). Choose again from the list.",
+        { issues: [{ path: 'artworkId', message: 'no such artwork in this studio' }] },
+      );
+    if (artwork.frameCount < 2)
+      throw new AppError(
+        400,
+        'invalid_input',
+        `“${artwork.name}” is a still (one frame): an animated export needs an animation (GIF, APNG, animated WebP or a sprite sheet). For stills, make a comparison sheet.`,
+      );
+    if (artwork.frameCount > MAX_ANIMATION_FRAMES)
+      throw new AppError(
+        400,
+        'invalid_input',
+        `“${artwork.name}” has ${artwork.frameCount} frames; an animated export takes at most ${MAX_ANIMATION_FRAMES}. Shorten the animation.`,
+      );
     const look = await this.look(actor.studioId, body.look);
     const { width, height } = RenderEngine.check({ parameters: look.parameters, scale: body.scale });
     if (width * height * artwork.frameCount > MAX_ANIMATION_PIXELS) {
-      throw new AppError(400, 'output_too_large', `${artwork.frameCount} frames of ${width} × ${height} pixels are over the limit of ${MAX_ANIMATION_PIXELS / 1e6} million pixels in all. Lower the scale.`);
+      throw new AppError(
+        400,
+        'output_too_large',
+        `${artwork.frameCount} frames of ${width} × ${height} pixels are over the limit of ${MAX_ANIMATION_PIXELS / 1e6} million pixels in all. Lower the scale.`,
+      );
     }
     const durationMs = artwork.delaysMs.reduce((a, b) => a + b, 0);
-    const spec: AnimationSpec = { studioName: studio.name, artwork: { id: artwork.id, name: artwork.name }, look, scale: body.scale, distanceMm: body.distanceMm, frames: artwork.frameCount, durationMs };
+    const spec: AnimationSpec = {
+      studioName: studio.name,
+      artwork: { id: artwork.id, name: artwork.name },
+      look,
+      scale: body.scale,
+      distanceMm: body.distanceMm,
+      frames: artwork.frameCount,
+      durationMs,
+    };
     const title = body.title ?? `${artwork.name} through ${look.name} (${look.panelTypeName})`.slice(0, 120);
-    return this.queue(actor, { title, kind: 'animation', layout: 'animation', spec }, `asked for the animation “${title}” (${artwork.frameCount} frames)`);
+    return this.queue(
+      actor,
+      { title, kind: 'animation', layout: 'animation', spec },
+      `asked for the animation “${title}” (${artwork.frameCount} frames)`,
+    );
   }
 
   /** Writes the request's row, then queues its job (a row whose job could not be queued is taken back). */
   private async queue(actor: ExportActor, what: Pick<Export, 'title' | 'kind' | 'layout' | 'spec'>, summary: string): Promise<ExportDto> {
-    const created = await Export.create({ studioId: actor.studioId, createdById: actor.userId, ...what, status: 'queued', step: 'Waiting for a worker' });
+    const created = await Export.create({
+      studioId: actor.studioId,
+      createdById: actor.userId,
+      ...what,
+      status: 'queued',
+      step: 'Waiting for a worker',
+    });
     try {
       await this.jobs.send(QUEUES.exports, { exportId: created.id } satisfies ExportJob);
     } catch (err) {
@@ -155,12 +255,25 @@ export class ExportsService {
    */
   async downloadUrl(studioId: string, id: string, format: ExportFormat, sign: (d: SignedDownload) => string): Promise<string> {
     const row = await this.row(studioId, id);
-    if (row.status !== 'done') throw new AppError(409, 'not_ready', `“${row.title}” is ${EXPORT_STATUS_LABELS[row.status].toLowerCase()}, not ready: it can be downloaded once it is.`);
-    if (!FORMATS_OF[row.kind].includes(format)) throw new AppError(400, 'invalid_input', `${row.kind === 'sheet' ? 'A comparison sheet' : 'An animation'} is made as ${FORMATS_OF[row.kind].join(', ')}, not ${format}.`);
+    if (row.status !== 'done')
+      throw new AppError(
+        409,
+        'not_ready',
+        `“${row.title}” is ${EXPORT_STATUS_LABELS[row.status].toLowerCase()}, not ready: it can be downloaded once it is.`,
+      );
+    if (!FORMATS_OF[row.kind].includes(format))
+      throw new AppError(
+        400,
+        'invalid_input',
+        `${row.kind === 'sheet' ? 'A comparison sheet' : 'An animation'} is made as ${FORMATS_OF[row.kind].join(', ')}, not ${format}.`,
+      );
     const file = EXPORT_FILES[format];
     const as = { fileName: `${row.title.replace(/[^\w .-]/g, '_').slice(0, 100)}.${file.extension}`, contentType: file.type };
     const key = this.files.key(FOLDER, row.id, file.name);
-    return (await this.files.blobs.presignedUrl(key, DOWNLOAD_LINK_SECONDS, as)) ?? sign({ key, ...as, expiresAt: Date.now() + DOWNLOAD_LINK_SECONDS * 1000 });
+    return (
+      (await this.files.blobs.presignedUrl(key, DOWNLOAD_LINK_SECONDS, as)) ??
+      sign({ key, ...as, expiresAt: Date.now() + DOWNLOAD_LINK_SECONDS * 1000 })
+    );
   }
 
   /** The export's share links, newest first. */
@@ -172,9 +285,19 @@ export class ExportsService {
   /** A read-only link to a finished export (the token is shown once and stored hashed). */
   async createLink(actor: ExportActor, id: string, body: { expiresInDays?: number }, appUrl: string): Promise<ExportLinkDto> {
     const row = await this.row(actor.studioId, id);
-    if (row.status !== 'done') throw new AppError(409, 'not_ready', `“${row.title}” is ${EXPORT_STATUS_LABELS[row.status].toLowerCase()}: a share link can be made once it is ready.`);
+    if (row.status !== 'done')
+      throw new AppError(
+        409,
+        'not_ready',
+        `“${row.title}” is ${EXPORT_STATUS_LABELS[row.status].toLowerCase()}: a share link can be made once it is ready.`,
+      );
     const { token, hash } = newToken();
-    const link = await ExportLink.create({ exportId: row.id, tokenHash: hash, createdById: actor.userId, expiresAt: body.expiresInDays ? new Date(Date.now() + body.expiresInDays * 86_400_000) : null });
+    const link = await ExportLink.create({
+      exportId: row.id,
+      tokenHash: hash,
+      createdById: actor.userId,
+      expiresAt: body.expiresInDays ? new Date(Date.now() + body.expiresInDays * 86_400_000) : null,
+    });
     await record(actor.studioId, actor.userId, 'link.created', `created a share link to the export “${row.title}”`);
     return { ...linkDto(link), url: `${appUrl}/shared-exports/${token}` };
   }
@@ -190,7 +313,8 @@ export class ExportsService {
   /** The export a share token opens; 404 alike for unknown, revoked and expired tokens and for exports gone or not ready. */
   private async sharedRow(token: string): Promise<Export> {
     const link = /^[A-Za-z0-9_-]{20,100}$/.test(token) ? await ExportLink.findOne({ where: { tokenHash: hashToken(token) } }) : null;
-    const row = link && !link.revokedAt && !(link.expiresAt && link.expiresAt.getTime() < Date.now()) ? await Export.findByPk(link.exportId) : null;
+    const row =
+      link && !link.revokedAt && !(link.expiresAt && link.expiresAt.getTime() < Date.now()) ? await Export.findByPk(link.exportId) : null;
     if (!row || row.status !== 'done') throw notFound('The shared export');
     return row;
   }
@@ -233,8 +357,16 @@ export class ExportsService {
   async cancel(actor: ExportActor, id: string): Promise<ExportDto> {
     const row = await this.row(actor.studioId, id);
     this.mayChange(actor, row);
-    const [count] = await Export.update({ status: 'cancelled', step: 'Cancelled', finishedAt: new Date() }, { where: { id: row.id, status: { [Op.in]: ['queued', 'running'] } } });
-    if (!count) throw new AppError(409, 'conflict', `“${row.title}” is ${EXPORT_STATUS_LABELS[row.status].toLowerCase()}: only a waiting or running export can be cancelled.`);
+    const [count] = await Export.update(
+      { status: 'cancelled', step: 'Cancelled', finishedAt: new Date() },
+      { where: { id: row.id, status: { [Op.in]: ['queued', 'running'] } } },
+    );
+    if (!count)
+      throw new AppError(
+        409,
+        'conflict',
+        `“${row.title}” is ${EXPORT_STATUS_LABELS[row.status].toLowerCase()}: only a waiting or running export can be cancelled.`,
+      );
     await this.files.remove(FOLDER, row.id);
     await record(actor.studioId, actor.userId, 'export.cancelled', `cancelled the export “${row.title}”`);
     return this.get(actor.studioId, id);
@@ -244,8 +376,16 @@ export class ExportsService {
   async retry(actor: ExportActor, id: string): Promise<ExportDto> {
     const row = await this.row(actor.studioId, id);
     this.mayChange(actor, row);
-    const [count] = await Export.update({ status: 'queued', progress: 0, step: 'Waiting for a worker', error: null, finishedAt: null }, { where: { id: row.id, status: { [Op.in]: ['failed', 'cancelled'] } } });
-    if (!count) throw new AppError(409, 'conflict', `“${row.title}” is ${EXPORT_STATUS_LABELS[row.status].toLowerCase()}: only a failed or cancelled export can be tried again.`);
+    const [count] = await Export.update(
+      { status: 'queued', progress: 0, step: 'Waiting for a worker', error: null, finishedAt: null },
+      { where: { id: row.id, status: { [Op.in]: ['failed', 'cancelled'] } } },
+    );
+    if (!count)
+      throw new AppError(
+        409,
+        'conflict',
+        `“${row.title}” is ${EXPORT_STATUS_LABELS[row.status].toLowerCase()}: only a failed or cancelled export can be tried again.`,
+      );
     await this.jobs.send(QUEUES.exports, { exportId: row.id } satisfies ExportJob);
     return this.get(actor.studioId, id);
   }
@@ -261,7 +401,8 @@ export class ExportsService {
 
   /** Editors act on their own exports; owners on anyone's. */
   private mayChange(actor: ExportActor, row: Export): void {
-    if (actor.role !== 'owner' && row.createdById !== actor.userId) throw forbidden('Only the person who asked for this export, or a studio owner, can change or delete it.');
+    if (actor.role !== 'owner' && row.createdById !== actor.userId)
+      throw forbidden('Only the person who asked for this export, or a studio owner, can change or delete it.');
   }
 
   /**
@@ -281,7 +422,10 @@ export class ExportsService {
         if (!artwork) throw new AppError(409, 'conflict', `“${a.name}” was deleted after the export was asked for. Ask again without it.`);
         return { input: await this.artworks.original(artwork.id), sheet: artwork.sheet };
       };
-      const steps = row.kind === 'sheet' ? (row.spec as SheetSpec).artworks.length * (row.spec as SheetSpec).looks.length : (row.spec as AnimationSpec).frames;
+      const steps =
+        row.kind === 'sheet'
+          ? (row.spec as SheetSpec).artworks.length * (row.spec as SheetSpec).looks.length
+          : (row.spec as AnimationSpec).frames;
       const common = {
         title: row.title,
         made: { at: row.createdAt, by },
@@ -293,7 +437,13 @@ export class ExportsService {
           return true;
         },
       };
-      let made: { files: Partial<Record<ExportFormat, Buffer>>; width: number; height: number; figures?: ExportDto['figures']; flash?: ExportFlash } | null;
+      let made: {
+        files: Partial<Record<ExportFormat, Buffer>>;
+        width: number;
+        height: number;
+        figures?: ExportDto['figures'];
+        flash?: ExportFlash;
+      } | null;
       if (row.kind === 'sheet') {
         const spec = row.spec as SheetSpec;
         const sources = [];
@@ -307,13 +457,32 @@ export class ExportsService {
       const formats = FORMATS_OF[row.kind];
       for (const format of formats) await this.files.write(FOLDER, row.id, EXPORT_FILES[format].name, made.files[format]!);
       const sizes = Object.fromEntries(formats.map((f) => [f, made.files[f]!.length]));
-      const [count] = await Export.update({ status: 'done', progress: 1, step: 'Ready', width: made.width, height: made.height, files: sizes, figures: made.figures ?? null, flash: made.flash ?? null, finishedAt: new Date() }, { where: { id: row.id, status: 'running' } });
+      const [count] = await Export.update(
+        {
+          status: 'done',
+          progress: 1,
+          step: 'Ready',
+          width: made.width,
+          height: made.height,
+          files: sizes,
+          figures: made.figures ?? null,
+          flash: made.flash ?? null,
+          finishedAt: new Date(),
+        },
+        { where: { id: row.id, status: 'running' } },
+      );
       // Cancelled or deleted while the file was being written: nothing may stay behind.
       if (!count) await this.files.remove(FOLDER, row.id);
     } catch (err) {
-      const message = err instanceof AppError && err.status < 500 ? err.message : 'The export could not be made because of an error on our side, which was logged. Try again; if it fails again, tell us which artworks and looks.';
+      const message =
+        err instanceof AppError && err.status < 500
+          ? err.message
+          : 'The export could not be made because of an error on our side, which was logged. Try again; if it fails again, tell us which artworks and looks.';
       if (!(err instanceof AppError && err.status < 500)) console.error(`[exports] ${row.id} failed: ${(err as Error).stack ?? err}`);
-      await Export.update({ status: 'failed', step: 'Failed', error: message, finishedAt: new Date() }, { where: { id: row.id, status: 'running' } });
+      await Export.update(
+        { status: 'failed', step: 'Failed', error: message, finishedAt: new Date() },
+        { where: { id: row.id, status: 'running' } },
+      );
       await this.files.remove(FOLDER, row.id);
     }
   }
@@ -394,7 +563,15 @@ export class ExportsService {
       createdBy: { id: r.createdById, name: r.createdById ? (names.get(r.createdById) ?? 'a former member') : 'a former member' },
       createdAt: r.createdAt.toISOString(),
       finishedAt: r.finishedAt ? r.finishedAt.toISOString() : null,
-      files: r.status === 'done' && r.files ? FORMATS_OF[r.kind].map((format) => ({ format, label: EXPORT_FILES[format].label, url: `/api/studios/${r.studioId}/exports/${r.id}/file?format=${format}`, bytes: r.files![format] })) : [],
+      files:
+        r.status === 'done' && r.files
+          ? FORMATS_OF[r.kind].map((format) => ({
+              format,
+              label: EXPORT_FILES[format].label,
+              url: `/api/studios/${r.studioId}/exports/${r.id}/file?format=${format}`,
+              bytes: r.files![format],
+            }))
+          : [],
     };
   }
 }

@@ -59,12 +59,18 @@ beforeAll(async () => {
     { studioId, userId: v.id, role: 'viewer' },
   ]);
   const up = async (name: string, px: (x: number, y: number) => [number, number, number, number]) =>
-    (await owner.upload(`/api/studios/${studioId}/artworks`, { name }, { name: `${name}.png`, bytes: pngOf(64, 48, px) })).body.artwork.id as string;
-  artworkIds = [await up('Ramp', (x) => [x * 4, x * 4, x * 4, 255]), await up('Checker', (x, y) => ((x >> 2) + (y >> 2)) % 2 ? [255, 255, 255, 255] : [0, 0, 0, 255])];
+    (await owner.upload(`/api/studios/${studioId}/artworks`, { name }, { name: `${name}.png`, bytes: pngOf(64, 48, px) })).body.artwork
+      .id as string;
+  artworkIds = [
+    await up('Ramp', (x) => [x * 4, x * 4, x * 4, 255]),
+    await up('Checker', (x, y) => (((x >> 2) + (y >> 2)) % 2 ? [255, 255, 255, 255] : [0, 0, 0, 255])),
+  ];
   const other = new TestClient(h.app);
   await other.signUp('correct horse battery', 'other');
   const otherStudio = (await other.post('/api/studios', { name: 'Elsewhere' })).body.studio.id;
-  otherArtworkId = (await other.upload(`/api/studios/${otherStudio}/artworks`, {}, { name: 'x.png', bytes: pngOf(8, 8, () => [9, 9, 9, 255]) })).body.artwork.id;
+  otherArtworkId = (
+    await other.upload(`/api/studios/${otherStudio}/artworks`, {}, { name: 'x.png', bytes: pngOf(8, 8, () => [9, 9, 9, 255]) })
+  ).body.artwork.id;
 }, 60_000);
 afterAll(() => h.close());
 
@@ -111,13 +117,21 @@ test('a 2 × 2 grid is queued, reports progress to 100 %, and its cells equal si
     row.forEach((render, c) => {
       const at = g.cells[r][c].image;
       const cut = new Uint8Array(render.width * render.height * 4);
-      for (let y = 0; y < render.height; y++) cut.set(sheet.data.subarray(((at.y + y) * sheet.width + at.x) * 4, ((at.y + y) * sheet.width + at.x + render.width) * 4), y * render.width * 4);
+      for (let y = 0; y < render.height; y++)
+        cut.set(
+          sheet.data.subarray(((at.y + y) * sheet.width + at.x) * 4, ((at.y + y) * sheet.width + at.x + render.width) * 4),
+          y * render.width * 4,
+        );
       expect(pixelmatch(cut, render.data, undefined, render.width, render.height, { threshold: 0 })).toBe(0);
     }),
   );
 
   // The same sheet as a PDF, and the single renders with a manifest as a ZIP.
-  expect(done.files.map((f) => [f.format, f.label])).toEqual([['png', 'Sheet (PNG)'], ['pdf', 'Sheet (PDF)'], ['zip', 'Single renders and manifest (ZIP)']]);
+  expect(done.files.map((f) => [f.format, f.label])).toEqual([
+    ['png', 'Sheet (PNG)'],
+    ['pdf', 'Sheet (PDF)'],
+    ['zip', 'Single renders and manifest (ZIP)'],
+  ]);
   const pdf = await viewer.getBytes(fileUrl(done, 'pdf'));
   expect(pdf.headers['content-type']).toBe('application/pdf');
   const pdfText = pdf.body.toString('latin1');
@@ -149,7 +163,13 @@ test('a 2 × 2 grid is queued, reports progress to 100 %, and its cells equal si
 });
 
 test('with the analysis asked for, each render carries its legibility and light under its label and in the manifest', async () => {
-  const res = await editor.post(url(), { layout: 'grid', artworkIds: [artworkIds[1]], looks: ['el-amber-320x240.standard'], scale: 1, report: true });
+  const res = await editor.post(url(), {
+    layout: 'grid',
+    artworkIds: [artworkIds[1]],
+    looks: ['el-amber-320x240.standard'],
+    scale: 1,
+    report: true,
+  });
   expect(res.status).toBe(202);
   const done = await finished(editor, res.body.export.id);
   expect(done).toMatchObject({ status: 'done', report: true });
@@ -160,8 +180,15 @@ test('with the analysis asked for, each render carries its legibility and light 
   const entries = unzipSync(new Uint8Array((await viewer.getBytes(fileUrl(done, 'zip'))).body));
   const [cell] = JSON.parse(strFromU8(entries['manifest.json'])).cells;
   // The checker has one-cell detail everywhere; its figures are the analysis of that frame through that look.
-  const frames = (await h.app.artworks.frames({ id: artworkIds[1], sheet: null }));
-  const look = { id: 'el-amber-320x240.standard', name: 'Standard', revision: null, panelTypeId: 'el-amber-320x240', panelTypeName: '', parameters: builtInPresetById('el-amber-320x240.standard')!.parameters };
+  const frames = await h.app.artworks.frames({ id: artworkIds[1], sheet: null });
+  const look = {
+    id: 'el-amber-320x240.standard',
+    name: 'Standard',
+    revision: null,
+    panelTypeId: 'el-amber-320x240',
+    panelTypeName: '',
+    parameters: builtInPresetById('el-amber-320x240.standard')!.parameters,
+  };
   expect(cell.report).toEqual(JSON.parse(JSON.stringify(cellReport(frames, look, 0))));
   expect(cell.report.legibility.edges).toBeGreaterThan(0);
   expect(cell.report.legibility.score).toBeGreaterThan(0);
@@ -169,7 +196,13 @@ test('with the analysis asked for, each render carries its legibility and light 
 });
 
 test('a share link opens a finished export read-only without an account, until revoked or expired', async () => {
-  const asked = await editor.post(url(), { layout: 'grid', artworkIds: [artworkIds[0]], looks: ['vfd-bluegreen-256x64.standard'], scale: 1, title: 'For the client' });
+  const asked = await editor.post(url(), {
+    layout: 'grid',
+    artworkIds: [artworkIds[0]],
+    looks: ['vfd-bluegreen-256x64.standard'],
+    scale: 1,
+    title: 'For the client',
+  });
   const waiting = await editor.post(url(`/${asked.body.export.id}/links`), {});
   expect([409, 201]).toContain(waiting.status);
   const done = await finished(editor, asked.body.export.id);
@@ -184,7 +217,14 @@ test('a share link opens a finished export read-only without an account, until r
   const open = await stranger.get(`/api/shared-exports/${token}`);
   expect(open.status).toBe(200);
   expect(open.headers['referrer-policy']).toBe('no-referrer');
-  expect(open.body.export).toMatchObject({ title: 'For the client', kind: 'sheet', studioName: 'Sheet Studio', artworks: ['Ramp'], width: done.width, height: done.height });
+  expect(open.body.export).toMatchObject({
+    title: 'For the client',
+    kind: 'sheet',
+    studioName: 'Sheet Studio',
+    artworks: ['Ramp'],
+    width: done.width,
+    height: done.height,
+  });
   // Nothing that identifies people or ids inside the studio.
   expect(JSON.stringify(open.body)).not.toMatch(new RegExp(`${studioId}|${done.id}|createdBy`));
   const preview = await raw((await stranger.getBytes(open.body.export.previewUrl)).body);
@@ -197,7 +237,8 @@ test('a share link opens a finished export read-only without an account, until r
   expect(links.body.links).toHaveLength(1);
   expect(links.body.links[0].url).toBeUndefined();
   expect((await editor.delete(url(`/${done.id}/links/${made.body.link.id}`))).status).toBe(204);
-  for (const path of ['', '/preview', '/file?format=png']) expect((await stranger.get(`/api/shared-exports/${token}${path}`)).status).toBe(404);
+  for (const path of ['', '/preview', '/file?format=png'])
+    expect((await stranger.get(`/api/shared-exports/${token}${path}`)).status).toBe(404);
 
   const later = await editor.post(url(`/${done.id}/links`), { expiresInDays: 1 });
   const laterToken = later.body.link.url.split('/shared-exports/')[1];
@@ -220,7 +261,17 @@ test('an A/B sheet states how two looks differ, as pixelmatch counts it', async 
   expect(res.status).toBe(202);
   const done = await finished(editor, res.body.export.id);
   expect(done.status).toBe('done');
-  const [a, b] = await Promise.all(looks.map(async (presetId) => raw((await editor.get((await editor.post(`/api/studios/${studioId}/renders`, { artworkId: artworkIds[0], presetId, scale: 1 })).body.render.url)).body)));
+  const [a, b] = await Promise.all(
+    looks.map(async (presetId) =>
+      raw(
+        (
+          await editor.get(
+            (await editor.post(`/api/studios/${studioId}/renders`, { artworkId: artworkIds[0], presetId, scale: 1 })).body.render.url,
+          )
+        ).body,
+      ),
+    ),
+  );
   const count = pixelmatch(a.data, b.data, undefined, a.width, a.height, { threshold: 0, includeAA: true });
   expect(count).toBeGreaterThan(0);
   expect(done.figures).toEqual([{ artworkName: 'Ramp', differing: count, pixels: a.width * a.height, maxChannel: expect.any(Number) }]);
@@ -230,11 +281,21 @@ test('an A/B sheet states how two looks differ, as pixelmatch counts it', async 
 });
 
 test('side by side puts the original before the looks', async () => {
-  const res = await editor.post(url(), { layout: 'side-by-side', artworkIds: [artworkIds[1]], looks: ['el-amber-320x240.standard'], scale: 1 });
+  const res = await editor.post(url(), {
+    layout: 'side-by-side',
+    artworkIds: [artworkIds[1]],
+    looks: ['el-amber-320x240.standard'],
+    scale: 1,
+  });
   const done = await finished(editor, res.body.export.id);
   expect(done.status).toBe('done');
   const sheet = await raw((await editor.getBytes(png(done))).body);
-  const g = sheetGeometry([[{ width: 320, height: 240 }, { width: 320, height: 240 }]]);
+  const g = sheetGeometry([
+    [
+      { width: 320, height: 240 },
+      { width: 320, height: 240 },
+    ],
+  ]);
   expect([sheet.width, sheet.height]).toEqual([g.width, g.height]);
   // The 64 × 48 checker enlarged 5× (the largest whole number within 320 × 240), with hard edges: 4 × 5 = 20 px squares.
   const at = g.cells[0][0].image;
@@ -246,18 +307,66 @@ test('side by side puts the original before the looks', async () => {
 describe('bad requests are refused before anything is queued, saying what to change', () => {
   const cases: [string, () => object, RegExp][] = [
     ['no artwork', () => ({ layout: 'grid', artworkIds: [], looks: ['el-amber-640x480.standard'] }), /at least one artwork/],
-    ['seven artworks', () => ({ layout: 'grid', artworkIds: Array.from({ length: 7 }, () => crypto.randomUUID()), looks: ['el-amber-640x480.standard'] }), /at most 6 artworks/],
+    [
+      'seven artworks',
+      () => ({ layout: 'grid', artworkIds: Array.from({ length: 7 }, () => crypto.randomUUID()), looks: ['el-amber-640x480.standard'] }),
+      /at most 6 artworks/,
+    ],
     ['no look', () => ({ layout: 'grid', artworkIds, looks: [] }), /at least one look/],
     ['seven looks', () => ({ layout: 'grid', artworkIds, looks: Array.from({ length: 7 }, (_, k) => `look-${k}`) }), /at most 6 looks/],
-    ["another studio's artwork", () => ({ layout: 'grid', artworkIds: [otherArtworkId], looks: ['el-amber-640x480.standard'] }), /not in this studio's library/],
+    [
+      "another studio's artwork",
+      () => ({ layout: 'grid', artworkIds: [otherArtworkId], looks: ['el-amber-640x480.standard'] }),
+      /not in this studio's library/,
+    ],
     ['an unknown look', () => ({ layout: 'grid', artworkIds, looks: ['no-such-look'] }), /There is no look “no-such-look”/],
     ["another studio's preset", () => ({ layout: 'grid', artworkIds, looks: [`studio:${crypto.randomUUID()}`] }), /not in this studio/],
-    ['A/B of three looks', () => ({ layout: 'ab-diff', artworkIds, looks: ['el-amber-640x480.standard', 'el-amber-640x480.ordered', 'el-amber-640x480.line-art'] }), /exactly two looks/],
-    ['A/B of two sizes', () => ({ layout: 'ab-diff', artworkIds, looks: ['el-amber-640x480.standard', 'el-amber-320x240.standard'] }), /Choose two looks of one panel type/],
-    ['scale 5', () => ({ layout: 'grid', artworkIds, looks: ['el-amber-640x480.standard'], scale: 5 }), /scale must be a whole number from 1 to 4/],
-    ['a frame past the end', () => ({ layout: 'grid', artworkIds, looks: ['el-amber-640x480.standard'], frame: 3 }), /Frame 4 is past the end of “Ramp”/],
-    ['a sheet too large', () => ({ layout: 'side-by-side', artworkIds, looks: ['crt-amber-p3.standard', 'crt-green-p1.standard', 'crt-green-p39.standard', 'crt-white-p4.standard', 'el-amber-640x480.standard', 'el-amber-640x480.ordered'], scale: 4 }), /limit is 50 million/],
-    ['an unknown key', () => ({ layout: 'grid', artworkIds, looks: ['el-amber-640x480.standard'], studioId: crypto.randomUUID() }), /studioId/],
+    [
+      'A/B of three looks',
+      () => ({
+        layout: 'ab-diff',
+        artworkIds,
+        looks: ['el-amber-640x480.standard', 'el-amber-640x480.ordered', 'el-amber-640x480.line-art'],
+      }),
+      /exactly two looks/,
+    ],
+    [
+      'A/B of two sizes',
+      () => ({ layout: 'ab-diff', artworkIds, looks: ['el-amber-640x480.standard', 'el-amber-320x240.standard'] }),
+      /Choose two looks of one panel type/,
+    ],
+    [
+      'scale 5',
+      () => ({ layout: 'grid', artworkIds, looks: ['el-amber-640x480.standard'], scale: 5 }),
+      /scale must be a whole number from 1 to 4/,
+    ],
+    [
+      'a frame past the end',
+      () => ({ layout: 'grid', artworkIds, looks: ['el-amber-640x480.standard'], frame: 3 }),
+      /Frame 4 is past the end of “Ramp”/,
+    ],
+    [
+      'a sheet too large',
+      () => ({
+        layout: 'side-by-side',
+        artworkIds,
+        looks: [
+          'crt-amber-p3.standard',
+          'crt-green-p1.standard',
+          'crt-green-p39.standard',
+          'crt-white-p4.standard',
+          'el-amber-640x480.standard',
+          'el-amber-640x480.ordered',
+        ],
+        scale: 4,
+      }),
+      /limit is 50 million/,
+    ],
+    [
+      'an unknown key',
+      () => ({ layout: 'grid', artworkIds, looks: ['el-amber-640x480.standard'], studioId: crypto.randomUUID() }),
+      /studioId/,
+    ],
   ];
   it.each(cases)('%s', async (_what, body, message) => {
     const before = await Export.count({ where: { studioId } });
@@ -269,12 +378,16 @@ describe('bad requests are refused before anything is queued, saying what to cha
 });
 
 test('roles: viewers list and download, editors ask and change their own, owners delete anyone’s', async () => {
-  const mine = (await editor.post(url(), { layout: 'grid', artworkIds: [artworkIds[0]], looks: ['vfd-bluegreen-256x64.standard'], scale: 1 })).body.export;
+  const mine = (
+    await editor.post(url(), { layout: 'grid', artworkIds: [artworkIds[0]], looks: ['vfd-bluegreen-256x64.standard'], scale: 1 })
+  ).body.export;
   expect((await viewer.post(url(), { layout: 'grid', artworkIds, looks: ['vfd-bluegreen-256x64.standard'] })).status).toBe(403);
   expect((await viewer.get(url())).body.exports.map((e: { id: string }) => e.id)).toContain(mine.id);
   await finished(viewer, mine.id);
   expect((await viewer.delete(url(`/${mine.id}`))).status).toBe(403);
-  const owners = (await owner.post(url(), { layout: 'grid', artworkIds: [artworkIds[0]], looks: ['vfd-bluegreen-256x64.standard'], scale: 1 })).body.export;
+  const owners = (
+    await owner.post(url(), { layout: 'grid', artworkIds: [artworkIds[0]], looks: ['vfd-bluegreen-256x64.standard'], scale: 1 })
+  ).body.export;
   await finished(owner, owners.id);
   expect((await editor.delete(url(`/${owners.id}`))).status).toBe(403);
   expect((await owner.delete(url(`/${mine.id}`))).status).toBe(204);
@@ -284,7 +397,12 @@ test('roles: viewers list and download, editors ask and change their own, owners
 
 test('cancel stops an export and leaves no file; retry makes it again; a sheet not ready answers 409', async () => {
   // Six cells at scale 4 keep the job busy long enough to be caught running.
-  const res = await editor.post(url(), { layout: 'grid', artworkIds, looks: ['el-amber-640x480.standard', 'el-amber-640x480.ordered', 'el-amber-640x480.line-art'], scale: 3 });
+  const res = await editor.post(url(), {
+    layout: 'grid',
+    artworkIds,
+    looks: ['el-amber-640x480.standard', 'el-amber-640x480.ordered', 'el-amber-640x480.line-art'],
+    scale: 3,
+  });
   const id = res.body.export.id;
   const early = await editor.get(url(`/${id}/file`));
   expect(early.status).toBe(409);
@@ -307,8 +425,19 @@ test('cancel stops an export and leaves no file; retry makes it again; a sheet n
 }, 90_000);
 
 test('an artwork deleted before its job runs fails the export with the reason, and no file', async () => {
-  const doomed = (await owner.upload(`/api/studios/${studioId}/artworks`, { name: 'Doomed' }, { name: 'd.png', bytes: pngOf(16, 16, () => [200, 0, 0, 255]) })).body.artwork.id;
-  const res = await editor.post(url(), { layout: 'grid', artworkIds: [artworkIds[0], doomed], looks: ['el-amber-640x480.standard'], scale: 3 });
+  const doomed = (
+    await owner.upload(
+      `/api/studios/${studioId}/artworks`,
+      { name: 'Doomed' },
+      { name: 'd.png', bytes: pngOf(16, 16, () => [200, 0, 0, 255]) },
+    )
+  ).body.artwork.id;
+  const res = await editor.post(url(), {
+    layout: 'grid',
+    artworkIds: [artworkIds[0], doomed],
+    looks: ['el-amber-640x480.standard'],
+    scale: 3,
+  });
   expect((await owner.delete(`/api/studios/${studioId}/artworks/${doomed}`)).status).toBe(204);
   const done = await finished(editor, res.body.export.id);
   expect(done.status).toBe('failed');
@@ -322,7 +451,9 @@ const gifOf = (width: number, height: number, levels: number[], delays: number[]
   levels.forEach((v, k) => {
     for (let i = 0; i < width * height; i++) raw.set([v, v, v, 255], (k * width * height + i) * 4);
   });
-  return sharp(raw, { raw: { width, height: height * levels.length, channels: 4, pageHeight: height } }).gif({ delay: delays, loop: 0 }).toBuffer();
+  return sharp(raw, { raw: { width, height: height * levels.length, channels: 4, pageHeight: height } })
+    .gif({ delay: delays, loop: 0 })
+    .toBuffer();
 };
 
 /** The frames and delays an APNG states in its chunks [std: APNG specification 1.0, acTL and fcTL]. */
@@ -346,9 +477,11 @@ describe('animated exports', () => {
   let strobeId: string;
   beforeAll(async () => {
     const walk = await gifOf(64, 48, [40, 120, 200, 255], [100, 200, 300, 400]);
-    walkId = (await owner.upload(`/api/studios/${studioId}/artworks`, { name: 'Steps' }, { name: 'steps.gif', bytes: walk })).body.artwork.id;
+    walkId = (await owner.upload(`/api/studios/${studioId}/artworks`, { name: 'Steps' }, { name: 'steps.gif', bytes: walk })).body.artwork
+      .id;
     const strobe = await gifOf(640, 480, [255, 0, 255, 0, 255, 0, 255, 0], Array(8).fill(100));
-    strobeId = (await owner.upload(`/api/studios/${studioId}/artworks`, { name: 'Strobe' }, { name: 'strobe.gif', bytes: strobe })).body.artwork.id;
+    strobeId = (await owner.upload(`/api/studios/${studioId}/artworks`, { name: 'Strobe' }, { name: 'strobe.gif', bytes: strobe })).body
+      .artwork.id;
   });
 
   test('APNG and GIF with every frame and its delay, decoded by other code than wrote them; frame 1 equals its reference render', async () => {
@@ -371,11 +504,30 @@ describe('animated exports', () => {
     const apng = await viewer.getBytes(fileUrl(done, 'apng'));
     expect(apngFrames(apng.body)).toEqual({ frames: 4, delaysMs: [100, 200, 300, 400] });
     const first = await raw(apng.body);
-    const reference = await raw((await editor.get((await editor.post(`/api/studios/${studioId}/renders`, { artworkId: walkId, presetId: 'el-amber-320x240.standard', scale: 1, frame: 0 })).body.render.url)).body);
+    const reference = await raw(
+      (
+        await editor.get(
+          (
+            await editor.post(`/api/studios/${studioId}/renders`, {
+              artworkId: walkId,
+              presetId: 'el-amber-320x240.standard',
+              scale: 1,
+              frame: 0,
+            })
+          ).body.render.url,
+        )
+      ).body,
+    );
     expect(pixelmatch(first.data, reference.data, undefined, 320, 240, { threshold: 0 })).toBe(0);
 
     const manifest = JSON.parse((await viewer.getBytes(fileUrl(done, 'json'))).body.toString('utf8'));
-    expect(manifest).toMatchObject({ format: 'emberline.animation-manifest', frames: 4, delaysMs: [100, 200, 300, 400], look: { preset: { format: 'emberline.preset', panelTypeId: 'el-amber-320x240' } }, flashCheck: { pass: true, note: expect.stringMatching(/informs; it does not certify/) } });
+    expect(manifest).toMatchObject({
+      format: 'emberline.animation-manifest',
+      frames: 4,
+      delaysMs: [100, 200, 300, 400],
+      look: { preset: { format: 'emberline.preset', panelTypeId: 'el-amber-320x240' } },
+      flashCheck: { pass: true, note: expect.stringMatching(/informs; it does not certify/) },
+    });
   });
 
   test('the manifest prints the flash check: a full-panel strobe at 100 ms a frame fails it [std: WCAG 2.2 SC 2.3.1, five flashes a second over the whole 192 × 144 mm panel at 600 mm]', async () => {
@@ -387,7 +539,7 @@ describe('animated exports', () => {
     expect(done.animation).toMatchObject({ flash: { pass: false, generalFlashFail: true } });
   });
 
-  test('a still, an unknown look and another kind\'s format are refused with what to do', async () => {
+  test("a still, an unknown look and another kind's format are refused with what to do", async () => {
     const still = await editor.post(url('/animations'), { artworkId: artworkIds[0], look: 'el-amber-640x480.standard' });
     expect(still.status).toBe(400);
     expect(still.body.error.message).toMatch(/“Ramp” is a still \(one frame\)/);

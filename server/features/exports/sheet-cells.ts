@@ -1,4 +1,11 @@
-import { composeSheet, differenceMap, fitNearest, SHEET_LAYOUT_LABELS, type SheetCell, type SheetInput } from '../../../shared/export/sheet';
+import {
+  composeSheet,
+  differenceMap,
+  fitNearest,
+  SHEET_LAYOUT_LABELS,
+  type SheetCell,
+  type SheetInput,
+} from '../../../shared/export/sheet';
 import { PARAMS, type EnumSpec } from '../../../shared/model/parameters';
 import { legibility, lightFigures } from '../../../shared/analysis/panel-report';
 import { panelEmission, PIPELINE_VERSION } from '../../../shared/pipeline/render';
@@ -24,7 +31,6 @@ function renderLines(look: SheetSpec['looks'][number], artworkName: string): str
   ];
 }
 
-
 /** The analysis of one cell (the frame's emission through the look). */
 export function cellReport(frames: readonly Frame[], look: SheetSpec['looks'][number], frame: number): CellReport {
   const emission = panelEmission(frames, look.parameters, frame);
@@ -36,7 +42,9 @@ export function cellReport(frames: readonly Frame[], look: SheetSpec['looks'][nu
 function reportLines(r: CellReport): string[] {
   const { legibility: l, light } = r;
   return [
-    l.edges ? `legibility ${Math.round(l.score * 100)} % of one-cell contrast · ${(l.lostShare * 100).toFixed(1)} % of detail lost` : 'legibility: no one-cell detail in this frame',
+    l.edges
+      ? `legibility ${Math.round(l.score * 100)} % of one-cell contrast · ${(l.lostShare * 100).toFixed(1)} % of detail lost`
+      : 'legibility: no one-cell detail in this frame',
     `${light.meanCdM2.toFixed(1)} cd/m² mean · ${light.peakCdM2.toFixed(0)} peak · ${(light.litShare * 100).toFixed(1)} % lit · power ${(light.relativePower * 100).toFixed(1)} %`,
   ];
 }
@@ -48,15 +56,32 @@ const pxPerMm = (look: SheetSpec['looks'][number], scale: number) => scale / loo
  * The cells of a sheet from its renders (renders[artwork][look]) and the artworks' frames, by
  * layout: a grid of renders; the original then each look; or A, B and their difference map.
  */
-export function sheetInput(spec: SheetSpec, title: string, renders: RgbaImage[][], originals: RgbaImage[], made: { at: Date; by: string }, reports: CellReport[][] | null = null): { input: SheetInput; figures: ExportDto['figures'] } {
+export function sheetInput(
+  spec: SheetSpec,
+  title: string,
+  renders: RgbaImage[][],
+  originals: RgbaImage[],
+  made: { at: Date; by: string },
+  reports: CellReport[][] | null = null,
+): { input: SheetInput; figures: ExportDto['figures'] } {
   const figures: NonNullable<ExportDto['figures']> = [];
   const rows: SheetCell[][] = spec.artworks.map((artwork, r) => {
-    const rendered = spec.looks.map((look, l): SheetCell => ({ image: renders[r][l], lines: [...renderLines(look, artwork.name), ...(reports ? reportLines(reports[r][l]) : [])], pxPerMm: pxPerMm(look, spec.scale) }));
+    const rendered = spec.looks.map((look, l): SheetCell => ({
+      image: renders[r][l],
+      lines: [...renderLines(look, artwork.name), ...(reports ? reportLines(reports[r][l]) : [])],
+      pxPerMm: pxPerMm(look, spec.scale),
+    }));
     if (spec.layout === 'grid') return rendered;
     if (spec.layout === 'side-by-side') {
       const box = renders[r][0];
       const original = originals[r];
-      return [{ image: fitNearest(original, box.width, box.height), lines: ['Original', artwork.name, `${original.width} × ${original.height} px, as drawn`] }, ...rendered];
+      return [
+        {
+          image: fitNearest(original, box.width, box.height),
+          lines: ['Original', artwork.name, `${original.width} × ${original.height} px, as drawn`],
+        },
+        ...rendered,
+      ];
     }
     const { image, diff } = differenceMap(renders[r][0], renders[r][1]);
     figures.push({ artworkName: artwork.name, differing: diff.differing, pixels: diff.pixels, maxChannel: diff.maxChannel });
@@ -64,7 +89,15 @@ export function sheetInput(spec: SheetSpec, title: string, renders: RgbaImage[][
     return [
       { ...rendered[0], lines: [`A: ${rendered[0].lines[0]}`, ...rendered[0].lines.slice(1)] },
       { ...rendered[1], lines: [`B: ${rendered[1].lines[0]}`, ...rendered[1].lines.slice(1)] },
-      { image, lines: ['Difference A/B', `${diff.differing.toLocaleString('en')} pixels differ (${share.toFixed(share < 1 ? 3 : 1)} %)`, `largest channel difference ${diff.maxChannel}`], pxPerMm: pxPerMm(spec.looks[0], spec.scale) },
+      {
+        image,
+        lines: [
+          'Difference A/B',
+          `${diff.differing.toLocaleString('en')} pixels differ (${share.toFixed(share < 1 ? 3 : 1)} %)`,
+          `largest channel difference ${diff.maxChannel}`,
+        ],
+        pxPerMm: pxPerMm(spec.looks[0], spec.scale),
+      },
     ];
   });
   const date = made.at.toISOString().slice(0, 16).replace('T', ' ');
@@ -72,7 +105,10 @@ export function sheetInput(spec: SheetSpec, title: string, renders: RgbaImage[][
     input: {
       title,
       subtitle: `${SHEET_LAYOUT_LABELS[spec.layout]} · ${plural(spec.artworks.length, 'artwork')} × ${plural(spec.looks.length, 'look')} · frame ${spec.frame + 1} · ${spec.scale} px a cell pitch`,
-      footer: [`${spec.studioName} · ${date} UTC · made by ${made.by}`, `Emberline panel model v${PIPELINE_VERSION} · scale bars in mm of panel`],
+      footer: [
+        `${spec.studioName} · ${date} UTC · made by ${made.by}`,
+        `Emberline panel model v${PIPELINE_VERSION} · scale bars in mm of panel`,
+      ],
       rows,
     },
     figures: spec.layout === 'ab-diff' ? figures : null,
@@ -93,7 +129,9 @@ export interface SheetWork {
 }
 
 /** Renders every cell in order and puts the sheet together: its files by format; null when beforeStep said stop. */
-export async function makeSheet(work: SheetWork): Promise<{ files: Partial<Record<ExportFormat, Buffer>>; width: number; height: number; figures: ExportDto['figures'] } | null> {
+export async function makeSheet(
+  work: SheetWork,
+): Promise<{ files: Partial<Record<ExportFormat, Buffer>>; width: number; height: number; figures: ExportDto['figures'] } | null> {
   const { spec } = work;
   const cells = spec.artworks.length * spec.looks.length;
   const renders: RgbaImage[][] = [];
@@ -126,6 +164,11 @@ export async function makeSheet(work: SheetWork): Promise<{ files: Partial<Recor
   const { input, figures } = sheetInput(spec, work.title, renders, originals, work.made, spec.report ? reports : null);
   const { image } = composeSheet(input);
   const png = await encodePng(image);
-  const [pdf, zip] = await Promise.all([sheetPdf(spec, work.title, work.made, { png, width: image.width, height: image.height }, figures), Promise.all(singles.map((row) => Promise.all(row))).then((cells) => rendersZip(spec, work.title, work.made.at, cells, figures, spec.report ? reports : null))]);
+  const [pdf, zip] = await Promise.all([
+    sheetPdf(spec, work.title, work.made, { png, width: image.width, height: image.height }, figures),
+    Promise.all(singles.map((row) => Promise.all(row))).then((cells) =>
+      rendersZip(spec, work.title, work.made.at, cells, figures, spec.report ? reports : null),
+    ),
+  ]);
   return { files: { png, pdf, zip }, width: image.width, height: image.height, figures };
 }

@@ -22,7 +22,11 @@ describe('WOFF 1.0 → sfnt [std: W3C WOFF File Format 1.0; OpenType 1.9 table d
       expect(sfnt.readUInt32BE(0)).toBe(woff.readUInt32BE(4));
       // searchRange = 16 · 2^⌊log2 n⌋, entrySelector = ⌊log2 n⌋, rangeShift = 16n − searchRange.
       const pow = 2 ** Math.floor(Math.log2(numTables));
-      expect([sfnt.readUInt16BE(6), sfnt.readUInt16BE(8), sfnt.readUInt16BE(10)]).toEqual([16 * pow, Math.log2(pow), 16 * numTables - 16 * pow]);
+      expect([sfnt.readUInt16BE(6), sfnt.readUInt16BE(8), sfnt.readUInt16BE(10)]).toEqual([
+        16 * pow,
+        Math.log2(pow),
+        16 * numTables - 16 * pow,
+      ]);
       // The total size the WOFF header promises for the unpacked font.
       expect(sfnt.length).toBe(woff.readUInt32BE(16));
       for (let i = 0; i < numTables; i++) {

@@ -63,18 +63,32 @@ export function woffToSfnt(woff: Buffer): Buffer {
 const PDF_DPI = 150;
 
 /** A name safe in a ZIP on any system: letters, digits, spaces, dots and dashes. */
-const safe = (s: string) => s.replace(/[^\w .-]+/g, '_').replace(/\s+/g, ' ').trim().slice(0, 60) || 'untitled';
+const safe = (s: string) =>
+  s
+    .replace(/[^\w .-]+/g, '_')
+    .replace(/\s+/g, ' ')
+    .trim()
+    .slice(0, 60) || 'untitled';
 
 /** The renders' file names in the ZIP, by row then column: "r1-c2 Title screen - Soft glow.png". */
 export function renderFileNames(spec: SheetSpec): string[][] {
-  return spec.artworks.map((a, r) => spec.looks.map((l, c) => `renders/r${r + 1}-c${c + 1} ${safe(a.name)} - ${safe(l.name)}${l.revision ? ` r${l.revision}` : ''}.png`));
+  return spec.artworks.map((a, r) =>
+    spec.looks.map((l, c) => `renders/r${r + 1}-c${c + 1} ${safe(a.name)} - ${safe(l.name)}${l.revision ? ` r${l.revision}` : ''}.png`),
+  );
 }
 
 /**
  * The single renders as PNG files and a manifest.json that says what each is: artwork, look (a
  * preset document, the format of preset export and import) and size, with the sheet's figures.
  */
-export async function rendersZip(spec: SheetSpec, title: string, createdAt: Date, renders: { png: Buffer; width: number; height: number }[][], figures: ExportDto['figures'], reports: CellReport[][] | null = null): Promise<Buffer> {
+export async function rendersZip(
+  spec: SheetSpec,
+  title: string,
+  createdAt: Date,
+  renders: { png: Buffer; width: number; height: number }[][],
+  figures: ExportDto['figures'],
+  reports: CellReport[][] | null = null,
+): Promise<Buffer> {
   const names = renderFileNames(spec);
   const manifest = {
     format: MANIFEST_FORMAT,
@@ -119,22 +133,50 @@ export async function rendersZip(spec: SheetSpec, title: string, createdAt: Date
  * The sheet as a one-page PDF for clients: the title and what the sheet shows in real text (Inter,
  * shipped with the app and embedded), the sheet image at 150 pixels per inch, and a note on scale.
  */
-export async function sheetPdf(spec: SheetSpec, title: string, made: { at: Date; by: string }, sheet: { png: Buffer; width: number; height: number }, figures: ExportDto['figures']): Promise<Buffer> {
+export async function sheetPdf(
+  spec: SheetSpec,
+  title: string,
+  made: { at: Date; by: string },
+  sheet: { png: Buffer; width: number; height: number },
+  figures: ExportDto['figures'],
+): Promise<Buffer> {
   const margin = 36;
   const imageWidth = (sheet.width * 72) / PDF_DPI;
   const imageHeight = (sheet.height * 72) / PDF_DPI;
   const textBlock = 96 + (figures?.length ?? 0) * 14;
-  const doc = new PDFDocument({ size: [imageWidth + 2 * margin, imageHeight + 2 * margin + textBlock], margin, info: { Title: title, Author: made.by, Subject: `${SHEET_LAYOUT_LABELS[spec.layout]} (Emberline comparison sheet)`, Creator: 'Emberline', CreationDate: made.at } });
+  const doc = new PDFDocument({
+    size: [imageWidth + 2 * margin, imageHeight + 2 * margin + textBlock],
+    margin,
+    info: {
+      Title: title,
+      Author: made.by,
+      Subject: `${SHEET_LAYOUT_LABELS[spec.layout]} (Emberline comparison sheet)`,
+      Creator: 'Emberline',
+      CreationDate: made.at,
+    },
+  });
   const chunks: Buffer[] = [];
   doc.on('data', (d: Buffer) => chunks.push(d));
   const finished = new Promise<void>((resolve) => doc.on('end', () => resolve()));
   doc.registerFont('Inter', INTER);
   doc.font('Inter').fontSize(20).fillColor('#1b1714').text(title, { width: imageWidth });
   doc.fontSize(10).fillColor('#5b524a');
-  doc.text(`${spec.studioName} · ${SHEET_LAYOUT_LABELS[spec.layout]} · ${spec.artworks.length} × ${spec.looks.length} cells · frame ${spec.frame + 1} · made by ${made.by}, ${made.at.toISOString().slice(0, 16).replace('T', ' ')} UTC`, { width: imageWidth });
-  doc.text(`Looks: ${spec.looks.map((l) => `${l.name}${l.revision ? ` r${l.revision}` : ''} (${l.panelTypeName})`).join('; ')}`, { width: imageWidth });
-  for (const f of figures ?? []) doc.text(`${f.artworkName}: ${f.differing.toLocaleString('en')} of ${f.pixels.toLocaleString('en')} pixels differ; largest channel difference ${f.maxChannel}`, { width: imageWidth });
-  doc.text(`Rendered at ${spec.scale} px a cell pitch and placed at ${PDF_DPI} px an inch: the scale bars under the cells measure millimetres of panel. Emberline panel model v${PIPELINE_VERSION}.`, { width: imageWidth });
+  doc.text(
+    `${spec.studioName} · ${SHEET_LAYOUT_LABELS[spec.layout]} · ${spec.artworks.length} × ${spec.looks.length} cells · frame ${spec.frame + 1} · made by ${made.by}, ${made.at.toISOString().slice(0, 16).replace('T', ' ')} UTC`,
+    { width: imageWidth },
+  );
+  doc.text(`Looks: ${spec.looks.map((l) => `${l.name}${l.revision ? ` r${l.revision}` : ''} (${l.panelTypeName})`).join('; ')}`, {
+    width: imageWidth,
+  });
+  for (const f of figures ?? [])
+    doc.text(
+      `${f.artworkName}: ${f.differing.toLocaleString('en')} of ${f.pixels.toLocaleString('en')} pixels differ; largest channel difference ${f.maxChannel}`,
+      { width: imageWidth },
+    );
+  doc.text(
+    `Rendered at ${spec.scale} px a cell pitch and placed at ${PDF_DPI} px an inch: the scale bars under the cells measure millimetres of panel. Emberline panel model v${PIPELINE_VERSION}.`,
+    { width: imageWidth },
+  );
   doc.image(sheet.png, margin, margin + textBlock, { width: imageWidth, height: imageHeight });
   doc.end();
   await finished;

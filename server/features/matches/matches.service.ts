@@ -61,7 +61,11 @@ export class MatchesService {
    * a C header) that drives each cell at its pattern level, packed at the fewest bits a cell that
    * hold the look's gray levels.
    */
-  async pattern(studioId: string, look: string, format: 'png' | FrameDataFormat = 'png'): Promise<{ bytes: Buffer; fileName: string; contentType: string }> {
+  async pattern(
+    studioId: string,
+    look: string,
+    format: 'png' | FrameDataFormat = 'png',
+  ): Promise<{ bytes: Buffer; fileName: string; contentType: string }> {
     const spec = await resolveLook(studioId, look, 'look');
     let layout: MatchLayout;
     try {
@@ -81,7 +85,11 @@ export class MatchesService {
       throw new AppError(400, 'invalid_input', `The pattern cannot be packed as frame data for this panel: ${(err as Error).message}.`);
     }
     const info = FRAME_DATA_FORMAT_INFO[format];
-    return { bytes: Buffer.from(encodeFrameData(data, format, name.replace(/-/g, '_'))), fileName: `${name}.${info.extension}`, contentType: info.type };
+    return {
+      bytes: Buffer.from(encodeFrameData(data, format, name.replace(/-/g, '_'))),
+      fileName: `${name}.${info.extension}`,
+      contentType: info.type,
+    };
   }
 
   async create(actor: MatchActor, photo: Buffer, fileName: string, fields: MatchUpload): Promise<MatchDto> {
@@ -123,7 +131,10 @@ export class MatchesService {
   /** The photo upright (as its EXIF orientation says), as a JPEG for placing the marks on. */
   async photo(studioId: string, id: string): Promise<Buffer> {
     const row = await this.row(studioId, id);
-    return sharp(await this.blobs.get(photoKey(row.id)), { limitInputPixels: MAX_PHOTO_PIXELS }).rotate().jpeg({ quality: 88 }).toBuffer();
+    return sharp(await this.blobs.get(photoKey(row.id)), { limitInputPixels: MAX_PHOTO_PIXELS })
+      .rotate()
+      .jpeg({ quality: 88 })
+      .toBuffer();
   }
 
   /** Output pixels a pitch of the previews: the panel at most 1280 px wide. */
@@ -135,7 +146,9 @@ export class MatchesService {
   async rectified(studioId: string, id: string): Promise<Buffer> {
     const row = await this.row(studioId, id);
     if (!row.marks) throw new AppError(409, 'no_marks', 'Place the four marks on the corner squares first.');
-    return encodePng(await this.engine.rectifyPhoto(await this.decodedPhoto(row.id), row.marks, row.look.parameters, this.previewScale(row)));
+    return encodePng(
+      await this.engine.rectifyPhoto(await this.decodedPhoto(row.id), row.marks, row.look.parameters, this.previewScale(row)),
+    );
   }
 
   /** The pattern as the look shows it (a reference render, source stage neutral so every cell gets its pattern level), at the rectified photo's size. */
@@ -155,7 +168,8 @@ export class MatchesService {
 
   async setMarks(actor: MatchActor, id: string, marks: Point[]): Promise<MatchDto> {
     const row = await this.own(actor, id);
-    if (row.status === 'queued' || row.status === 'running') throw new AppError(409, 'busy', 'The fit is running; wait for it before moving the marks.');
+    if (row.status === 'queued' || row.status === 'running')
+      throw new AppError(409, 'busy', 'The fit is running; wait for it before moving the marks.');
     try {
       checkMarks(marks, row.photoWidth, row.photoHeight);
     } catch (err) {
@@ -170,7 +184,10 @@ export class MatchesService {
   async fit(actor: MatchActor, id: string): Promise<MatchDto> {
     const row = await this.own(actor, id);
     if (!row.marks) throw new AppError(409, 'no_marks', 'Place the four marks on the corner squares first.');
-    const [count] = await PanelMatch.update({ status: 'queued', progress: 0, step: 'Waiting for a worker', error: null, result: null }, { where: { id: row.id, status: { [Op.in]: ['marking', 'done', 'failed'] } } });
+    const [count] = await PanelMatch.update(
+      { status: 'queued', progress: 0, step: 'Waiting for a worker', error: null, result: null },
+      { where: { id: row.id, status: { [Op.in]: ['marking', 'done', 'failed'] } } },
+    );
     if (count === 0) throw new AppError(409, 'busy', 'The fit is already waiting or running.');
     await this.jobs.send(QUEUES.matches, { matchId: row.id } satisfies MatchJob);
     await row.reload();
@@ -178,13 +195,20 @@ export class MatchesService {
   }
 
   /** Saves the fitted parameters as a new studio preset, or as a new revision of the studio preset the fit started from. */
-  async save(actor: MatchActor, id: string, as: ({ name: string } | { revisionOfLook: true }) & { levelCurve?: boolean }): Promise<{ presetId: string; match: MatchDto }> {
+  async save(
+    actor: MatchActor,
+    id: string,
+    as: ({ name: string } | { revisionOfLook: true }) & { levelCurve?: boolean },
+  ): Promise<{ presetId: string; match: MatchDto }> {
     const row = await this.own(actor, id);
     if (row.status !== 'done' || !row.result) throw new AppError(409, 'not_ready', 'Only a finished fit can be saved.');
     let parameters = row.result.parameters;
     if (as.levelCurve) {
       try {
-        parameters = { ...parameters, drive: { ...parameters.drive, levelSpacing: 'table', dutyTable: dutyTableFromLevels(row.result.levels) } };
+        parameters = {
+          ...parameters,
+          drive: { ...parameters.drive, levelSpacing: 'table', dutyTable: dutyTableFromLevels(row.result.levels) },
+        };
       } catch (err) {
         throw new AppError(422, 'no_level_curve', (err as Error).message);
       }
@@ -194,7 +218,12 @@ export class MatchesService {
     if ('name' in as) {
       presetId = (await this.presets.create(actor, { name: as.name, panelTypeId: row.look.panelTypeId, parameters }, { message })).id;
     } else {
-      if (!row.look.id.startsWith('studio:')) throw new AppError(409, 'not_a_studio_preset', 'The fit started from a built-in look, which cannot take revisions: save it as a new preset.');
+      if (!row.look.id.startsWith('studio:'))
+        throw new AppError(
+          409,
+          'not_a_studio_preset',
+          'The fit started from a built-in look, which cannot take revisions: save it as a new preset.',
+        );
       presetId = row.look.id.slice('studio:'.length);
       const current = await Preset.findOne({ where: { id: presetId, studioId: actor.studioId } });
       if (!current) throw notFound('The preset the fit started from');
@@ -229,7 +258,11 @@ export class MatchesService {
           photo,
           marks: row.marks,
           base: row.look.parameters,
-          options: { camera: row.cameraGamma ? { kind: 'gamma', gamma: row.cameraGamma } : { kind: 'srgb' }, activeWidthMm: row.activeWidthMm, activeHeightMm: row.activeHeightMm },
+          options: {
+            camera: row.cameraGamma ? { kind: 'gamma', gamma: row.cameraGamma } : { kind: 'srgb' },
+            activeWidthMm: row.activeWidthMm,
+            activeHeightMm: row.activeHeightMm,
+          },
         },
         (share, step) => {
           if (share - last < 0.04) return;
@@ -246,7 +279,8 @@ export class MatchesService {
       await row.update({ status: 'done', progress: 1, step: 'Fitted', result, marks: result.marks });
       await record(row.studioId, row.createdById, 'match.fitted', `fitted “${row.look.name}” to the photo “${row.photoName}”`);
     } catch (err) {
-      const message = err instanceof MatchRefusal || err instanceof AppError ? err.message : 'The fit failed on our side and was logged. Try again.';
+      const message =
+        err instanceof MatchRefusal || err instanceof AppError ? err.message : 'The fit failed on our side and was logged. Try again.';
       if (!(err instanceof AppError)) console.error(`[matches] ${row.id}: ${(err as Error).message}`);
       await row.update({ status: 'failed', step: 'Could not fit', error: message });
     }
@@ -254,8 +288,16 @@ export class MatchesService {
 
   /** A match's photo, upright (by its EXIF orientation), as RGBA: what the fit and the previews read. */
   private async decodedPhoto(id: string): Promise<RgbaImage> {
-    const decoded = await sharp(await this.blobs.get(photoKey(id)), { limitInputPixels: MAX_PHOTO_PIXELS }).rotate().ensureAlpha().raw().toBuffer({ resolveWithObject: true });
-    return { width: decoded.info.width, height: decoded.info.height, data: new Uint8Array(decoded.data.buffer, decoded.data.byteOffset, decoded.data.length) };
+    const decoded = await sharp(await this.blobs.get(photoKey(id)), { limitInputPixels: MAX_PHOTO_PIXELS })
+      .rotate()
+      .ensureAlpha()
+      .raw()
+      .toBuffer({ resolveWithObject: true });
+    return {
+      width: decoded.info.width,
+      height: decoded.info.height,
+      data: new Uint8Array(decoded.data.buffer, decoded.data.byteOffset, decoded.data.length),
+    };
   }
 
   private async row(studioId: string, id: string): Promise<PanelMatch> {
@@ -267,7 +309,8 @@ export class MatchesService {
   /** A match the actor may change: their own, or anyone's as an owner. */
   private async own(actor: MatchActor, id: string): Promise<PanelMatch> {
     const row = await this.row(actor.studioId, id);
-    if (row.createdById !== actor.userId && actor.role !== 'owner') throw forbidden('Only its maker or a studio owner can change this match.');
+    if (row.createdById !== actor.userId && actor.role !== 'owner')
+      throw forbidden('Only its maker or a studio owner can change this match.');
     return row;
   }
 
@@ -295,7 +338,11 @@ export class MatchesService {
 
 /** A look with its source stage neutral and no dither, so the pattern image drives every cell at exactly its pattern level. */
 function patternLook(p: PanelParams): PanelParams {
-  return { ...p, source: { ...p.source, fit: 'native', luma: 'rec709', brightness: 0, contrast: 1, gamma: 1, invert: false, threshold: 0 }, drive: { ...p.drive, dither: 'none' } };
+  return {
+    ...p,
+    source: { ...p.source, fit: 'native', luma: 'rec709', brightness: 0, contrast: 1, gamma: 1, invert: false, threshold: 0 },
+    drive: { ...p.drive, dither: 'none' },
+  };
 }
 
 async function names(ids: (string | null)[]): Promise<Map<string, string>> {
@@ -313,16 +360,29 @@ async function photoSize(bytes: Buffer): Promise<{ width: number; height: number
     // An ISO media file whose brand is HEVC-coded HEIF: the image library here reads AVIF, not HEVC.
     const brand = bytes.subarray(4, 12).toString('latin1');
     if (/^ftyp(heic|heix|hevc|hevx|mif1|msf1)/.test(brand)) {
-      throw new AppError(415, 'heic_not_supported', 'HEIC photos (the default on many phones) cannot be read here. Set the camera to JPEG (“Most Compatible”), or export the photo as JPEG, and upload that.');
+      throw new AppError(
+        415,
+        'heic_not_supported',
+        'HEIC photos (the default on many phones) cannot be read here. Set the camera to JPEG (“Most Compatible”), or export the photo as JPEG, and upload that.',
+      );
     }
     throw new AppError(400, 'unreadable_image', 'The photo could not be read as an image. Send the camera’s JPEG, or a PNG, WebP or AVIF.');
   }
   const turned = (meta.orientation ?? 1) >= 5;
   const width = (turned ? meta.height : meta.width) ?? 0;
   const height = (turned ? meta.width : meta.height) ?? 0;
-  if (width * height > MAX_PHOTO_PIXELS) throw new AppError(413, 'photo_too_large', `The photo is ${width} × ${height} pixels; the limit is ${MAX_PHOTO_PIXELS / 1e6} megapixels. Send a smaller version.`);
+  if (width * height > MAX_PHOTO_PIXELS)
+    throw new AppError(
+      413,
+      'photo_too_large',
+      `The photo is ${width} × ${height} pixels; the limit is ${MAX_PHOTO_PIXELS / 1e6} megapixels. Send a smaller version.`,
+    );
   if (Math.max(width, height) < MIN_PHOTO.width || Math.min(width, height) < MIN_PHOTO.height) {
-    throw new AppError(422, 'photo_too_small', `The photo is ${width} × ${height} pixels; at least ${MIN_PHOTO.width} × ${MIN_PHOTO.height} are needed to see the cells. Send the camera's full-size photo.`);
+    throw new AppError(
+      422,
+      'photo_too_small',
+      `The photo is ${width} × ${height} pixels; at least ${MIN_PHOTO.width} × ${MIN_PHOTO.height} are needed to see the cells. Send the camera's full-size photo.`,
+    );
   }
   return { width, height };
 }
@@ -347,7 +407,12 @@ async function residualPng(photo: Rectified, model: Rectified): Promise<Buffer> 
       put(0, [p, p, p]);
       put(width + gap, [m, m, m]);
       const d = spread > 0 ? (photo.data[i] - model.data[i]) / spread : 0;
-      put(2 * (width + gap), d >= 0 ? [128 + Math.round(127 * d), 128 - Math.round(90 * d), 128 - Math.round(90 * d)] : [128 + Math.round(90 * d), 128 + Math.round(90 * d), 128 - Math.round(127 * d)]);
+      put(
+        2 * (width + gap),
+        d >= 0
+          ? [128 + Math.round(127 * d), 128 - Math.round(90 * d), 128 - Math.round(90 * d)]
+          : [128 + Math.round(90 * d), 128 + Math.round(90 * d), 128 - Math.round(127 * d)],
+      );
     }
   }
   return encodePng(out);

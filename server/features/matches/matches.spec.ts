@@ -36,7 +36,12 @@ beforeAll(async () => {
   ]);
   // About 4.6 photo pixels a cell, in perspective, with lens blur, sensor noise and JPEG (made in a worker: shared/testing/match-fixtures.ts).
   const { truth, shot } = handheldShot(3);
-  photo = await inWorker<Awaited<ReturnType<typeof syntheticJpeg>>>(require.resolve('../../../shared/testing/match-fixtures'), 'syntheticJpeg', truth, shot);
+  photo = await inWorker<Awaited<ReturnType<typeof syntheticJpeg>>>(
+    require.resolve('../../../shared/testing/match-fixtures'),
+    'syntheticJpeg',
+    truth,
+    shot,
+  );
 }, 120_000);
 afterAll(() => h.close());
 
@@ -71,7 +76,14 @@ test('the pattern downloads as frame data that drives each cell at its pattern l
   expect(res.body.length).toBe(9600);
   const layout = patternFor(base);
   const bit = (x: number, y: number) => (res.body[(y * 320 + x) >> 3] >> (7 - ((y * 320 + x) & 7))) & 1;
-  for (const [x, y] of [[0, 0], [layout.fiducialSize - 1, 0], [layout.fiducialSize, 0], [319, 239], [layout.full.x + 3, layout.full.y + 3], [layout.ramp[0].x + 2, layout.ramp[0].y + 2]]) {
+  for (const [x, y] of [
+    [0, 0],
+    [layout.fiducialSize - 1, 0],
+    [layout.fiducialSize, 0],
+    [319, 239],
+    [layout.full.x + 3, layout.full.y + 3],
+    [layout.ramp[0].x + 2, layout.ramp[0].y + 2],
+  ]) {
     expect(bit(x, y)).toBe(layout.levels[y * 320 + x]);
   }
   const header = await viewer.getBytes(url(`/pattern?look=${LOOK}&format=c`));
@@ -83,7 +95,12 @@ test('upload, marks, fit on the pool with progress, result, residual image, save
   const up = await editor.upload(url(), { look: LOOK }, { name: 'panel.jpg', bytes: Buffer.from(photo.jpeg) });
   expect(up.status).toBe(201);
   const id = up.body.match.id;
-  expect(up.body.match).toMatchObject({ status: 'marking', photo: { width: 1600, height: 1250 }, activeWidthMm: 115.2, activeHeightMm: 86.4 });
+  expect(up.body.match).toMatchObject({
+    status: 'marking',
+    photo: { width: 1600, height: 1250 },
+    activeWidthMm: 115.2,
+    activeHeightMm: 86.4,
+  });
   // Marks as a hand places them: a few pixels off each square's centre.
   const marks = photo.fiducials.map(([x, y], i) => [x + (i % 2 ? 3 : -3), y + 2]);
   expect((await editor.send('put', url(`/${id}/marks`), { marks })).status).toBe(200);
@@ -117,13 +134,50 @@ test('upload, marks, fit on the pool with progress, result, residual image, save
   expect((await editor.post(url(`/${id}/save`), { revisionOfLook: true })).body.error.code).toBe('not_a_studio_preset');
 }, 120_000);
 
-test('a fit that started from a studio preset can be saved as that preset\'s next revision', async () => {
+test("a fit that started from a studio preset can be saved as that preset's next revision", async () => {
   const made = await editor.post(`/api/studios/${studioId}/presets`, { name: 'Handheld panel', panelTypeId: 'el-amber-320x240' });
   expect(made.status).toBe(201);
   const presetId = made.body.preset.id;
   const fittedParams = mergeParams(made.body.preset.parameters, { glass: { glowRadiusMm: 0.41 } });
   const editorId = (await editor.get('/api/auth/me')).body.user.id;
-  const row = await PanelMatch.create({ studioId, createdById: editorId, look: { id: `studio:${presetId}`, name: 'Handheld panel', revision: 1, panelTypeId: 'el-amber-320x240', panelTypeName: 'Amber EL 320 × 240', parameters: made.body.preset.parameters }, photoName: 'p.jpg', photoWidth: 1600, photoHeight: 1250, activeWidthMm: 115.2, activeHeightMm: 86.4, cameraGamma: null, marks: photo.fiducials, status: 'done', result: { parameters: fittedParams, fitted: [], levels: [], quality: { agreement: 1, rmsResidual: 0, pixelsPerCell: 4, clippedShare: 0, crushedShare: 0, marksMovedPx: [0, 0, 0, 0], periodCells: [2, 2], iterations: 1 }, cameraBlurMm: 0, notDetermined: [], marks: photo.fiducials } });
+  const row = await PanelMatch.create({
+    studioId,
+    createdById: editorId,
+    look: {
+      id: `studio:${presetId}`,
+      name: 'Handheld panel',
+      revision: 1,
+      panelTypeId: 'el-amber-320x240',
+      panelTypeName: 'Amber EL 320 × 240',
+      parameters: made.body.preset.parameters,
+    },
+    photoName: 'p.jpg',
+    photoWidth: 1600,
+    photoHeight: 1250,
+    activeWidthMm: 115.2,
+    activeHeightMm: 86.4,
+    cameraGamma: null,
+    marks: photo.fiducials,
+    status: 'done',
+    result: {
+      parameters: fittedParams,
+      fitted: [],
+      levels: [],
+      quality: {
+        agreement: 1,
+        rmsResidual: 0,
+        pixelsPerCell: 4,
+        clippedShare: 0,
+        crushedShare: 0,
+        marksMovedPx: [0, 0, 0, 0],
+        periodCells: [2, 2],
+        iterations: 1,
+      },
+      cameraBlurMm: 0,
+      notDetermined: [],
+      marks: photo.fiducials,
+    },
+  });
   const saved = await editor.post(url(`/${row.id}/save`), { revisionOfLook: true });
   expect(saved.status).toBe(201);
   expect(saved.body.presetId).toBe(presetId);
@@ -134,9 +188,47 @@ test('a fit that started from a studio preset can be saved as that preset\'s nex
 test('a fit saved with its measured level curve gives the preset a duty table (each level over full on); a curve that does not rise is refused with the level', async () => {
   const editorId = (await editor.get('/api/auth/me')).body.user.id;
   const base = builtInPresetById('el-amber-320x240.standard')!.parameters;
-  const measured = (values: number[]) => values.map((m, k) => ({ level: k, expected: k / (values.length - 1), measured: m, uncertainty: 0.01 }));
+  const measured = (values: number[]) =>
+    values.map((m, k) => ({ level: k, expected: k / (values.length - 1), measured: m, uncertainty: 0.01 }));
   const done = (levels: ReturnType<typeof measured>) =>
-    PanelMatch.create({ studioId, createdById: editorId, look: { id: 'builtin:el-amber-320x240.standard', name: 'Standard', revision: 0, panelTypeId: 'el-amber-320x240', panelTypeName: 'Amber EL 320 × 240', parameters: base }, photoName: 'p.jpg', photoWidth: 1600, photoHeight: 1250, activeWidthMm: 115.2, activeHeightMm: 86.4, cameraGamma: null, marks: photo.fiducials, status: 'done', result: { parameters: base, fitted: [], levels, quality: { agreement: 1, rmsResidual: 0, pixelsPerCell: 4, clippedShare: 0, crushedShare: 0, marksMovedPx: [0, 0, 0, 0], periodCells: [2, 2], iterations: 1 }, cameraBlurMm: 0, notDetermined: [], marks: photo.fiducials } });
+    PanelMatch.create({
+      studioId,
+      createdById: editorId,
+      look: {
+        id: 'builtin:el-amber-320x240.standard',
+        name: 'Standard',
+        revision: 0,
+        panelTypeId: 'el-amber-320x240',
+        panelTypeName: 'Amber EL 320 × 240',
+        parameters: base,
+      },
+      photoName: 'p.jpg',
+      photoWidth: 1600,
+      photoHeight: 1250,
+      activeWidthMm: 115.2,
+      activeHeightMm: 86.4,
+      cameraGamma: null,
+      marks: photo.fiducials,
+      status: 'done',
+      result: {
+        parameters: base,
+        fitted: [],
+        levels,
+        quality: {
+          agreement: 1,
+          rmsResidual: 0,
+          pixelsPerCell: 4,
+          clippedShare: 0,
+          crushedShare: 0,
+          marksMovedPx: [0, 0, 0, 0],
+          periodCells: [2, 2],
+          iterations: 1,
+        },
+        cameraBlurMm: 0,
+        notDetermined: [],
+        marks: photo.fiducials,
+      },
+    });
   const good = await done(measured([0.01, 0.1, 0.42, 0.98]));
   const saved = await editor.post(url(`/${good.id}/save`), { name: 'Measured levels', levelCurve: true });
   expect(saved.status).toBe(201);
@@ -151,7 +243,9 @@ test('a fit saved with its measured level curve gives the preset a duty table (e
   // Saved without it, the fit keeps the look's own level spacing.
   const plain = await editor.post(url(`/${flat.id}/save`), { name: 'Flat levels' });
   expect(plain.status).toBe(201);
-  expect((await viewer.get(`/api/studios/${studioId}/presets/${plain.body.presetId}`)).body.preset.parameters.drive.levelSpacing).toBe('linear');
+  expect((await viewer.get(`/api/studios/${studioId}/presets/${plain.body.presetId}`)).body.preset.parameters.drive.levelSpacing).toBe(
+    'linear',
+  );
 });
 
 test('marks that cannot be the corners are refused with the reason; a photo too small is refused on upload', async () => {

@@ -35,11 +35,19 @@ const names = async (ids: (string | null)[], transaction?: Transaction): Promise
 export const presetListCache = new ReadCache<{ presets: PresetDto[]; total: number }>('preset-lists', 5_000, { maxEntries: 2_000 });
 
 export class PresetsService {
-  list(studioId: string, q: { panelTypeId?: string; search?: string; sort: string; page: number; pageSize: number }): Promise<{ presets: PresetDto[]; total: number }> {
-    return presetListCache.read(JSON.stringify([studioId, q.panelTypeId ?? '', q.search ?? '', q.sort, q.page, q.pageSize]), () => this.query(studioId, q));
+  list(
+    studioId: string,
+    q: { panelTypeId?: string; search?: string; sort: string; page: number; pageSize: number },
+  ): Promise<{ presets: PresetDto[]; total: number }> {
+    return presetListCache.read(JSON.stringify([studioId, q.panelTypeId ?? '', q.search ?? '', q.sort, q.page, q.pageSize]), () =>
+      this.query(studioId, q),
+    );
   }
 
-  private async query(studioId: string, q: { panelTypeId?: string; search?: string; sort: string; page: number; pageSize: number }): Promise<{ presets: PresetDto[]; total: number }> {
+  private async query(
+    studioId: string,
+    q: { panelTypeId?: string; search?: string; sort: string; page: number; pageSize: number },
+  ): Promise<{ presets: PresetDto[]; total: number }> {
     const where: Record<string, unknown> = { studioId };
     if (q.panelTypeId) where.panelTypeId = q.panelTypeId;
     if (q.search) where.name = { [Op.iLike]: `%${q.search.replace(/[\\%_]/g, (c) => `\\${c}`)}%` };
@@ -59,24 +67,43 @@ export class PresetsService {
    * Creates a preset at revision 1. A name already used in the studio is refused, or — for imports
    * and copies (`numberName`) — numbered: "Look (2)".
    */
-  async create(actor: Actor, body: { name: string; panelTypeId: string; parameters?: PanelParams }, options: { message?: string; numberName?: boolean; how?: 'created' | 'imported' | 'copied' } = {}): Promise<PresetDto> {
+  async create(
+    actor: Actor,
+    body: { name: string; panelTypeId: string; parameters?: PanelParams },
+    options: { message?: string; numberName?: boolean; how?: 'created' | 'imported' | 'copied' } = {},
+  ): Promise<PresetDto> {
     const message = options.message ?? 'Created';
     const how = options.how ?? 'created';
     const type = panelTypeById(body.panelTypeId);
-    if (!type) throw new AppError(400, 'invalid_input', `panelTypeId "${body.panelTypeId}" is not a built-in panel type.`, { issues: [{ path: 'panelTypeId', message: 'unknown panel type' }] });
+    if (!type)
+      throw new AppError(400, 'invalid_input', `panelTypeId "${body.panelTypeId}" is not a built-in panel type.`, {
+        issues: [{ path: 'panelTypeId', message: 'unknown panel type' }],
+      });
     const parameters = body.parameters ?? structuredClone(type.defaults);
     return Preset.sequelize!.transaction(async (transaction) => {
       // A typed name must be free; an imported or duplicated one gets the next free " (n)".
-      const name = options.numberName ? await this.freeName(actor.studioId, body.name, transaction) : await this.assertFreeName(actor.studioId, body.name, null, transaction);
-      const row = await Preset.create({ studioId: actor.studioId, panelTypeId: type.id, name, parameters, revision: 1, updatedById: actor.userId }, { transaction });
-      await PresetRevision.create({ presetId: row.id, revision: 1, name: row.name, parameters, changes: [], message, authorId: actor.userId }, { transaction });
+      const name = options.numberName
+        ? await this.freeName(actor.studioId, body.name, transaction)
+        : await this.assertFreeName(actor.studioId, body.name, null, transaction);
+      const row = await Preset.create(
+        { studioId: actor.studioId, panelTypeId: type.id, name, parameters, revision: 1, updatedById: actor.userId },
+        { transaction },
+      );
+      await PresetRevision.create(
+        { presetId: row.id, revision: 1, name: row.name, parameters, changes: [], message, authorId: actor.userId },
+        { transaction },
+      );
       await record(actor.studioId, actor.userId, `preset.${how}`, `${how} preset “${row.name}”`, transaction);
       return this.dto(row, await names([actor.userId], transaction));
     });
   }
 
   /** Saves a new revision; the caller must have edited the current one (else 409 with it). */
-  async update(actor: Actor, id: string, body: { baseRevision: number; name?: string; parameters?: PanelParams; message?: string }): Promise<PresetDto> {
+  async update(
+    actor: Actor,
+    id: string,
+    body: { baseRevision: number; name?: string; parameters?: PanelParams; message?: string },
+  ): Promise<PresetDto> {
     // A stale base is answered without taking a lock or a transaction (most losers of a race stop here).
     const current = await this.row(actor.studioId, id);
     if (body.baseRevision !== current.revision) throw await this.stale(current, body.baseRevision);
@@ -85,7 +112,15 @@ export class PresetsService {
       this.assertMayChange(row, actor);
       if (body.baseRevision !== row.revision) throw await this.stale(row, body.baseRevision, transaction);
       if (body.name !== undefined && body.name !== row.name) await this.assertFreeName(actor.studioId, body.name, row.id, transaction);
-      return this.saveRevision(row, actor, body.name ?? row.name, body.parameters ?? row.parameters, body.message ?? null, 'preset.changed', transaction);
+      return this.saveRevision(
+        row,
+        actor,
+        body.name ?? row.name,
+        body.parameters ?? row.parameters,
+        body.message ?? null,
+        'preset.changed',
+        transaction,
+      );
     });
   }
 
@@ -95,7 +130,15 @@ export class PresetsService {
       this.assertMayChange(row, actor);
       const old = await PresetRevision.findOne({ where: { presetId: id, revision }, transaction });
       if (!old) throw notFound(`Revision ${revision}`);
-      return this.saveRevision(row, actor, old.name, old.parameters, message ?? `Restored revision ${revision}`, 'preset.restored', transaction);
+      return this.saveRevision(
+        row,
+        actor,
+        old.name,
+        old.parameters,
+        message ?? `Restored revision ${revision}`,
+        'preset.restored',
+        transaction,
+      );
     });
   }
 
@@ -112,7 +155,12 @@ export class PresetsService {
     if (actor.role !== 'owner') throw forbidden('Only owners mark or unmark the studio’s reference look.');
     const row = await this.row(actor.studioId, id);
     await row.update({ isReference });
-    await record(actor.studioId, actor.userId, 'preset.reference', `${isReference ? 'locked' : 'unlocked'} preset “${row.name}” as the reference look`);
+    await record(
+      actor.studioId,
+      actor.userId,
+      'preset.reference',
+      `${isReference ? 'locked' : 'unlocked'} preset “${row.name}” as the reference look`,
+    );
     return this.dto(row, await names([row.updatedById]));
   }
 
@@ -122,14 +170,26 @@ export class PresetsService {
     const membership = await Membership.findOne({ where: { studioId: targetStudioId, userId: actor.userId } });
     if (!membership) throw notFound('The target studio');
     if (!roleAtLeast(membership.role, 'editor')) throw forbidden('You need to be an editor in the target studio.');
-    return this.create({ studioId: targetStudioId, userId: actor.userId, role: membership.role }, { name: name ?? `${row.name} (copy)`, panelTypeId: row.panelTypeId, parameters: row.parameters }, { message: 'Duplicated', numberName: true, how: 'copied' });
+    return this.create(
+      { studioId: targetStudioId, userId: actor.userId, role: membership.role },
+      { name: name ?? `${row.name} (copy)`, panelTypeId: row.panelTypeId, parameters: row.parameters },
+      { message: 'Duplicated', numberName: true, how: 'copied' },
+    );
   }
 
   async revisions(studioId: string, id: string): Promise<PresetRevisionDto[]> {
     await this.row(studioId, id);
     const rows = await PresetRevision.findAll({ where: { presetId: id }, order: [['revision', 'DESC']] });
     const who = await names(rows.map((r) => r.authorId));
-    return rows.map((r) => ({ revision: r.revision, name: r.name, parameters: r.parameters, changes: r.changes, message: r.message, author: r.authorId ? (who.get(r.authorId) ?? null) : null, createdAt: r.createdAt.toISOString() }));
+    return rows.map((r) => ({
+      revision: r.revision,
+      name: r.name,
+      parameters: r.parameters,
+      changes: r.changes,
+      message: r.message,
+      author: r.authorId ? (who.get(r.authorId) ?? null) : null,
+      createdAt: r.createdAt.toISOString(),
+    }));
   }
 
   exportDocument(p: PresetDto): PresetDocument {
@@ -149,18 +209,47 @@ export class PresetsService {
       ? await Artwork.findOne({ where: { id: body.artworkId, studioId: actor.studioId } })
       : await Artwork.findOne({ where: { studioId: actor.studioId }, order: [['createdAt', 'DESC']] });
     if (body.artworkId && !artwork) throw notFound('The artwork');
-    if (!artwork) throw new AppError(409, 'no_artwork', 'A share link shows the look on an artwork, and this studio has none yet. Upload one on the Artworks page first.');
+    if (!artwork)
+      throw new AppError(
+        409,
+        'no_artwork',
+        'A share link shows the look on an artwork, and this studio has none yet. Upload one on the Artworks page first.',
+      );
     const { token, hash } = newToken();
-    const link = await ShareLink.create({ presetId: row.id, artworkId: artwork.id, tokenHash: hash, createdById: actor.userId, expiresAt: body.expiresInDays ? new Date(Date.now() + body.expiresInDays * 86_400_000) : null });
+    const link = await ShareLink.create({
+      presetId: row.id,
+      artworkId: artwork.id,
+      tokenHash: hash,
+      createdById: actor.userId,
+      expiresAt: body.expiresInDays ? new Date(Date.now() + body.expiresInDays * 86_400_000) : null,
+    });
     await record(actor.studioId, actor.userId, 'link.created', `created a share link to “${row.name}”`);
     return { ...this.linkDto(link), url: `${appUrl}/share/${token}` };
   }
 
   /** The live share links (neither revoked nor expired) that show an artwork of the studio, with their preset's name. */
-  async liveLinksShowing(studioId: string, artworkId: string): Promise<{ id: string; presetId: string; presetName: string; expiresAt: string | null }[]> {
-    const links = await ShareLink.findAll({ where: { artworkId, revokedAt: null, [Op.or]: [{ expiresAt: null }, { expiresAt: { [Op.gt]: new Date() } }] }, order: [['createdAt', 'DESC']] });
-    const presets = new Map((await Preset.findAll({ where: { id: links.map((l) => l.presetId), studioId }, attributes: ['id', 'name'] })).map((p) => [p.id, p.name]));
-    return links.filter((l) => presets.has(l.presetId)).map((l) => ({ id: l.id, presetId: l.presetId, presetName: presets.get(l.presetId)!, expiresAt: l.expiresAt?.toISOString() ?? null }));
+  async liveLinksShowing(
+    studioId: string,
+    artworkId: string,
+  ): Promise<{ id: string; presetId: string; presetName: string; expiresAt: string | null }[]> {
+    const links = await ShareLink.findAll({
+      where: { artworkId, revokedAt: null, [Op.or]: [{ expiresAt: null }, { expiresAt: { [Op.gt]: new Date() } }] },
+      order: [['createdAt', 'DESC']],
+    });
+    const presets = new Map(
+      (await Preset.findAll({ where: { id: links.map((l) => l.presetId), studioId }, attributes: ['id', 'name'] })).map((p) => [
+        p.id,
+        p.name,
+      ]),
+    );
+    return links
+      .filter((l) => presets.has(l.presetId))
+      .map((l) => ({
+        id: l.id,
+        presetId: l.presetId,
+        presetName: presets.get(l.presetId)!,
+        expiresAt: l.expiresAt?.toISOString() ?? null,
+      }));
   }
 
   async revokeLink(actor: Actor, id: string, linkId: string): Promise<void> {
@@ -179,26 +268,54 @@ export class PresetsService {
     if (!preset) throw notFound('The shared look');
     const studio = await Studio.findByPk(preset.studioId);
     // The link's artwork, or — when it was deleted since — the studio's newest, so a client never gets a look without a picture.
-    const artwork = (link.artworkId ? await Artwork.findOne({ where: { id: link.artworkId, studioId: preset.studioId } }) : null) ?? (await Artwork.findOne({ where: { studioId: preset.studioId }, order: [['createdAt', 'DESC']] }));
+    const artwork =
+      (link.artworkId ? await Artwork.findOne({ where: { id: link.artworkId, studioId: preset.studioId } }) : null) ??
+      (await Artwork.findOne({ where: { studioId: preset.studioId }, order: [['createdAt', 'DESC']] }));
     return {
       artwork,
       view: {
         preset: { name: preset.name, panelTypeId: preset.panelTypeId, parameters: preset.parameters, revision: preset.revision },
         studioName: studio?.name ?? '',
-        artwork: artwork ? { name: artwork.name, width: artwork.width, height: artwork.height, frameCount: artwork.frameCount, delaysMs: artwork.delaysMs } : null,
+        artwork: artwork
+          ? { name: artwork.name, width: artwork.width, height: artwork.height, frameCount: artwork.frameCount, delaysMs: artwork.delaysMs }
+          : null,
         framesUrl: artwork ? `/api/share/${token}/frames` : null,
       },
     };
   }
 
-  private async saveRevision(row: Preset, actor: Actor, name: string, parameters: PanelParams, message: string | null, kind: string, transaction: Transaction): Promise<PresetDto> {
+  private async saveRevision(
+    row: Preset,
+    actor: Actor,
+    name: string,
+    parameters: PanelParams,
+    message: string | null,
+    kind: string,
+    transaction: Transaction,
+  ): Promise<PresetDto> {
     const changes = paramDiff(row.parameters, parameters);
     if (name !== row.name) changes.unshift({ path: 'name', from: row.name, to: name });
     const revision = row.revision + 1;
-    await PresetRevision.create({ presetId: row.id, revision, name, parameters, changes, message, authorId: actor.userId }, { transaction });
+    await PresetRevision.create(
+      { presetId: row.id, revision, name, parameters, changes, message, authorId: actor.userId },
+      { transaction },
+    );
     await row.update({ name, parameters, revision, updatedById: actor.userId }, { transaction });
     const verb = kind === 'preset.restored' ? 'restored' : 'changed';
-    await record(actor.studioId, actor.userId, kind, `${verb} preset “${name}” (revision ${revision}${changes.length ? `: ${changes.map((c) => changeLabel(c.path)).slice(0, 4).join(', ')}${changes.length > 4 ? '…' : ''}` : ''})`, transaction);
+    await record(
+      actor.studioId,
+      actor.userId,
+      kind,
+      `${verb} preset “${name}” (revision ${revision}${
+        changes.length
+          ? `: ${changes
+              .map((c) => changeLabel(c.path))
+              .slice(0, 4)
+              .join(', ')}${changes.length > 4 ? '…' : ''}`
+          : ''
+      })`,
+      transaction,
+    );
     return this.dto(row, await names([actor.userId], transaction));
   }
 
@@ -210,7 +327,9 @@ export class PresetsService {
 
   private async assertFreeName(studioId: string, name: string, exceptId: string | null, transaction: Transaction): Promise<string> {
     if ((await this.takenNames(studioId, transaction, exceptId)).has(name.toLowerCase())) {
-      throw conflict('name_taken', `The studio already has a preset called “${name}”. Choose another name.`, { issues: [{ path: 'name', message: 'is already used by another preset' }] });
+      throw conflict('name_taken', `The studio already has a preset called “${name}”. Choose another name.`, {
+        issues: [{ path: 'name', message: 'is already used by another preset' }],
+      });
     }
     return name;
   }
@@ -242,10 +361,26 @@ export class PresetsService {
   }
 
   private dto(r: Preset, who: Map<string, string>): PresetDto {
-    return { id: r.id, studioId: r.studioId, panelTypeId: r.panelTypeId, name: r.name, parameters: r.parameters, revision: r.revision, isReference: r.isReference, updatedAt: r.updatedAt.toISOString(), updatedBy: r.updatedById ? (who.get(r.updatedById) ?? null) : null };
+    return {
+      id: r.id,
+      studioId: r.studioId,
+      panelTypeId: r.panelTypeId,
+      name: r.name,
+      parameters: r.parameters,
+      revision: r.revision,
+      isReference: r.isReference,
+      updatedAt: r.updatedAt.toISOString(),
+      updatedBy: r.updatedById ? (who.get(r.updatedById) ?? null) : null,
+    };
   }
 
   private linkDto(l: ShareLink): ShareLinkDto {
-    return { id: l.id, artworkId: l.artworkId, expiresAt: l.expiresAt?.toISOString() ?? null, revokedAt: l.revokedAt?.toISOString() ?? null, createdAt: l.createdAt.toISOString() };
+    return {
+      id: l.id,
+      artworkId: l.artworkId,
+      expiresAt: l.expiresAt?.toISOString() ?? null,
+      revokedAt: l.revokedAt?.toISOString() ?? null,
+      createdAt: l.createdAt.toISOString(),
+    };
   }
 }

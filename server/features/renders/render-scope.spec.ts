@@ -20,9 +20,20 @@ beforeAll(async () => {
 afterAll(() => h.close());
 
 const upload = async (seed: number) =>
-  (await owner.upload(`/api/studios/${studioId}/artworks`, {}, { name: `a${seed}.png`, bytes: pngOf(16, 12, (x, y) => [(x * 16 + seed) & 255, y * 20, 90, 255]) })).body.artwork as { id: string };
+  (
+    await owner.upload(
+      `/api/studios/${studioId}/artworks`,
+      {},
+      { name: `a${seed}.png`, bytes: pngOf(16, 12, (x, y) => [(x * 16 + seed) & 255, y * 20, 90, 255]) },
+    )
+  ).body.artwork as { id: string };
 const renderOf = (artworkId: string, exposureEv = 0) =>
-  owner.post(`/api/studios/${studioId}/renders`, { artworkId, presetId: 'el-amber-640x480.standard', patch: { cell: { cols: 16, rows: 12 }, viewing: { exposureEv } }, scale: 2 });
+  owner.post(`/api/studios/${studioId}/renders`, {
+    artworkId,
+    presetId: 'el-amber-640x480.standard',
+    patch: { cell: { cols: 16, rows: 12 }, viewing: { exposureEv } },
+    scale: 2,
+  });
 const fileOf = (key: string) => path.join(h.config.storageDir, 'renders', `${key}.png`);
 
 test('20 identical requests at once: one render, 20 answers in 2xx, one row', async () => {
@@ -59,8 +70,16 @@ test('deleting an artwork deletes its renders, rows and files', async () => {
 
 test('deleting a studio deletes its renders, rows and files', async () => {
   const other = (await owner.post('/api/studios', { name: 'Short-lived' })).body.studio.id;
-  const art = (await owner.upload(`/api/studios/${other}/artworks`, {}, { name: 'x.png', bytes: pngOf(8, 8, () => [9, 9, 9, 255]) })).body.artwork;
-  const { render } = (await owner.post(`/api/studios/${other}/renders`, { artworkId: art.id, presetId: 'el-amber-640x480.standard', patch: { cell: { cols: 8, rows: 8 } }, scale: 1 })).body;
+  const art = (await owner.upload(`/api/studios/${other}/artworks`, {}, { name: 'x.png', bytes: pngOf(8, 8, () => [9, 9, 9, 255]) })).body
+    .artwork;
+  const { render } = (
+    await owner.post(`/api/studios/${other}/renders`, {
+      artworkId: art.id,
+      presetId: 'el-amber-640x480.standard',
+      patch: { cell: { cols: 8, rows: 8 } },
+      scale: 1,
+    })
+  ).body;
   expect((await owner.delete(`/api/studios/${other}`)).status).toBe(204);
   expect(await Render.count({ where: { key: render.key } })).toBe(0);
   expect(existsSync(fileOf(render.key))).toBe(false);
@@ -82,7 +101,8 @@ test('over the studio budget the least recently used renders go first', async ()
 test('preset thumbnails: small (≤ 160 px), made once per revision, a new revision makes a new one', async () => {
   const art = await upload(5);
   const sharp = (await import('sharp')).default;
-  const preset = (await owner.post(`/api/studios/${studioId}/presets`, { name: 'Thumb look', panelTypeId: 'el-amber-640x480' })).body.preset;
+  const preset = (await owner.post(`/api/studios/${studioId}/presets`, { name: 'Thumb look', panelTypeId: 'el-amber-640x480' })).body
+    .preset;
   const url = `/api/studios/${studioId}/presets/${preset.id}/thumbnail?artworkId=${art.id}`;
   const spy = jest.spyOn(h.app.renderEngine, 'render');
   const first = await owner.get(url);
@@ -92,7 +112,10 @@ test('preset thumbnails: small (≤ 160 px), made once per revision, a new revis
   expect([meta.width, meta.height]).toEqual([160, 120]);
   expect(Buffer.compare((await owner.get(url)).body, first.body)).toBe(0);
   expect(spy).toHaveBeenCalledTimes(1);
-  await owner.patch(`/api/studios/${studioId}/presets/${preset.id}`, { baseRevision: 1, parameters: { ...preset.parameters, glass: { ...preset.parameters.glass, glowRadiusMm: 1 } } });
+  await owner.patch(`/api/studios/${studioId}/presets/${preset.id}`, {
+    baseRevision: 1,
+    parameters: { ...preset.parameters, glass: { ...preset.parameters.glass, glowRadiusMm: 1 } },
+  });
   expect((await owner.get(url)).status).toBe(200);
   expect(spy).toHaveBeenCalledTimes(2);
   expect((await owner.get(`/api/studios/${studioId}/presets/${preset.id}/thumbnail?artworkId=not-an-id`)).status).toBe(404);

@@ -10,20 +10,39 @@ import { resolveParameters, type RendersService } from './renders.service';
 export function rendersRoutes(renders: RendersService): ApiRouter {
   const api = new ApiRouter('/renders', 'Panel model');
 
-  api.route('post', '/', { policy: signedIn, summary: 'Render an uploaded image (multipart field "file") with a preset or inline parameters', status: 201 }, uploadOne, async (req, res) => {
-    const fields = parseOrThrow(renderFieldsSchema, req.body ?? {}, 'render request');
-    if (!req.file) throw new AppError(400, 'invalid_input', 'Attach the image as the multipart field "file".');
-    const parameters = resolveParameters(fields);
-    const render = await renders.render({ userId: req.user!.id }, { input: req.file.buffer, parameters, scale: fields.scale, frame: fields.frame });
-    res.status(render.cached ? 200 : 201).json({ render });
-  });
+  api.route(
+    'post',
+    '/',
+    { policy: signedIn, summary: 'Render an uploaded image (multipart field "file") with a preset or inline parameters', status: 201 },
+    uploadOne,
+    async (req, res) => {
+      const fields = parseOrThrow(renderFieldsSchema, req.body ?? {}, 'render request');
+      if (!req.file) throw new AppError(400, 'invalid_input', 'Attach the image as the multipart field "file".');
+      const parameters = resolveParameters(fields);
+      const render = await renders.render(
+        { userId: req.user!.id },
+        { input: req.file.buffer, parameters, scale: fields.scale, frame: fields.frame },
+      );
+      res.status(render.cached ? 200 : 201).json({ render });
+    },
+  );
 
-  api.route('get', '/:key', { policy: signedIn, summary: 'A stored render of a file you uploaded, as PNG (studio renders are under their studio)' }, async (req, res) => {
-    const key = String(req.params.key);
-    const png = await renders.read(key, { userId: req.user!.id });
-    res.set({ 'Content-Type': 'image/png', 'Content-Disposition': `inline; filename="render-${key.slice(0, 12)}.png"`, 'Cache-Control': 'private, max-age=31536000, immutable', 'X-Content-Type-Options': 'nosniff' });
-    res.send(png);
-  });
+  api.route(
+    'get',
+    '/:key',
+    { policy: signedIn, summary: 'A stored render of a file you uploaded, as PNG (studio renders are under their studio)' },
+    async (req, res) => {
+      const key = String(req.params.key);
+      const png = await renders.read(key, { userId: req.user!.id });
+      res.set({
+        'Content-Type': 'image/png',
+        'Content-Disposition': `inline; filename="render-${key.slice(0, 12)}.png"`,
+        'Cache-Control': 'private, max-age=31536000, immutable',
+        'X-Content-Type-Options': 'nosniff',
+      });
+      res.send(png);
+    },
+  );
 
   return api;
 }

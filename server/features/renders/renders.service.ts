@@ -2,7 +2,13 @@ import { Op, type Sequelize } from 'sequelize';
 import sharp from 'sharp';
 import type { RenderDto } from '../../../shared/api/render.schema';
 import { builtInPresetById } from '../../../shared/model/panel-types';
-import { mergeParams, panelParamsPatchSchema, panelParamsSchema, type PanelParams, type PanelParamsPatch } from '../../../shared/model/parameters';
+import {
+  mergeParams,
+  panelParamsPatchSchema,
+  panelParamsSchema,
+  type PanelParams,
+  type PanelParamsPatch,
+} from '../../../shared/model/parameters';
 import { AppError, notFound } from '../../core/app-error';
 import { parseOrThrow } from '../../core/validate';
 import type { RenderedPng, RenderEngine, RenderRequest } from '../../render/render-engine';
@@ -23,8 +29,10 @@ export function resolveParameters(fields: { presetId?: string; parameters?: unkn
   const json = (v: unknown, what: string) => (typeof v === 'string' ? parseJsonField(v, what) : v);
   if (fields.parameters !== undefined) return parseOrThrow(panelParamsSchema, json(fields.parameters, 'parameters'), 'parameters');
   const preset = builtInPresetById(fields.presetId!);
-  if (!preset) throw new AppError(400, 'unknown_preset', `There is no built-in preset "${fields.presetId}". GET /api/panel-types lists them.`);
-  const patch = fields.patch !== undefined ? (parseOrThrow(panelParamsPatchSchema, json(fields.patch, 'patch'), 'patch') as PanelParamsPatch) : {};
+  if (!preset)
+    throw new AppError(400, 'unknown_preset', `There is no built-in preset "${fields.presetId}". GET /api/panel-types lists them.`);
+  const patch =
+    fields.patch !== undefined ? (parseOrThrow(panelParamsPatchSchema, json(fields.patch, 'patch'), 'patch') as PanelParamsPatch) : {};
   return parseOrThrow(panelParamsSchema, mergeParams(preset.parameters, patch), 'parameters');
 }
 
@@ -62,7 +70,10 @@ export class RendersService {
    * A small render for lists: the panel at scale 1, area-averaged to fit THUMBNAIL_PX, stored once
    * per artwork and parameter set (so once per preset revision) under its own key.
    */
-  async thumbnail(owner: { studioId: string; artworkId: string; userId: string }, request: Omit<RenderRequest, 'scale' | 'frame'>): Promise<Buffer> {
+  async thumbnail(
+    owner: { studioId: string; artworkId: string; userId: string },
+    request: Omit<RenderRequest, 'scale' | 'frame'>,
+  ): Promise<Buffer> {
     const full = { ...request, scale: 1, frame: 0 };
     const key = renderKey(full, `studio:${owner.studioId}/thumbnail-${THUMBNAIL_PX}`);
     await this.singleFlight(key, () =>
@@ -108,7 +119,9 @@ export class RendersService {
 
   /** Removes render files left without a row (a crash between file and row) and stray temp files. */
   reconcile(): Promise<number> {
-    return this.store.reconcile(async (keys) => new Set(keys.length ? (await Render.findAll({ attributes: ['key'], where: { key: keys } })).map((r) => r.key) : []));
+    return this.store.reconcile(
+      async (keys) => new Set(keys.length ? (await Render.findAll({ attributes: ['key'], where: { key: keys } })).map((r) => r.key) : []),
+    );
   }
 
   private async renderOnce(key: string, owner: RenderOwner, produce: () => Promise<RenderedPng>): Promise<RenderDto> {
@@ -122,7 +135,16 @@ export class RendersService {
     const { png, width, height } = await produce();
     // A crash between the two writes leaves an unreferenced file (removed at start), never a row without one.
     await this.store.write(key, png);
-    await Render.upsert({ key, width, height, bytes: png.length, createdById: owner.userId, studioId: owner.studioId ?? null, artworkId: owner.studioId ? owner.artworkId : null, lastUsedAt: new Date() });
+    await Render.upsert({
+      key,
+      width,
+      height,
+      bytes: png.length,
+      createdById: owner.userId,
+      studioId: owner.studioId ?? null,
+      artworkId: owner.studioId ? owner.artworkId : null,
+      lastUsedAt: new Date(),
+    });
     if (owner.studioId) await this.enforceBudget(owner.studioId, key);
     return { key, url, width, height, cached: false };
   }

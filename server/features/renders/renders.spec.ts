@@ -16,12 +16,16 @@ beforeAll(async () => {
 afterAll(() => h.close());
 
 const small = JSON.stringify({ cell: { cols: 32, rows: 24 } });
-const art = (seed: number) => pngOf(32, 24, (x, y) => [((x * 8 + seed) % 256), (y * 10) % 256, 40, 255]);
+const art = (seed: number) => pngOf(32, 24, (x, y) => [(x * 8 + seed) % 256, (y * 10) % 256, 40, 255]);
 
 describe('POST /api/renders', () => {
   test('renders an upload with a built-in preset; the PNG equals the shared CPU pipeline byte for byte', async () => {
     const input = art(1);
-    const res = await client.upload('/api/renders', { presetId: 'el-amber-640x480.standard', patch: small, scale: '2' }, { name: 'art.png', bytes: input });
+    const res = await client.upload(
+      '/api/renders',
+      { presetId: 'el-amber-640x480.standard', patch: small, scale: '2' },
+      { name: 'art.png', bytes: input },
+    );
     expect(res.status).toBe(201);
     expect(res.body.render).toMatchObject({ width: 64, height: 48, cached: false });
     const png = await client.get(res.body.render.url);
@@ -49,7 +53,12 @@ describe('POST /api/renders', () => {
   });
 
   test.each([
-    ['an out-of-range parameter', { presetId: 'el-amber-640x480.standard', patch: JSON.stringify({ glass: { glowRadiusMm: -3 } }) }, 400, 'Glow radius (Glass) must be a number from 0 to 20 mm, got -3'],
+    [
+      'an out-of-range parameter',
+      { presetId: 'el-amber-640x480.standard', patch: JSON.stringify({ glass: { glowRadiusMm: -3 } }) },
+      400,
+      'Glow radius (Glass) must be a number from 0 to 20 mm, got -3',
+    ],
     ['an unknown parameter', { presetId: 'el-amber-640x480.standard', patch: JSON.stringify({ glass: { sparkle: 1 } }) }, 400, 'sparkle'],
     ['an unknown preset', { presetId: 'nope' }, 400, 'There is no built-in preset "nope"'],
     ['a scale of 9', { presetId: 'el-amber-640x480.standard', patch: small, scale: '9' }, 400, 'scale must be a whole number from 1 to 8'],
@@ -70,7 +79,11 @@ describe('POST /api/renders', () => {
   ])('refuses %s by its content, storing nothing', async (_name, bytes, code) => {
     const before = await Render.count();
     const started = Date.now();
-    const res = await client.upload('/api/renders', { presetId: 'el-amber-640x480.standard', patch: small }, { name: 'innocent.png', bytes });
+    const res = await client.upload(
+      '/api/renders',
+      { presetId: 'el-amber-640x480.standard', patch: small },
+      { name: 'innocent.png', bytes },
+    );
     expect(res.status).toBe(422);
     expect(res.body.error.code).toBe(code);
     expect(Date.now() - started).toBeLessThan(2000);
@@ -78,7 +91,11 @@ describe('POST /api/renders', () => {
   });
 
   test('an output larger than the limit is refused before rendering', async () => {
-    const res = await client.upload('/api/renders', { presetId: 'el-amber-640x480.standard', patch: JSON.stringify({ cell: { cols: 2048, rows: 2048 } }), scale: '8' }, { name: 'a.png', bytes: art(5) });
+    const res = await client.upload(
+      '/api/renders',
+      { presetId: 'el-amber-640x480.standard', patch: JSON.stringify({ cell: { cols: 2048, rows: 2048 } }), scale: '8' },
+      { name: 'a.png', bytes: art(5) },
+    );
     expect(res.status).toBe(400);
     expect(res.body.error.code).toBe('output_too_large');
   });
@@ -86,7 +103,9 @@ describe('POST /api/renders', () => {
   test('GET /api/panel-types lists every built-in with its presets and the parameter table', async () => {
     const res = await new TestClient(h.app).get('/api/panel-types');
     expect(res.status).toBe(200);
-    expect(res.body.panelTypes.map((t: { id: string }) => t.id)).toEqual(expect.arrayContaining(['el-amber-640x480', 'crt-green-p39', 'plasma-neon-640x400', 'vfd-bluegreen-256x64']));
+    expect(res.body.panelTypes.map((t: { id: string }) => t.id)).toEqual(
+      expect.arrayContaining(['el-amber-640x480', 'crt-green-p39', 'plasma-neon-640x400', 'vfd-bluegreen-256x64']),
+    );
     for (const t of res.body.panelTypes) expect(t.presets.length).toBeGreaterThan(0);
     expect(res.body.parameters.length).toBeGreaterThan(30);
   });

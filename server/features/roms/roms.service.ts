@@ -12,7 +12,8 @@ import { withoutControls } from '../../../shared/api/text.schema';
 export const MAX_ROMS_PER_STUDIO = 100;
 
 /** A RomError as the API answers it: 422 with the code and the reason. */
-const unprocessable = (err: RomError) => new AppError(err.code === 'too_large' ? 413 : 422, err.code, `${err.message.charAt(0).toUpperCase()}${err.message.slice(1)}.`);
+const unprocessable = (err: RomError) =>
+  new AppError(err.code === 'too_large' ? 413 : 422, err.code, `${err.message.charAt(0).toUpperCase()}${err.message.slice(1)}.`);
 
 const sha256 = (b: Uint8Array) => createHash('sha256').update(b).digest('hex');
 
@@ -25,7 +26,10 @@ export class RomsService {
 
   private async dto(row: VideoRom): Promise<VideoRomDto> {
     const children = await VideoRom.findAll({ where: { patchedFromId: row.id }, attributes: ['id'], order: [['createdAt', 'ASC']] });
-    return this.dtoWith(row, children.map((c) => c.id));
+    return this.dtoWith(
+      row,
+      children.map((c) => c.id),
+    );
   }
 
   private dtoWith(row: VideoRom, patchedIds: string[]): VideoRomDto {
@@ -64,14 +68,28 @@ export class RomsService {
 
   /** Refuses what is not an option ROM (or is cut short) before anything is stored. */
   async upload(studioId: string, userId: string, bytes: Buffer, fileName: string, name?: string): Promise<VideoRomDto> {
-    if ((await VideoRom.count({ where: { studioId } })) >= MAX_ROMS_PER_STUDIO) throw new AppError(422, 'too_many_roms', `A studio keeps at most ${MAX_ROMS_PER_STUDIO} ROM images; delete some you no longer need first.`);
+    if ((await VideoRom.count({ where: { studioId } })) >= MAX_ROMS_PER_STUDIO)
+      throw new AppError(
+        422,
+        'too_many_roms',
+        `A studio keeps at most ${MAX_ROMS_PER_STUDIO} ROM images; delete some you no longer need first.`,
+      );
     try {
       romHeader(bytes);
     } catch (err) {
       if (err instanceof RomError) throw unprocessable(err);
       throw err;
     }
-    const row = await VideoRom.create({ studioId, name: cleanName(name ?? fileName.replace(/\.[^.]+$/, '')), bytes, size: bytes.length, sha256: sha256(bytes), patchedFromId: null, patch: null, createdById: userId });
+    const row = await VideoRom.create({
+      studioId,
+      name: cleanName(name ?? fileName.replace(/\.[^.]+$/, '')),
+      bytes,
+      size: bytes.length,
+      sha256: sha256(bytes),
+      patchedFromId: null,
+      patch: null,
+      createdById: userId,
+    });
     await record(studioId, userId, 'rom.uploaded', `uploaded video BIOS image “${row.name}” (${bytes.length} bytes)`);
     return this.dto(row);
   }
@@ -81,7 +99,8 @@ export class RomsService {
     try {
       return { rom: await this.dto(row), info: readRom(row.bytes, { tableOffset }), problem: null };
     } catch (err) {
-      if (err instanceof RomError) return { rom: await this.dto(row), info: null, problem: { code: err.code, message: unprocessable(err).message } };
+      if (err instanceof RomError)
+        return { rom: await this.dto(row), info: null, problem: { code: err.code, message: unprocessable(err).message } };
       throw err;
     }
   }
@@ -102,8 +121,18 @@ export class RomsService {
       const source = await VideoRom.findOne({ where: { id, studioId }, lock: transaction.LOCK.UPDATE, transaction });
       if (!source) throw notFound('The ROM image');
       const later = await VideoRom.findOne({ where: { patchedFromId: source.id }, order: [['createdAt', 'DESC']], transaction });
-      if (later) throw conflict('already_patched', `“${source.name}” was patched already, into “${later.name}”. Patch that image instead, so both changes end up in one file.`, { patchedId: later.id, patchedName: later.name });
-      if (source.patchedFromId && !body.startFromPatched) throw conflict('confirm_patched', `“${source.name}” is itself a patched image. Confirm that you start from it (startFromPatched) to patch it again.`, { patchedFromId: source.patchedFromId });
+      if (later)
+        throw conflict(
+          'already_patched',
+          `“${source.name}” was patched already, into “${later.name}”. Patch that image instead, so both changes end up in one file.`,
+          { patchedId: later.id, patchedName: later.name },
+        );
+      if (source.patchedFromId && !body.startFromPatched)
+        throw conflict(
+          'confirm_patched',
+          `“${source.name}” is itself a patched image. Confirm that you start from it (startFromPatched) to patch it again.`,
+          { patchedFromId: source.patchedFromId },
+        );
       let result;
       let offset = 0;
       try {
@@ -112,14 +141,33 @@ export class RomsService {
         offset = info.entries.find((e) => e.index === body.entryIndex)!.offset;
       } catch (err) {
         if (err instanceof RomError) throw unprocessable(err);
-        if (err instanceof RangeError) throw new AppError(422, 'timing_unfit', `A VGA CRT controller cannot hold “${saved.name}”: ${err.message}.`);
+        if (err instanceof RangeError)
+          throw new AppError(422, 'timing_unfit', `A VGA CRT controller cannot hold “${saved.name}”: ${err.message}.`);
         throw err;
       }
-      const patch: RomPatchRecord = { entryIndex: body.entryIndex, entryOffset: offset, timingId: saved.id, timingName: saved.name, mode: saved.timing.name, changes: result.changes, checksum: result.checksum, notes: result.notes };
+      const patch: RomPatchRecord = {
+        entryIndex: body.entryIndex,
+        entryOffset: offset,
+        timingId: saved.id,
+        timingName: saved.name,
+        mode: saved.timing.name,
+        changes: result.changes,
+        checksum: result.checksum,
+        notes: result.notes,
+      };
       const bytes = Buffer.from(result.bytes);
       const name = cleanName(`${source.name.slice(0, 80)} · ${saved.name}`);
-      const row = await VideoRom.create({ studioId, name, bytes, size: bytes.length, sha256: sha256(bytes), patchedFromId: source.id, patch, createdById: userId }, { transaction });
-      await record(studioId, userId, 'rom.patched', `patched entry ${body.entryIndex} of “${source.name}” with “${saved.name}” (${result.changes.length} bytes changed)`, transaction);
+      const row = await VideoRom.create(
+        { studioId, name, bytes, size: bytes.length, sha256: sha256(bytes), patchedFromId: source.id, patch, createdById: userId },
+        { transaction },
+      );
+      await record(
+        studioId,
+        userId,
+        'rom.patched',
+        `patched entry ${body.entryIndex} of “${source.name}” with “${saved.name}” (${result.changes.length} bytes changed)`,
+        transaction,
+      );
       return { rom: this.dtoWith(row, []), patch };
     });
   }
@@ -135,5 +183,4 @@ export class RomsService {
     await row.destroy();
     await record(studioId, userId, 'rom.deleted', `deleted video BIOS image “${row.name}”`);
   }
-
 }

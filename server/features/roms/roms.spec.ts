@@ -13,7 +13,13 @@ beforeAll(async () => {
   owner = new TestClient(h.app);
   await owner.signUp();
   studioId = (await owner.post('/api/studios', { name: 'Firmware Bench' })).body.studio.id;
-  timingId = (await owner.post(`/api/studios/${studioId}/timings`, { ...TIMING_BODY, name: 'IBM 640x400', source: { kind: 'standard', standard: 'dmt', mode: '640x400@70' } })).body.timing.id;
+  timingId = (
+    await owner.post(`/api/studios/${studioId}/timings`, {
+      ...TIMING_BODY,
+      name: 'IBM 640x400',
+      source: { kind: 'standard', standard: 'dmt', mode: '640x400@70' },
+    })
+  ).body.timing.id;
 });
 afterAll(() => h.close());
 
@@ -35,7 +41,13 @@ test('upload → read the table → patch mode 12h with a saved 640×400 timing 
 
   const patched = await owner.post(url(`/${rom.id}/patch`), { entryIndex: 0x1b, timingId });
   expect(patched.status).toBe(201);
-  expect(patched.body.patch).toMatchObject({ entryIndex: 0x1b, entryOffset: 0x16c0, timingName: 'IBM 640x400', mode: '640x400@70', checksum: { at: 32767 } });
+  expect(patched.body.patch).toMatchObject({
+    entryIndex: 0x1b,
+    entryOffset: 0x16c0,
+    timingName: 'IBM 640x400',
+    mode: '640x400@70',
+    checksum: { at: 32767 },
+  });
   expect(patched.body.patch.changes).toHaveLength(13);
   expect(patched.body.rom).toMatchObject({ name: 'Workshop card · IBM 640x400', patchedFromId: rom.id, checksumOk: true });
 
@@ -71,7 +83,17 @@ test('a second patch of the same image is refused, naming the patched one; patch
 test.each([
   ['not an option ROM', () => Buffer.from('MZ this is a program, not a ROM'), 422, 'not_a_rom', 'starts with 4D 5A, not 55 AA'],
   ['cut short', () => syntheticRom().slice(0, 1000), 422, 'truncated', 'the file has 1000'],
-  ['too large', () => { const b = new Uint8Array(600 * 1024); b.set([0x55, 0xaa, 0xff]); return b; }, 413, 'too_large', 'at most 512 KiB'],
+  [
+    'too large',
+    () => {
+      const b = new Uint8Array(600 * 1024);
+      b.set([0x55, 0xaa, 0xff]);
+      return b;
+    },
+    413,
+    'too_large',
+    'at most 512 KiB',
+  ],
 ])('an upload that is %s is refused with the reason and nothing is stored', async (_, make, status, code, message) => {
   const before = await VideoRom.count();
   const res = await upload(make());

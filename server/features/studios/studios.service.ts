@@ -14,7 +14,11 @@ import { Studio } from './studio.model';
 /** Refuses studio work to an account that has not proven its address (security item 27). */
 function assertVerified(user: Express.User, what: string): void {
   if (!user.emailVerified) {
-    throw new AppError(403, 'email_unverified', `Confirm your e-mail address before you ${what}: open the link we mailed you, or ask for a new one.`);
+    throw new AppError(
+      403,
+      'email_unverified',
+      `Confirm your e-mail address before you ${what}: open the link we mailed you, or ask for a new one.`,
+    );
   }
 }
 
@@ -49,9 +53,7 @@ export class StudiosService {
 
   async listForUser(userId: string): Promise<StudioDto[]> {
     const memberships = await Membership.findAll({ where: { userId }, include: [{ model: Studio, as: 'studio' }] });
-    return memberships
-      .map((m) => studioDto(m.studio!, m.role))
-      .sort((a, b) => a.name.localeCompare(b.name));
+    return memberships.map((m) => studioDto(m.studio!, m.role)).sort((a, b) => a.name.localeCompare(b.name));
   }
 
   async create(user: Express.User, name: string): Promise<StudioDto> {
@@ -81,7 +83,10 @@ export class StudiosService {
     const artworks = await Artwork.findAll({ attributes: ['id'], where: { studioId } });
     await this.beforeDelete(studioId);
     await Studio.destroy({ where: { id: studioId } });
-    await this.afterDelete(studioId, artworks.map((a) => a.id));
+    await this.afterDelete(
+      studioId,
+      artworks.map((a) => a.id),
+    );
   }
 
   async members(studioId: string): Promise<MemberDto[]> {
@@ -115,7 +120,13 @@ export class StudiosService {
       const user = await User.findByPk(userId, { transaction });
       await member.destroy({ transaction });
       const self = actorId === userId;
-      await record(studioId, actorId ?? null, self ? 'member.left' : 'member.removed', self ? 'left the studio' : `removed ${user?.displayName ?? 'a member'}`, transaction);
+      await record(
+        studioId,
+        actorId ?? null,
+        self ? 'member.left' : 'member.removed',
+        self ? 'left the studio' : `removed ${user?.displayName ?? 'a member'}`,
+        transaction,
+      );
     });
   }
 
@@ -135,7 +146,14 @@ export class StudiosService {
     const studio = await Studio.findByPk(studioId);
     if (!studio) throw notFound('The studio');
     const { token, hash } = newToken();
-    const invite = await Invite.create({ studioId, email, role, tokenHash: hash, invitedById: invitedBy.id, expiresAt: new Date(Date.now() + INVITE_TTL_MS) });
+    const invite = await Invite.create({
+      studioId,
+      email,
+      role,
+      tokenHash: hash,
+      invitedById: invitedBy.id,
+      expiresAt: new Date(Date.now() + INVITE_TTL_MS),
+    });
     const link = `${this.appUrl}/invites/${token}`;
     // Names typed by users are quoted as data, never in the subject (security item 31).
     const queued = await this.outbox.post(
@@ -147,7 +165,12 @@ export class StudiosService {
       },
       invitedBy.id,
     );
-    if (!queued) throw new AppError(429, 'mail_throttled', `${email} has received as many mails from Emberline as we send in an hour. Try again later.`);
+    if (!queued)
+      throw new AppError(
+        429,
+        'mail_throttled',
+        `${email} has received as many mails from Emberline as we send in an hour. Try again later.`,
+      );
     await record(studioId, invitedBy.id, 'invite.sent', `invited ${email} as ${role}`);
     return inviteDto(invite);
   }
@@ -177,7 +200,8 @@ export class StudiosService {
       const invite = await Invite.findOne({ where: { tokenHash: hashToken(token) }, lock: transaction.LOCK.UPDATE, transaction });
       if (!invite) throw notFound('The invite');
       if (invite.acceptedAt) throw new AppError(410, 'invite_used', 'This invite was already accepted.');
-      if (invite.expiresAt.getTime() < Date.now()) throw new AppError(410, 'invite_expired', 'This invite has expired. Ask the studio owner for a new one.');
+      if (invite.expiresAt.getTime() < Date.now())
+        throw new AppError(410, 'invite_expired', 'This invite has expired. Ask the studio owner for a new one.');
       if (invite.email !== user.email) {
         throw new AppError(403, 'invite_other_email', `This invite is for ${invite.email}. Sign in with that e-mail to accept it.`);
       }

@@ -6,9 +6,16 @@ import { AppError, notFound } from '../../core/app-error';
 import { SavedTiming } from './timing.model';
 
 /** The saved fields plus what follows from them; an impossible request is a 400 with the reason. */
-export function evaluate(body: Pick<CreateTimingBody, 'name' | 'panelTypeId' | 'source' | 'interface'>): Omit<SavedTimingDto, 'id' | 'updatedAt'> {
+export function evaluate(
+  body: Pick<CreateTimingBody, 'name' | 'panelTypeId' | 'source' | 'interface'>,
+): Omit<SavedTimingDto, 'id' | 'updatedAt'> {
   if (!panelTypeById(body.panelTypeId)) {
-    throw new AppError(400, 'invalid_input', `panelTypeId "${body.panelTypeId}" is not a built-in panel type; GET /api/panel-types lists them.`, { issues: [{ path: 'panelTypeId', message: 'unknown panel type' }] });
+    throw new AppError(
+      400,
+      'invalid_input',
+      `panelTypeId "${body.panelTypeId}" is not a built-in panel type; GET /api/panel-types lists them.`,
+      { issues: [{ path: 'panelTypeId', message: 'unknown panel type' }] },
+    );
   }
   try {
     return { name: body.name, panelTypeId: body.panelTypeId, source: body.source, interface: body.interface, ...evaluateTiming(body) };

@@ -31,7 +31,18 @@ test('a saved DMT timing comes back with its figures: 31.469 kHz, 59.94 Hz, shif
 });
 
 test('a custom timing with an EL refresh outside 60–120 Hz is saved with a warning', async () => {
-  const body = { ...TIMING_BODY, name: 'Slow custom', source: { kind: 'custom', pixelClockMHz: 18, h: { active: 640, frontPorch: 16, sync: 96, backPorch: 48 }, v: { active: 480, frontPorch: 10, sync: 2, backPorch: 33 }, hSyncPositive: false, vSyncPositive: false } };
+  const body = {
+    ...TIMING_BODY,
+    name: 'Slow custom',
+    source: {
+      kind: 'custom',
+      pixelClockMHz: 18,
+      h: { active: 640, frontPorch: 16, sync: 96, backPorch: 48 },
+      v: { active: 480, frontPorch: 10, sync: 2, backPorch: 33 },
+      hSyncPositive: false,
+      vSyncPositive: false,
+    },
+  };
   const res = await owner.post(url(), body);
   expect(res.status).toBe(201);
   expect(res.body.timing.figures.refreshHz).toBeCloseTo(42.86, 2);
@@ -41,10 +52,48 @@ test('a custom timing with an EL refresh outside 60–120 Hz is saved with a war
 test.each([
   ['an unknown mode', { source: { kind: 'standard', standard: 'dmt', mode: '641x480@60' } }, 'impossible_timing', 'not among the fixed'],
   ['an unknown panel type', { panelTypeId: 'lcd-9000' }, 'invalid_input', 'not a built-in panel type'],
-  ['a width that does not divide into the shift clock', { source: { kind: 'standard', standard: 'cvt-rb2', mode: '1004x480@60' }, interface: { dualScan: false, pixelsPerClock: 8 } }, 'impossible_timing', 'do not divide'],
-  ['a negative porch', { source: { kind: 'custom', pixelClockMHz: 25, h: { active: 640, frontPorch: -1, sync: 96, backPorch: 48 }, v: { active: 480, frontPorch: 10, sync: 2, backPorch: 33 }, hSyncPositive: false, vSyncPositive: false } }, 'invalid_input', 'front porch pixels must be a whole number'],
-  ['a refresh rate the VBE block cannot carry', { source: { kind: 'custom', pixelClockMHz: 1000, h: { active: 64, frontPorch: 0, sync: 1, backPorch: 0 }, v: { active: 64, frontPorch: 0, sync: 1, backPorch: 0 }, hSyncPositive: false, vSyncPositive: false } }, 'impossible_timing', "16-bit RefreshRate field holds (at most 65535)"],
-  ['pixels per clock of 3', { interface: { dualScan: false, pixelsPerClock: 3 } }, 'invalid_input', 'pixels per clock must be one of 1, 4, 8, 16'],
+  [
+    'a width that does not divide into the shift clock',
+    { source: { kind: 'standard', standard: 'cvt-rb2', mode: '1004x480@60' }, interface: { dualScan: false, pixelsPerClock: 8 } },
+    'impossible_timing',
+    'do not divide',
+  ],
+  [
+    'a negative porch',
+    {
+      source: {
+        kind: 'custom',
+        pixelClockMHz: 25,
+        h: { active: 640, frontPorch: -1, sync: 96, backPorch: 48 },
+        v: { active: 480, frontPorch: 10, sync: 2, backPorch: 33 },
+        hSyncPositive: false,
+        vSyncPositive: false,
+      },
+    },
+    'invalid_input',
+    'front porch pixels must be a whole number',
+  ],
+  [
+    'a refresh rate the VBE block cannot carry',
+    {
+      source: {
+        kind: 'custom',
+        pixelClockMHz: 1000,
+        h: { active: 64, frontPorch: 0, sync: 1, backPorch: 0 },
+        v: { active: 64, frontPorch: 0, sync: 1, backPorch: 0 },
+        hSyncPositive: false,
+        vSyncPositive: false,
+      },
+    },
+    'impossible_timing',
+    '16-bit RefreshRate field holds (at most 65535)',
+  ],
+  [
+    'pixels per clock of 3',
+    { interface: { dualScan: false, pixelsPerClock: 3 } },
+    'invalid_input',
+    'pixels per clock must be one of 1, 4, 8, 16',
+  ],
 ])('refuses %s with the reason and stores nothing', async (_name, patch, code, message) => {
   const before = await SavedTiming.count();
   const res = await owner.post(url(), { ...TIMING_BODY, ...patch });

@@ -11,14 +11,22 @@ const gray = (w: number, h: number, f: (x: number, y: number) => number) => {
 
 describe('fit', () => {
   test('native: 1:1, centred, padding black [calc] from the stated placement rule', () => {
-    const out = fitToGrid(gray(2, 2, () => 255), cell(4, 4), 'native');
+    const out = fitToGrid(
+      gray(2, 2, () => 255),
+      cell(4, 4),
+      'native',
+    );
     const lit = Array.from({ length: 16 }, (_, i) => out.data[i * 3]);
     expect(lit).toEqual([0, 0, 0, 0, 0, 1, 1, 0, 0, 1, 1, 0, 0, 0, 0, 0]);
   });
 
   test('integer: the largest whole enlargement, repeating pixels exactly [calc]', () => {
     expect(placement(3, 2, cell(10, 10), 'integer')).toMatchObject({ scaleX: 3, scaleY: 3 });
-    const out = fitToGrid(gray(2, 1, (x) => (x ? 255 : 0)), cell(4, 2), 'integer');
+    const out = fitToGrid(
+      gray(2, 1, (x) => (x ? 255 : 0)),
+      cell(4, 2),
+      'integer',
+    );
     expect(Array.from({ length: 8 }, (_, i) => out.data[i * 3])).toEqual([0, 0, 1, 1, 0, 0, 1, 1]);
   });
 
@@ -27,16 +35,28 @@ describe('fit', () => {
   });
 
   test('area: a checker of 2 × 2 pixels a cell averages to 0.5 in linear light; a 2 × 2 image fills the panel at × 4 [std] IEC 61966-2-1 decode', () => {
-    const out = fitToGrid(gray(2, 2, (x, y) => ((x + y) % 2 ? 255 : 0)), cell(8, 8), 'area');
+    const out = fitToGrid(
+      gray(2, 2, (x, y) => ((x + y) % 2 ? 255 : 0)),
+      cell(8, 8),
+      'area',
+    );
     // Every cell is covered by a quarter of a pixel pattern… scale 4: each cell is one pixel's value.
     expect(placement(2, 2, cell(8, 8), 'area').scaleX).toBe(4);
-    const big = fitToGrid(gray(16, 16, (x, y) => ((x + y) % 2 ? 255 : 0)), cell(8, 8), 'area');
+    const big = fitToGrid(
+      gray(16, 16, (x, y) => ((x + y) % 2 ? 255 : 0)),
+      cell(8, 8),
+      'area',
+    );
     for (let i = 0; i < 64; i++) expect(big.data[i * 3]).toBeCloseTo(0.5, 6);
     expect(out.data[0]).toBe(0);
   });
 
   test('area: mid-gray 128 averaged stays 0.2158605 linear [std] IEC 61966-2-1 decode', () => {
-    const out = fitToGrid(gray(16, 16, () => 128), cell(8, 8), 'area');
+    const out = fitToGrid(
+      gray(16, 16, () => 128),
+      cell(8, 8),
+      'area',
+    );
     expect(out.data[0]).toBeCloseTo(srgbDecode(128 / 255), 6);
   });
 
@@ -53,7 +73,8 @@ describe('fit', () => {
 describe('whole-cell placement for native and integer fits', () => {
   const litCells = (out: { cols: number; data: Float32Array }) => {
     const lit: [number, number, number][] = [];
-    for (let i = 0; i < out.data.length / 3; i++) if (out.data[i * 3] > 0) lit.push([i % out.cols, Math.floor(i / out.cols), +out.data[i * 3].toFixed(6)]);
+    for (let i = 0; i < out.data.length / 3; i++)
+      if (out.data[i * 3] > 0) lit.push([i % out.cols, Math.floor(i / out.cols), +out.data[i * 3].toFixed(6)]);
     return lit;
   };
   test.each([
@@ -61,18 +82,30 @@ describe('whole-cell placement for native and integer fits', () => {
     ['62 × 62 on 64 × 64 (even spare: 2)', 62, 64, 1],
     ['7 × 7 on 10 × 10 (odd spare: 3)', 7, 10, 1],
   ])('native %s: one lit pixel lights exactly one cell at full level [cp] pixel art maps pixel → cell', (_name, size, panel, offset) => {
-    const out = fitToGrid(gray(size, size, (x, y) => (x === 5 && y === 2 ? 255 : 0)), cell(panel, panel), 'native');
+    const out = fitToGrid(
+      gray(size, size, (x, y) => (x === 5 && y === 2 ? 255 : 0)),
+      cell(panel, panel),
+      'native',
+    );
     expect(litCells(out)).toEqual([[5 + offset, 2 + offset, 1]]);
   });
   test('integer ×3: 21 × 21 on 64 × 64 (one spare cell) turns a lit pixel into a sharp 3 × 3 block at full level [cp]', () => {
     expect(placement(21, 21, cell(64, 64), 'integer')).toEqual({ scaleX: 3, scaleY: 3, offsetX: 0, offsetY: 0 });
-    const out = fitToGrid(gray(21, 21, (x, y) => (x === 4 && y === 7 ? 255 : 0)), cell(64, 64), 'integer');
+    const out = fitToGrid(
+      gray(21, 21, (x, y) => (x === 4 && y === 7 ? 255 : 0)),
+      cell(64, 64),
+      'integer',
+    );
     const block = [];
     for (let y = 21; y < 24; y++) for (let x = 12; x < 15; x++) block.push([x, y, 1]);
     expect(litCells(out)).toEqual(block);
   });
   test('a 256 × 1 ramp on an 8-row panel lands on one row at full strength [cp]', () => {
-    const out = fitToGrid(gray(256, 1, (x) => x), cell(256, 8), 'native');
+    const out = fitToGrid(
+      gray(256, 1, (x) => x),
+      cell(256, 8),
+      'native',
+    );
     const rows = new Set(litCells(out).map(([, r]) => r));
     expect([...rows]).toEqual([3]);
     expect(out.data[(3 * 256 + 255) * 3]).toBeCloseTo(1, 6);

@@ -48,7 +48,15 @@ function passRow(from: Float32Array, to: Float32Array, width: number, pad: numbe
  * buffers (they stay in the processor's cache), written once to dst. `row(y, into, offset)`
  * supplies row y.
  */
-function blurRows(row: (y: number, into: Float32Array, offset: number) => void, dst: Float32Array, width: number, y0: number, y1: number, r: number, alpha: number): void {
+function blurRows(
+  row: (y: number, into: Float32Array, offset: number) => void,
+  dst: Float32Array,
+  width: number,
+  y0: number,
+  y1: number,
+  r: number,
+  alpha: number,
+): void {
   const pad = r + 1;
   const size = width + 2 * pad;
   // Zero margins: the passes write only the row's own samples.
@@ -71,7 +79,17 @@ function blurRows(row: (y: number, into: Float32Array, offset: number) => void, 
  * row (cache friendly). Each column is summed on its own, so column bands done apart give the
  * same values as one pass.
  */
-function passColumns(src: Float32Array, dst: Float32Array, width: number, height: number, x0: number, x1: number, r: number, alpha: number, sums: Float64Array): void {
+function passColumns(
+  src: Float32Array,
+  dst: Float32Array,
+  width: number,
+  height: number,
+  x0: number,
+  x1: number,
+  r: number,
+  alpha: number,
+  sums: Float64Array,
+): void {
   const c = 1 / (2 * r + 1 + 2 * alpha);
   const ca = c * alpha;
   sums.fill(0);
@@ -121,7 +139,14 @@ export function gaussianBlur(data: Float32Array, width: number, height: number, 
  * into[offset…] — so a caller can produce rows on the fly instead of building the field. The
  * result goes into `out` when given (width × height samples), else into a new array.
  */
-export function gaussianBlurRows(row: (y: number, into: Float32Array, offset: number) => void, width: number, height: number, sigmaX: number, sigmaY: number, out: Float32Array = new Float32Array(width * height)): Float32Array {
+export function gaussianBlurRows(
+  row: (y: number, into: Float32Array, offset: number) => void,
+  width: number,
+  height: number,
+  sigmaX: number,
+  sigmaY: number,
+  out: Float32Array = new Float32Array(width * height),
+): Float32Array {
   blurAcross(row, out, width, 0, height, sigmaX);
   blurDown(out, width, height, 0, width, sigmaY);
   return out;
@@ -131,7 +156,14 @@ export function gaussianBlurRows(row: (y: number, into: Float32Array, offset: nu
  * The first half of gaussianBlurRows for rows [y0, y1) of `out`: σx across (or the rows as they
  * are, for σx = 0). Row bands done apart, then blurDown, give gaussianBlurRows' values.
  */
-export function blurAcross(row: (y: number, into: Float32Array, offset: number) => void, out: Float32Array, width: number, y0: number, y1: number, sigmaX: number): void {
+export function blurAcross(
+  row: (y: number, into: Float32Array, offset: number) => void,
+  out: Float32Array,
+  width: number,
+  y0: number,
+  y1: number,
+  sigmaX: number,
+): void {
   if (sigmaX > 0) {
     const { r, alpha } = extendedBox(sigmaX);
     blurRows(row, out, width, y0, y1, r, alpha);

@@ -4,12 +4,15 @@ import { fluxField, glowField, glowPlan, haloRadiusFromGlass } from './glow';
 import { PANEL_TYPES } from '../../model/panel-types';
 
 describe('extended box cascade', () => {
-  test.each([0.3, 0.8, 1.5, 2.7, 5, 12.5])('three passes at σ = %f have variance exactly σ² [paper] Gwosdek et al. 2011, from memory; [calc]', (sigma) => {
-    const { r, alpha } = extendedBox(sigma);
-    expect(3 * extendedBoxVariance(r, alpha)).toBeCloseTo(sigma * sigma, 9);
-    expect(alpha).toBeGreaterThanOrEqual(0);
-    expect(alpha).toBeLessThan(1);
-  });
+  test.each([0.3, 0.8, 1.5, 2.7, 5, 12.5])(
+    'three passes at σ = %f have variance exactly σ² [paper] Gwosdek et al. 2011, from memory; [calc]',
+    (sigma) => {
+      const { r, alpha } = extendedBox(sigma);
+      expect(3 * extendedBoxVariance(r, alpha)).toBeCloseTo(sigma * sigma, 9);
+      expect(alpha).toBeGreaterThanOrEqual(0);
+      expect(alpha).toBeLessThan(1);
+    },
+  );
 
   test('an impulse blurred far from the edges keeps its energy and its variance is σ² per axis [calc]', () => {
     const w = 101;
@@ -19,12 +22,13 @@ describe('extended box cascade', () => {
     let sum = 0;
     let vx = 0;
     let vy = 0;
-    for (let y = 0; y < w; y++) for (let x = 0; x < w; x++) {
-      const v = out[y * w + x];
-      sum += v;
-      vx += v * (x - 50) ** 2;
-      vy += v * (y - 50) ** 2;
-    }
+    for (let y = 0; y < w; y++)
+      for (let x = 0; x < w; x++) {
+        const v = out[y * w + x];
+        sum += v;
+        vx += v * (x - 50) ** 2;
+        vy += v * (y - 50) ** 2;
+      }
     expect(sum).toBeCloseTo(1, 5);
     expect(vx).toBeCloseTo(16, 3);
     expect(vy).toBeCloseTo(6.25, 3);
@@ -34,22 +38,30 @@ describe('extended box cascade', () => {
   // Both see an 8-bit pattern far from the edges. Tolerance: worst pixel 6/255 (2.4 % of full
   // scale: three boxes are a Gaussian of the right variance, not of exactly its shape, plus
   // sharp's 8-bit rounding) and mean absolute difference 0.75/255.
-  test.each([1.5, 3, 6])('matches sharp/libvips blur(σ = %f) on a bar and square pattern [calc] against the sharp/libvips library', async (sigma) => {
-    const w = 96;
-    const src = new Uint8Array(w * w);
-    for (let y = 30; y < 66; y++) for (let x = 30; x < 66; x++) if (x < 40 || (x > 50 && x < 53) || (y > 58 && x > 56)) src[y * w + x] = 255;
-    const ref = await sharp(src, { raw: { width: w, height: w, channels: 1 } }).blur({ sigma, minAmplitude: 0.001, precision: 'float' }).toColourspace('b-w').raw().toBuffer();
-    const ours = gaussianBlur(Float32Array.from(src), w, w, sigma, sigma);
-    let worst = 0;
-    let total = 0;
-    for (let i = 0; i < ours.length; i++) {
-      const d = Math.abs(ours[i] - ref[i]);
-      worst = Math.max(worst, d);
-      total += d;
-    }
-    expect(worst).toBeLessThanOrEqual(6);
-    expect(total / ours.length).toBeLessThanOrEqual(0.75);
-  });
+  test.each([1.5, 3, 6])(
+    'matches sharp/libvips blur(σ = %f) on a bar and square pattern [calc] against the sharp/libvips library',
+    async (sigma) => {
+      const w = 96;
+      const src = new Uint8Array(w * w);
+      for (let y = 30; y < 66; y++)
+        for (let x = 30; x < 66; x++) if (x < 40 || (x > 50 && x < 53) || (y > 58 && x > 56)) src[y * w + x] = 255;
+      const ref = await sharp(src, { raw: { width: w, height: w, channels: 1 } })
+        .blur({ sigma, minAmplitude: 0.001, precision: 'float' })
+        .toColourspace('b-w')
+        .raw()
+        .toBuffer();
+      const ours = gaussianBlur(Float32Array.from(src), w, w, sigma, sigma);
+      let worst = 0;
+      let total = 0;
+      for (let i = 0; i < ours.length; i++) {
+        const d = Math.abs(ours[i] - ref[i]);
+        worst = Math.max(worst, d);
+        total += d;
+      }
+      expect(worst).toBeLessThanOrEqual(6);
+      expect(total / ours.length).toBeLessThanOrEqual(0.75);
+    },
+  );
 });
 
 describe('glass', () => {
@@ -91,7 +103,12 @@ describe('the halo is a ring (light reflected back by the glass–air surface)',
   test('its radial profile peaks at the ring radius ± one sample, in every direction [calc]', () => {
     const r = (3 / 0.3) * m;
     const centre = c * m + (m - 1) / 2;
-    for (const [dx, dy] of [[1, 0], [0, 1], [-1, 0], [Math.SQRT1_2, Math.SQRT1_2]]) {
+    for (const [dx, dy] of [
+      [1, 0],
+      [0, 1],
+      [-1, 0],
+      [Math.SQRT1_2, Math.SQRT1_2],
+    ]) {
       let best = 0;
       let at = 0;
       for (let d = 0; d < 2 * r; d++) {

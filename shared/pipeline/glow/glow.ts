@@ -42,14 +42,20 @@ export function glowPlan(cell: PanelParams['cell'], glass: PanelParams['glass'])
   const haloMm = glass.haloFromGlass ? haloRadiusFromGlass(glass.glassThicknessMm, glass.refractiveIndex) : glass.haloRadiusMm;
   const resolve = (share: number, sigmaMm: number): GlowComponent => {
     const narrowest = Math.min(sigmaMm / cell.pitchXMm, sigmaMm / cell.pitchYMm);
-    const oversample = !(share > 0 && sigmaMm > 0) || narrowest >= MIN_SIGMA_CELLS ? 1 : Math.min(MAX_OVERSAMPLE, Math.ceil(MIN_SIGMA_CELLS / narrowest));
+    const oversample =
+      !(share > 0 && sigmaMm > 0) || narrowest >= MIN_SIGMA_CELLS ? 1 : Math.min(MAX_OVERSAMPLE, Math.ceil(MIN_SIGMA_CELLS / narrowest));
     return { share, oversample, sigmaX: (sigmaMm / cell.pitchXMm) * oversample, sigmaY: (sigmaMm / cell.pitchYMm) * oversample };
   };
   const glow = resolve(glass.glowShare, glass.glowRadiusMm);
   // The halo: light reflected back from the glass–air surface lands on a ring of radius r around
   // its cell (darker glass inside it), softened by a Gaussian of σ = RING_SOFTNESS · r.
   const halo = resolve(glass.haloShare, RING_SOFTNESS * haloMm);
-  if (halo.share > 0 && haloMm > 0) halo.ring = ringOffsets((haloMm / cell.pitchXMm) * halo.oversample, (haloMm / cell.pitchYMm) * halo.oversample, Math.min(halo.sigmaX, halo.sigmaY));
+  if (halo.share > 0 && haloMm > 0)
+    halo.ring = ringOffsets(
+      (haloMm / cell.pitchXMm) * halo.oversample,
+      (haloMm / cell.pitchYMm) * halo.oversample,
+      Math.min(halo.sigmaX, halo.sigmaY),
+    );
   const used = [glow, halo].filter((c) => c.share > 0).map((c) => c.oversample);
   return { oversample: Math.max(1, ...used), glow, halo };
 }
@@ -132,7 +138,11 @@ export function fluxField(emission: Float32Array, cell: PanelParams['cell'], m: 
 }
 
 /** fluxField row by row: `row(y, into, offset)` writes glow-grid row y of the flux image. */
-export function fluxRows(emission: Float32Array, cell: PanelParams['cell'], m: number): (y: number, into: Float32Array, offset: number) => void {
+export function fluxRows(
+  emission: Float32Array,
+  cell: PanelParams['cell'],
+  m: number,
+): (y: number, into: Float32Array, offset: number) => void {
   const { cols } = cell;
   const fillY = cell.mode === 'crt' ? 1 : cell.fillY;
   const wx = Float64Array.from({ length: m }, (_, k) => apertureShare(cell.fillX, k, m));
@@ -159,7 +169,17 @@ export function fluxRows(emission: Float32Array, cell: PanelParams['cell'], m: n
  * the rows from coarseRow0 on that those fine rows read, and `fine` only its rows from fineRow0
  * on (each field's height stays the whole field's).
  */
-export function addUpsampled(coarse: Field, m: number, fine: Field, M: number, share: number, y0 = 0, y1 = fine.height, coarseRow0 = 0, fineRow0 = 0): void {
+export function addUpsampled(
+  coarse: Field,
+  m: number,
+  fine: Field,
+  M: number,
+  share: number,
+  y0 = 0,
+  y1 = fine.height,
+  coarseRow0 = 0,
+  fineRow0 = 0,
+): void {
   upsampleRows(coarse.data, coarse.width, coarse.height, m, fine.data, fine.width, fine.height, M, share, y0, y1, coarseRow0, fineRow0);
 }
 
@@ -169,7 +189,21 @@ export function addUpsampled(coarse: Field, m: number, fine: Field, M: number, s
  * and calls from other places (before, it was thrown away and rebuilt call after call, running
  * meanwhile unoptimised and allocating a heap number for every sum).
  */
-function upsampleRows(src: Float32Array, cw: number, ch: number, m: number, dst: Float32Array, fw: number, fh: number, M: number, share: number, y0: number, y1: number, coarseRow0: number, fineRow0: number): void {
+function upsampleRows(
+  src: Float32Array,
+  cw: number,
+  ch: number,
+  m: number,
+  dst: Float32Array,
+  fw: number,
+  fh: number,
+  M: number,
+  share: number,
+  y0: number,
+  y1: number,
+  coarseRow0: number,
+  fineRow0: number,
+): void {
   const xs = bilinearTaps(fw, cw, m, M);
   const ys = bilinearTaps(fh, ch, m, M);
   const xi0 = xs.i0;
@@ -246,7 +280,14 @@ export function componentSize(cell: PanelParams['cell'], c: GlowComponent): { wi
  * Step 1 of a component, rows [y0, y1): the cell flux on its grid, blurred across, into `out`
  * (componentSize samples). The flux rows go straight into the blur: the flux image is never stored.
  */
-export function componentAcross(emission: Float32Array, cell: PanelParams['cell'], c: GlowComponent, out: Float32Array, y0: number, y1: number): void {
+export function componentAcross(
+  emission: Float32Array,
+  cell: PanelParams['cell'],
+  c: GlowComponent,
+  out: Float32Array,
+  y0: number,
+  y1: number,
+): void {
   blurAcross(fluxRows(emission, cell, c.oversample), out, cell.cols * c.oversample, y0, y1, c.sigmaX);
 }
 
@@ -262,7 +303,16 @@ export function componentDown(cell: PanelParams['cell'], c: GlowComponent, data:
  * summed in order, so bands summed apart agree. `out.data` may hold only the field's rows from
  * outRow0 on (a band's own rows).
  */
-export function sumComponent(cell: PanelParams['cell'], plan: GlowPlan, k: number, blurred: Float32Array, out: Field, y0: number, y1: number, outRow0 = 0): void {
+export function sumComponent(
+  cell: PanelParams['cell'],
+  plan: GlowPlan,
+  k: number,
+  blurred: Float32Array,
+  out: Field,
+  y0: number,
+  y1: number,
+  outRow0 = 0,
+): void {
   const c = glowComponents(plan)[k];
   const [i0, i1] = [(y0 - outRow0) * out.width, (y1 - outRow0) * out.width];
   const size = componentSize(cell, c);
@@ -293,7 +343,15 @@ function coarseRowsFor(height: number, m: number, M: number, y0: number, y1: num
 }
 
 /** Step 3 for every component at once, rows [y0, y1): `blurred` in glowComponents order (none: zeros); `out` as in sumComponent. */
-export function sumComponents(cell: PanelParams['cell'], plan: GlowPlan, blurred: readonly Float32Array[], out: Field, y0: number, y1: number, outRow0 = 0): void {
+export function sumComponents(
+  cell: PanelParams['cell'],
+  plan: GlowPlan,
+  blurred: readonly Float32Array[],
+  out: Field,
+  y0: number,
+  y1: number,
+  outRow0 = 0,
+): void {
   if (blurred.length === 0) out.data.fill(0, (y0 - outRow0) * out.width, (y1 - outRow0) * out.width);
   blurred.forEach((data, k) => sumComponent(cell, plan, k, data, out, y0, y1, outRow0));
 }

@@ -2,16 +2,37 @@ import { bayerMatrix, CLUSTER4, FLOYD_STEINBERG, quantise, quantiseRefresh } fro
 import { levelCount, levelLights } from './spacing';
 import type { PanelParams } from '../../model/parameters';
 
-const drive = (over: Partial<PanelParams['drive']>): PanelParams['drive'] => ({ grayLevels: 2, levelSpacing: 'linear', dutyTable: [0, 1], dither: 'none', serpentine: false, rowLoading: 0, refreshHz: 60, ...over });
+const drive = (over: Partial<PanelParams['drive']>): PanelParams['drive'] => ({
+  grayLevels: 2,
+  levelSpacing: 'linear',
+  dutyTable: [0, 1],
+  dither: 'none',
+  serpentine: false,
+  rowLoading: 0,
+  refreshHz: 60,
+  ...over,
+});
 
 describe('Bayer ordered dither (Bayer, IEEE ICC 1973) [paper]', () => {
   test('M₂ = [[0,2],[3,1]] and M₄ as published [paper] Bayer 1973', () => {
-    expect(bayerMatrix(2)).toEqual([[0, 2], [3, 1]]);
-    expect(bayerMatrix(4)).toEqual([[0, 8, 2, 10], [12, 4, 14, 6], [3, 11, 1, 9], [15, 7, 13, 5]]);
+    expect(bayerMatrix(2)).toEqual([
+      [0, 2],
+      [3, 1],
+    ]);
+    expect(bayerMatrix(4)).toEqual([
+      [0, 8, 2, 10],
+      [12, 4, 14, 6],
+      [3, 11, 1, 9],
+      [15, 7, 13, 5],
+    ]);
   });
 
   test('M₈ holds each of 0…63 once [paper] Bayer 1973', () => {
-    expect(bayerMatrix(8).flat().sort((a, b) => a - b)).toEqual(Array.from({ length: 64 }, (_, i) => i));
+    expect(
+      bayerMatrix(8)
+        .flat()
+        .sort((a, b) => a - b),
+    ).toEqual(Array.from({ length: 64 }, (_, i) => i));
   });
 
   test('a flat 0.5 field through M₄ lights exactly 8 of 16 cells, in a checkerboard [calc]', () => {
@@ -115,49 +136,59 @@ describe('level spacing: even in light, even to the eye, or a typed duty table',
     }
   });
 
-  test.each([['bayer4'], ['floyd-steinberg']] as const)('%s over a flat field keeps its mean light between two typed levels (within 1 %) [calc]', (dither) => {
-    const table = [0, 0.1, 0.5, 1];
-    const cols = 64;
-    for (const want of [0.05, 0.3, 0.75]) {
-      const field = new Float32Array(cols * cols).fill(want);
-      const out = quantise(field, cols, cols, drive({ levelSpacing: 'table', dutyTable: table, dither, serpentine: true }));
-      const mean = out.reduce((a, b) => a + b, 0) / out.length;
-      expect(Math.abs(mean - want)).toBeLessThan(0.01);
-      // Only the two levels around the demand are used.
-      const used = new Set(Array.from(out, (v) => Math.round(v * 1000) / 1000));
-      expect([...used].every((v) => table.includes(v))).toBe(true);
-      expect(used.size).toBe(2);
-    }
-  });
+  test.each([['bayer4'], ['floyd-steinberg']] as const)(
+    '%s over a flat field keeps its mean light between two typed levels (within 1 %) [calc]',
+    (dither) => {
+      const table = [0, 0.1, 0.5, 1];
+      const cols = 64;
+      for (const want of [0.05, 0.3, 0.75]) {
+        const field = new Float32Array(cols * cols).fill(want);
+        const out = quantise(field, cols, cols, drive({ levelSpacing: 'table', dutyTable: table, dither, serpentine: true }));
+        const mean = out.reduce((a, b) => a + b, 0) / out.length;
+        expect(Math.abs(mean - want)).toBeLessThan(0.01);
+        // Only the two levels around the demand are used.
+        const used = new Set(Array.from(out, (v) => Math.round(v * 1000) / 1000));
+        expect([...used].every((v) => table.includes(v))).toBe(true);
+        expect(used.size).toBe(2);
+      }
+    },
+  );
 });
 
 describe('frame-rate control: a cell alternates between the two levels around its tone', () => {
   const cols = 16;
   const rows = 16;
-  test.each([['frc2', 2], ['frc3', 3], ['frc4', 4]] as const)('%s: each refresh shows only the two levels around the demand; the preview is their mean over the cycle; neighbours are out of step [calc]', (dither, F) => {
-    const p = drive({ grayLevels: 4, dither });
-    const lights = [0, 1 / 3, 2 / 3, 1];
-    for (const want of [0.1, 0.5, 0.9]) {
-      const field = new Float32Array(cols * rows).fill(want);
-      const k = Math.min(2, Math.floor(want * 3));
-      const m = Math.round(F * (want - lights[k]) * 3);
-      const refreshes = Array.from({ length: F }, (_, r) => quantiseRefresh(field, cols, rows, p, r));
-      const average = quantise(field, cols, rows, p);
-      for (let i = 0; i < cols * rows; i++) {
-        const seen = refreshes.map((f) => f[i]);
-        // Only the two levels around the demand, the upper one in m of the F refreshes.
-        expect(seen.every((v) => Math.abs(v - lights[k]) < 1e-6 || Math.abs(v - lights[k + 1]) < 1e-6)).toBe(true);
-        expect(seen.filter((v) => Math.abs(v - lights[k + 1]) < 1e-6).length).toBe(m);
-        // The preview is the mean the eye integrates.
-        expect(average[i]).toBeCloseTo(seen.reduce((a, b) => a + b, 0) / F, 6);
+  test.each([
+    ['frc2', 2],
+    ['frc3', 3],
+    ['frc4', 4],
+  ] as const)(
+    '%s: each refresh shows only the two levels around the demand; the preview is their mean over the cycle; neighbours are out of step [calc]',
+    (dither, F) => {
+      const p = drive({ grayLevels: 4, dither });
+      const lights = [0, 1 / 3, 2 / 3, 1];
+      for (const want of [0.1, 0.5, 0.9]) {
+        const field = new Float32Array(cols * rows).fill(want);
+        const k = Math.min(2, Math.floor(want * 3));
+        const m = Math.round(F * (want - lights[k]) * 3);
+        const refreshes = Array.from({ length: F }, (_, r) => quantiseRefresh(field, cols, rows, p, r));
+        const average = quantise(field, cols, rows, p);
+        for (let i = 0; i < cols * rows; i++) {
+          const seen = refreshes.map((f) => f[i]);
+          // Only the two levels around the demand, the upper one in m of the F refreshes.
+          expect(seen.every((v) => Math.abs(v - lights[k]) < 1e-6 || Math.abs(v - lights[k + 1]) < 1e-6)).toBe(true);
+          expect(seen.filter((v) => Math.abs(v - lights[k + 1]) < 1e-6).length).toBe(m);
+          // The preview is the mean the eye integrates.
+          expect(average[i]).toBeCloseTo(seen.reduce((a, b) => a + b, 0) / F, 6);
+        }
+        // In any one refresh about m/F of the cells show the upper level (the phases spread over the area).
+        for (const f of refreshes) {
+          const upper = f.filter((v) => Math.abs(v - lights[k + 1]) < 1e-6).length / (cols * rows);
+          expect(Math.abs(upper - m / F)).toBeLessThanOrEqual(1 / F);
+        }
       }
-      // In any one refresh about m/F of the cells show the upper level (the phases spread over the area).
-      for (const f of refreshes) {
-        const upper = f.filter((v) => Math.abs(v - lights[k + 1]) < 1e-6).length / (cols * rows);
-        expect(Math.abs(upper - m / F)).toBeLessThanOrEqual(1 / F);
-      }
-    }
-  });
+    },
+  );
 
   test('frame-rate control adds levels: 2 native levels over 4 refreshes show 5 averages on a ramp, evenly spaced in light [calc]', () => {
     const ramp = Float32Array.from({ length: 256 }, (_, c) => c / 255);

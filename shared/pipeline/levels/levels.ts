@@ -3,7 +3,10 @@ import { levelBelow, levelLights, nearestLevel } from './spacing';
 
 /** Bayer's recursive ordered-dither matrix M₂ₙ = [[4M, 4M+2], [4M+3, 4M+1]] (Bayer, IEEE ICC 1973). */
 export function bayerMatrix(size: 2 | 4 | 8): number[][] {
-  let m = [[0, 2], [3, 1]];
+  let m = [
+    [0, 2],
+    [3, 1],
+  ];
   while (m.length < size) {
     const n = m.length;
     const next = Array.from({ length: 2 * n }, () => new Array<number>(2 * n).fill(0));
@@ -95,7 +98,15 @@ export function frcFrames(dither: PanelParams['drive']['dither']): number {
  * null gives the average over the cycle, Lₖ + (m/F)(Lₖ₊₁ − Lₖ): what the eye sees at the
  * refresh rate.
  */
-export function frameRateControl(demand: Float32Array, cols: number, rows: number, levels: Float64Array, frames: number, refresh: number | null, out: Float32Array): Float32Array {
+export function frameRateControl(
+  demand: Float32Array,
+  cols: number,
+  rows: number,
+  levels: Float64Array,
+  frames: number,
+  refresh: number | null,
+  out: Float32Array,
+): Float32Array {
   const last = levels.length - 1;
   for (let y = 0; y < rows; y++) {
     for (let x = 0; x < cols; x++) {
@@ -115,13 +126,28 @@ export function frameRateControl(demand: Float32Array, cols: number, rows: numbe
 }
 
 /** The drive levels of one refresh of a frame-rate-control cycle (quantise gives their average). */
-export function quantiseRefresh(demand: Float32Array, cols: number, rows: number, drive: PanelParams['drive'], refresh: number, out?: Float32Array): Float32Array {
+export function quantiseRefresh(
+  demand: Float32Array,
+  cols: number,
+  rows: number,
+  drive: PanelParams['drive'],
+  refresh: number,
+  out?: Float32Array,
+): Float32Array {
   const result = out ?? new Float32Array(cols * rows);
   if (!isFrc(drive.dither)) return quantise(demand, cols, rows, drive, result);
   return frameRateControl(demand, cols, rows, levelLights(drive), frcFrames(drive.dither), refresh, result);
 }
 
-function diffuse(demand: Float32Array, cols: number, rows: number, levels: Float64Array, linear: boolean, serpentine: boolean, out: Float32Array): Float32Array {
+function diffuse(
+  demand: Float32Array,
+  cols: number,
+  rows: number,
+  levels: Float64Array,
+  linear: boolean,
+  serpentine: boolean,
+  out: Float32Array,
+): Float32Array {
   const steps = levels.length - 1;
   // Two rows of carried error (this row and the next), with one guard cell at each end.
   let cur = new Float64Array(cols + 2);

@@ -88,9 +88,21 @@ export class ChannelCoder {
     // display = (colour·(v·peak + off) + ambient)·gain  ⇒  v = ((display/gain − ambient)/colour − off)/peak
     for (let c = 0; c < 257; c++) {
       const display = softKneeInverse(THRESHOLDS[c], u.knee);
-      this.v[c] = c === 0 ? -Infinity : colour > 0 ? ((display / u.gain - ambient) / colour - u.offCdM2) / u.peakCdM2 : display <= ambient * u.gain ? -Infinity : Infinity;
+      this.v[c] =
+        c === 0
+          ? -Infinity
+          : colour > 0
+            ? ((display / u.gain - ambient) / colour - u.offCdM2) / u.peakCdM2
+            : display <= ambient * u.gain
+              ? -Infinity
+              : Infinity;
     }
-    this.vMax = Math.max(2, ...Array.from(this.v).filter((x) => Number.isFinite(x) && x > 0).slice(-1));
+    this.vMax = Math.max(
+      2,
+      ...Array.from(this.v)
+        .filter((x) => Number.isFinite(x) && x > 0)
+        .slice(-1),
+    );
   }
 
   /** The code for relative luminance v: the largest c with v ≥ v[c]. */
@@ -155,7 +167,8 @@ export class PixelCoder {
       previous = cut;
     }
     for (const cut of cuts) {
-      for (let i = Math.max(0, cut - 1); i <= Math.min(cells, cut + 1); i++) this.table[i] = (this.slow(Math.max(0, (i - 1) / this.perV)) & 0xffffff) >>> 0;
+      for (let i = Math.max(0, cut - 1); i <= Math.min(cells, cut + 1); i++)
+        this.table[i] = (this.slow(Math.max(0, (i - 1) / this.perV)) & 0xffffff) >>> 0;
     }
   }
 
@@ -231,10 +244,27 @@ function glowRowAcross(glow: Float32Array, base: number, gi: Int32Array, gw: Flo
  * p0, p1; more than two already summed in p0) plus the glow (rows h0, h1, weights ty0, ty1), through
  * the pixel coder. Only typed arrays and numbers come in, so the engine keeps one optimised copy.
  */
-function encodeRow(words: Int32Array, taps: number, w0: number, p0: Float32Array, w1: number, p1: Float32Array, directShare: number, h0: Float64Array, ty0: number, h1: Float64Array, ty1: number, table: Int32Array, perV: number, vMax: number, coder: PixelCoder): void {
+function encodeRow(
+  words: Int32Array,
+  taps: number,
+  w0: number,
+  p0: Float32Array,
+  w1: number,
+  p1: Float32Array,
+  directShare: number,
+  h0: Float64Array,
+  ty0: number,
+  h1: Float64Array,
+  ty1: number,
+  table: Int32Array,
+  perV: number,
+  vMax: number,
+  coder: PixelCoder,
+): void {
   for (let x = 0; x < words.length; x++) {
     // The same float32 sums as accumulating into a Float32Array row, one tap after the other.
-    const d = taps === 0 ? 0 : taps === 1 ? Math.fround(w0 * p0[x]) : taps === 2 ? Math.fround(Math.fround(w0 * p0[x]) + w1 * p1[x]) : p0[x];
+    const d =
+      taps === 0 ? 0 : taps === 1 ? Math.fround(w0 * p0[x]) : taps === 2 ? Math.fround(Math.fround(w0 * p0[x]) + w1 * p1[x]) : p0[x];
     const v = directShare * d + (h0[x] * ty0 + h1[x] * ty1);
     // PixelCoder.word's fast path inline; the rest (alpha 0, or v off the table) through it.
     const w = v > 0 && v < vMax ? table[(v * perV) | 0] : 0;
@@ -262,7 +292,14 @@ export function glowRowsFor(u: OutputUniforms, glowHeight: number, band: RowBand
  * `glow.data` may hold only the field's rows from glowRow0 on (glowRowsFor the band); its height
  * stays the whole field's.
  */
-export function compose(emission: Float32Array, glow: Field, u: OutputUniforms, out?: RgbaImage, band: RowBand = { y0: 0, y1: u.height }, glowRow0 = 0): RgbaImage {
+export function compose(
+  emission: Float32Array,
+  glow: Field,
+  u: OutputUniforms,
+  out?: RgbaImage,
+  band: RowBand = { y0: 0, y1: u.height },
+  glowRow0 = 0,
+): RgbaImage {
   const { width, height, cols, rows } = u;
   const image = out ?? { width, height, data: new Uint8Array(width * height * 4) };
   const xs = apertureTaps(width, cols, u.cellW, u.fillX);
@@ -331,7 +368,23 @@ export function compose(emission: Float32Array, glow: Field, u: OutputUniforms, 
     }
     if (taps > 2) p0 = direct;
     const words = view ? view.subarray(y * width, (y + 1) * width) : rowWords;
-    encodeRow(words, taps, w0, p0, w1, p1, directShare, glowRowOf(gy.index[y * 2]), gy.weight[y * 2], glowRowOf(gy.index[y * 2 + 1]), gy.weight[y * 2 + 1], table, perV, vMax, coder);
+    encodeRow(
+      words,
+      taps,
+      w0,
+      p0,
+      w1,
+      p1,
+      directShare,
+      glowRowOf(gy.index[y * 2]),
+      gy.weight[y * 2],
+      glowRowOf(gy.index[y * 2 + 1]),
+      gy.weight[y * 2 + 1],
+      table,
+      perV,
+      vMax,
+      coder,
+    );
     if (!view) {
       const o = y * width * 4;
       for (let x = 0; x < width; x++) {

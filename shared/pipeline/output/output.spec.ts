@@ -9,7 +9,11 @@ describe('cell aperture coverage (exact box overlap)', () => {
   });
 
   test('coverage of a cell summed over pixels is its aperture width [calc]', () => {
-    for (const [s, f] of [[3, 0.72], [2.5, 0.6], [7, 1]] as const) {
+    for (const [s, f] of [
+      [3, 0.72],
+      [2.5, 0.6],
+      [7, 1],
+    ] as const) {
       let sum = 0;
       for (let p = -2; p < 20; p++) sum += apertureCoverage(p, 1, s, f);
       expect(sum).toBeCloseTo(s * f, 9);
@@ -94,27 +98,31 @@ describe('ChannelCoder (light → knee → sRGB as thresholds)', () => {
     ['amber EL defaults', {}],
     ['exposure +2 EV into the knee', { viewing: { exposureEv: 2, knee: 0.7 } }],
     ['bright ambient, no knee', { viewing: { ambientCdM2: 40, knee: 1 } }],
-  ])('%s: the one-lookup pixel table gives the channel coders’ bytes, at every threshold and one ulp either side [regression] against the channel coders', (_name, patch) => {
-    const { PixelCoder } = jest.requireActual('./compose') as typeof import('./compose');
-    const u = outputUniforms(mergeParams(PANEL_TYPES[0].defaults, patch), 3);
-    const pixel = new PixelCoder(u);
-    const [r, g, b] = pixel.channels;
-    const next = (x: number, dir: 1 | -1) => {
-      const f = new Float64Array([x]);
-      const bits = new BigInt64Array(f.buffer);
-      bits[0] += BigInt(x > 0 ? dir : -dir);
-      return f[0];
-    };
-    const probes = [0, -1e-9, 1e-12, 7.5, 1e9, ...Array.from({ length: 40000 }, (_, i) => (i / 40000) * 3)];
-    for (const c of pixel.channels) for (const t of c.v) if (Number.isFinite(t) && t > 0) probes.push(t, next(t, 1), next(t, -1));
-    let mismatches = 0;
-    for (const v of probes) {
-      const w = pixel.word(v);
-      if ((w & 255) !== r.code(v) || ((w >>> 8) & 255) !== g.code(v) || ((w >>> 16) & 255) !== b.code(v) || w >>> 24 !== 255) mismatches++;
-    }
-    expect(probes.length).toBeGreaterThan(40000);
-    expect(mismatches).toBe(0);
-  });
+  ])(
+    '%s: the one-lookup pixel table gives the channel coders’ bytes, at every threshold and one ulp either side [regression] against the channel coders',
+    (_name, patch) => {
+      const { PixelCoder } = jest.requireActual('./compose') as typeof import('./compose');
+      const u = outputUniforms(mergeParams(PANEL_TYPES[0].defaults, patch), 3);
+      const pixel = new PixelCoder(u);
+      const [r, g, b] = pixel.channels;
+      const next = (x: number, dir: 1 | -1) => {
+        const f = new Float64Array([x]);
+        const bits = new BigInt64Array(f.buffer);
+        bits[0] += BigInt(x > 0 ? dir : -dir);
+        return f[0];
+      };
+      const probes = [0, -1e-9, 1e-12, 7.5, 1e9, ...Array.from({ length: 40000 }, (_, i) => (i / 40000) * 3)];
+      for (const c of pixel.channels) for (const t of c.v) if (Number.isFinite(t) && t > 0) probes.push(t, next(t, 1), next(t, -1));
+      let mismatches = 0;
+      for (const v of probes) {
+        const w = pixel.word(v);
+        if ((w & 255) !== r.code(v) || ((w >>> 8) & 255) !== g.code(v) || ((w >>> 16) & 255) !== b.code(v) || w >>> 24 !== 255)
+          mismatches++;
+      }
+      expect(probes.length).toBeGreaterThan(40000);
+      expect(mismatches).toBe(0);
+    },
+  );
 });
 
 describe('scan-line sampling (area-true or centred on pixel rows)', () => {
@@ -124,7 +132,11 @@ describe('scan-line sampling (area-true or centred on pixel rows)', () => {
   const { PANEL_TYPES } = jest.requireActual('../../model/panel-types') as typeof import('../../model/panel-types');
   const crt = PANEL_TYPES.find((t) => t.id === 'crt-green-p1')!.defaults;
   const flat = (lineSampling: 'auto' | 'area' | 'centred') =>
-    mergeParams(crt, { cell: { cols: 16, rows: 16, lineSampling, fillX: 1 }, glass: { glowShare: 0, haloShare: 0 }, drive: { dither: 'none', rowLoading: 0 } });
+    mergeParams(crt, {
+      cell: { cols: 16, rows: 16, lineSampling, fillX: 1 },
+      glass: { glowShare: 0, haloShare: 0 },
+      drive: { dither: 'none', rowLoading: 0 },
+    });
   const lit = { width: 16, height: 16, data: new Uint8Array(16 * 16 * 4).fill(255) };
   /** Green channel down the middle column, rows 8 lines from the top. */
   const column = (lineSampling: 'auto' | 'area' | 'centred', scale: number) => {
@@ -147,7 +159,12 @@ describe('scan-line sampling (area-true or centred on pixel rows)', () => {
   });
 
   test('centring keeps each line’s light: the coverage of one line summed over rows is its pitch, for narrow and wide spots [calc]', () => {
-    for (const [s, sigma] of [[2, 0.76], [3, 0.3], [4.5, 1.7], [2, 0.15]]) {
+    for (const [s, sigma] of [
+      [2, 0.76],
+      [3, 0.3],
+      [4.5, 1.7],
+      [2, 0.15],
+    ]) {
       let sum = 0;
       for (let p = 0; p < 60; p++) sum += lineCoverage(p, 5, s, sigma, true);
       expect(sum).toBeCloseTo(s, 6);

@@ -48,7 +48,10 @@ export function emissionBands(e: PanelParams['emission']): EmissionBand[] {
 export function outputUniforms(p: PanelParams, scale: number): OutputUniforms {
   const cellW = scale;
   const cellH = (scale * p.cell.pitchYMm) / p.cell.pitchXMm;
-  const xyz = p.emission.colourSource === 'spectrum' ? spectrumToXyz(emissionBands(p.emission)) : chromaticityToXyz(p.emission.chromaX, p.emission.chromaY);
+  const xyz =
+    p.emission.colourSource === 'spectrum'
+      ? spectrumToXyz(emissionBands(p.emission))
+      : chromaticityToXyz(p.emission.chromaX, p.emission.chromaY);
   // Luminance 1, so peakCdM2 is the luminance of a lit cell for every colour (Rec. 709 weights on linear sRGB [std]).
   const gamutMapped = emissionColour(xyz).rgb;
   const y = REC709[0] * gamutMapped[0] + REC709[1] * gamutMapped[1] + REC709[2] * gamutMapped[2];
@@ -65,7 +68,8 @@ export function outputUniforms(p: PanelParams, scale: number): OutputUniforms {
     fillY: p.cell.fillY,
     crt: p.cell.mode === 'crt',
     spotSigmaPx: p.cell.spotSigma * cellH,
-    lineCentred: p.cell.mode === 'crt' && (p.cell.lineSampling === 'centred' || (p.cell.lineSampling === 'auto' && cellH < LINE_CENTRED_BELOW_PX)),
+    lineCentred:
+      p.cell.mode === 'crt' && (p.cell.lineSampling === 'centred' || (p.cell.lineSampling === 'auto' && cellH < LINE_CENTRED_BELOW_PX)),
     directShare: 1 - (plan.glow.share + plan.halo.share),
     glowOversample: plan.oversample,
     colour,

@@ -33,5 +33,7 @@ export const csrfInterceptor: HttpInterceptorFn = (req, next) => {
   const existing = readCookie('XSRF-TOKEN');
   const first = existing ? withToken(decodeURIComponent(existing)) : from(freshToken(http)).pipe(switchMap(withToken));
   // A token whose session ended (idle timeout, sign-out elsewhere) is replaced once, then the call is retried.
-  return first.pipe(catchError((err) => (existing && isStaleToken(err) ? from(freshToken(http)).pipe(switchMap(withToken)) : throwError(() => err))));
+  return first.pipe(
+    catchError((err) => (existing && isStaleToken(err) ? from(freshToken(http)).pipe(switchMap(withToken)) : throwError(() => err))),
+  );
 };

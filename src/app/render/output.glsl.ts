@@ -15,7 +15,6 @@ in vec2 position;
 void main() { gl_Position = vec4(position, 0.0, 1.0); }
 `;
 
-
 const HEADER = /* glsl */ `#version 300 es
 precision highp float;
 precision highp int;

@@ -6,7 +6,10 @@ import { ENCODE_FRAGMENT, FULLSCREEN_VERTEX, PANEL_FRAGMENT, V_FRAGMENT } from '
 
 function compile(gl: WebGL2RenderingContext, vertex: string, fragment: string): WebGLProgram {
   const program = gl.createProgram()!;
-  for (const [type, source] of [[gl.VERTEX_SHADER, vertex], [gl.FRAGMENT_SHADER, fragment]] as const) {
+  for (const [type, source] of [
+    [gl.VERTEX_SHADER, vertex],
+    [gl.FRAGMENT_SHADER, fragment],
+  ] as const) {
     const shader = gl.createShader(type)!;
     gl.shaderSource(shader, source);
     gl.compileShader(shader);
@@ -47,7 +50,12 @@ export class PanelRenderer {
 
   /** A renderer, or null when the browser has no WebGL2 (the caller falls back to the CPU). */
   static create(canvas: HTMLCanvasElement | OffscreenCanvas): PanelRenderer | null {
-    const gl = canvas.getContext('webgl2', { antialias: false, preserveDrawingBuffer: true, premultipliedAlpha: false, alpha: false }) as WebGL2RenderingContext | null;
+    const gl = canvas.getContext('webgl2', {
+      antialias: false,
+      preserveDrawingBuffer: true,
+      premultipliedAlpha: false,
+      alpha: false,
+    }) as WebGL2RenderingContext | null;
     return gl ? new PanelRenderer(gl) : null;
   }
 
@@ -84,7 +92,20 @@ export class PanelRenderer {
 
   /** Per-column and per-row taps (coverage and glow coordinates), rebuilt when the geometry changes. */
   private uploadTaps(u: OutputUniforms): void {
-    const key = JSON.stringify([u.width, u.height, u.cellW, u.cellH, u.fillX, u.fillY, u.crt, u.spotSigmaPx, u.lineCentred, u.glowOversample, this.glowSize, this.grid]);
+    const key = JSON.stringify([
+      u.width,
+      u.height,
+      u.cellW,
+      u.cellH,
+      u.fillX,
+      u.fillY,
+      u.crt,
+      u.spotSigmaPx,
+      u.lineCentred,
+      u.glowOversample,
+      this.glowSize,
+      this.grid,
+    ]);
     if (key === this.tapsKey) return;
     this.tapsKey = key;
     const gl = this.gl;
@@ -103,14 +124,26 @@ export class PanelRenderer {
       }
       return out;
     };
-    const columns = pack(u.width, apertureTaps(u.width, u.cols, u.cellW, u.fillX), glowTaps(u.width, this.glowSize[0], u.cellW, u.glowOversample));
+    const columns = pack(
+      u.width,
+      apertureTaps(u.width, u.cols, u.cellW, u.fillX),
+      glowTaps(u.width, this.glowSize[0], u.cellW, u.glowOversample),
+    );
     const rowGlow = glowTaps(u.height, this.glowSize[1], u.cellH, u.glowOversample);
-    const rows = pack(u.height, u.crt ? { index: new Int32Array(u.height), weight: new Float32Array(u.height), stride: 1 } : apertureTaps(u.height, u.rows, u.cellH, u.fillY), rowGlow);
+    const rows = pack(
+      u.height,
+      u.crt
+        ? { index: new Int32Array(u.height), weight: new Float32Array(u.height), stride: 1 }
+        : apertureTaps(u.height, u.rows, u.cellH, u.fillY),
+      rowGlow,
+    );
     gl.bindTexture(gl.TEXTURE_2D, this.columnTex);
     gl.texImage2D(gl.TEXTURE_2D, 0, gl.RGBA32F, u.width, 2, 0, gl.RGBA, gl.FLOAT, columns);
     gl.bindTexture(gl.TEXTURE_2D, this.rowTex);
     gl.texImage2D(gl.TEXTURE_2D, 0, gl.RGBA32F, u.height, 2, 0, gl.RGBA, gl.FLOAT, rows);
-    const lines = u.crt ? lineTaps(u.height, u.rows, u.cellH, u.spotSigmaPx, u.lineCentred) : { index: new Int32Array(u.height), weight: new Float32Array(u.height), stride: 1 };
+    const lines = u.crt
+      ? lineTaps(u.height, u.rows, u.cellH, u.spotSigmaPx, u.lineCentred)
+      : { index: new Int32Array(u.height), weight: new Float32Array(u.height), stride: 1 };
     const pairs = new Float32Array(u.height * lines.stride * 2);
     for (let i = 0; i < u.height * lines.stride; i++) {
       pairs[i * 2] = lines.index[i];
@@ -189,7 +222,15 @@ export class PanelRenderer {
     const gl = this.gl;
     gl.useProgram(program);
     const loc = (name: string) => this.location(program, name);
-    const textures: [string, WebGLTexture | undefined][] = [['emission', this.emissionTex], ['glow', this.glowTex], ['columnTaps', this.columnTex], ['rowTaps', this.rowTex], ['lineTaps', this.lineTex], ['thresholds', this.thresholdTex], ['vField', vField]];
+    const textures: [string, WebGLTexture | undefined][] = [
+      ['emission', this.emissionTex],
+      ['glow', this.glowTex],
+      ['columnTaps', this.columnTex],
+      ['rowTaps', this.rowTex],
+      ['lineTaps', this.lineTex],
+      ['thresholds', this.thresholdTex],
+      ['vField', vField],
+    ];
     textures.forEach(([name, tex], unit) => {
       if (!tex) return;
       gl.activeTexture(gl.TEXTURE0 + unit);

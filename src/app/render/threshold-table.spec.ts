@@ -23,26 +23,29 @@ describe('thresholdTable (the shader’s light → sRGB step)', () => {
     ['+2 EV into the knee', { viewing: { exposureEv: 2, knee: 0.7 } }],
     ['dark room, no ambient', { viewing: { ambientCdM2: 0, offCdM2: 0 } }],
     ['white CRT', { emission: { peak1Nm: 460, fwhm1Nm: 40, peak2Nm: 565, fwhm2Nm: 60, band2Weight: 1.6 } }],
-  ])('%s: bisection over the table gives the code of the exact formulas, away from float32 rounding of a threshold [calc]', (_name, patch) => {
-    const u = outputUniforms(mergeParams(PANEL_TYPES[0].defaults, patch), 2);
-    const table = thresholdTable(u);
-    expect(table.length).toBe(THRESHOLD_CODES * 4);
-    const ambient = u.colourY * u.ambientCdM2;
-    let checked = 0;
-    const wrong: string[] = [];
-    for (let k = 0; k <= 20000; k++) {
-      const v = Math.fround((k / 20000) * 3);
-      for (let c = 0; c < 3; c++) {
-        // The formulas themselves (formulas.ts), rounded to the nearest code: the CPU composer's definition.
-        const exact = srgbEncode(softKnee((u.colour[c] * (v * u.peakCdM2 + u.offCdM2) + ambient) * u.gain, u.knee)) * 255;
-        // Within a millionth of a code of a rounding boundary the float32 thresholds may go either way.
-        if (Math.abs(exact - Math.floor(exact) - 0.5) < 1e-6) continue;
-        const want = Math.min(255, Math.max(0, Math.round(exact)));
-        if (shaderCode(table, c, v) !== want) wrong.push(`v ${v}, channel ${c}: ${shaderCode(table, c, v)} instead of ${want}`);
-        checked++;
+  ])(
+    '%s: bisection over the table gives the code of the exact formulas, away from float32 rounding of a threshold [calc]',
+    (_name, patch) => {
+      const u = outputUniforms(mergeParams(PANEL_TYPES[0].defaults, patch), 2);
+      const table = thresholdTable(u);
+      expect(table.length).toBe(THRESHOLD_CODES * 4);
+      const ambient = u.colourY * u.ambientCdM2;
+      let checked = 0;
+      const wrong: string[] = [];
+      for (let k = 0; k <= 20000; k++) {
+        const v = Math.fround((k / 20000) * 3);
+        for (let c = 0; c < 3; c++) {
+          // The formulas themselves (formulas.ts), rounded to the nearest code: the CPU composer's definition.
+          const exact = srgbEncode(softKnee((u.colour[c] * (v * u.peakCdM2 + u.offCdM2) + ambient) * u.gain, u.knee)) * 255;
+          // Within a millionth of a code of a rounding boundary the float32 thresholds may go either way.
+          if (Math.abs(exact - Math.floor(exact) - 0.5) < 1e-6) continue;
+          const want = Math.min(255, Math.max(0, Math.round(exact)));
+          if (shaderCode(table, c, v) !== want) wrong.push(`v ${v}, channel ${c}: ${shaderCode(table, c, v)} instead of ${want}`);
+          checked++;
+        }
       }
-    }
-    expect(wrong.slice(0, 5)).toEqual([]);
-    expect(checked).toBeGreaterThan(59000);
-  });
+      expect(wrong.slice(0, 5)).toEqual([]);
+      expect(checked).toBeGreaterThan(59000);
+    },
+  );
 });

@@ -55,7 +55,13 @@ export class Confirm {
   private readonly dialog = inject(MatDialog);
 
   async ask(request: ConfirmRequest): Promise<boolean> {
-    const ref = this.dialog.open<ConfirmDialog, ConfirmRequest, boolean>(ConfirmDialog, { data: request, width: '440px', maxWidth: 'calc(100vw - 32px)', role: 'alertdialog', ariaLabel: request.title });
+    const ref = this.dialog.open<ConfirmDialog, ConfirmRequest, boolean>(ConfirmDialog, {
+      data: request,
+      width: '440px',
+      maxWidth: 'calc(100vw - 32px)',
+      role: 'alertdialog',
+      ariaLabel: request.title,
+    });
     return (await firstValueFrom(ref.afterClosed())) === true;
   }
 }

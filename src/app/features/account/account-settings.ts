@@ -58,9 +58,19 @@ import { AccountFrame } from './account-frame';
   `,
   styleUrl: './account-form.scss',
   styles: `
-    form + form { margin-top: 24px; padding-top: 16px; border-top: 1px solid var(--mat-sys-outline-variant); }
-    h2 { font: var(--mat-sys-title-medium); margin: 0 0 12px; }
-    .note { color: var(--mat-sys-on-surface-variant); font: var(--mat-sys-body-small); }
+    form + form {
+      margin-top: 24px;
+      padding-top: 16px;
+      border-top: 1px solid var(--mat-sys-outline-variant);
+    }
+    h2 {
+      font: var(--mat-sys-title-medium);
+      margin: 0 0 12px;
+    }
+    .note {
+      color: var(--mat-sys-on-surface-variant);
+      font: var(--mat-sys-body-small);
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -68,8 +78,13 @@ export class AccountSettings {
   protected readonly auth = inject(AuthStore);
   private readonly fb = inject(FormBuilder).nonNullable;
 
-  protected readonly profile = this.fb.group({ displayName: [this.auth.user()?.displayName ?? '', [Validators.required, Validators.maxLength(80)]] });
-  protected readonly password = this.fb.group({ currentPassword: ['', Validators.required], newPassword: ['', [Validators.required, Validators.minLength(8), Validators.maxLength(128)]] });
+  protected readonly profile = this.fb.group({
+    displayName: [this.auth.user()?.displayName ?? '', [Validators.required, Validators.maxLength(80)]],
+  });
+  protected readonly password = this.fb.group({
+    currentPassword: ['', Validators.required],
+    newPassword: ['', [Validators.required, Validators.minLength(8), Validators.maxLength(128)]],
+  });
   protected readonly nameAction = new FormAction();
   protected readonly passwordAction = new FormAction();
   protected readonly nameSaved = signal('');

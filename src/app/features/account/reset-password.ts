@@ -18,7 +18,9 @@ import { AuthStore } from '../../core/auth-store';
   template: `
     <em-account-frame heading="Choose a new password">
       @if (!token()) {
-        <p class="error" role="alert">This page needs the link from the reset e-mail. <a routerLink="/forgot-password">Ask for a new link</a>.</p>
+        <p class="error" role="alert">
+          This page needs the link from the reset e-mail. <a routerLink="/forgot-password">Ask for a new link</a>.
+        </p>
       } @else if (done()) {
         <p class="ok" role="status">{{ done() }}</p>
         <a mat-flat-button routerLink="/sign-in">Sign in</a>

@@ -38,7 +38,10 @@ describe('SignIn', () => {
     const http = TestBed.inject(HttpTestingController);
     const req = http.expectOne('/api/auth/sign-in');
     expect(req.request.body).toEqual({ email: 'someone@example.com', password: 'wrong password' });
-    req.flush({ error: { code: 'bad_credentials', message: 'The e-mail or password is not right.' } }, { status: 401, statusText: 'Unauthorized' });
+    req.flush(
+      { error: { code: 'bad_credentials', message: 'The e-mail or password is not right.' } },
+      { status: 401, statusText: 'Unauthorized' },
+    );
     await fixture.whenStable();
     expect(el.querySelector('[role=alert]')!.textContent).toContain('The e-mail or password is not right.');
     expect(TestBed.inject(Router).url).toBe('/');

@@ -13,7 +13,9 @@ import { AccountFrame } from './account-frame';
   template: `
     <em-account-frame heading="Confirm your address">
       @if (!token()) {
-        <p class="error" role="alert">This page needs the link from the confirmation e-mail. <a routerLink="/sign-up">Sign up again</a> for a new one.</p>
+        <p class="error" role="alert">
+          This page needs the link from the confirmation e-mail. <a routerLink="/sign-up">Sign up again</a> for a new one.
+        </p>
       } @else if (error()) {
         <p class="error" role="alert">{{ error() }}</p>
         <div class="actions">

@@ -28,10 +28,16 @@ export class ArtworkApi {
       form.append('frameDelayMs', String(sheet.frameDelayMs));
     }
     form.append('file', file, file.name || 'pasted.png');
-    return this.http.post<{ artwork: ArtworkDto }>(`/api/studios/${studioId}/artworks`, form, { reportProgress: true, observe: 'events' }).pipe(
-      filter((e: HttpEvent<{ artwork: ArtworkDto }>) => e.type === HttpEventType.UploadProgress || e.type === HttpEventType.Response),
-      map((e): UploadEvent => (e.type === HttpEventType.Response ? { kind: 'done', artwork: e.body!.artwork } : { kind: 'progress', share: e.type === HttpEventType.UploadProgress && e.total ? e.loaded / e.total : 0 })),
-    );
+    return this.http
+      .post<{ artwork: ArtworkDto }>(`/api/studios/${studioId}/artworks`, form, { reportProgress: true, observe: 'events' })
+      .pipe(
+        filter((e: HttpEvent<{ artwork: ArtworkDto }>) => e.type === HttpEventType.UploadProgress || e.type === HttpEventType.Response),
+        map((e): UploadEvent =>
+          e.type === HttpEventType.Response
+            ? { kind: 'done', artwork: e.body!.artwork }
+            : { kind: 'progress', share: e.type === HttpEventType.UploadProgress && e.total ? e.loaded / e.total : 0 },
+        ),
+      );
   }
 
   async rename(studioId: string, id: string, name: string): Promise<ArtworkDto> {
@@ -44,7 +50,13 @@ export class ArtworkApi {
 
   /** The live share links that show this artwork, by preset name. */
   async liveLinks(studioId: string, id: string): Promise<{ id: string; presetId: string; presetName: string; expiresAt: string | null }[]> {
-    return (await firstValueFrom(this.http.get<{ links: { id: string; presetId: string; presetName: string; expiresAt: string | null }[] }>(`/api/studios/${studioId}/artworks/${id}/links`))).links;
+    return (
+      await firstValueFrom(
+        this.http.get<{ links: { id: string; presetId: string; presetName: string; expiresAt: string | null }[] }>(
+          `/api/studios/${studioId}/artworks/${id}/links`,
+        ),
+      )
+    ).links;
   }
 
   async get(studioId: string, id: string): Promise<ArtworkDto> {

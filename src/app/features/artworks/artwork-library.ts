@@ -28,7 +28,19 @@ interface UploadItem {
 /** The studio's artwork library: upload by drop, picker or paste; search, sort, rename, delete. */
 @Component({
   selector: 'em-artwork-library',
-  imports: [FormsModule, RouterLink, AutoFocus, DatePipe, MatButtonModule, MatIconModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatCheckboxModule, MatProgressBarModule],
+  imports: [
+    FormsModule,
+    RouterLink,
+    AutoFocus,
+    DatePipe,
+    MatButtonModule,
+    MatIconModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatSelectModule,
+    MatCheckboxModule,
+    MatProgressBarModule,
+  ],
   templateUrl: './artwork-library.html',
   styleUrl: './artwork-library.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -85,7 +97,9 @@ export class ArtworkLibrary {
   protected uploadFiles(files: File[]): void {
     // A new attempt replaces the errors of earlier ones: a stale message must not outlive a retry.
     this.uploads.update((list) => list.filter((u) => !u.error));
-    const sheet = this.isSheet() ? { frameWidth: this.frameWidth(), frameHeight: this.frameHeight(), frameDelayMs: this.frameDelayMs() } : undefined;
+    const sheet = this.isSheet()
+      ? { frameWidth: this.frameWidth(), frameHeight: this.frameHeight(), frameDelayMs: this.frameDelayMs() }
+      : undefined;
     for (const file of files) {
       const item: UploadItem = { id: this.nextUpload++, name: file.name || 'pasted image', share: 0, error: '' };
       this.uploads.update((list) => [item, ...list]);

@@ -1,5 +1,18 @@
 import { DecimalPipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, computed, DestroyRef, effect, type ElementRef, inject, input, output, signal, untracked, viewChild } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  DestroyRef,
+  effect,
+  type ElementRef,
+  inject,
+  input,
+  output,
+  signal,
+  untracked,
+  viewChild,
+} from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { RouterLink } from '@angular/router';
 import { MatIconModule } from '@angular/material/icon';
@@ -70,8 +83,26 @@ export class AnalysisReport {
     return {
       labels,
       datasets: [
-        { label: 'Mean luminance (cd/m²)', data: report.light.map((f) => Math.round(f.meanCdM2 * 10) / 10), yAxisID: 'y', borderColor: '#ffb347', backgroundColor: '#ffb347', tension: 0 },
-        ...(flash ? [{ label: 'Area changing by a flash step (%)', data: flash.frames.map((f) => Math.round(f.changingShare * 1000) / 10), yAxisID: 'y1', borderColor: '#6fb7e0', backgroundColor: '#6fb7e0', tension: 0 }] : []),
+        {
+          label: 'Mean luminance (cd/m²)',
+          data: report.light.map((f) => Math.round(f.meanCdM2 * 10) / 10),
+          yAxisID: 'y',
+          borderColor: '#ffb347',
+          backgroundColor: '#ffb347',
+          tension: 0,
+        },
+        ...(flash
+          ? [
+              {
+                label: 'Area changing by a flash step (%)',
+                data: flash.frames.map((f) => Math.round(f.changingShare * 1000) / 10),
+                yAxisID: 'y1',
+                borderColor: '#6fb7e0',
+                backgroundColor: '#6fb7e0',
+                tension: 0,
+              },
+            ]
+          : []),
       ],
     };
   });
@@ -82,7 +113,14 @@ export class AnalysisReport {
     scales: {
       x: { title: { display: true, text: 'Frame' }, ticks: { color: '#b9ab9a' }, grid: { color: '#3a3129' } },
       y: { title: { display: true, text: 'cd/m²' }, ticks: { color: '#b9ab9a' }, grid: { color: '#3a3129' } },
-      y1: { position: 'right', min: 0, max: 100, title: { display: true, text: '% of the panel' }, ticks: { color: '#b9ab9a' }, grid: { drawOnChartArea: false } },
+      y1: {
+        position: 'right',
+        min: 0,
+        max: 100,
+        title: { display: true, text: '% of the panel' },
+        ticks: { color: '#b9ab9a' },
+        grid: { drawOnChartArea: false },
+      },
     },
     plugins: { legend: { labels: { color: '#e8dccd' } } },
   };
@@ -159,8 +197,21 @@ export class AnalysisReport {
     const report = this.state().report;
     if (!report) return;
     const { frames: flashFrames, ...flash } = this.flash() ?? { frames: [] };
-    const doc = { format: 'emberline.analysis', version: 1, view: this.name(), distanceMm: this.distanceMm(), acuity: this.sight(), flash: this.flash() ? { ...flash, frames: flashFrames } : null, ...report };
-    const file = `${this.name().replace(/[^\p{L}\p{N} ._-]+/gu, ' ').trim().replace(/\s+/g, '-') || 'view'}-analysis.json`;
+    const doc = {
+      format: 'emberline.analysis',
+      version: 1,
+      view: this.name(),
+      distanceMm: this.distanceMm(),
+      acuity: this.sight(),
+      flash: this.flash() ? { ...flash, frames: flashFrames } : null,
+      ...report,
+    };
+    const file = `${
+      this.name()
+        .replace(/[^\p{L}\p{N} ._-]+/gu, ' ')
+        .trim()
+        .replace(/\s+/g, '-') || 'view'
+    }-analysis.json`;
     downloadText(file, JSON.stringify(doc, null, 2), 'application/json');
   }
 
@@ -174,7 +225,9 @@ export class AnalysisReport {
     canvas.getContext('2d')!.putImageData(new ImageData(new Uint8ClampedArray(pattern.data), cols, rows), 0, 0);
     this.adding.set(true);
     try {
-      const blob = await new Promise<Blob>((resolve, reject) => canvas.toBlob((b) => (b ? resolve(b) : reject(new Error('the browser could not make the PNG'))), 'image/png'));
+      const blob = await new Promise<Blob>((resolve, reject) =>
+        canvas.toBlob((b) => (b ? resolve(b) : reject(new Error('the browser could not make the PNG'))), 'image/png'),
+      );
       const file = new File([blob], `Test pattern ${cols}×${rows}.png`, { type: 'image/png' });
       let id = '';
       await new Promise<void>((resolve, reject) =>

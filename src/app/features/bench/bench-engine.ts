@@ -3,7 +3,11 @@ import type { Frame } from '../../../../shared/pipeline/types';
 import type { WorkerRequest, WorkerResult } from './bench-messages';
 
 export type PanelResult = Extract<WorkerResult, { type: 'result' }>;
-type Job = { req: DistributiveOmit<Exclude<WorkerRequest, { type: 'frames' }>, 'id'>; resolve: (r: WorkerResult | null) => void; reject: (e: Error) => void };
+type Job = {
+  req: DistributiveOmit<Exclude<WorkerRequest, { type: 'frames' }>, 'id'>;
+  resolve: (r: WorkerResult | null) => void;
+  reject: (e: Error) => void;
+};
 type DistributiveOmit<T, K extends keyof T> = T extends unknown ? Omit<T, K> : never;
 
 /**
@@ -31,8 +35,14 @@ export class BenchEngine {
 
   setFrames(frames: Frame[]): void {
     // Copies, so the page keeps its own frames for the A/B original view.
-    const copies = frames.map((f) => ({ delayMs: f.delayMs, image: { width: f.image.width, height: f.image.height, data: Uint8Array.from(f.image.data) } }));
-    this.post({ type: 'frames', frames: copies }, copies.map((f) => f.image.data.buffer));
+    const copies = frames.map((f) => ({
+      delayMs: f.delayMs,
+      image: { width: f.image.width, height: f.image.height, data: Uint8Array.from(f.image.data) },
+    }));
+    this.post(
+      { type: 'frames', frames: copies },
+      copies.map((f) => f.image.data.buffer),
+    );
   }
 
   /** Resolves with the result, or null when a newer request replaced this one before it ran. */

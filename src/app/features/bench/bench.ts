@@ -1,5 +1,19 @@
 import { DecimalPipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, computed, DestroyRef, effect, ElementRef, inject, input, linkedSignal, resource, signal, untracked, viewChild } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  DestroyRef,
+  effect,
+  ElementRef,
+  inject,
+  input,
+  linkedSignal,
+  resource,
+  signal,
+  untracked,
+  viewChild,
+} from '@angular/core';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
@@ -47,7 +61,24 @@ const clampPxPerMm = (v: number) => Math.min(12, Math.max(2, v));
 /** The bench: artwork live on a simulated panel, tuned by hand, checked against the server. */
 @Component({
   selector: 'em-bench',
-  imports: [FormsModule, DecimalPipe, RouterLink, MatInputModule, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatSelectModule, MatSliderModule, MatSlideToggleModule, MatIconModule, MatProgressBarModule, MatTooltipModule, ParamControls, FrameDataExport, AnalysisReport],
+  imports: [
+    FormsModule,
+    DecimalPipe,
+    RouterLink,
+    MatInputModule,
+    MatButtonModule,
+    MatButtonToggleModule,
+    MatFormFieldModule,
+    MatSelectModule,
+    MatSliderModule,
+    MatSlideToggleModule,
+    MatIconModule,
+    MatProgressBarModule,
+    MatTooltipModule,
+    ParamControls,
+    FrameDataExport,
+    AnalysisReport,
+  ],
   templateUrl: './bench.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -82,23 +113,42 @@ export class Bench {
 
   protected readonly panelTypes = PANEL_TYPES;
   protected readonly artworks = resource({ params: () => this.context.studioId(), loader: ({ params }) => this.api.list(params) });
-  protected readonly artworkId = linkedSignal(() => this.artwork() ?? (this.artworks.hasValue() ? this.artworks.value()[0]?.id : undefined));
-  protected readonly selected = computed(() => (this.artworks.hasValue() ? this.artworks.value().find((a) => a.id === this.artworkId()) : undefined));
+  protected readonly artworkId = linkedSignal(
+    () => this.artwork() ?? (this.artworks.hasValue() ? this.artworks.value()[0]?.id : undefined),
+  );
+  protected readonly selected = computed(() =>
+    this.artworks.hasValue() ? this.artworks.value().find((a) => a.id === this.artworkId()) : undefined,
+  );
   protected readonly frames = resource({ params: () => this.selected(), loader: ({ params }) => this.api.frames(params) });
   protected readonly panelTypeId = signal(DEFAULT_PANEL_TYPE_ID);
-  protected readonly studioPresets = resource({ params: () => this.context.studioId(), loader: ({ params }) => this.presetApi.list(params, { pageSize: 100, sort: 'name' }).then((r) => r.presets) });
+  protected readonly studioPresets = resource({
+    params: () => this.context.studioId(),
+    loader: ({ params }) => this.presetApi.list(params, { pageSize: 100, sort: 'name' }).then((r) => r.presets),
+  });
   protected readonly presets = computed(() => BUILT_IN_PRESETS.filter((p) => p.panelTypeId === this.panelTypeId()));
-  protected readonly ownPresets = computed(() => (this.studioPresets.hasValue() ? this.studioPresets.value().filter((p) => p.panelTypeId === this.panelTypeId()) : []));
+  protected readonly ownPresets = computed(() =>
+    this.studioPresets.hasValue() ? this.studioPresets.value().filter((p) => p.panelTypeId === this.panelTypeId()) : [],
+  );
   /** A built-in preset id, or "studio:<id>" for a studio preset. */
   protected readonly presetId = linkedSignal(() => this.presets()[0].id);
-  protected readonly studioPreset = computed(() => (this.presetId().startsWith('studio:') ? this.ownPresets().find((p) => `studio:${p.id}` === this.presetId()) : undefined));
-  protected readonly defaults = computed(() => this.studioPreset()?.parameters ?? BUILT_IN_PRESETS.find((p) => p.id === this.presetId())?.parameters ?? this.presets()[0].parameters);
-  protected readonly mayChangePreset = computed(() => this.context.canEdit() && !!this.studioPreset() && (!this.studioPreset()!.isReference || this.context.canManage()));
+  protected readonly studioPreset = computed(() =>
+    this.presetId().startsWith('studio:') ? this.ownPresets().find((p) => `studio:${p.id}` === this.presetId()) : undefined,
+  );
+  protected readonly defaults = computed(
+    () =>
+      this.studioPreset()?.parameters ?? BUILT_IN_PRESETS.find((p) => p.id === this.presetId())?.parameters ?? this.presets()[0].parameters,
+  );
+  protected readonly mayChangePreset = computed(
+    () => this.context.canEdit() && !!this.studioPreset() && (!this.studioPreset()!.isReference || this.context.canManage()),
+  );
   protected readonly dirty = computed(() => JSON.stringify(this.params()) !== JSON.stringify(this.defaults()));
   protected readonly newPresetName = signal('');
   protected readonly saving = signal(false);
   protected readonly params = linkedSignal<PanelParams>(() => structuredClone(this.defaults()));
-  protected readonly timings = resource({ params: () => ({ studioId: this.context.studioId(), panelTypeId: this.panelTypeId() }), loader: ({ params }) => this.timingsApi.list(params.studioId).then((t) => t.filter((x) => x.panelTypeId === params.panelTypeId)) });
+  protected readonly timings = resource({
+    params: () => ({ studioId: this.context.studioId(), panelTypeId: this.panelTypeId() }),
+    loader: ({ params }) => this.timingsApi.list(params.studioId).then((t) => t.filter((x) => x.panelTypeId === params.panelTypeId)),
+  });
   protected readonly timingId = linkedSignal<string, string>({ source: this.panelTypeId, computation: () => '' });
   protected readonly scale = signal(2);
   protected readonly zoom = signal<'fit' | 'pixels' | 'real'>('fit');
@@ -125,7 +175,9 @@ export class Bench {
   protected readonly draws = signal(0);
   protected readonly usingCpu = signal(false);
   protected readonly inspect = signal<{ c: number; r: number; level: number; cd: number } | null>(null);
-  protected readonly drift = signal<{ busy: boolean; share?: number; pixels?: number; maxChannel?: number; error?: string }>({ busy: false });
+  protected readonly drift = signal<{ busy: boolean; share?: number; pixels?: number; maxChannel?: number; error?: string }>({
+    busy: false,
+  });
   protected readonly reducedMotion = matchMedia('(prefers-reduced-motion: reduce)').matches;
   protected readonly card = CARD_MM;
 
@@ -150,8 +202,12 @@ export class Bench {
   protected readonly flash = computed(() => this.flashCheck().report ?? null);
   protected readonly flashFails = computed(() => this.flash()?.pass === false);
   /** Nothing flickers or plays while the flash check runs, or fails and has not been accepted. */
-  protected readonly flashBlocked = computed(() => (this.flashFails() && !this.flashAccepted()) || (this.flashCheck().busy && !this.flash()));
-  protected readonly linkedTiming = computed(() => (this.timings.hasValue() ? this.timings.value().find((t) => t.id === this.timingId()) : undefined));
+  protected readonly flashBlocked = computed(
+    () => (this.flashFails() && !this.flashAccepted()) || (this.flashCheck().busy && !this.flash()),
+  );
+  protected readonly linkedTiming = computed(() =>
+    this.timings.hasValue() ? this.timings.value().find((t) => t.id === this.timingId()) : undefined,
+  );
   /** While a saved timing drives the refresh rate, the Refresh control shows it read-only. */
   protected readonly locks = computed(() => {
     const t = this.linkedTiming();
@@ -173,7 +229,9 @@ export class Bench {
   protected readonly flickerShown = signal(0);
 
   /** What the flash check looks at, in words: the animation, or a still's frame-rate-control flicker. */
-  protected readonly flashSubject = computed(() => (this.frames.hasValue() && this.frames.value().length > 1 ? 'the animation' : 'the frame-rate control flicker'));
+  protected readonly flashSubject = computed(() =>
+    this.frames.hasValue() && this.frames.value().length > 1 ? 'the animation' : 'the frame-rate control flicker',
+  );
   protected readonly frcFlickerHz = computed(() => {
     const d = this.params().drive;
     return isFrc(d.dither) ? d.refreshHz / frcFrames(d.dither) : null;
@@ -191,7 +249,10 @@ export class Bench {
     // A linked saved timing drives the panel's refresh rate (persistence and flicker).
     effect(() => {
       const t = this.linkedTiming();
-      if (t) untracked(() => this.params.update((p) => ({ ...p, drive: { ...p.drive, refreshHz: Math.round(t.figures.refreshHz * 1000) / 1000 } })));
+      if (t)
+        untracked(() =>
+          this.params.update((p) => ({ ...p, drive: { ...p.drive, refreshHz: Math.round(t.figures.refreshHz * 1000) / 1000 } })),
+        );
     });
     // ?preset= opens a studio preset on its panel type.
     effect(() => {
@@ -211,7 +272,15 @@ export class Bench {
       this.scale();
       untracked(() => this.drift.set({ busy: false }));
     });
-    effect(() => void this.redrawB(this.compare(), [this.comparePresetId(), this.comparePresetIdC(), this.comparePresetIdD()], this.frame(), this.scale()));
+    effect(
+      () =>
+        void this.redrawB(
+          this.compare(),
+          [this.comparePresetId(), this.comparePresetIdC(), this.comparePresetIdD()],
+          this.frame(),
+          this.scale(),
+        ),
+    );
     effect(() => this.drawOriginal(this.compare(), this.frame()));
     // The flash check follows the look, the artwork and the distance, a moment after the last change.
     effect(() => {
@@ -220,7 +289,8 @@ export class Bench {
       const distance = this.distanceMm();
       clearTimeout(this.flashTimer);
       // A still flickers only under frame-rate control.
-      if (frames.length === 0 || (frames.length < 2 && !isFrc(params.drive.dither))) return untracked(() => this.flashCheck.set({ busy: false }));
+      if (frames.length === 0 || (frames.length < 2 && !isFrc(params.drive.dither)))
+        return untracked(() => this.flashCheck.set({ busy: false }));
       untracked(() => this.flashCheck.update((f) => ({ ...f, busy: true })));
       this.flashTimer = setTimeout(() => void this.checkFlash(frames, params, distance), 300);
     });
@@ -292,7 +362,12 @@ export class Bench {
     const shown = changes.slice(0, 5);
     return this.confirm.ask({
       title,
-      consequences: [`Your unsaved changes to this look are discarded:`, ...shown.map((c) => `• ${c}`), ...(changes.length > shown.length ? [`• and ${changes.length - shown.length} more`] : []), 'Save them first (as a revision or a new preset) to keep them.'],
+      consequences: [
+        `Your unsaved changes to this look are discarded:`,
+        ...shown.map((c) => `• ${c}`),
+        ...(changes.length > shown.length ? [`• and ${changes.length - shown.length} more`] : []),
+        'Save them first (as a revision or a new preset) to keep them.',
+      ],
       action: 'Discard changes and switch',
     });
   }
@@ -319,7 +394,11 @@ export class Bench {
     if (!name) return;
     this.saving.set(true);
     try {
-      const created = await this.presetApi.create(this.context.studioId(), { name, panelTypeId: this.panelTypeId(), parameters: this.params() });
+      const created = await this.presetApi.create(this.context.studioId(), {
+        name,
+        panelTypeId: this.panelTypeId(),
+        parameters: this.params(),
+      });
       this.studioPresets.update((list) => [...(list ?? []), created]);
       this.presetId.set(`studio:${created.id}`);
       this.newPresetName.set('');
@@ -426,7 +505,9 @@ export class Bench {
   /** What the left (A) side of a comparison shows: the look being tuned. */
   protected readonly labelA = computed(() => {
     const studio = this.studioPreset();
-    const name = studio ? `r${studio.revision} · ${studio.name}` : (BUILT_IN_PRESETS.find((p) => p.id === this.presetId())?.name ?? 'This look');
+    const name = studio
+      ? `r${studio.revision} · ${studio.name}`
+      : (BUILT_IN_PRESETS.find((p) => p.id === this.presetId())?.name ?? 'This look');
     return this.dirty() ? `${name} (edited)` : name;
   });
   /** What the right (B) side shows. */
@@ -554,10 +635,23 @@ export class Bench {
     this.downloading.set(true);
     try {
       const parameters = this.params();
-      const render = await this.renders.render(this.context.studioId(), { artworkId: artwork.id, parameters, scale: this.scale(), frame: this.frame() });
+      const render = await this.renders.render(this.context.studioId(), {
+        artworkId: artwork.id,
+        parameters,
+        scale: this.scale(),
+        frame: this.frame(),
+      });
       const png = new Uint8Array(await (await this.renders.png(render)).arrayBuffer());
-      const tagged = withPngText(png, { Software: 'Emberline', Title: `${artwork.name} · ${this.labelA()}`, 'Emberline parameters': JSON.stringify({ panelTypeId: this.panelTypeId(), scale: this.scale(), frame: this.frame(), parameters }) });
-      const name = this.downloadName().replace(/[^\p{L}\p{N} ._-]+/gu, ' ').replace(/\s+/g, '-').replace(/^-|-$/g, '') || 'emberline';
+      const tagged = withPngText(png, {
+        Software: 'Emberline',
+        Title: `${artwork.name} · ${this.labelA()}`,
+        'Emberline parameters': JSON.stringify({ panelTypeId: this.panelTypeId(), scale: this.scale(), frame: this.frame(), parameters }),
+      });
+      const name =
+        this.downloadName()
+          .replace(/[^\p{L}\p{N} ._-]+/gu, ' ')
+          .replace(/\s+/g, '-')
+          .replace(/^-|-$/g, '') || 'emberline';
       downloadBlob(`${name}.png`, new Blob([tagged], { type: 'image/png' }));
       this.snackBar.open(`Saved ${name}.png (${render.width} × ${render.height} px, parameters inside).`, undefined, { duration: 4000 });
     } catch (err) {
@@ -583,7 +677,8 @@ export class Bench {
       const reference = await decodePng(blob);
       const live = this.livePixels();
       const { width, height } = render;
-      if (live.length !== reference.length) throw new Error(`the live view is ${this.uniforms().width} × ${this.uniforms().height} but the reference is ${width} × ${height}`);
+      if (live.length !== reference.length)
+        throw new Error(`the live view is ${this.uniforms().width} × ${this.uniforms().height} but the reference is ${width} × ${height}`);
       // The heatmap marks every pixel that differs at all (threshold 0); the figures are exact.
       const diff = new Uint8Array(width * height * 4);
       pixelmatch(live, reference, diff, width, height, { threshold: 0 });
@@ -620,7 +715,9 @@ function framesId(frames: Frame[]): number {
 function putImage(canvas: HTMLCanvasElement, data: Uint8Array | Uint8ClampedArray, width: number, height: number): void {
   canvas.width = width;
   canvas.height = height;
-  canvas.getContext('2d')!.putImageData(new ImageData(new Uint8ClampedArray(data.buffer as ArrayBuffer, data.byteOffset, data.byteLength), width, height), 0, 0);
+  canvas
+    .getContext('2d')!
+    .putImageData(new ImageData(new Uint8ClampedArray(data.buffer as ArrayBuffer, data.byteOffset, data.byteLength), width, height), 0, 0);
 }
 
 /** Decodes a PNG without colour management, as stored. */
@@ -631,5 +728,3 @@ async function decodePng(blob: Blob): Promise<Uint8Array> {
   ctx.drawImage(bitmap, 0, 0);
   return new Uint8Array(ctx.getImageData(0, 0, bitmap.width, bitmap.height).data.buffer);
 }
-
-

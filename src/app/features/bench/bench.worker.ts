@@ -20,7 +20,10 @@ addEventListener('message', ({ data }: MessageEvent<WorkerRequest>) => {
   if (data.type === 'report') {
     try {
       const { report, lostCells, wear } = reportOf(data.params, data.frame, data.hours);
-      postMessage({ type: 'report', id: data.id, report, lostCells, wear, ms: performance.now() - started } satisfies WorkerResult, [lostCells.buffer, wear.buffer]);
+      postMessage({ type: 'report', id: data.id, report, lostCells, wear, ms: performance.now() - started } satisfies WorkerResult, [
+        lostCells.buffer,
+        wear.buffer,
+      ]);
     } catch (err) {
       postMessage({ type: 'error', id: data.id, message: (err as Error).message } satisfies WorkerResult);
     }
@@ -28,7 +31,12 @@ addEventListener('message', ({ data }: MessageEvent<WorkerRequest>) => {
   }
   if (data.type === 'flash') {
     try {
-      postMessage({ type: 'flash', id: data.id, report: flashOf(data.params, data.distanceMm), ms: performance.now() - started } satisfies WorkerResult);
+      postMessage({
+        type: 'flash',
+        id: data.id,
+        report: flashOf(data.params, data.distanceMm),
+        ms: performance.now() - started,
+      } satisfies WorkerResult);
     } catch (err) {
       postMessage({ type: 'error', id: data.id, message: (err as Error).message } satisfies WorkerResult);
     }
@@ -38,7 +46,10 @@ addEventListener('message', ({ data }: MessageEvent<WorkerRequest>) => {
     try {
       // Each refresh of the frame-rate-control cycle, for the bench to play at the refresh rate.
       const emissions = frcCycle(frames[data.frame], data.params, panelEmission(frames, data.params, data.frame));
-      postMessage({ type: 'cycle', id: data.id, emissions, ms: performance.now() - started } satisfies WorkerResult, emissions.map((e) => e.buffer));
+      postMessage(
+        { type: 'cycle', id: data.id, emissions, ms: performance.now() - started } satisfies WorkerResult,
+        emissions.map((e) => e.buffer),
+      );
     } catch (err) {
       postMessage({ type: 'error', id: data.id, message: (err as Error).message } satisfies WorkerResult);
     }
@@ -67,6 +78,19 @@ function flashOf(p: PanelParams, distanceMm: number) {
 function reportOf(p: PanelParams, frame: number, hours: number): { report: PanelReport; lostCells: Uint8Array; wear: Float32Array } {
   const emissions = panelEmissions(frames, p);
   const { lostCells, ...legible } = legibility(emissions[frame], p);
-  const b = burnIn(emissions, frames.map((f) => f.delayMs), p, hours);
-  return { report: { legibility: legible, light: lightFigures(emissions, p), burnIn: { hours: b.hours, worst: b.worst, spread: b.spread, advice: b.advice } }, lostCells, wear: b.wear };
+  const b = burnIn(
+    emissions,
+    frames.map((f) => f.delayMs),
+    p,
+    hours,
+  );
+  return {
+    report: {
+      legibility: legible,
+      light: lightFigures(emissions, p),
+      burnIn: { hours: b.hours, worst: b.worst, spread: b.spread, advice: b.advice },
+    },
+    lostCells,
+    wear: b.wear,
+  };
 }

@@ -6,9 +6,18 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatSliderModule } from '@angular/material/slider';
 import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { MatTooltipModule } from '@angular/material/tooltip';
-import { GROUP_LABELS, GROUPS, PARAMS, panelParamsPatchSchema, type Group, type ListSpec, type NumberSpec, type PanelParams, type ParamSpec } from '../../../../shared/model/parameters';
+import {
+  GROUP_LABELS,
+  GROUPS,
+  PARAMS,
+  panelParamsPatchSchema,
+  type Group,
+  type ListSpec,
+  type NumberSpec,
+  type PanelParams,
+  type ParamSpec,
+} from '../../../../shared/model/parameters';
 import { haloRadiusFromGlass } from '../../../../shared/pipeline/glow/glow';
-
 
 /** A control another setting decides: shown read-only with the value in force and why. */
 export interface ParamLock {
@@ -23,7 +32,8 @@ export interface ParamLock {
  * a whole parameter set: a copy taken from this component's input could be a change behind (the
  * input updates on the next change detection), and writing it back would undo the edit before it.
  */
-export type ParamEdit = { kind: 'set'; group: Group; key: string; value: unknown } | { kind: 'reset'; group: Group; to: PanelParams[Group] };
+export type ParamEdit =
+  { kind: 'set'; group: Group; key: string; value: unknown } | { kind: 'reset'; group: Group; to: PanelParams[Group] };
 
 /** Applies an edit to a parameter set, returning a new set. */
 export function applyParamEdit(params: PanelParams, edit: ParamEdit): PanelParams {
@@ -54,10 +64,16 @@ export class ParamControls {
     const { glass, drive } = this.params();
     const own: Record<string, ParamLock> = {};
     if (glass.haloFromGlass) {
-      own['glass.haloRadiusMm'] = { value: Math.round(haloRadiusFromGlass(glass.glassThicknessMm, glass.refractiveIndex) * 1000) / 1000, reason: 'From the glass: 2 × thickness × tan(asin(1 ÷ refractive index)). Turn off “Halo from glass” to set it.' };
+      own['glass.haloRadiusMm'] = {
+        value: Math.round(haloRadiusFromGlass(glass.glassThicknessMm, glass.refractiveIndex) * 1000) / 1000,
+        reason: 'From the glass: 2 × thickness × tan(asin(1 ÷ refractive index)). Turn off “Halo from glass” to set it.',
+      };
     }
     if (drive.levelSpacing === 'table') {
-      own['drive.grayLevels'] = { value: drive.dutyTable.length, reason: 'Set by the duty table: one level for each value. Choose another level spacing to set it here.' };
+      own['drive.grayLevels'] = {
+        value: drive.dutyTable.length,
+        reason: 'Set by the duty table: one level for each value. Choose another level spacing to set it here.',
+      };
     }
     return { ...own, ...this.locks() };
   });
@@ -115,7 +131,12 @@ export class ParamControls {
     const values = parts.map(Number);
     const bad = parts.find((p, k) => !Number.isFinite(values[k]));
     const checked = bad === undefined ? panelParamsPatchSchema.safeParse({ [spec.group]: { [spec.key]: values } }) : null;
-    const problem = bad !== undefined ? `“${bad}” is not a number. Type values like 0, 0.09, 0.4, 1.` : checked && !checked.success ? checked.error.issues[0].message : '';
+    const problem =
+      bad !== undefined
+        ? `“${bad}” is not a number. Type values like 0, 0.09, 0.4, 1.`
+        : checked && !checked.success
+          ? checked.error.issues[0].message
+          : '';
     this.listProblems.update((all) => ({ ...all, [id]: problem }));
     if (!problem) this.changed.emit({ kind: 'set', group: spec.group, key: spec.key, value: values });
   }

@@ -17,16 +17,22 @@ import { MatIconModule } from '@angular/material/icon';
           <li>Follow the card's and the chip's own documentation for the flash tool, voltage and write protection.</li>
         </ul>
         <p class="fine">
-          Emberline writes only the standard VGA parameter table. Vendor extension registers — clock synthesisers,
-          extended CRTC bits, flat-panel tables — are out of scope: a card that reprograms them at start-up may ignore
-          or override the patched entry.
+          Emberline writes only the standard VGA parameter table. Vendor extension registers — clock synthesisers, extended CRTC bits,
+          flat-panel tables — are out of scope: a card that reprograms them at start-up may ignore or override the patched entry.
         </p>
       </div>
     </aside>
   `,
   styles: `
-    ul { margin: 4px 0; padding-left: 18px; display: grid; gap: 2px; }
-    .fine { margin-top: 6px; }
+    ul {
+      margin: 4px 0;
+      padding-left: 18px;
+      display: grid;
+      gap: 2px;
+    }
+    .fine {
+      margin-top: 6px;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -40,7 +40,20 @@ function parseOffset(text: string): number | undefined {
  */
 @Component({
   selector: 'em-video-bios',
-  imports: [FormsModule, DecimalPipe, RouterLink, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, MatSelectModule, MatSlideToggleModule, FlashSafety],
+  imports: [
+    FormsModule,
+    DecimalPipe,
+    RouterLink,
+    MatButtonModule,
+    MatButtonToggleModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatProgressBarModule,
+    MatSelectModule,
+    MatSlideToggleModule,
+    FlashSafety,
+  ],
   templateUrl: './video-bios.html',
   styleUrl: './video-bios.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -57,16 +70,23 @@ export class VideoBios {
   protected readonly formatBytes = formatBytes;
   protected readonly describeEntry = describeEntry;
 
-  protected readonly roms = resource({ params: () => (this.context.canEdit() ? this.context.studioId() : undefined), loader: ({ params }) => this.api.list(params) });
+  protected readonly roms = resource({
+    params: () => (this.context.canEdit() ? this.context.studioId() : undefined),
+    loader: ({ params }) => this.api.list(params),
+  });
   protected readonly selectedId = linkedSignal<string | undefined>(() => (this.roms.hasValue() ? this.roms.value()[0]?.id : undefined));
-  protected readonly selected = computed(() => (this.roms.hasValue() ? this.roms.value().find((r) => r.id === this.selectedId()) : undefined));
-  protected readonly nameOf = (id: string | null) => (id && this.roms.hasValue() ? (this.roms.value().find((r) => r.id === id)?.name ?? 'a deleted image') : '');
+  protected readonly selected = computed(() =>
+    this.roms.hasValue() ? this.roms.value().find((r) => r.id === this.selectedId()) : undefined,
+  );
+  protected readonly nameOf = (id: string | null) =>
+    id && this.roms.hasValue() ? (this.roms.value().find((r) => r.id === id)?.name ?? 'a deleted image') : '';
 
   /** Where to read the table: '' = as the image says (pointer, else scan). */
   protected readonly tableOffsetText = linkedSignal({ source: this.selectedId, computation: () => '' });
   protected readonly tableOffset = signal<number | undefined>(undefined);
   protected readonly detail = resource({
-    params: () => (this.selectedId() ? { studioId: this.context.studioId(), id: this.selectedId()!, tableOffset: this.tableOffset() } : undefined),
+    params: () =>
+      this.selectedId() ? { studioId: this.context.studioId(), id: this.selectedId()!, tableOffset: this.tableOffset() } : undefined,
     loader: ({ params }) => this.api.detail(params.studioId, params.id, params.tableOffset),
   });
   protected readonly info = computed(() => (this.detail.hasValue() ? this.detail.value().info : null));
@@ -80,7 +100,10 @@ export class VideoBios {
   protected readonly timings = resource({ params: () => this.context.studioId(), loader: ({ params }) => this.timingApi.list(params) });
   protected readonly entryIndex = linkedSignal(() => this.usable().find((e) => e.index === 0x1b)?.index ?? this.usable()[0]?.index);
   protected readonly timingId = linkedSignal(() => (this.timings.hasValue() ? this.timings.value()[0]?.id : undefined));
-  protected readonly checksumMode = linkedSignal<string | undefined, 'last' | 'custom'>({ source: this.selectedId, computation: () => 'last' });
+  protected readonly checksumMode = linkedSignal<string | undefined, 'last' | 'custom'>({
+    source: this.selectedId,
+    computation: () => 'last',
+  });
   protected readonly checksumText = signal('');
 
   /** The byte diff the patch would make, computed here from the image before anything is saved. */
@@ -98,7 +121,8 @@ export class VideoBios {
     try {
       return { patch: patchRom(bytes, info, index, saved.timing, { checksumAt }), timing: saved, checksumAt };
     } catch (err) {
-      if (err instanceof RomError || err instanceof RangeError) return { error: `${err.message.charAt(0).toUpperCase()}${err.message.slice(1)}.` };
+      if (err instanceof RomError || err instanceof RangeError)
+        return { error: `${err.message.charAt(0).toUpperCase()}${err.message.slice(1)}.` };
       throw err;
     }
   });
@@ -164,21 +188,36 @@ export class VideoBios {
     if (rom.patchedFromId) {
       startFromPatched = await this.confirm.ask({
         title: `Patch “${rom.name}” again?`,
-        consequences: [`It is already a patched image (made from “${this.nameOf(rom.patchedFromId)}”).`, 'The new image carries both changes; this one stays as it is.'],
+        consequences: [
+          `It is already a patched image (made from “${this.nameOf(rom.patchedFromId)}”).`,
+          'The new image carries both changes; this one stays as it is.',
+        ],
         action: 'Start from the patched image',
       });
       if (!startFromPatched) return;
     }
     this.saving.set(true);
     try {
-      const made = await this.api.patch(this.context.studioId(), rom.id, { entryIndex: this.entryIndex()!, timingId: p.timing.id, checksumAt: p.checksumAt, tableOffset: this.tableOffset(), startFromPatched: startFromPatched || undefined });
+      const made = await this.api.patch(this.context.studioId(), rom.id, {
+        entryIndex: this.entryIndex()!,
+        timingId: p.timing.id,
+        checksumAt: p.checksumAt,
+        tableOffset: this.tableOffset(),
+        startFromPatched: startFromPatched || undefined,
+      });
       this.roms.reload();
       this.selectedId.set(made.rom.id);
-      this.snackBar.open(`Saved “${made.rom.name}”: ${made.patch.changes.length} bytes changed. The original is kept.`, undefined, { duration: 5000 });
+      this.snackBar.open(`Saved “${made.rom.name}”: ${made.patch.changes.length} bytes changed. The original is kept.`, undefined, {
+        duration: 5000,
+      });
     } catch (err) {
       if (apiErrorCode(err) === 'already_patched') {
         const details = (err as { error?: { error?: { details?: { patchedId?: string; patchedName?: string } } } }).error?.error?.details;
-        const go = await this.confirm.ask({ title: `“${rom.name}” was patched already`, consequences: [`Its patch is “${details?.patchedName}”.`, 'Patch that image instead, so both changes end up in one file.'], action: 'Open the patched image' });
+        const go = await this.confirm.ask({
+          title: `“${rom.name}” was patched already`,
+          consequences: [`Its patch is “${details?.patchedName}”.`, 'Patch that image instead, so both changes end up in one file.'],
+          action: 'Open the patched image',
+        });
         if (go && details?.patchedId) this.selectedId.set(details.patchedId);
       } else {
         this.snackBar.open(apiErrorMessage(err), 'Dismiss', { duration: 8000 });
@@ -190,12 +229,25 @@ export class VideoBios {
 
   protected download(rom: VideoRomDto): void {
     if (!this.bytes.hasValue() || this.selected()?.id !== rom.id) return;
-    const name = rom.name.replace(/[^\p{L}\p{N} ._-]+/gu, ' ').trim().replace(/\s+/g, '-') || 'video-bios';
+    const name =
+      rom.name
+        .replace(/[^\p{L}\p{N} ._-]+/gu, ' ')
+        .trim()
+        .replace(/\s+/g, '-') || 'video-bios';
     downloadBlob(`${name}.rom`, new Blob([new Uint8Array(this.bytes.value())], { type: 'application/octet-stream' }));
   }
 
   protected async remove(rom: VideoRomDto): Promise<void> {
-    const ok = await this.confirm.ask({ title: `Delete “${rom.name}”?`, consequences: [rom.patchedIds.length ? `The ${rom.patchedIds.length} image(s) patched from it stay, without their source.` : 'Nothing else depends on it.', 'This cannot be undone: keep a copy of the file if you may need it.'], action: 'Delete image' });
+    const ok = await this.confirm.ask({
+      title: `Delete “${rom.name}”?`,
+      consequences: [
+        rom.patchedIds.length
+          ? `The ${rom.patchedIds.length} image(s) patched from it stay, without their source.`
+          : 'Nothing else depends on it.',
+        'This cannot be undone: keep a copy of the file if you may need it.',
+      ],
+      action: 'Delete image',
+    });
     if (!ok) return;
     try {
       await this.api.remove(this.context.studioId(), rom.id);

@@ -37,7 +37,23 @@ function canonicalMode(text: string): string {
 /** The drive timing workbench: pick or enter a timing, see what the panel and the VGA need, save it. */
 @Component({
   selector: 'em-drive-timing',
-  imports: [ReactiveFormsModule, DecimalPipe, KeyValuePipe, MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule, MatButtonToggleModule, MatSlideToggleModule, MatCheckboxModule, MatIconModule, SafetyNotice, RegisterTable, TimingDiagram, FrameDataCard],
+  imports: [
+    ReactiveFormsModule,
+    DecimalPipe,
+    KeyValuePipe,
+    MatFormFieldModule,
+    MatInputModule,
+    MatSelectModule,
+    MatButtonModule,
+    MatButtonToggleModule,
+    MatSlideToggleModule,
+    MatCheckboxModule,
+    MatIconModule,
+    SafetyNotice,
+    RegisterTable,
+    TimingDiagram,
+    FrameDataCard,
+  ],
   templateUrl: './drive-timing.html',
   styleUrl: './drive-timing.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -50,7 +66,10 @@ export class DriveTiming {
 
   protected readonly panelTypes = PANEL_TYPES;
   protected readonly fixedModes = [
-    ...FIXED_TIMINGS.map((t) => ({ value: t.name, label: `${t.name.replace(' RB', ', reduced blanking')} (${t.dmtId ? `VESA DMT ${hex2(t.dmtId)}h` : 'IBM VGA'})` })),
+    ...FIXED_TIMINGS.map((t) => ({
+      value: t.name,
+      label: `${t.name.replace(' RB', ', reduced blanking')} (${t.dmtId ? `VESA DMT ${hex2(t.dmtId)}h` : 'IBM VGA'})`,
+    })),
     { value: 'vga-mode-03h', label: 'VGA BIOS mode 03h (80 × 25 text, 720×400, 9-dot)' },
     { value: 'vga-mode-12h', label: 'VGA BIOS mode 12h (640×480)' },
   ];
@@ -69,8 +88,14 @@ export class DriveTiming {
     standard: ['dmt' as Standard],
     mode: ['640x480@60'],
     pixelClockMHz: [25.175],
-    hActive: [640], hFront: [16], hSync: [96], hBack: [48],
-    vActive: [480], vFront: [10], vSync: [2], vBack: [33],
+    hActive: [640],
+    hFront: [16],
+    hSync: [96],
+    hBack: [48],
+    vActive: [480],
+    vFront: [10],
+    vSync: [2],
+    vBack: [33],
     hSyncPositive: [false],
     vSyncPositive: [false],
     dualScan: [true],
@@ -140,7 +165,19 @@ export class DriveTiming {
       pixelsPerClockValue: t.interface.pixelsPerClock,
       ...(s.kind === 'standard'
         ? { standard: s.standard, mode: s.mode }
-        : { pixelClockMHz: s.pixelClockMHz, hActive: s.h.active, hFront: s.h.frontPorch, hSync: s.h.sync, hBack: s.h.backPorch, vActive: s.v.active, vFront: s.v.frontPorch, vSync: s.v.sync, vBack: s.v.backPorch, hSyncPositive: s.hSyncPositive, vSyncPositive: s.vSyncPositive }),
+        : {
+            pixelClockMHz: s.pixelClockMHz,
+            hActive: s.h.active,
+            hFront: s.h.frontPorch,
+            hSync: s.h.sync,
+            hBack: s.h.backPorch,
+            vActive: s.v.active,
+            vFront: s.v.frontPorch,
+            vSync: s.v.sync,
+            vBack: s.v.backPorch,
+            hSyncPositive: s.hSyncPositive,
+            vSyncPositive: s.vSyncPositive,
+          }),
     });
   }
 
@@ -150,7 +187,7 @@ export class DriveTiming {
   }
 
   protected async saveTiming(): Promise<void> {
-    if (this.form.invalid || 'error' in this.result() && this.result().error) {
+    if (this.form.invalid || ('error' in this.result() && this.result().error)) {
       this.form.markAllAsTouched();
       return;
     }
@@ -170,7 +207,11 @@ export class DriveTiming {
   }
 
   protected async deleteTiming(t: SavedTimingDto): Promise<void> {
-    const confirmed = await this.confirm.ask({ title: `Delete “${t.name}”?`, consequences: ['Nobody in the studio finds it here or on the bench any more.', 'This cannot be undone.'], action: 'Delete timing' });
+    const confirmed = await this.confirm.ask({
+      title: `Delete “${t.name}”?`,
+      consequences: ['Nobody in the studio finds it here or on the bench any more.', 'This cannot be undone.'],
+      action: 'Delete timing',
+    });
     if (!confirmed) return;
     try {
       await this.api.remove(this.context.studioId(), t.id);
@@ -194,6 +235,11 @@ export class DriveTiming {
             hSyncPositive: v.hSyncPositive,
             vSyncPositive: v.vSyncPositive,
           };
-    return { name: v.name.trim() || (v.kind === 'standard' ? `${v.mode} ${v.standard.toUpperCase()}` : 'Timing by hand'), panelTypeId: v.panelTypeId, source, interface: { dualScan: v.dualScan, pixelsPerClock: v.pixelsPerClockValue } };
+    return {
+      name: v.name.trim() || (v.kind === 'standard' ? `${v.mode} ${v.standard.toUpperCase()}` : 'Timing by hand'),
+      panelTypeId: v.panelTypeId,
+      source,
+      interface: { dualScan: v.dualScan, pixelsPerClock: v.pixelsPerClockValue },
+    };
   }
 }

@@ -72,11 +72,25 @@ import { FrameDataExport } from './frame-data-export';
     }
   `,
   styles: `
-    :host { display: block; }
-    h2 { font: var(--mat-sys-title-large); margin-bottom: 8px; }
-    .empty { color: var(--mat-sys-on-surface-variant); }
-    .source { display: grid; grid-template-columns: repeat(auto-fill, minmax(220px, 1fr)); gap: 12px; margin-bottom: 16px; }
-    .error { color: var(--mat-sys-error); }
+    :host {
+      display: block;
+    }
+    h2 {
+      font: var(--mat-sys-title-large);
+      margin-bottom: 8px;
+    }
+    .empty {
+      color: var(--mat-sys-on-surface-variant);
+    }
+    .source {
+      display: grid;
+      grid-template-columns: repeat(auto-fill, minmax(220px, 1fr));
+      gap: 12px;
+      margin-bottom: 16px;
+    }
+    .error {
+      color: var(--mat-sys-error);
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -92,21 +106,31 @@ export class FrameDataCard {
 
   protected readonly artworks = resource({ params: () => this.context.studioId(), loader: ({ params }) => this.artworkApi.list(params) });
   protected readonly artworkId = linkedSignal(() => (this.artworks.hasValue() ? this.artworks.value()[0]?.id : undefined));
-  protected readonly artwork = computed(() => (this.artworks.hasValue() ? this.artworks.value().find((a) => a.id === this.artworkId()) : undefined));
+  protected readonly artwork = computed(() =>
+    this.artworks.hasValue() ? this.artworks.value().find((a) => a.id === this.artworkId()) : undefined,
+  );
   protected readonly frames = resource({ params: () => this.artwork(), loader: ({ params }) => this.artworkApi.frames(params) });
   protected readonly frameCount = computed(() => this.artwork()?.frameCount ?? 0);
   protected readonly frameNumbers = computed(() => Array.from({ length: this.frameCount() }, (_, k) => k));
   protected readonly frame = linkedSignal({ source: this.artwork, computation: () => 0 });
   protected readonly image = computed(() => (this.frames.hasValue() ? this.frames.value()[this.frame()]?.image : undefined));
 
-  private readonly studioPresets = resource({ params: () => ({ studioId: this.context.studioId(), panelTypeId: this.panelTypeId() }), loader: ({ params }) => this.presetApi.list(params.studioId, { panelTypeId: params.panelTypeId, pageSize: 100, sort: 'name' }).then((r) => r.presets) });
-  protected readonly ownPresets = computed(() => (this.studioPresets.hasValue() ? this.studioPresets.value().filter((p) => p.panelTypeId === this.panelTypeId()) : []));
+  private readonly studioPresets = resource({
+    params: () => ({ studioId: this.context.studioId(), panelTypeId: this.panelTypeId() }),
+    loader: ({ params }) =>
+      this.presetApi.list(params.studioId, { panelTypeId: params.panelTypeId, pageSize: 100, sort: 'name' }).then((r) => r.presets),
+  });
+  protected readonly ownPresets = computed(() =>
+    this.studioPresets.hasValue() ? this.studioPresets.value().filter((p) => p.panelTypeId === this.panelTypeId()) : [],
+  );
   protected readonly builtIns = computed(() => BUILT_IN_PRESETS.filter((p) => p.panelTypeId === this.panelTypeId()));
   /** A built-in preset id, or "studio:<id>"; back to the panel type's first look when the type changes. */
   protected readonly lookId = linkedSignal(() => this.builtIns()[0]?.id ?? '');
   protected readonly params = computed(() => {
     const id = this.lookId();
-    const chosen = id.startsWith('studio:') ? this.ownPresets().find((p) => `studio:${p.id}` === id) : this.builtIns().find((p) => p.id === id);
+    const chosen = id.startsWith('studio:')
+      ? this.ownPresets().find((p) => `studio:${p.id}` === id)
+      : this.builtIns().find((p) => p.id === id);
     return (chosen ?? this.builtIns()[0])?.parameters;
   });
   protected readonly fileName = computed(() => [this.artwork()?.name, this.timingName()].filter(Boolean).join(' ') || 'frame data');

@@ -8,9 +8,22 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
-import { BITS_PER_CELL, checkFrameLayout, describeLayout, frameData, MAX_FRC_LEVELS, type FrameLayout } from '../../../../shared/drive/frame-data';
+import {
+  BITS_PER_CELL,
+  checkFrameLayout,
+  describeLayout,
+  frameData,
+  MAX_FRC_LEVELS,
+  type FrameLayout,
+} from '../../../../shared/drive/frame-data';
 import { frameLayoutSvg } from '../../../../shared/drive/frame-data-diagram';
-import { cIdentifier, encodeFrameData, FRAME_DATA_FORMAT_INFO, FRAME_DATA_FORMATS, type FrameDataFormat } from '../../../../shared/drive/frame-data-formats';
+import {
+  cIdentifier,
+  encodeFrameData,
+  FRAME_DATA_FORMAT_INFO,
+  FRAME_DATA_FORMATS,
+  type FrameDataFormat,
+} from '../../../../shared/drive/frame-data-formats';
 import { PIXELS_PER_CLOCK, type PanelInterface } from '../../../../shared/drive/interface';
 import type { PanelParams } from '../../../../shared/model/parameters';
 import type { RgbaImage } from '../../../../shared/pipeline/types';
@@ -31,7 +44,16 @@ const bitsFor = (grayLevels: number): FrameLayout['bitsPerCell'] => (grayLevels 
  */
 @Component({
   selector: 'em-frame-data-export',
-  imports: [FormsModule, DecimalPipe, MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule, MatButtonToggleModule, MatIconModule],
+  imports: [
+    FormsModule,
+    DecimalPipe,
+    MatFormFieldModule,
+    MatInputModule,
+    MatSelectModule,
+    MatButtonModule,
+    MatButtonToggleModule,
+    MatIconModule,
+  ],
   templateUrl: './frame-data-export.html',
   styleUrl: './frame-data-export.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -68,8 +90,16 @@ export class FrameDataExport {
   protected readonly fileName = linkedSignal(() => this.name());
   protected readonly packing = signal(false);
 
-  protected readonly layout = computed<FrameLayout>(() => ({ bitsPerCell: this.bits(), bitOrder: this.bitOrder(), pixelsPerClock: this.pixelsPerClock(), scan: this.scan(), frcLevels: this.bits() === 1 ? this.frcLevels() : 0 }));
-  protected readonly grid = computed(() => ({ cols: this.params().cell.cols, rows: this.params().cell.rows }), { equal: (a, b) => a.cols === b.cols && a.rows === b.rows });
+  protected readonly layout = computed<FrameLayout>(() => ({
+    bitsPerCell: this.bits(),
+    bitOrder: this.bitOrder(),
+    pixelsPerClock: this.pixelsPerClock(),
+    scan: this.scan(),
+    frcLevels: this.bits() === 1 ? this.frcLevels() : 0,
+  }));
+  protected readonly grid = computed(() => ({ cols: this.params().cell.cols, rows: this.params().cell.rows }), {
+    equal: (a, b) => a.cols === b.cols && a.rows === b.rows,
+  });
   /** Why this layout cannot hold the panel's cells, in words, or ''. */
   protected readonly problem = computed(() => {
     try {
@@ -80,7 +110,9 @@ export class FrameDataExport {
     }
   });
   protected readonly levels = computed(() => this.layout().frcLevels || this.grayLevels());
-  protected readonly description = computed(() => (this.problem() ? [] : describeLayout(this.layout(), this.grid().cols, this.grid().rows, this.levels())));
+  protected readonly description = computed(() =>
+    this.problem() ? [] : describeLayout(this.layout(), this.grid().cols, this.grid().rows, this.levels()),
+  );
   protected readonly sizes = computed(() => {
     const frameBytes = (this.grid().cols * this.grid().rows * this.bits()) / 8;
     const frames = this.layout().frcLevels ? this.layout().frcLevels - 1 : frcFrames(this.params().drive.dither);
@@ -105,7 +137,12 @@ export class FrameDataExport {
 
   /** File names keep letters, digits, dots, dashes and underscores. */
   private baseName(): string {
-    return this.fileName().trim().replace(/[^\p{L}\p{N}._-]+/gu, '-').replace(/^-+|-+$/g, '') || 'frame-data';
+    return (
+      this.fileName()
+        .trim()
+        .replace(/[^\p{L}\p{N}._-]+/gu, '-')
+        .replace(/^-+|-+$/g, '') || 'frame-data'
+    );
   }
 
   protected async download(): Promise<void> {
@@ -120,7 +157,11 @@ export class FrameDataExport {
       const info = FRAME_DATA_FORMAT_INFO[format];
       const file = `${this.baseName()}.${info.extension}`;
       downloadBlob(file, new Blob([encodeFrameData(data, format, this.fileName())], { type: info.type }));
-      this.snackBar.open(`Saved ${file}: ${data.frames > 1 ? `${data.frames} frames of ` : ''}${data.frameBytes.toLocaleString('en-US')} bytes${format === 'bin' ? '' : ` as ${info.label}`}.`, undefined, { duration: 4000 });
+      this.snackBar.open(
+        `Saved ${file}: ${data.frames > 1 ? `${data.frames} frames of ` : ''}${data.frameBytes.toLocaleString('en-US')} bytes${format === 'bin' ? '' : ` as ${info.label}`}.`,
+        undefined,
+        { duration: 4000 },
+      );
     } catch (err) {
       this.snackBar.open(`The frame data could not be made: ${(err as Error).message}.`, 'Dismiss', { duration: 8000 });
     } finally {

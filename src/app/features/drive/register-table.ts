@@ -20,10 +20,21 @@ export class RegisterTable {
   readonly registers = input.required<VgaRegisters>();
   readonly name = input<string>('timing');
 
-  protected readonly hexLine = computed(() => this.registers().crtc.map((r) => hex2(r.value)).join(' '));
-  protected readonly sequencerLine = computed(() => this.registers().sequencer.map((r) => hex2(r.value)).join(' '));
+  protected readonly hexLine = computed(() =>
+    this.registers()
+      .crtc.map((r) => hex2(r.value))
+      .join(' '),
+  );
+  protected readonly sequencerLine = computed(() =>
+    this.registers()
+      .sequencer.map((r) => hex2(r.value))
+      .join(' '),
+  );
   /** The misc register and the sequencer, each with the label a register table gives it. */
-  protected readonly others = computed(() => [{ label: '3C2', field: this.registers().misc }, ...this.registers().sequencer.map((f) => ({ label: `SR${hex2(f.index)}`, field: f }))]);
+  protected readonly others = computed(() => [
+    { label: '3C2', field: this.registers().misc },
+    ...this.registers().sequencer.map((f) => ({ label: `SR${hex2(f.index)}`, field: f })),
+  ]);
   protected readonly hex = hex2;
 
   protected async copyHex(): Promise<void> {
@@ -38,14 +49,31 @@ export class RegisterTable {
 
   protected downloadJson(): void {
     const r = this.registers();
-    const doc = { crtc: r.crtc.map((f) => hex2(f.value)), misc: hex2(r.misc.value), sequencer: r.sequencer.map((f) => hex2(f.value)), layout: r.layout, fields: [...r.crtc, r.misc, ...r.sequencer], notes: r.notes };
+    const doc = {
+      crtc: r.crtc.map((f) => hex2(f.value)),
+      misc: hex2(r.misc.value),
+      sequencer: r.sequencer.map((f) => hex2(f.value)),
+      layout: r.layout,
+      fields: [...r.crtc, r.misc, ...r.sequencer],
+      notes: r.notes,
+    };
     downloadText(`${this.name()}-registers.json`, JSON.stringify(doc, null, 2), 'application/json');
   }
 
   protected downloadText(): void {
     const r = this.registers();
-    const labelled = [...r.crtc.map((f) => [`CR${hex2(f.index)}`, f] as const), ['misc', r.misc] as const, ...r.sequencer.map((f) => [`SR${hex2(f.index)}`, f] as const)];
-    const lines = labelled.map(([label, f]) => `${label} = ${hex2(f.value)}  ${f.name}\n${f.bits.map((b) => `    [${b.range}] ${b.meaning}`).join('\n')}`);
-    downloadText(`${this.name()}-registers.txt`, [`${this.name()} — VGA CRT controller`, ...r.notes, '', ...lines].join('\n'), 'text/plain');
+    const labelled = [
+      ...r.crtc.map((f) => [`CR${hex2(f.index)}`, f] as const),
+      ['misc', r.misc] as const,
+      ...r.sequencer.map((f) => [`SR${hex2(f.index)}`, f] as const),
+    ];
+    const lines = labelled.map(
+      ([label, f]) => `${label} = ${hex2(f.value)}  ${f.name}\n${f.bits.map((b) => `    [${b.range}] ${b.meaning}`).join('\n')}`,
+    );
+    downloadText(
+      `${this.name()}-registers.txt`,
+      [`${this.name()} — VGA CRT controller`, ...r.notes, '', ...lines].join('\n'),
+      'text/plain',
+    );
   }
 }

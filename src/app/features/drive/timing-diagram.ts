@@ -18,9 +18,21 @@ import { downloadText } from './download';
     <img [src]="url()" [alt]="'Timing diagram of one line and one frame of ' + timing().name" />
   `,
   styles: `
-    .head { display: flex; justify-content: space-between; align-items: center; margin-bottom: 8px; }
-    h2 { font: var(--mat-sys-title-large); }
-    img { width: 100%; height: auto; border-radius: var(--mat-sys-corner-medium); border: 1px solid var(--mat-sys-outline-variant); }
+    .head {
+      display: flex;
+      justify-content: space-between;
+      align-items: center;
+      margin-bottom: 8px;
+    }
+    h2 {
+      font: var(--mat-sys-title-large);
+    }
+    img {
+      width: 100%;
+      height: auto;
+      border-radius: var(--mat-sys-corner-medium);
+      border: 1px solid var(--mat-sys-outline-variant);
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

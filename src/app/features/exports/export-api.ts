@@ -28,7 +28,11 @@ export class ExportApi {
     return (await firstValueFrom(this.http.get<{ links: ExportLinkDto[] }>(`${this.base(studioId)}/${id}/links`))).links;
   }
   async createLink(studioId: string, id: string, expiresInDays: number | null): Promise<ExportLinkDto> {
-    return (await firstValueFrom(this.http.post<{ link: ExportLinkDto }>(`${this.base(studioId)}/${id}/links`, expiresInDays ? { expiresInDays } : {}))).link;
+    return (
+      await firstValueFrom(
+        this.http.post<{ link: ExportLinkDto }>(`${this.base(studioId)}/${id}/links`, expiresInDays ? { expiresInDays } : {}),
+      )
+    ).link;
   }
   async revokeLink(studioId: string, id: string, linkId: string): Promise<void> {
     await firstValueFrom(this.http.delete(`${this.base(studioId)}/${id}/links/${linkId}`));

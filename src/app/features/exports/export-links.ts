@@ -32,15 +32,27 @@ import { ExportApi } from './export-api';
         <input readonly [value]="url" aria-label="The new share link (shown once)" #field (focus)="field.select()" />
         <button mat-flat-button type="button" (click)="copy(url)"><mat-icon>content_copy</mat-icon> Copy</button>
       </div>
-      <p class="hint">Anyone with this link sees the export read-only and can download its files, without an account. It is shown only now.</p>
+      <p class="hint">
+        Anyone with this link sees the export read-only and can download its files, without an account. It is shown only now.
+      </p>
     }
     @if (links.hasValue() && links.value().length) {
       <ul class="links" aria-label="Share links">
         @for (l of links.value(); track l.id) {
           <li [class.gone]="l.revokedAt">
-            <span>Made {{ l.createdAt | date: 'medium' }} · {{ l.revokedAt ? 'revoked' : l.expiresAt ? 'works until ' + (l.expiresAt | date: 'medium') : 'works until revoked' }}</span>
+            <span
+              >Made {{ l.createdAt | date: 'medium' }} ·
+              {{ l.revokedAt ? 'revoked' : l.expiresAt ? 'works until ' + (l.expiresAt | date: 'medium') : 'works until revoked' }}</span
+            >
             @if (!l.revokedAt) {
-              <button mat-button type="button" (click)="revoke(l.id)" [attr.aria-label]="'Revoke the link made ' + (l.createdAt | date: 'medium')"><mat-icon>link_off</mat-icon> Revoke</button>
+              <button
+                mat-button
+                type="button"
+                (click)="revoke(l.id)"
+                [attr.aria-label]="'Revoke the link made ' + (l.createdAt | date: 'medium')"
+              >
+                <mat-icon>link_off</mat-icon> Revoke
+              </button>
             }
           </li>
         }
@@ -48,14 +60,52 @@ import { ExportApi } from './export-api';
     }
   `,
   styles: `
-    :host { display: block; padding: 8px 0; border-top: 1px solid var(--mat-sys-outline-variant); margin-top: 8px; }
-    .make, .made { display: flex; flex-wrap: wrap; gap: 8px; align-items: center; }
-    .made { margin-top: 8px; }
-    .made input { flex: 1 1 260px; min-width: 0; font: var(--mat-sys-body-small); padding: 8px; background: var(--mat-sys-surface-container-highest); color: var(--mat-sys-on-surface); border: 1px solid var(--mat-sys-primary); border-radius: 4px; }
-    .hint, .links { font: var(--mat-sys-body-small); color: var(--mat-sys-on-surface-variant); }
-    .links { list-style: none; padding: 0; margin: 8px 0 0; }
-    .links li { display: flex; flex-wrap: wrap; justify-content: space-between; align-items: center; gap: 4px 8px; }
-    .links li.gone { opacity: 0.6; }
+    :host {
+      display: block;
+      padding: 8px 0;
+      border-top: 1px solid var(--mat-sys-outline-variant);
+      margin-top: 8px;
+    }
+    .make,
+    .made {
+      display: flex;
+      flex-wrap: wrap;
+      gap: 8px;
+      align-items: center;
+    }
+    .made {
+      margin-top: 8px;
+    }
+    .made input {
+      flex: 1 1 260px;
+      min-width: 0;
+      font: var(--mat-sys-body-small);
+      padding: 8px;
+      background: var(--mat-sys-surface-container-highest);
+      color: var(--mat-sys-on-surface);
+      border: 1px solid var(--mat-sys-primary);
+      border-radius: 4px;
+    }
+    .hint,
+    .links {
+      font: var(--mat-sys-body-small);
+      color: var(--mat-sys-on-surface-variant);
+    }
+    .links {
+      list-style: none;
+      padding: 0;
+      margin: 8px 0 0;
+    }
+    .links li {
+      display: flex;
+      flex-wrap: wrap;
+      justify-content: space-between;
+      align-items: center;
+      gap: 4px 8px;
+    }
+    .links li.gone {
+      opacity: 0.6;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -69,7 +119,10 @@ export class ExportLinks {
   protected readonly days = signal(7);
   protected readonly busy = signal(false);
   protected readonly madeUrl = signal('');
-  protected readonly links = resource({ params: () => ({ studioId: this.context.studioId(), id: this.export().id }), loader: ({ params }) => this.api.links(params.studioId, params.id) });
+  protected readonly links = resource({
+    params: () => ({ studioId: this.context.studioId(), id: this.export().id }),
+    loader: ({ params }) => this.api.links(params.studioId, params.id),
+  });
 
   protected async make(): Promise<void> {
     this.busy.set(true);

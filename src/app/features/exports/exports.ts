@@ -15,7 +15,18 @@ import { MatTooltipModule } from '@angular/material/tooltip';
 import { ActivatedRoute, RouterLink } from '@angular/router';
 import { catchError, filter, from, merge, of, Subject, switchMap, timer } from 'rxjs';
 import { EXPORT_STATUS_LABELS, type ExportDto, type ExportKind, type ExportStatus } from '../../../../shared/api/export.schema';
-import { LABEL_LINES, MAX_SHEET_ARTWORKS, MAX_SHEET_CELLS, MAX_SHEET_LOOKS, MAX_SHEET_PIXELS, REPORT_LINES, SHEET_LAYOUT_LABELS, SHEET_LAYOUTS, sheetGeometry, type SheetLayout } from '../../../../shared/export/sheet';
+import {
+  LABEL_LINES,
+  MAX_SHEET_ARTWORKS,
+  MAX_SHEET_CELLS,
+  MAX_SHEET_LOOKS,
+  MAX_SHEET_PIXELS,
+  REPORT_LINES,
+  SHEET_LAYOUT_LABELS,
+  SHEET_LAYOUTS,
+  sheetGeometry,
+  type SheetLayout,
+} from '../../../../shared/export/sheet';
 import { outputUniforms } from '../../../../shared/pipeline/output/uniforms';
 import { apiErrorMessage } from '../../core/api-error';
 import { AuthStore } from '../../core/auth-store';
@@ -28,7 +39,13 @@ import { StudioContext } from '../studio/studio-context';
 import { ExportApi } from './export-api';
 import { ExportLinks } from './export-links';
 
-const STATUS_ICONS: Readonly<Record<ExportStatus, string>> = { queued: 'schedule', running: 'autorenew', done: 'check_circle', failed: 'error', cancelled: 'block' };
+const STATUS_ICONS: Readonly<Record<ExportStatus, string>> = {
+  queued: 'schedule',
+  running: 'autorenew',
+  done: 'check_circle',
+  failed: 'error',
+  cancelled: 'block',
+};
 
 /**
  * Exports: comparison sheets of artworks × looks for clients and teammates, made in the
@@ -37,7 +54,22 @@ const STATUS_ICONS: Readonly<Record<ExportStatus, string>> = { queued: 'schedule
  */
 @Component({
   selector: 'em-exports',
-  imports: [FormsModule, RouterLink, DatePipe, DecimalPipe, MatButtonModule, MatButtonToggleModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, MatSelectModule, MatTooltipModule, ExportLinks],
+  imports: [
+    FormsModule,
+    RouterLink,
+    DatePipe,
+    DecimalPipe,
+    MatButtonModule,
+    MatButtonToggleModule,
+    MatCheckboxModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatProgressBarModule,
+    MatSelectModule,
+    MatTooltipModule,
+    ExportLinks,
+  ],
   templateUrl: './exports.html',
   styleUrl: './exports.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -78,13 +110,25 @@ export class Exports {
   protected readonly sharing = signal<string | null>(null);
   protected readonly submitError = signal('');
 
-  protected readonly artworks = resource({ params: () => this.context.studioId(), loader: ({ params }) => this.artworkApi.list(params, '', 'name') });
-  private readonly presets = resource({ params: () => this.context.studioId(), loader: ({ params }) => this.presetApi.list(params, { sort: 'name', pageSize: 100 }) });
+  protected readonly artworks = resource({
+    params: () => this.context.studioId(),
+    loader: ({ params }) => this.artworkApi.list(params, '', 'name'),
+  });
+  private readonly presets = resource({
+    params: () => this.context.studioId(),
+    loader: ({ params }) => this.presetApi.list(params, { sort: 'name', pageSize: 100 }),
+  });
   protected readonly lookOptions = computed(() => lookOptionsOf(this.presets.hasValue() ? this.presets.value().presets : []));
   protected readonly studioLooks = computed(() => this.lookOptions().filter((l) => l.studio));
   protected readonly builtInLooks = computed(() => this.lookOptions().filter((l) => !l.studio));
-  private readonly chosenLooks = computed(() => this.lookIds().map((id) => this.lookOptions().find((l) => l.id === id)).filter((l): l is LookOption => !!l));
-  private readonly chosenArtworks = computed(() => (this.artworks.hasValue() ? this.artworks.value() : []).filter((a) => this.artworkIds().includes(a.id)));
+  private readonly chosenLooks = computed(() =>
+    this.lookIds()
+      .map((id) => this.lookOptions().find((l) => l.id === id))
+      .filter((l): l is LookOption => !!l),
+  );
+  private readonly chosenArtworks = computed(() =>
+    (this.artworks.hasValue() ? this.artworks.value() : []).filter((a) => this.artworkIds().includes(a.id)),
+  );
   /** Frames every chosen artwork has (1 until one is chosen). */
   protected readonly frames = computed(() => {
     const counts = this.chosenArtworks().map((a) => a.frameCount);
@@ -97,10 +141,12 @@ export class Exports {
   protected readonly animationPlan = computed(() => {
     const artwork = this.animations().find((a) => a.id === this.animationId());
     const look = this.lookOptions().find((l) => l.id === this.animationLook());
-    if (!this.animations().length) return { problem: 'The library has no animation: upload a GIF, APNG, animated WebP or sprite sheet first.', summary: '' };
+    if (!this.animations().length)
+      return { problem: 'The library has no animation: upload a GIF, APNG, animated WebP or sprite sheet first.', summary: '' };
     if (!artwork) return { problem: 'Choose an animation.', summary: '' };
     if (!look) return { problem: 'Choose a look.', summary: '' };
-    if (!(this.distanceMm() >= 50 && this.distanceMm() <= 100_000)) return { problem: 'Give a viewing distance from 50 to 100,000 mm.', summary: '' };
+    if (!(this.distanceMm() >= 50 && this.distanceMm() <= 100_000))
+      return { problem: 'Give a viewing distance from 50 to 100,000 mm.', summary: '' };
     const u = outputUniforms(look.parameters, this.scale());
     const seconds = artwork.delaysMs.reduce((a, b) => a + b, 0) / 1000;
     return { problem: '', summary: `${artwork.frameCount} frames of ${u.width} × ${u.height} px · ${seconds.toFixed(1)} s a loop` };
@@ -116,7 +162,10 @@ export class Exports {
       return { width: u.width, height: u.height };
     });
     const row = this.layout() === 'grid' ? sizes : this.layout() === 'side-by-side' ? [sizes[0], ...sizes] : [...sizes, sizes[0]];
-    const g = sheetGeometry(Array.from({ length: rows }, () => row), this.withReport() ? LABEL_LINES + REPORT_LINES : LABEL_LINES);
+    const g = sheetGeometry(
+      Array.from({ length: rows }, () => row),
+      this.withReport() ? LABEL_LINES + REPORT_LINES : LABEL_LINES,
+    );
     return { width: g.width, height: g.height, sizes };
   });
 
@@ -132,11 +181,14 @@ export class Exports {
     if (this.layout() === 'ab-diff') {
       if (looks !== 2) return `An A/B sheet compares exactly two looks (${looks} chosen).`;
       const [a, b] = this.sheetSize()!.sizes;
-      if (a.width !== b.width || a.height !== b.height) return 'An A/B sheet compares two renders of one size: choose two looks of one panel type.';
+      if (a.width !== b.width || a.height !== b.height)
+        return 'An A/B sheet compares two renders of one size: choose two looks of one panel type.';
     }
-    if (!Number.isInteger(this.frame()) || this.frame() < 1 || this.frame() > this.frames()) return `Choose a frame from 1 to ${this.frames()}.`;
+    if (!Number.isInteger(this.frame()) || this.frame() < 1 || this.frame() > this.frames())
+      return `Choose a frame from 1 to ${this.frames()}.`;
     const size = this.sheetSize()!;
-    if (size.width * size.height > MAX_SHEET_PIXELS) return `The sheet would be ${size.width} × ${size.height} pixels, over the limit of ${MAX_SHEET_PIXELS / 1e6} million: lower the scale or choose fewer.`;
+    if (size.width * size.height > MAX_SHEET_PIXELS)
+      return `The sheet would be ${size.width} × ${size.height} pixels, over the limit of ${MAX_SHEET_PIXELS / 1e6} million: lower the scale or choose fewer.`;
     return '';
   });
 
@@ -199,8 +251,22 @@ export class Exports {
       const named = title ? { title } : {};
       const studioId = this.context.studioId();
       const made = sheet
-        ? await this.api.create(studioId, { ...named, layout: this.layout(), artworkIds: this.artworkIds(), looks: this.lookIds(), scale: this.scale(), frame: this.frame() - 1, report: this.withReport() })
-        : await this.api.createAnimation(studioId, { ...named, artworkId: this.animationId(), look: this.animationLook(), scale: this.scale(), distanceMm: this.distanceMm() });
+        ? await this.api.create(studioId, {
+            ...named,
+            layout: this.layout(),
+            artworkIds: this.artworkIds(),
+            looks: this.lookIds(),
+            scale: this.scale(),
+            frame: this.frame() - 1,
+            report: this.withReport(),
+          })
+        : await this.api.createAnimation(studioId, {
+            ...named,
+            artworkId: this.animationId(),
+            look: this.animationLook(),
+            scale: this.scale(),
+            distanceMm: this.distanceMm(),
+          });
       this.exports.update((list) => [made, ...(list ?? [])]);
       this.snackBar.open(`“${made.title}” is queued: its progress shows below.`, undefined, { duration: 4000 });
     } catch (err) {
@@ -222,7 +288,10 @@ export class Exports {
     const running = e.status === 'queued' || e.status === 'running';
     const confirmed = await this.confirm.ask({
       title: `Delete “${e.title}”?`,
-      consequences: [running ? 'Its job stops, and nothing it made is kept.' : 'The sheet file is deleted for everyone in the studio.', 'This cannot be undone.'],
+      consequences: [
+        running ? 'Its job stops, and nothing it made is kept.' : 'The sheet file is deleted for everyone in the studio.',
+        'This cannot be undone.',
+      ],
       action: 'Delete export',
     });
     if (confirmed) await this.act(() => this.api.remove(this.context.studioId(), e.id), `Deleted “${e.title}”.`);

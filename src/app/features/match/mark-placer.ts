@@ -41,10 +41,31 @@ const LOUPE_SPAN = 44;
     </figure>
   `,
   styles: `
-    :host { display: grid; grid-template-columns: minmax(0, 1fr) 196px; gap: 16px; align-items: start; }
-    @media (max-width: 700px) { :host { grid-template-columns: 1fr; } }
-    .stage { position: relative; touch-action: none; user-select: none; line-height: 0; border-radius: var(--mat-sys-corner-small); overflow: hidden; background: #000; }
-    img { width: 100%; height: auto; display: block; }
+    :host {
+      display: grid;
+      grid-template-columns: minmax(0, 1fr) 196px;
+      gap: 16px;
+      align-items: start;
+    }
+    @media (max-width: 700px) {
+      :host {
+        grid-template-columns: 1fr;
+      }
+    }
+    .stage {
+      position: relative;
+      touch-action: none;
+      user-select: none;
+      line-height: 0;
+      border-radius: var(--mat-sys-corner-small);
+      overflow: hidden;
+      background: #000;
+    }
+    img {
+      width: 100%;
+      height: auto;
+      display: block;
+    }
     .mark {
       position: absolute;
       width: 28px;
@@ -59,14 +80,57 @@ const LOUPE_SPAN = 44;
       font: var(--mat-sys-label-small);
       line-height: 1;
     }
-    .mark::after { content: ''; position: absolute; left: 50%; top: 50%; width: 4px; height: 4px; margin: -2px 0 0 -2px; border-radius: 50%; background: var(--mat-sys-primary); }
-    .mark span { position: absolute; left: 26px; top: -8px; padding: 1px 5px; border-radius: 8px; background: var(--mat-sys-primary); }
-    .mark.label-left span { left: auto; right: 26px; }
-    .mark.active { border-color: var(--mat-sys-tertiary); box-shadow: 0 0 0 3px color-mix(in srgb, var(--mat-sys-tertiary) 40%, transparent); }
-    .mark:focus-visible { outline: 3px solid var(--mat-sys-tertiary); outline-offset: 2px; }
-    .loupe-box { margin: 0; display: grid; gap: 6px; justify-items: center; }
-    .loupe { width: 176px; height: 176px; border-radius: 50%; border: 2px solid var(--mat-sys-outline); background: #000; image-rendering: pixelated; }
-    figcaption { font: var(--mat-sys-body-small); color: var(--mat-sys-on-surface-variant); text-align: center; font-variant-numeric: tabular-nums; }
+    .mark::after {
+      content: '';
+      position: absolute;
+      left: 50%;
+      top: 50%;
+      width: 4px;
+      height: 4px;
+      margin: -2px 0 0 -2px;
+      border-radius: 50%;
+      background: var(--mat-sys-primary);
+    }
+    .mark span {
+      position: absolute;
+      left: 26px;
+      top: -8px;
+      padding: 1px 5px;
+      border-radius: 8px;
+      background: var(--mat-sys-primary);
+    }
+    .mark.label-left span {
+      left: auto;
+      right: 26px;
+    }
+    .mark.active {
+      border-color: var(--mat-sys-tertiary);
+      box-shadow: 0 0 0 3px color-mix(in srgb, var(--mat-sys-tertiary) 40%, transparent);
+    }
+    .mark:focus-visible {
+      outline: 3px solid var(--mat-sys-tertiary);
+      outline-offset: 2px;
+    }
+    .loupe-box {
+      margin: 0;
+      display: grid;
+      gap: 6px;
+      justify-items: center;
+    }
+    .loupe {
+      width: 176px;
+      height: 176px;
+      border-radius: 50%;
+      border: 2px solid var(--mat-sys-outline);
+      background: #000;
+      image-rendering: pixelated;
+    }
+    figcaption {
+      font: var(--mat-sys-body-small);
+      color: var(--mat-sys-on-surface-variant);
+      text-align: center;
+      font-variant-numeric: tabular-nums;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -19,7 +19,11 @@ export class MatchApi {
   async get(studioId: string, id: string): Promise<MatchDto> {
     return (await firstValueFrom(this.http.get<{ match: MatchDto }>(`${this.base(studioId)}/${id}`))).match;
   }
-  async upload(studioId: string, file: File, fields: { look: string; activeWidthMm: number; activeHeightMm: number; cameraGamma: number | null }): Promise<MatchDto> {
+  async upload(
+    studioId: string,
+    file: File,
+    fields: { look: string; activeWidthMm: number; activeHeightMm: number; cameraGamma: number | null },
+  ): Promise<MatchDto> {
     const form = new FormData();
     form.append('file', file, file.name);
     form.append('look', fields.look);
@@ -37,7 +41,12 @@ export class MatchApi {
   /** Saves a fit as a new preset (a name), or as a new revision of the studio preset it started from (null). */
   /** Saves a fit as a new preset (a name) or the next revision of its look (null); levelCurve takes the measured level curve as the duty table. */
   async save(studioId: string, id: string, name: string | null, levelCurve: boolean): Promise<{ presetId: string; match: MatchDto }> {
-    return firstValueFrom(this.http.post<{ presetId: string; match: MatchDto }>(`${this.base(studioId)}/${id}/save`, name === null ? { revisionOfLook: true, levelCurve } : { name, levelCurve }));
+    return firstValueFrom(
+      this.http.post<{ presetId: string; match: MatchDto }>(
+        `${this.base(studioId)}/${id}/save`,
+        name === null ? { revisionOfLook: true, levelCurve } : { name, levelCurve },
+      ),
+    );
   }
   async remove(studioId: string, id: string): Promise<void> {
     await firstValueFrom(this.http.delete(`${this.base(studioId)}/${id}`));

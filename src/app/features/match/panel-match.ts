@@ -35,7 +35,21 @@ type Mark = [number, number];
  */
 @Component({
   selector: 'em-panel-match',
-  imports: [FormsModule, RouterLink, DatePipe, DecimalPipe, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, MatSelectModule, MatSliderModule, MarkPlacer],
+  imports: [
+    FormsModule,
+    RouterLink,
+    DatePipe,
+    DecimalPipe,
+    MatButtonModule,
+    MatCheckboxModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatProgressBarModule,
+    MatSelectModule,
+    MatSliderModule,
+    MarkPlacer,
+  ],
   templateUrl: './panel-match.html',
   styleUrl: './panel-match.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -48,9 +62,16 @@ export class PanelMatch {
   private readonly auth = inject(AuthStore);
   protected readonly context = inject(StudioContext);
 
-  private readonly presets = resource({ params: () => this.context.studioId(), loader: ({ params }) => this.presetApi.list(params, { sort: 'name', pageSize: 100 }) });
+  private readonly presets = resource({
+    params: () => this.context.studioId(),
+    loader: ({ params }) => this.presetApi.list(params, { sort: 'name', pageSize: 100 }),
+  });
   /** Looks a pattern fits on (the pattern needs a panel of at least 64 × 32 cells). */
-  protected readonly looks = computed(() => lookOptionsOf(this.presets.hasValue() ? this.presets.value().presets : []).filter((l) => l.parameters.cell.cols >= MIN_PATTERN_COLS && l.parameters.cell.rows >= MIN_PATTERN_ROWS));
+  protected readonly looks = computed(() =>
+    lookOptionsOf(this.presets.hasValue() ? this.presets.value().presets : []).filter(
+      (l) => l.parameters.cell.cols >= MIN_PATTERN_COLS && l.parameters.cell.rows >= MIN_PATTERN_ROWS,
+    ),
+  );
   protected readonly lookId = signal('el-amber-640x480.standard');
   protected readonly look = computed(() => this.looks().find((l) => l.id === this.lookId()));
   protected readonly activeWidth = signal(192);
@@ -72,10 +93,16 @@ export class PanelMatch {
   protected readonly presetName = signal('');
   protected readonly saving = signal(false);
   protected readonly running = computed(() => ['queued', 'running'].includes(this.selected()?.status ?? ''));
-  protected readonly photoUrl = computed(() => (this.selected() ? `${this.api.base(this.context.studioId())}/${this.selected()!.id}/photo` : ''));
-  protected readonly rectifiedUrl = computed(() => `${this.api.base(this.context.studioId())}/${this.selected()?.id}/rectified?at=${this.checkedAt()}`);
+  protected readonly photoUrl = computed(() =>
+    this.selected() ? `${this.api.base(this.context.studioId())}/${this.selected()!.id}/photo` : '',
+  );
+  protected readonly rectifiedUrl = computed(
+    () => `${this.api.base(this.context.studioId())}/${this.selected()?.id}/rectified?at=${this.checkedAt()}`,
+  );
   protected readonly simulatedUrl = computed(() => `${this.api.base(this.context.studioId())}/${this.selected()?.id}/simulated`);
-  protected readonly residualUrl = computed(() => `${this.api.base(this.context.studioId())}/${this.selected()?.id}/residual?at=${this.selected()?.progress}`);
+  protected readonly residualUrl = computed(
+    () => `${this.api.base(this.context.studioId())}/${this.selected()?.id}/residual?at=${this.selected()?.progress}`,
+  );
   protected readonly patternUrl = computed(() => this.api.patternUrl(this.context.studioId(), this.lookId()));
   protected readonly frameDataFormats = FRAME_DATA_FORMATS.map((f) => ({ format: f, label: FRAME_DATA_FORMAT_INFO[f].label }));
   protected frameDataUrl(format: string): string {
@@ -145,7 +172,12 @@ export class PanelMatch {
     this.uploading.set(true);
     this.uploadError.set('');
     try {
-      const made = await this.api.upload(this.context.studioId(), file, { look: this.lookId(), activeWidthMm: this.activeWidth(), activeHeightMm: this.activeHeight(), cameraGamma: this.camera() === 'gamma' ? this.gamma() : null });
+      const made = await this.api.upload(this.context.studioId(), file, {
+        look: this.lookId(),
+        activeWidthMm: this.activeWidth(),
+        activeHeightMm: this.activeHeight(),
+        cameraGamma: this.camera() === 'gamma' ? this.gamma() : null,
+      });
       this.matches.update((list) => [made, ...(list ?? [])]);
       this.open(made);
     } catch (err) {
@@ -194,7 +226,11 @@ export class PanelMatch {
     try {
       const saved = await this.api.save(this.context.studioId(), m.id, asRevision ? null : this.presetName().trim(), this.useLevelCurve());
       this.selected.set(saved.match);
-      this.snackBar.open(asRevision ? `Saved as a new revision of “${m.look.name}”.` : `Saved “${this.presetName().trim()}” as a studio preset.`, undefined, { duration: 4000 });
+      this.snackBar.open(
+        asRevision ? `Saved as a new revision of “${m.look.name}”.` : `Saved “${this.presetName().trim()}” as a studio preset.`,
+        undefined,
+        { duration: 4000 },
+      );
       this.presets.reload();
     } catch (err) {
       this.snackBar.open(apiErrorMessage(err), 'Dismiss', { duration: 8000 });
@@ -204,7 +240,14 @@ export class PanelMatch {
   }
 
   protected async remove(m: MatchDto): Promise<void> {
-    const confirmed = await this.confirm.ask({ title: `Delete the match of “${m.photo.fileName}”?`, consequences: ['The photo and the fit are deleted for everyone in the studio; a preset saved from it stays.', 'This cannot be undone.'], action: 'Delete match' });
+    const confirmed = await this.confirm.ask({
+      title: `Delete the match of “${m.photo.fileName}”?`,
+      consequences: [
+        'The photo and the fit are deleted for everyone in the studio; a preset saved from it stays.',
+        'This cannot be undone.',
+      ],
+      action: 'Delete match',
+    });
     if (!confirmed) return;
     try {
       await this.api.remove(this.context.studioId(), m.id);

@@ -14,7 +14,19 @@ export interface LookOption {
 /** The studio's presets, then the built-in ones, as the look pickers list them. */
 export function lookOptionsOf(presets: readonly PresetDto[]): LookOption[] {
   return [
-    ...presets.map((p) => ({ id: `studio:${p.id}`, name: `${p.name} · r${p.revision}`, panelTypeName: panelTypeById(p.panelTypeId)?.name ?? p.panelTypeId, parameters: p.parameters, studio: true })),
-    ...BUILT_IN_PRESETS.map((p) => ({ id: p.id, name: p.name, panelTypeName: panelTypeById(p.panelTypeId)!.name, parameters: p.parameters, studio: false })),
+    ...presets.map((p) => ({
+      id: `studio:${p.id}`,
+      name: `${p.name} · r${p.revision}`,
+      panelTypeName: panelTypeById(p.panelTypeId)?.name ?? p.panelTypeId,
+      parameters: p.parameters,
+      studio: true,
+    })),
+    ...BUILT_IN_PRESETS.map((p) => ({
+      id: p.id,
+      name: p.name,
+      panelTypeName: panelTypeById(p.panelTypeId)!.name,
+      parameters: p.parameters,
+      studio: false,
+    })),
   ];
 }

@@ -14,8 +14,15 @@ export class PresetApi {
   private readonly http = inject(HttpClient);
   private readonly base = (studioId: string) => `/api/studios/${studioId}/presets`;
 
-  async list(studioId: string, q: { panelTypeId?: string; q?: string; sort?: string; page?: number; pageSize?: number }): Promise<{ presets: PresetDto[]; total: number }> {
-    const params = Object.fromEntries(Object.entries(q).filter(([, v]) => v !== undefined && v !== '').map(([k, v]) => [k, String(v)]));
+  async list(
+    studioId: string,
+    q: { panelTypeId?: string; q?: string; sort?: string; page?: number; pageSize?: number },
+  ): Promise<{ presets: PresetDto[]; total: number }> {
+    const params = Object.fromEntries(
+      Object.entries(q)
+        .filter(([, v]) => v !== undefined && v !== '')
+        .map(([k, v]) => [k, String(v)]),
+    );
     return firstValueFrom(this.http.get<{ presets: PresetDto[]; total: number }>(this.base(studioId), { params }));
   }
   async get(studioId: string, id: string): Promise<PresetDto> {
@@ -24,7 +31,11 @@ export class PresetApi {
   async create(studioId: string, body: { name: string; panelTypeId: string; parameters?: PanelParams }): Promise<PresetDto> {
     return (await firstValueFrom(this.http.post<{ preset: PresetDto }>(this.base(studioId), body))).preset;
   }
-  async save(studioId: string, id: string, body: { baseRevision: number; name?: string; parameters?: PanelParams; message?: string }): Promise<PresetDto> {
+  async save(
+    studioId: string,
+    id: string,
+    body: { baseRevision: number; name?: string; parameters?: PanelParams; message?: string },
+  ): Promise<PresetDto> {
     return (await firstValueFrom(this.http.patch<{ preset: PresetDto }>(`${this.base(studioId)}/${id}`, body))).preset;
   }
   async remove(studioId: string, id: string): Promise<void> {
@@ -34,10 +45,13 @@ export class PresetApi {
     return (await firstValueFrom(this.http.get<{ revisions: PresetRevisionDto[] }>(`${this.base(studioId)}/${id}/revisions`))).revisions;
   }
   async restore(studioId: string, id: string, revision: number): Promise<PresetDto> {
-    return (await firstValueFrom(this.http.post<{ preset: PresetDto }>(`${this.base(studioId)}/${id}/revisions/${revision}/restore`, {}))).preset;
+    return (await firstValueFrom(this.http.post<{ preset: PresetDto }>(`${this.base(studioId)}/${id}/revisions/${revision}/restore`, {})))
+      .preset;
   }
   async duplicate(studioId: string, id: string, targetStudioId: string): Promise<PresetDto> {
-    return (await firstValueFrom(this.http.post<{ preset: PresetDto }>(`${this.base(studioId)}/${id}/duplicate`, { studioId: targetStudioId }))).preset;
+    return (
+      await firstValueFrom(this.http.post<{ preset: PresetDto }>(`${this.base(studioId)}/${id}/duplicate`, { studioId: targetStudioId }))
+    ).preset;
   }
   async setReference(studioId: string, id: string, isReference: boolean): Promise<PresetDto> {
     return (await firstValueFrom(this.http.post<{ preset: PresetDto }>(`${this.base(studioId)}/${id}/reference`, { isReference }))).preset;
@@ -69,6 +83,10 @@ export class PresetApi {
   }
   /** A reference render of a studio artwork with these parameters (for thumbnails and comparisons). */
   async render(studioId: string, artworkId: string, parameters: PanelParams, scale = 1): Promise<RenderDto> {
-    return (await firstValueFrom(this.http.post<{ render: RenderDto }>(`/api/studios/${studioId}/renders`, { artworkId, parameters, scale, frame: 0 }))).render;
+    return (
+      await firstValueFrom(
+        this.http.post<{ render: RenderDto }>(`/api/studios/${studioId}/renders`, { artworkId, parameters, scale, frame: 0 }),
+      )
+    ).render;
   }
 }

@@ -25,7 +25,19 @@ import { RenderThumb } from './render-thumb';
 /** One preset: its history (compare two revisions, restore one), sharing and housekeeping. */
 @Component({
   selector: 'em-preset-detail',
-  imports: [FormsModule, RouterLink, DatePipe, MatButtonModule, MatIconModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatProgressBarModule, MatTooltipModule, RenderThumb],
+  imports: [
+    FormsModule,
+    RouterLink,
+    DatePipe,
+    MatButtonModule,
+    MatIconModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatSelectModule,
+    MatProgressBarModule,
+    MatTooltipModule,
+    RenderThumb,
+  ],
   templateUrl: './preset-detail.html',
   styleUrl: './preset-detail.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -41,9 +53,18 @@ export class PresetDetail {
 
   readonly presetId = input.required<string>();
 
-  protected readonly preset = resource({ params: () => ({ s: this.context.studioId(), id: this.presetId() }), loader: ({ params }) => this.api.get(params.s, params.id) });
-  protected readonly revisions = resource({ params: () => ({ s: this.context.studioId(), id: this.presetId(), rev: this.preset.hasValue() ? this.preset.value().revision : 0 }), loader: ({ params }) => this.api.revisions(params.s, params.id) });
-  protected readonly links = resource({ params: () => (this.context.canManage() ? { s: this.context.studioId(), id: this.presetId() } : undefined), loader: ({ params }) => this.api.links(params.s, params.id) });
+  protected readonly preset = resource({
+    params: () => ({ s: this.context.studioId(), id: this.presetId() }),
+    loader: ({ params }) => this.api.get(params.s, params.id),
+  });
+  protected readonly revisions = resource({
+    params: () => ({ s: this.context.studioId(), id: this.presetId(), rev: this.preset.hasValue() ? this.preset.value().revision : 0 }),
+    loader: ({ params }) => this.api.revisions(params.s, params.id),
+  });
+  protected readonly links = resource({
+    params: () => (this.context.canManage() ? { s: this.context.studioId(), id: this.presetId() } : undefined),
+    loader: ({ params }) => this.api.links(params.s, params.id),
+  });
   protected readonly artworks = resource({ params: () => this.context.studioId(), loader: ({ params }) => this.artworksApi.list(params) });
   protected readonly compareA = signal<number | null>(null);
   protected readonly compareB = signal<number | null>(null);
@@ -63,11 +84,19 @@ export class PresetDetail {
   protected readonly newLinkUrl = signal('');
   protected readonly duplicateTo = signal('');
   protected readonly renaming = signal(false);
-  protected readonly typeName = computed(() => (this.preset.hasValue() ? (panelTypeById(this.preset.value().panelTypeId)?.name ?? '') : ''));
-  protected readonly mayChange = computed(() => this.context.canEdit() && (!this.preset.hasValue() || !this.preset.value().isReference || this.context.canManage()));
+  protected readonly typeName = computed(() =>
+    this.preset.hasValue() ? (panelTypeById(this.preset.value().panelTypeId)?.name ?? '') : '',
+  );
+  protected readonly mayChange = computed(
+    () => this.context.canEdit() && (!this.preset.hasValue() || !this.preset.value().isReference || this.context.canManage()),
+  );
   /** The artwork the look and the revision compare are shown on: the newest until the user picks one. */
-  protected readonly thumbArtwork = linkedSignal<string | undefined>(() => (this.artworks.hasValue() ? this.artworks.value()[0]?.id : undefined));
-  protected readonly thumbName = computed(() => (this.artworks.hasValue() ? (this.artworks.value().find((a) => a.id === this.thumbArtwork())?.name ?? '') : ''));
+  protected readonly thumbArtwork = linkedSignal<string | undefined>(() =>
+    this.artworks.hasValue() ? this.artworks.value()[0]?.id : undefined,
+  );
+  protected readonly thumbName = computed(() =>
+    this.artworks.hasValue() ? (this.artworks.value().find((a) => a.id === this.thumbArtwork())?.name ?? '') : '',
+  );
   protected readonly editableStudios = computed(() => this.auth.studios().filter((s) => s.role !== 'viewer'));
   protected readonly comparison = computed(() => {
     const list = this.revisions.hasValue() ? this.revisions.value() : [];
@@ -98,7 +127,13 @@ export class PresetDetail {
     this.renaming.set(false);
     if (!name.trim() || name.trim() === p.name) return;
     await this.act(async () => {
-      this.preset.set(await this.api.save(this.context.studioId(), p.id, { baseRevision: p.revision, name: name.trim(), message: `Renamed from “${p.name}”` }));
+      this.preset.set(
+        await this.api.save(this.context.studioId(), p.id, {
+          baseRevision: p.revision,
+          name: name.trim(),
+          message: `Renamed from “${p.name}”`,
+        }),
+      );
       return 'Renamed.';
     });
   }
@@ -135,12 +170,16 @@ export class PresetDetail {
 
   protected async deletePreset(): Promise<void> {
     const name = this.preset.hasValue() ? this.preset.value().name : 'this preset';
-    const live = this.links.hasValue() ? this.links.value().filter((l) => !l.revokedAt && (!l.expiresAt || new Date(l.expiresAt) > new Date())).length : 0;
+    const live = this.links.hasValue()
+      ? this.links.value().filter((l) => !l.revokedAt && (!l.expiresAt || new Date(l.expiresAt) > new Date())).length
+      : 0;
     const confirmed = await this.confirm.ask({
       title: `Delete “${name}”?`,
       consequences: [
         'Its whole revision history is deleted with it.',
-        live ? `Its ${live === 1 ? 'share link stops' : `${live} share links stop`} working at once: clients who have ${live === 1 ? 'it' : 'them'} will see that the link no longer works.` : 'It has no live share links.',
+        live
+          ? `Its ${live === 1 ? 'share link stops' : `${live} share links stop`} working at once: clients who have ${live === 1 ? 'it' : 'them'} will see that the link no longer works.`
+          : 'It has no live share links.',
         'This cannot be undone.',
       ],
       action: 'Delete preset',
@@ -155,7 +194,10 @@ export class PresetDetail {
 
   protected async createLink(): Promise<void> {
     await this.act(async () => {
-      const link = await this.api.createLink(this.context.studioId(), this.presetId(), { artworkId: this.linkArtwork() || undefined, expiresInDays: this.linkDays() ?? undefined });
+      const link = await this.api.createLink(this.context.studioId(), this.presetId(), {
+        artworkId: this.linkArtwork() || undefined,
+        expiresInDays: this.linkDays() ?? undefined,
+      });
       this.newLinkUrl.set(link.url ?? '');
       this.links.reload();
       return 'Share link created. Copy it now: it is shown only once.';

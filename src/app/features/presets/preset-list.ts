@@ -25,7 +25,21 @@ import { PresetThumb } from './preset-thumb';
 /** The studio's presets: server-side sort, filter, search and pages; create and import. */
 @Component({
   selector: 'em-preset-list',
-  imports: [FormsModule, RouterLink, DatePipe, MatTableModule, MatSortModule, MatPaginatorModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule, MatIconModule, MatProgressBarModule, PresetThumb],
+  imports: [
+    FormsModule,
+    RouterLink,
+    DatePipe,
+    MatTableModule,
+    MatSortModule,
+    MatPaginatorModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatSelectModule,
+    MatButtonModule,
+    MatIconModule,
+    MatProgressBarModule,
+    PresetThumb,
+  ],
   templateUrl: './preset-list.html',
   styleUrl: './preset-list.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -40,8 +54,15 @@ export class PresetList {
   protected readonly panelTypes = PANEL_TYPES;
   protected readonly typeName = (id: string) => panelTypeById(id)?.name ?? id;
   /** On a phone the panel type and revision go under the name, so the Changed column fits. */
-  protected readonly narrow = toSignal(inject(BreakpointObserver).observe('(max-width: 600px)').pipe(map((s) => s.matches)), { initialValue: false });
-  protected readonly columns = computed(() => (this.narrow() ? ['thumb', 'name', 'updated'] : ['thumb', 'name', 'panelType', 'revision', 'updated']));
+  protected readonly narrow = toSignal(
+    inject(BreakpointObserver)
+      .observe('(max-width: 600px)')
+      .pipe(map((s) => s.matches)),
+    { initialValue: false },
+  );
+  protected readonly columns = computed(() =>
+    this.narrow() ? ['thumb', 'name', 'updated'] : ['thumb', 'name', 'panelType', 'revision', 'updated'],
+  );
   protected readonly panelTypeId = signal('');
   protected readonly search = signal('');
   protected readonly sort = signal('-updated');
@@ -51,7 +72,14 @@ export class PresetList {
   protected readonly newType = signal(PANEL_TYPES[0].id);
   protected readonly importErrors = signal<{ path: string; label: string; message: string }[]>([]);
   protected readonly presets = resource({
-    params: () => ({ studioId: this.context.studioId(), panelTypeId: this.panelTypeId(), q: this.search().trim(), sort: this.sort(), page: this.page(), pageSize: this.pageSize() }),
+    params: () => ({
+      studioId: this.context.studioId(),
+      panelTypeId: this.panelTypeId(),
+      q: this.search().trim(),
+      sort: this.sort(),
+      page: this.page(),
+      pageSize: this.pageSize(),
+    }),
     loader: ({ params }) => this.api.list(params.studioId, params),
   });
   private readonly artworks = resource({ params: () => this.context.studioId(), loader: ({ params }) => this.artworksApi.list(params) });
@@ -96,7 +124,8 @@ export class PresetList {
       this.snackBar.open(`Imported “${p.name}”.`, undefined, { duration: 3000 });
       this.presets.reload();
     } catch (err) {
-      const issues = (err as { error?: { error?: { details?: { issues?: { path: string; label: string; message: string }[] } } } }).error?.error?.details?.issues;
+      const issues = (err as { error?: { error?: { details?: { issues?: { path: string; label: string; message: string }[] } } } }).error
+        ?.error?.details?.issues;
       if (apiErrorCode(err) === 'invalid_document' && issues) this.importErrors.set(issues);
       else this.snackBar.open(apiErrorMessage(err), 'Dismiss', { duration: 8000 });
     }

@@ -18,9 +18,25 @@ import { ChangeDetectionStrategy, Component, computed, input, signal } from '@an
     }
   `,
   styles: `
-    :host { display: inline-block; }
-    img { display: block; width: 100%; height: auto; border-radius: 4px; background: var(--mat-sys-surface-container-lowest); }
-    .placeholder { display: grid; place-items: center; width: 96px; height: 64px; color: var(--mat-sys-on-surface-variant); background: var(--mat-sys-surface-container-lowest); border-radius: 4px; }
+    :host {
+      display: inline-block;
+    }
+    img {
+      display: block;
+      width: 100%;
+      height: auto;
+      border-radius: 4px;
+      background: var(--mat-sys-surface-container-lowest);
+    }
+    .placeholder {
+      display: grid;
+      place-items: center;
+      width: 96px;
+      height: 64px;
+      color: var(--mat-sys-on-surface-variant);
+      background: var(--mat-sys-surface-container-lowest);
+      border-radius: 4px;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -15,9 +15,25 @@ import { PresetApi } from './preset-api';
     }
   `,
   styles: `
-    :host { display: inline-block; }
-    img { display: block; width: 100%; height: auto; image-rendering: pixelated; border-radius: 4px; }
-    .placeholder { display: grid; place-items: center; width: 96px; height: 64px; color: var(--mat-sys-on-surface-variant); background: var(--mat-sys-surface-container-lowest); border-radius: 4px; }
+    :host {
+      display: inline-block;
+    }
+    img {
+      display: block;
+      width: 100%;
+      height: auto;
+      image-rendering: pixelated;
+      border-radius: 4px;
+    }
+    .placeholder {
+      display: grid;
+      place-items: center;
+      width: 96px;
+      height: 64px;
+      color: var(--mat-sys-on-surface-variant);
+      background: var(--mat-sys-surface-container-lowest);
+      border-radius: 4px;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -32,7 +48,10 @@ export class RenderThumb {
   readonly maxWidth = input(160);
 
   protected readonly render = resource({
-    params: () => (this.artworkId() ? { studioId: this.studioId(), artworkId: this.artworkId()!, parameters: this.parameters(), scale: this.scale() } : undefined),
+    params: () =>
+      this.artworkId()
+        ? { studioId: this.studioId(), artworkId: this.artworkId()!, parameters: this.parameters(), scale: this.scale() }
+        : undefined,
     loader: ({ params }) => this.api.render(params.studioId, params.artworkId, params.parameters, params.scale),
   });
 }

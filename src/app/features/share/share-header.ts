@@ -10,9 +10,28 @@ import { MatIconModule } from '@angular/material/icon';
     <span class="ro"><mat-icon aria-hidden="true">visibility</mat-icon> {{ what() }} · read-only</span>
   `,
   styles: `
-    :host { display: flex; justify-content: space-between; align-items: center; gap: 8px; flex-wrap: wrap; margin-bottom: 24px; }
-    .brand { display: flex; align-items: center; gap: 8px; color: var(--mat-sys-primary); font: var(--mat-sys-title-large); text-shadow: var(--em-glow); }
-    .ro { display: flex; align-items: center; gap: 6px; color: var(--mat-sys-on-surface-variant); }
+    :host {
+      display: flex;
+      justify-content: space-between;
+      align-items: center;
+      gap: 8px;
+      flex-wrap: wrap;
+      margin-bottom: 24px;
+    }
+    .brand {
+      display: flex;
+      align-items: center;
+      gap: 8px;
+      color: var(--mat-sys-primary);
+      font: var(--mat-sys-title-large);
+      text-shadow: var(--em-glow);
+    }
+    .ro {
+      display: flex;
+      align-items: center;
+      gap: 6px;
+      color: var(--mat-sys-on-surface-variant);
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

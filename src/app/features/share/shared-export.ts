@@ -36,37 +36,93 @@ import { ShareHeader } from './share-header';
           </figure>
         }
         @for (f of e.figures ?? []; track f.artworkName) {
-          <p class="sub em-num">{{ f.artworkName }}: {{ f.differing | number }} of {{ f.pixels | number }} pixels differ, largest channel difference {{ f.maxChannel }}</p>
+          <p class="sub em-num">
+            {{ f.artworkName }}: {{ f.differing | number }} of {{ f.pixels | number }} pixels differ, largest channel difference
+            {{ f.maxChannel }}
+          </p>
         }
         @if (e.animation; as a) {
-          <p class="sub">{{ a.frames }} frames, {{ a.durationMs / 1000 | number: '1.1-1' }} s a loop, {{ e.width }} × {{ e.height }} px. Download it to play it.</p>
+          <p class="sub">
+            {{ a.frames }} frames, {{ a.durationMs / 1000 | number: '1.1-1' }} s a loop, {{ e.width }} × {{ e.height }} px. Download it to
+            play it.
+          </p>
           @if (a.flash; as flash) {
             <p class="flash" [class.fails]="!flash.pass" role="note">
               <mat-icon aria-hidden="true">{{ flash.pass ? 'check_circle' : 'warning' }}</mat-icon>
-              <span>Flash check at {{ flash.distanceMm | number }} mm: {{ flash.pass ? 'passes' : 'fails — this animation flashes more than the usual guidance allows; people with photosensitive epilepsy should not watch it' }} (at most {{ flash.maxFlashesPerSecond }} flashes a second in one place). The check informs, it does not certify.</span>
+              <span
+                >Flash check at {{ flash.distanceMm | number }} mm:
+                {{
+                  flash.pass
+                    ? 'passes'
+                    : 'fails — this animation flashes more than the usual guidance allows; people with photosensitive epilepsy should not watch it'
+                }}
+                (at most {{ flash.maxFlashesPerSecond }} flashes a second in one place). The check informs, it does not certify.</span
+              >
             </p>
           }
         }
         <div class="files">
           @for (f of e.files; track f.format) {
-            <a mat-stroked-button [href]="f.url" download [attr.aria-label]="'Download ' + f.label + ', ' + size(f.bytes)"><mat-icon>download</mat-icon> {{ f.label }} · {{ size(f.bytes) }}</a>
+            <a mat-stroked-button [href]="f.url" download [attr.aria-label]="'Download ' + f.label + ', ' + size(f.bytes)"
+              ><mat-icon>download</mat-icon> {{ f.label }} · {{ size(f.bytes) }}</a
+            >
           }
         </div>
       }
     </main>
   `,
   styles: `
-    .wrap { max-width: 1200px; margin: 0 auto; padding: 20px 16px 48px; }
-    h1 { font: var(--mat-sys-headline-medium); overflow-wrap: anywhere; }
-    .sub { color: var(--mat-sys-on-surface-variant); overflow-wrap: anywhere; }
-    .stage { margin: 16px 0; padding: 8px; background: #090807; border-radius: var(--mat-sys-corner-medium); border: 1px solid var(--mat-sys-outline-variant); }
-    .stage img { display: block; width: 100%; height: auto; image-rendering: pixelated; }
-    .state { padding: 48px 0; }
-    .files { display: flex; flex-wrap: wrap; gap: 8px; margin-top: 16px; }
-    .flash { display: flex; gap: 8px; align-items: flex-start; color: var(--mat-sys-on-surface-variant); }
-    .flash mat-icon { color: var(--mat-sys-primary); flex: none; }
-    .flash.fails { color: var(--mat-sys-on-surface); }
-    .flash.fails mat-icon { color: var(--mat-sys-error); }
+    .wrap {
+      max-width: 1200px;
+      margin: 0 auto;
+      padding: 20px 16px 48px;
+    }
+    h1 {
+      font: var(--mat-sys-headline-medium);
+      overflow-wrap: anywhere;
+    }
+    .sub {
+      color: var(--mat-sys-on-surface-variant);
+      overflow-wrap: anywhere;
+    }
+    .stage {
+      margin: 16px 0;
+      padding: 8px;
+      background: #090807;
+      border-radius: var(--mat-sys-corner-medium);
+      border: 1px solid var(--mat-sys-outline-variant);
+    }
+    .stage img {
+      display: block;
+      width: 100%;
+      height: auto;
+      image-rendering: pixelated;
+    }
+    .state {
+      padding: 48px 0;
+    }
+    .files {
+      display: flex;
+      flex-wrap: wrap;
+      gap: 8px;
+      margin-top: 16px;
+    }
+    .flash {
+      display: flex;
+      gap: 8px;
+      align-items: flex-start;
+      color: var(--mat-sys-on-surface-variant);
+    }
+    .flash mat-icon {
+      color: var(--mat-sys-primary);
+      flex: none;
+    }
+    .flash.fails {
+      color: var(--mat-sys-on-surface);
+    }
+    .flash.fails mat-icon {
+      color: var(--mat-sys-error);
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -80,6 +136,11 @@ export class SharedExport {
   protected readonly shared = resource({ params: () => this.token(), loader: ({ params }) => this.api.shared(params) });
   protected readonly errorText = () => apiErrorMessage(this.shared.error());
   protected looks(): string {
-    return this.shared.hasValue() ? this.shared.value().looks.map((l) => `${l.name}${l.revision ? ` r${l.revision}` : ''} (${l.panelTypeName})`).join(', ') : '';
+    return this.shared.hasValue()
+      ? this.shared
+          .value()
+          .looks.map((l) => `${l.name}${l.revision ? ` r${l.revision}` : ''} (${l.panelTypeName})`)
+          .join(', ')
+      : '';
   }
 }

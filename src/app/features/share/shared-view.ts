@@ -1,4 +1,15 @@
-import { ChangeDetectionStrategy, Component, DestroyRef, effect, ElementRef, inject, input, resource, signal, viewChild } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  DestroyRef,
+  effect,
+  ElementRef,
+  inject,
+  input,
+  resource,
+  signal,
+  viewChild,
+} from '@angular/core';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { panelTypeById } from '../../../../shared/model/panel-types';
 import { outputUniforms } from '../../../../shared/pipeline/output/uniforms';
@@ -55,7 +66,11 @@ export class SharedView {
       const c = this.cpuCanvas()!.nativeElement;
       c.width = result.image.width;
       c.height = result.image.height;
-      c.getContext('2d')!.putImageData(new ImageData(new Uint8ClampedArray(result.image.data.buffer as ArrayBuffer), result.image.width, result.image.height), 0, 0);
+      c.getContext('2d')!.putImageData(
+        new ImageData(new Uint8ClampedArray(result.image.data.buffer as ArrayBuffer), result.image.width, result.image.height),
+        0,
+        0,
+      );
     }
     this.drawn.set(true);
   }

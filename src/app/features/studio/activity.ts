@@ -5,7 +5,14 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { PresetApi } from '../presets/preset-api';
 import { StudioContext } from './studio-context';
 
-const ICONS: Record<string, string> = { preset: 'tune', member: 'group', link: 'link', invite: 'mail', artwork: 'image', export: 'collections' };
+const ICONS: Record<string, string> = {
+  preset: 'tune',
+  member: 'group',
+  link: 'link',
+  invite: 'mail',
+  artwork: 'image',
+  export: 'collections',
+};
 
 /** The studio's activity feed: who did what, when. */
 @Component({
@@ -23,7 +30,9 @@ const ICONS: Record<string, string> = { preset: 'tune', member: 'group', link: '
         @for (a of feed.value(); track a.id) {
           <li>
             <mat-icon aria-hidden="true">{{ icon(a.kind) }}</mat-icon>
-            <span><strong>{{ a.actor ?? 'Someone' }}</strong> {{ a.summary }}</span>
+            <span
+              ><strong>{{ a.actor ?? 'Someone' }}</strong> {{ a.summary }}</span
+            >
             <time class="sub">{{ a.createdAt | date: 'medium' }}</time>
           </li>
         }
@@ -31,11 +40,28 @@ const ICONS: Record<string, string> = { preset: 'tune', member: 'group', link: '
     }
   `,
   styles: `
-    h1 { font: var(--mat-sys-headline-medium); }
-    .sub { color: var(--mat-sys-on-surface-variant); }
-    .feed { list-style: none; padding: 0; margin: 16px 0; }
-    .feed li { display: grid; grid-template-columns: 32px 1fr auto; gap: 8px; align-items: center; padding: 10px 0; border-bottom: 1px solid var(--mat-sys-outline-variant); }
-    mat-icon { color: var(--mat-sys-primary); }
+    h1 {
+      font: var(--mat-sys-headline-medium);
+    }
+    .sub {
+      color: var(--mat-sys-on-surface-variant);
+    }
+    .feed {
+      list-style: none;
+      padding: 0;
+      margin: 16px 0;
+    }
+    .feed li {
+      display: grid;
+      grid-template-columns: 32px 1fr auto;
+      gap: 8px;
+      align-items: center;
+      padding: 10px 0;
+      border-bottom: 1px solid var(--mat-sys-outline-variant);
+    }
+    mat-icon {
+      color: var(--mat-sys-primary);
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -22,7 +22,19 @@ import { StudioContext } from './studio-context';
 /** Members and pending invites of the open studio; owners invite, change roles and remove. */
 @Component({
   selector: 'em-members',
-  imports: [ReactiveFormsModule, FormsModule, DatePipe, MatTableModule, MatSelectModule, MatButtonModule, MatIconModule, MatFormFieldModule, MatInputModule, MatProgressBarModule, MatTooltipModule],
+  imports: [
+    ReactiveFormsModule,
+    FormsModule,
+    DatePipe,
+    MatTableModule,
+    MatSelectModule,
+    MatButtonModule,
+    MatIconModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatProgressBarModule,
+    MatTooltipModule,
+  ],
   templateUrl: './members.html',
   styleUrl: './members.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -43,7 +55,9 @@ export class Members {
     params: () => (this.context.canManage() ? this.context.studioId() : undefined),
     loader: ({ params }) => this.api.invites(params),
   });
-  protected readonly memberColumns = computed(() => (this.context.canManage() ? ['name', 'email', 'role', 'joined', 'actions'] : ['name', 'email', 'role', 'joined']));
+  protected readonly memberColumns = computed(() =>
+    this.context.canManage() ? ['name', 'email', 'role', 'joined', 'actions'] : ['name', 'email', 'role', 'joined'],
+  );
   protected readonly inviteForm = inject(FormBuilder).nonNullable.group({
     email: ['', [Validators.required, Validators.email]],
     role: ['viewer' as Role, Validators.required],
@@ -72,13 +86,20 @@ export class Members {
   }
 
   protected async changeRole(member: MemberDto, role: Role): Promise<void> {
-    await this.act(() => this.api.changeRole(this.context.studioId(), member.userId, role), `${member.displayName} is now ${roleInSentence(role)}.`);
+    await this.act(
+      () => this.api.changeRole(this.context.studioId(), member.userId, role),
+      `${member.displayName} is now ${roleInSentence(role)}.`,
+    );
   }
 
   protected async removeMember(member: MemberDto): Promise<void> {
     const confirmed = await this.confirm.ask({
       title: `Remove ${member.displayName}?`,
-      consequences: [`${member.displayName} loses access to ${this.context.studio()?.name ?? 'the studio'} at once: its artworks, presets and timings.`, 'What they made stays in the studio.', 'To bring them back, invite them again.'],
+      consequences: [
+        `${member.displayName} loses access to ${this.context.studio()?.name ?? 'the studio'} at once: its artworks, presets and timings.`,
+        'What they made stays in the studio.',
+        'To bring them back, invite them again.',
+      ],
       action: 'Remove member',
     });
     if (!confirmed) return;
@@ -104,7 +125,12 @@ export class Members {
     if (!studio) return;
     const confirmed = await this.confirm.ask({
       title: `Delete ${studio.name}?`,
-      consequences: ['Every artwork, preset (with its history), saved timing and render in it is deleted.', 'Its share links stop working at once.', 'Every member loses access.', 'This cannot be undone.'],
+      consequences: [
+        'Every artwork, preset (with its history), saved timing and render in it is deleted.',
+        'Its share links stop working at once.',
+        'Every member loses access.',
+        'This cannot be undone.',
+      ],
       action: 'Delete studio',
     });
     if (!confirmed) return;
@@ -129,7 +155,11 @@ export class Members {
     const studio = this.context.studio()?.name ?? 'the studio';
     const confirmed = await this.confirm.ask({
       title: `Leave ${studio}?`,
-      consequences: [`You lose access to ${studio} at once.`, 'What you made stays in the studio.', 'To come back, an owner must invite you again.'],
+      consequences: [
+        `You lose access to ${studio} at once.`,
+        'What you made stays in the studio.',
+        'To come back, an owner must invite you again.',
+      ],
       action: 'Leave studio',
     });
     if (!confirmed) return;

@@ -20,7 +20,20 @@ import { StudioContext } from './studio-context';
 /** The signed-in layout: top bar with studio switcher and account menu, navigation, page outlet. */
 @Component({
   selector: 'em-studio-shell',
-  imports: [RouterOutlet, RouterLink, RouterLinkActive, MatToolbarModule, MatSidenavModule, MatListModule, MatIconModule, MatButtonModule, MatMenuModule, MatDividerModule, MatProgressBarModule, MatTooltipModule],
+  imports: [
+    RouterOutlet,
+    RouterLink,
+    RouterLinkActive,
+    MatToolbarModule,
+    MatSidenavModule,
+    MatListModule,
+    MatIconModule,
+    MatButtonModule,
+    MatMenuModule,
+    MatDividerModule,
+    MatProgressBarModule,
+    MatTooltipModule,
+  ],
   templateUrl: './studio-shell.html',
   styleUrl: './studio-shell.scss',
   providers: [StudioContext],
@@ -34,7 +47,12 @@ export class StudioShell {
 
   readonly studioId = input.required<string>();
 
-  protected readonly narrow = toSignal(inject(BreakpointObserver).observe('(max-width: 840px)').pipe(map((s) => s.matches)), { initialValue: false });
+  protected readonly narrow = toSignal(
+    inject(BreakpointObserver)
+      .observe('(max-width: 840px)')
+      .pipe(map((s) => s.matches)),
+    { initialValue: false },
+  );
   protected readonly studio = resource({ params: () => this.studioId(), loader: ({ params }) => this.api.get(params) });
   protected readonly nav = [
     { path: 'bench', label: 'Bench', icon: 'blur_on' },
