@@ -1,11 +1,12 @@
 import { defineConfig } from '@playwright/test';
 import { CHROMIUM } from './e2e/chromium';
+import ports from './server/default-ports.json';
 
 /** Ports of the e2e run (its own server, database and mail catcher). */
 export const E2E = {
-  port: Number(process.env.E2E_PORT ?? 4310),
-  smtpPort: Number(process.env.E2E_SMTP_PORT ?? 1035),
-  mailUiPort: Number(process.env.E2E_MAIL_UI_PORT ?? 1090),
+  port: Number(process.env.E2E_PORT ?? ports.e2eServer),
+  smtpPort: Number(process.env.E2E_SMTP_PORT ?? ports.e2eSmtp),
+  mailUiPort: Number(process.env.E2E_MAIL_UI_PORT ?? ports.e2eMailUi),
 };
 
 export default defineConfig({

@@ -10,13 +10,14 @@ import { existsSync, mkdirSync, readdirSync, readFileSync, chownSync, writeFileS
 import { userInfo } from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
+import ports from '../server/default-ports.json' with { type: 'json' };
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const dataRoot = path.join(root, '.data');
 const clusterDir = path.join(dataRoot, 'pg');
 const socketDir = path.join(dataRoot, 'pg-socket');
 const logFile = path.join(dataRoot, 'pg.log');
-export const pgPort = Number(process.env.DB_PORT ?? 54329);
+export const pgPort = Number(process.env.DB_PORT ?? ports.database);
 export const pgUser = 'emberline';
 const isRoot = userInfo().uid === 0;
 

@@ -4,10 +4,11 @@
 import { spawnSync } from 'node:child_process';
 import { pgPort, start as startDb } from './db.mjs';
 import { supervise, tsNode } from './supervise.mjs';
+import ports from '../server/default-ports.json' with { type: 'json' };
 
-const port = process.env.E2E_PORT ?? '4310';
-const smtpPort = process.env.E2E_SMTP_PORT ?? '1035';
-const mailUiPort = process.env.E2E_MAIL_UI_PORT ?? '1090';
+const port = process.env.E2E_PORT ?? String(ports.e2eServer);
+const smtpPort = process.env.E2E_SMTP_PORT ?? String(ports.e2eSmtp);
+const mailUiPort = process.env.E2E_MAIL_UI_PORT ?? String(ports.e2eMailUi);
 
 startDb(['postgres']);
 spawnSync(

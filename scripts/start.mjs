@@ -6,11 +6,12 @@ import { spawnSync } from 'node:child_process';
 import { existsSync } from 'node:fs';
 import { start as startDb } from './db.mjs';
 import { supervise, tsNode } from './supervise.mjs';
+import ports from '../server/default-ports.json' with { type: 'json' };
 
 if (existsSync('.env')) process.loadEnvFile('.env');
-const port = process.env.PORT ?? '4300';
-const smtpPort = process.env.SMTP_PORT ?? '1025';
-const mailUiPort = process.env.MAIL_UI_PORT ?? '1080';
+const port = process.env.PORT ?? String(ports.server);
+const smtpPort = process.env.SMTP_PORT ?? String(ports.smtp);
+const mailUiPort = process.env.MAIL_UI_PORT ?? String(ports.mailUi);
 
 startDb([process.env.DB_NAME ?? 'emberline']);
 

@@ -1,3 +1,5 @@
+import ports from './default-ports.json';
+
 /** Runtime configuration, read once from the environment with defaults for a developer machine. */
 export interface Config {
   env: 'development' | 'test' | 'production';
@@ -46,7 +48,7 @@ function storageConfig(): Config['storage'] {
 /** Builds the configuration from process.env; throws with the variable's name on bad values. */
 export function loadConfig(): Config {
   const env = (process.env.NODE_ENV ?? 'development') as Config['env'];
-  const port = num('PORT', 4300);
+  const port = num('PORT', ports.server);
   const database = process.env.DB_NAME ?? 'emberline';
   const sessionSecret = process.env.SESSION_SECRET ?? (env === 'production' ? '' : 'emberline-dev-secret-not-for-production');
   if (!sessionSecret) throw new Error('SESSION_SECRET must be set in production');
@@ -56,7 +58,7 @@ export function loadConfig(): Config {
     appUrl: process.env.APP_URL ?? `http://127.0.0.1:${port}`,
     db: {
       host: process.env.DB_HOST ?? '127.0.0.1',
-      port: num('DB_PORT', 54329),
+      port: num('DB_PORT', ports.database),
       database,
       user: process.env.DB_USER ?? 'emberline',
       password: process.env.DB_PASSWORD,
@@ -64,7 +66,7 @@ export function loadConfig(): Config {
     },
     smtp: {
       host: process.env.SMTP_HOST ?? '127.0.0.1',
-      port: num('SMTP_PORT', 1025),
+      port: num('SMTP_PORT', ports.smtp),
       from: process.env.MAIL_FROM ?? 'Emberline <no-reply@emberline.example>',
     },
     sessionSecret,

@@ -2,6 +2,7 @@ import { simpleParser } from 'mailparser';
 import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { SMTPServer } from 'smtp-server';
+import ports from '../default-ports.json';
 
 /** A message as the catcher keeps it. */
 export interface CaughtMail {
@@ -23,7 +24,7 @@ export class MailCatcher {
   private http?: Server;
   private waiters: (() => void)[] = [];
 
-  async start(smtpPort = 1025, httpPort = 1080): Promise<{ smtpPort: number; httpPort: number }> {
+  async start(smtpPort = ports.smtp, httpPort = ports.mailUi): Promise<{ smtpPort: number; httpPort: number }> {
     this.smtp = new SMTPServer({
       authOptional: true,
       disabledCommands: ['STARTTLS', 'AUTH'],
@@ -109,8 +110,8 @@ export class MailCatcher {
 
 if (require.main === module) {
   const catcher = new MailCatcher();
-  const smtpPort = Number(process.env.SMTP_PORT ?? 1025);
-  const httpPort = Number(process.env.MAIL_UI_PORT ?? 1080);
+  const smtpPort = Number(process.env.SMTP_PORT ?? ports.smtp);
+  const httpPort = Number(process.env.MAIL_UI_PORT ?? ports.mailUi);
   catcher.start(smtpPort, httpPort).then(
     (ports) => console.log(`[mail] catching SMTP on 127.0.0.1:${ports.smtpPort}; inbox at http://127.0.0.1:${ports.httpPort}/`),
     (err) => {
