@@ -1,7 +1,8 @@
 import sharp from 'sharp';
 import { patternFor } from '../../../shared/match/pattern';
 import { builtInPresetById } from '../../../shared/model/panel-types';
-import { mergeParams } from '../../../shared/model/parameters';
+import { mergeParams, type PanelParams } from '../../../shared/model/parameters';
+import type { MatchResult } from '../../../shared/match/fit';
 import { inWorker } from '../../../shared/testing/in-worker';
 import { HANDHELD_LOOK, handheldShot, type syntheticJpeg } from '../../../shared/testing/match-fixtures';
 import { QUEUES } from '../../jobs/job-queue';
@@ -134,23 +135,17 @@ test('upload, marks, fit on the pool with progress, result, residual image, save
   expect((await editor.post(url(`/${id}/save`), { revisionOfLook: true })).body.error.code).toBe('not_a_studio_preset');
 }, 120_000);
 
-test("a fit that started from a studio preset can be saved as that preset's next revision", async () => {
-  const made = await editor.post(`/api/studios/${studioId}/presets`, { name: 'Handheld panel', panelTypeId: 'el-amber-320x240' });
-  expect(made.status).toBe(201);
-  const presetId = made.body.preset.id;
-  const fittedParams = mergeParams(made.body.preset.parameters, { glass: { glowRadiusMm: 0.41 } });
+/** A finished match row made directly (the fit itself is tested above): its look, the fitted parameters and the measured levels. */
+async function finishedMatch(
+  look: { id: string; name: string; revision: number; parameters: PanelParams },
+  fitted: PanelParams,
+  levels: MatchResult['levels'] = [],
+) {
   const editorId = (await editor.get('/api/auth/me')).body.user.id;
-  const row = await PanelMatch.create({
+  return PanelMatch.create({
     studioId,
     createdById: editorId,
-    look: {
-      id: `studio:${presetId}`,
-      name: 'Handheld panel',
-      revision: 1,
-      panelTypeId: 'el-amber-320x240',
-      panelTypeName: 'Amber EL 320 × 240',
-      parameters: made.body.preset.parameters,
-    },
+    look: { ...look, panelTypeId: 'el-amber-320x240', panelTypeName: 'Amber EL 320 × 240' },
     photoName: 'p.jpg',
     photoWidth: 1600,
     photoHeight: 1250,
@@ -160,9 +155,9 @@ test("a fit that started from a studio preset can be saved as that preset's next
     marks: photo.fiducials,
     status: 'done',
     result: {
-      parameters: fittedParams,
+      parameters: fitted,
       fitted: [],
-      levels: [],
+      levels,
       quality: {
         agreement: 1,
         rmsResidual: 0,
@@ -178,6 +173,17 @@ test("a fit that started from a studio preset can be saved as that preset's next
       marks: photo.fiducials,
     },
   });
+}
+
+test("a fit that started from a studio preset can be saved as that preset's next revision", async () => {
+  const made = await editor.post(`/api/studios/${studioId}/presets`, { name: 'Handheld panel', panelTypeId: 'el-amber-320x240' });
+  expect(made.status).toBe(201);
+  const presetId = made.body.preset.id;
+  const fittedParams = mergeParams(made.body.preset.parameters, { glass: { glowRadiusMm: 0.41 } });
+  const row = await finishedMatch(
+    { id: `studio:${presetId}`, name: 'Handheld panel', revision: 1, parameters: made.body.preset.parameters },
+    fittedParams,
+  );
   const saved = await editor.post(url(`/${row.id}/save`), { revisionOfLook: true });
   expect(saved.status).toBe(201);
   expect(saved.body.presetId).toBe(presetId);
@@ -186,49 +192,11 @@ test("a fit that started from a studio preset can be saved as that preset's next
 });
 
 test('a fit saved with its measured level curve gives the preset a duty table (each level over full on); a curve that does not rise is refused with the level', async () => {
-  const editorId = (await editor.get('/api/auth/me')).body.user.id;
   const base = builtInPresetById('el-amber-320x240.standard')!.parameters;
   const measured = (values: number[]) =>
     values.map((m, k) => ({ level: k, expected: k / (values.length - 1), measured: m, uncertainty: 0.01 }));
-  const done = (levels: ReturnType<typeof measured>) =>
-    PanelMatch.create({
-      studioId,
-      createdById: editorId,
-      look: {
-        id: 'builtin:el-amber-320x240.standard',
-        name: 'Standard',
-        revision: 0,
-        panelTypeId: 'el-amber-320x240',
-        panelTypeName: 'Amber EL 320 × 240',
-        parameters: base,
-      },
-      photoName: 'p.jpg',
-      photoWidth: 1600,
-      photoHeight: 1250,
-      activeWidthMm: 115.2,
-      activeHeightMm: 86.4,
-      cameraGamma: null,
-      marks: photo.fiducials,
-      status: 'done',
-      result: {
-        parameters: base,
-        fitted: [],
-        levels,
-        quality: {
-          agreement: 1,
-          rmsResidual: 0,
-          pixelsPerCell: 4,
-          clippedShare: 0,
-          crushedShare: 0,
-          marksMovedPx: [0, 0, 0, 0],
-          periodCells: [2, 2],
-          iterations: 1,
-        },
-        cameraBlurMm: 0,
-        notDetermined: [],
-        marks: photo.fiducials,
-      },
-    });
+  const done = (levels: MatchResult['levels']) =>
+    finishedMatch({ id: 'builtin:el-amber-320x240.standard', name: 'Standard', revision: 0, parameters: base }, base, levels);
   const good = await done(measured([0.01, 0.1, 0.42, 0.98]));
   const saved = await editor.post(url(`/${good.id}/save`), { name: 'Measured levels', levelCurve: true });
   expect(saved.status).toBe(201);
