@@ -5,11 +5,19 @@ import { forbidden, notFound, unauthenticated } from './app-error';
 /** Who may call a route. Every /api route declares one; a route without one is a test failure. */
 export type Policy = { kind: 'public' } | { kind: 'signedIn' } | { kind: 'studio'; role: Role };
 
+/** What a studio policy sets on the request: the caller's membership in req.params.studioId. */
+export interface Member {
+  studioId: string;
+  userId: string;
+  role: Role;
+}
+
 export const POLICY = Symbol('emberline.policy');
 
-export const publicAccess: Policy = { kind: 'public' };
-export const signedIn: Policy = { kind: 'signedIn' };
-export const studioRole = (role: Role): Policy => ({ kind: 'studio', role });
+// Each policy keeps its own kind as its type, so a route's handler knows what the policy guarantees (api-router.ts).
+export const publicAccess = { kind: 'public' } as const satisfies Policy;
+export const signedIn = { kind: 'signedIn' } as const satisfies Policy;
+export const studioRole = (role: Role) => ({ kind: 'studio', role }) as const satisfies Policy;
 
 /** How the studio policy reads a user's role in a studio (null: not a member). */
 export type RoleLookup = (studioId: string, userId: string) => Promise<Role | null>;
@@ -23,7 +31,7 @@ export function useRoleLookup(lookup: RoleLookup): void {
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 /** A route parameter that must be a UUID; anything else is answered as not found. */
-export function idParam(req: Request, name: string, what: string): string {
+export function idParam(req: Pick<Request, 'params'>, name: string, what: string): string {
   const value = String(req.params[name] ?? '');
   if (!UUID.test(value)) throw notFound(what);
   return value;

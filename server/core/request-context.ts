@@ -1,4 +1,4 @@
-import type { Role } from '../../shared/model/roles';
+import type { Member } from './policy';
 
 declare global {
   // eslint-disable-next-line @typescript-eslint/no-namespace -- Express's request types are augmented through its global namespace
@@ -12,7 +12,7 @@ declare global {
     }
     interface Request {
       /** Set by a studio policy: the caller's membership in req.params.studioId. */
-      membership?: { studioId: string; userId: string; role: Role };
+      membership?: Member;
     }
   }
 }

@@ -1,4 +1,3 @@
-import type { RequestHandler } from 'express';
 import { z } from 'zod';
 import { AppError } from './app-error';
 
@@ -17,12 +16,4 @@ export function parseOrThrow<T extends z.ZodType>(schema: T, value: unknown, wha
   const issues = issuesOf(result.error);
   const first = issues[0];
   throw new AppError(400, 'invalid_input', `The ${what} is not valid: ${first.path}: ${first.message}`, { issues });
-}
-
-/** Middleware: replaces req.body with the parsed value; unknown keys are refused (strict schemas). */
-export function validateBody<T extends z.ZodType>(schema: T): RequestHandler {
-  return (req, _res, next) => {
-    req.body = parseOrThrow(schema, req.body ?? {});
-    next();
-  };
 }

@@ -1,13 +1,7 @@
 import '../model/zod-config';
 import { z } from 'zod';
+import { oneOf, searchText, whole } from './fields.schema';
 import { nameSchema } from './text.schema';
-
-const whole = (name: string, min: number, max: number) =>
-  z.coerce
-    .number({ message: `${name} must be a whole number from ${min} to ${max}` })
-    .int({ message: `${name} must be a whole number from ${min} to ${max}` })
-    .min(min, { message: `${name} must be a whole number from ${min} to ${max}` })
-    .max(max, { message: `${name} must be a whole number from ${min} to ${max}` });
 
 /** Multipart text fields of an upload: an optional name and, for a sprite sheet, its grid. */
 export const uploadFieldsSchema = z
@@ -25,6 +19,12 @@ export const uploadFieldsSchema = z
 export const renameArtworkSchema = z.strictObject({ name: nameSchema(120) });
 
 export const ARTWORK_SORTS = ['newest', 'oldest', 'name'] as const;
+
+/** The library's query string: ?q= (part of a name) and ?sort=. */
+export const artworkListQuerySchema = z.object({
+  q: searchText(120).optional(),
+  sort: oneOf('sort', ARTWORK_SORTS).default('newest'),
+});
 
 /** A studio render request: an artwork of the studio with a preset (and patch) or full parameters. */
 export const studioRenderSchema = z

@@ -1,6 +1,7 @@
 import '../model/zod-config';
 import { z } from 'zod';
 import { MAX_SHEET_ARTWORKS, MAX_SHEET_CELLS, MAX_SHEET_LOOKS, SHEET_LAYOUTS, type SheetLayout } from '../export/sheet';
+import { oneOf } from './fields.schema';
 import { nameSchema } from './text.schema';
 
 /**
@@ -152,3 +153,6 @@ export interface ExportDto {
   /** The files to download once done: the sheet as PNG and PDF, the single renders with a manifest as ZIP. */
   files: { format: ExportFormat; label: string; url: string; bytes: number }[];
 }
+
+/** A download's query string: which of the export's files (png by default). */
+export const exportFileQuerySchema = z.object({ format: oneOf('format', EXPORT_FORMATS).default('png') });

@@ -1,5 +1,20 @@
+import '../model/zod-config';
 import { z } from 'zod';
+import { FRAME_DATA_FORMATS } from '../drive/frame-data-formats';
+import { oneOf } from './fields.schema';
 import type { FittedValue, MatchResult } from '../match/fit';
+
+/** The match pattern's download formats: the image, then frame data. */
+export const PATTERN_FORMATS = ['png', ...FRAME_DATA_FORMATS] as const;
+
+/** The pattern's query string: the look, and png (one pixel a cell) or a frame-data format. */
+export const patternQuerySchema = z.object({
+  look: z
+    .string({ message: 'say which look the pattern is for: ?look=<built-in preset id or studio:<preset id>>' })
+    .min(1, { message: 'say which look the pattern is for: ?look=<built-in preset id or studio:<preset id>>' })
+    .max(100),
+  format: oneOf('format', PATTERN_FORMATS).default('png'),
+});
 
 /** Form fields sent with a match photo (multipart field "file"). */
 export const matchUploadSchema = z.strictObject({

@@ -1,6 +1,7 @@
 import '../model/zod-config';
 import { z } from 'zod';
 import { panelParamsSchema, withAddedKeys } from '../model/parameters';
+import { oneOf, searchText, whole } from './fields.schema';
 import { nameSchema, noteSchema } from './text.schema';
 
 const name = nameSchema(80);
@@ -48,3 +49,15 @@ export const presetDocumentSchema = z.strictObject({
 export type PresetDocument = z.infer<typeof presetDocumentSchema>;
 
 export const PRESET_SORTS = ['name', '-name', 'updated', '-updated'] as const;
+
+/** The preset list's query string: filter, search, order and page. */
+export const presetListQuerySchema = z.object({
+  panelTypeId: z.string({ message: 'give one panelTypeId' }).max(80).optional(),
+  q: searchText(80).optional(),
+  sort: oneOf('sort', PRESET_SORTS).default('-updated'),
+  page: whole('page', 0, 100_000).default(0),
+  pageSize: whole('pageSize', 1, 100).default(25),
+});
+
+/** A thumbnail's query string: the artwork to show the preset on (default the newest). */
+export const presetThumbnailQuerySchema = z.object({ artworkId: z.string({ message: 'give one artworkId' }).optional() });

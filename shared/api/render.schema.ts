@@ -1,5 +1,6 @@
 import '../model/zod-config';
 import { z } from 'zod';
+import { whole } from './fields.schema';
 import { panelParamsPatchSchema, panelParamsSchema } from '../model/parameters';
 
 /**
@@ -11,17 +12,8 @@ export const renderFieldsSchema = z
     presetId: z.string().max(100).optional(),
     parameters: z.string().max(20_000).optional(),
     patch: z.string().max(20_000).optional(),
-    scale: z.coerce
-      .number({ message: 'scale must be a whole number from 1 to 8' })
-      .int({ message: 'scale must be a whole number from 1 to 8' })
-      .min(1, { message: 'scale must be a whole number from 1 to 8' })
-      .max(8, { message: 'scale must be a whole number from 1 to 8' })
-      .default(3),
-    frame: z.coerce
-      .number({ message: 'frame must be a whole number from 0' })
-      .int({ message: 'frame must be a whole number from 0' })
-      .min(0, { message: 'frame must be a whole number from 0' })
-      .default(0),
+    scale: whole('scale', 1, 8).default(3),
+    frame: whole('frame', 0, 100000).default(0),
   })
   .refine((f) => (f.presetId ? 1 : 0) + (f.parameters ? 1 : 0) === 1, {
     message: 'give either presetId (optionally with patch) or parameters',

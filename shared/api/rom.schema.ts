@@ -30,3 +30,13 @@ export const romPatchSchema = z.strictObject({
   startFromPatched: z.boolean().optional(),
 });
 export type RomPatchBody = z.infer<typeof romPatchSchema>;
+
+/** An image's query string: ?tableOffset= to read the parameter table at a given offset (decimal or 0x… hex). */
+export const romDetailQuerySchema = z.object({
+  tableOffset: z
+    .string()
+    .trim()
+    .regex(/^$|^(0x[0-9a-f]+|\d+)$/i, { message: 'tableOffset must be a whole number (decimal or 0x… hex)' })
+    .transform((raw) => (raw === '' ? undefined : Number(raw)))
+    .optional(),
+});

@@ -59,3 +59,6 @@ export const createTimingSchema = z.strictObject({
 export type CreateTimingBody = z.infer<typeof createTimingSchema>;
 
 export const updateTimingSchema = createTimingSchema.partial();
+
+/** The timing list's query string: optionally one panel type's timings. */
+export const timingListQuerySchema = z.object({ panelTypeId: z.string({ message: 'give one panelTypeId' }).max(80).optional() });

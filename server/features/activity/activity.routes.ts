@@ -1,4 +1,5 @@
 import type { ActivityDto } from '../../../shared/api/dto';
+import { activityQuerySchema } from '../../../shared/api/studio.schema';
 import { ApiRouter } from '../../core/api-router';
 import { studioRole } from '../../core/policy';
 import { User } from '../auth/user.model';
@@ -10,16 +11,15 @@ export function activityRoutes(): ApiRouter {
   api.route(
     'get',
     '/',
-    { policy: studioRole('viewer'), summary: 'What happened in the studio, newest first (?limit= up to 200)' },
+    { policy: studioRole('viewer'), summary: 'What happened in the studio, newest first', query: activityQuerySchema },
     async (req, res) => {
-      const limit = Math.min(200, Math.max(1, Number(req.query.limit ?? 50) | 0));
       const rows = await Activity.findAll({
-        where: { studioId: req.membership!.studioId },
+        where: { studioId: req.membership.studioId },
         order: [
           ['createdAt', 'DESC'],
           ['id', 'DESC'],
         ],
-        limit,
+        limit: req.query.limit,
       });
       const ids = [...new Set(rows.map((r) => r.actorId).filter((i): i is string => !!i))];
       const who = new Map(

@@ -1,10 +1,7 @@
-import type { RequestHandler } from 'express';
-import { ARTWORK_SORTS, renameArtworkSchema, studioRenderSchema, uploadFieldsSchema } from '../../../shared/api/artwork.schema';
+import type { Request } from 'express';
+import { artworkListQuerySchema, renameArtworkSchema, studioRenderSchema, uploadFieldsSchema } from '../../../shared/api/artwork.schema';
 import { ApiRouter } from '../../core/api-router';
-import { AppError } from '../../core/app-error';
 import { idParam, studioRole } from '../../core/policy';
-import { parseOrThrow } from '../../core/validate';
-import { uploadOne } from '../../core/upload';
 import { resolveParameters, type RendersService } from '../renders/renders.service';
 import type { PresetsService } from '../presets/presets.service';
 import type { ArtworksService } from './artworks.service';
@@ -15,16 +12,14 @@ const MIME = { png: 'image/png', gif: 'image/gif', jpeg: 'image/jpeg', webp: 'im
 /** /api/studios/:studioId/artworks and studio renders. */
 export function artworksRoutes(artworks: ArtworksService, renders: RendersService, presets: PresetsService): ApiRouter {
   const api = new ApiRouter('/studios/:studioId', 'Artworks');
-  const artworkId = (req: Parameters<RequestHandler>[0]) => idParam(req, 'artworkId', 'The artwork');
+  const artworkId = (req: Pick<Request, 'params'>) => idParam(req, 'artworkId', 'The artwork');
 
   api.route(
     'get',
     '/artworks',
-    { policy: studioRole('viewer'), summary: 'The library (?q= search by name, ?sort=newest|oldest|name)' },
+    { policy: studioRole('viewer'), summary: 'The library, searched by name and sorted', query: artworkListQuerySchema },
     async (req, res) => {
-      const q = typeof req.query.q === 'string' ? req.query.q.slice(0, 120) : undefined;
-      const sort = ARTWORK_SORTS.find((s) => s === req.query.sort) ?? 'newest';
-      res.json({ artworks: await artworks.list(req.membership!.studioId, q, sort) });
+      res.json({ artworks: await artworks.list(req.membership.studioId, req.query.q, req.query.sort) });
     },
   );
   api.route(
@@ -33,26 +28,24 @@ export function artworksRoutes(artworks: ArtworksService, renders: RendersServic
     {
       policy: studioRole('editor'),
       summary: 'Upload an image (multipart field "file"; optional name, frameWidth/frameHeight/frameDelayMs for a sprite sheet)',
+      upload: { fields: uploadFieldsSchema, file: 'the image' },
       status: 201,
     },
-    uploadOne,
     async (req, res) => {
-      const fields = parseOrThrow(uploadFieldsSchema, req.body ?? {}, 'upload fields');
-      if (!req.file) throw new AppError(400, 'invalid_input', 'Attach the image as the multipart field "file".');
       res
         .status(201)
-        .json({ artwork: await artworks.upload(req.membership!.studioId, req.user!.id, req.file.buffer, req.file.originalname, fields) });
+        .json({ artwork: await artworks.upload(req.membership.studioId, req.user.id, req.file.buffer, req.file.originalname, req.body) });
     },
   );
   api.route('get', '/artworks/:artworkId', { policy: studioRole('viewer'), summary: 'One artwork' }, async (req, res) => {
-    res.json({ artwork: await artworks.find(req.membership!.studioId, artworkId(req)) });
+    res.json({ artwork: await artworks.find(req.membership.studioId, artworkId(req)) });
   });
   api.route(
     'patch',
     '/artworks/:artworkId',
     { policy: studioRole('editor'), summary: 'Rename an artwork', body: renameArtworkSchema },
     async (req, res) => {
-      res.json({ artwork: await artworks.rename(req.membership!.studioId, req.user!.id, artworkId(req), req.body.name) });
+      res.json({ artwork: await artworks.rename(req.membership.studioId, req.user.id, artworkId(req), req.body.name) });
     },
   );
   api.route(
@@ -60,9 +53,9 @@ export function artworksRoutes(artworks: ArtworksService, renders: RendersServic
     '/artworks/:artworkId',
     { policy: studioRole('editor'), summary: 'Delete an artwork and its files', status: 204 },
     async (req, res) => {
-      const a = await artworks.get(req.membership!.studioId, artworkId(req));
+      const a = await artworks.get(req.membership.studioId, artworkId(req));
       await renders.removeFor({ artworkId: a.id });
-      await artworks.remove(a.studioId, req.user!.id, a.id);
+      await artworks.remove(a.studioId, req.user.id, a.id);
       res.status(204).end();
     },
   );
@@ -71,8 +64,8 @@ export function artworksRoutes(artworks: ArtworksService, renders: RendersServic
     '/artworks/:artworkId/links',
     { policy: studioRole('editor'), summary: 'The live share links that show this artwork (what a delete would take the picture from)' },
     async (req, res) => {
-      const a = await artworks.find(req.membership!.studioId, artworkId(req));
-      res.json({ links: await presets.liveLinksShowing(req.membership!.studioId, a.id) });
+      const a = await artworks.find(req.membership.studioId, artworkId(req));
+      res.json({ links: await presets.liveLinksShowing(req.membership.studioId, a.id) });
     },
   );
   api.route(
@@ -80,7 +73,7 @@ export function artworksRoutes(artworks: ArtworksService, renders: RendersServic
     '/artworks/:artworkId/original',
     { policy: studioRole('viewer'), summary: 'The uploaded file as it was' },
     async (req, res) => {
-      const a = await artworks.find(req.membership!.studioId, artworkId(req));
+      const a = await artworks.find(req.membership.studioId, artworkId(req));
       const safeName = a.name.replace(/[^\w .-]/g, '_');
       res.set({
         'Content-Type': MIME[a.type],
@@ -95,7 +88,7 @@ export function artworksRoutes(artworks: ArtworksService, renders: RendersServic
     '/artworks/:artworkId/thumbnail',
     { policy: studioRole('viewer'), summary: 'A PNG thumbnail (at most 256 px)' },
     async (req, res) => {
-      const a = await artworks.find(req.membership!.studioId, artworkId(req));
+      const a = await artworks.find(req.membership.studioId, artworkId(req));
       res.set({ ...png, 'Content-Disposition': 'inline; filename="thumbnail.png"', 'Cache-Control': 'private, max-age=3600' });
       res.send(await artworks.thumbnail(a.id));
     },
@@ -105,7 +98,7 @@ export function artworksRoutes(artworks: ArtworksService, renders: RendersServic
     '/artworks/:artworkId/frames',
     { policy: studioRole('viewer'), summary: 'The decoded frames as raw RGBA, one after another (what the reference renderer sees)' },
     async (req, res) => {
-      const a = await artworks.find(req.membership!.studioId, artworkId(req));
+      const a = await artworks.find(req.membership.studioId, artworkId(req));
       const frames = await artworks.frames(a);
       res.set({
         'Content-Type': 'application/octet-stream',
@@ -125,10 +118,10 @@ export function artworksRoutes(artworks: ArtworksService, renders: RendersServic
       body: studioRenderSchema,
     },
     async (req, res) => {
-      const a = await artworks.get(req.membership!.studioId, req.body.artworkId);
+      const a = await artworks.get(req.membership.studioId, req.body.artworkId);
       const parameters = resolveParameters(req.body);
       const render = await renders.render(
-        { studioId: a.studioId, artworkId: a.id, userId: req.user!.id },
+        { studioId: a.studioId, artworkId: a.id, userId: req.user.id },
         { input: await artworks.original(a.id), sheet: a.sheet, parameters, scale: req.body.scale, frame: req.body.frame },
       );
       res.status(render.cached ? 200 : 201).json({ render });
@@ -140,7 +133,7 @@ export function artworksRoutes(artworks: ArtworksService, renders: RendersServic
     { policy: studioRole('viewer'), summary: "A stored reference render of one of the studio's artworks, as PNG" },
     async (req, res) => {
       const key = String(req.params.key);
-      const bytes = await renders.read(key, { studioId: req.membership!.studioId });
+      const bytes = await renders.read(key, { studioId: req.membership.studioId });
       res.set({
         ...png,
         'Content-Disposition': `inline; filename="render-${key.slice(0, 12)}.png"`,

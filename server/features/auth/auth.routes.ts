@@ -94,7 +94,7 @@ export function authRoutes(auth: AuthService, passport: PassportStatic): ApiRout
     '/verify-email/resend',
     { policy: signedIn, summary: 'Mail a new verification link to the signed-in account', status: 202 },
     async (req, res) => {
-      await auth.resendVerification(req.user!.id);
+      await auth.resendVerification(req.user.id);
       res.status(202).json({ message: 'If this address still needs confirming, a link is on its way.' });
     },
   );
@@ -124,11 +124,11 @@ export function authRoutes(auth: AuthService, passport: PassportStatic): ApiRout
     '/me',
     { policy: signedIn, summary: "Change the signed-in account's display name", body: updateProfileSchema },
     async (req, res) => {
-      const user = await auth.rename(req.user!.id, req.body.displayName);
+      const user = await auth.rename(req.user.id, req.body.displayName);
       // The session keeps the account's public fields: keep them current for this session.
       const stored = (req.session as unknown as { passport?: { user?: Express.User } }).passport;
       if (stored?.user && typeof stored.user === 'object') stored.user = { ...stored.user, displayName: user.displayName };
-      req.user = { ...req.user!, displayName: user.displayName };
+      req.user = { ...req.user, displayName: user.displayName };
       res.json({ user: req.user });
     },
   );
@@ -137,7 +137,7 @@ export function authRoutes(auth: AuthService, passport: PassportStatic): ApiRout
     '/password',
     { policy: signedIn, summary: "Change the signed-in account's password; ends its other sessions", body: changePasswordSchema },
     async (req, res) => {
-      await auth.changePassword(req.user!.id, req.body.currentPassword, req.body.newPassword, req.sessionID);
+      await auth.changePassword(req.user.id, req.body.currentPassword, req.body.newPassword, req.sessionID);
       res.json({ message: 'Password changed. Your other sessions are signed out.' });
     },
   );

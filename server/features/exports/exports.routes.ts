@@ -1,39 +1,24 @@
-import type { RequestHandler } from 'express';
-import {
-  animationRequestSchema,
-  EXPORT_FORMATS,
-  exportLinkSchema,
-  sheetRequestSchema,
-  type ExportFormat,
-} from '../../../shared/api/export.schema';
-import { ApiRouter } from '../../core/api-router';
+import type { Request } from 'express';
+import { animationRequestSchema, exportFileQuerySchema, exportLinkSchema, sheetRequestSchema } from '../../../shared/api/export.schema';
+import { ApiRouter, type StudioCaller } from '../../core/api-router';
 import { AppError } from '../../core/app-error';
 import { idParam, publicAccess, studioRole } from '../../core/policy';
 import { signDownload, verifyDownload } from '../../core/signed-links';
 import type { BlobStore } from '../../storage/blob-store';
 import type { ExportsService } from './exports.service';
 
-/** The ?format= of a download (png by default), or 400 naming the formats there are. */
-function formatOf(req: Parameters<RequestHandler>[0]): ExportFormat {
-  const raw = req.query.format ?? 'png';
-  const format = EXPORT_FORMATS.find((f) => f === raw);
-  if (!format)
-    throw new AppError(400, 'invalid_input', `format must be one of ${EXPORT_FORMATS.join(', ')}, got “${String(raw).slice(0, 20)}”.`);
-  return format;
-}
-
 /** /api/studios/:studioId/exports: comparison sheets made as background jobs. Viewers download, editors ask, owners delete anyone's. */
 export function exportsRoutes(exports: ExportsService, secret: string, appUrl: string): ApiRouter {
   const api = new ApiRouter('/studios/:studioId/exports', 'Exports');
-  const exportId = (req: Parameters<RequestHandler>[0]) => idParam(req, 'exportId', 'The export');
-  const actor = (req: Parameters<RequestHandler>[0]) => req.membership!;
+  const exportId = (req: Pick<Request, 'params'>) => idParam(req, 'exportId', 'The export');
+  const actor = (req: StudioCaller) => req.membership;
 
   api.route(
     'get',
     '/',
     { policy: studioRole('viewer'), summary: "The studio's exports, newest first, with each job's progress" },
     async (req, res) => {
-      res.json({ exports: await exports.list(req.membership!.studioId) });
+      res.json({ exports: await exports.list(req.membership.studioId) });
     },
   );
   api.route(
@@ -64,7 +49,7 @@ export function exportsRoutes(exports: ExportsService, secret: string, appUrl: s
     },
   );
   api.route('get', '/:exportId', { policy: studioRole('viewer'), summary: 'One export and its progress' }, async (req, res) => {
-    res.json({ export: await exports.get(req.membership!.studioId, exportId(req)) });
+    res.json({ export: await exports.get(req.membership.studioId, exportId(req)) });
   });
   api.route(
     'get',
@@ -72,13 +57,14 @@ export function exportsRoutes(exports: ExportsService, secret: string, appUrl: s
     {
       policy: studioRole('viewer'),
       summary:
-        'Download a finished file: a sheet as ?format=png (the default), pdf or zip (single renders and a manifest), an animation as apng, gif or json (its manifest with the flash check). Answers 303 to a signed link that works for 15 minutes without a session; 409 until the export is ready',
+        'Download a finished file: a sheet as png (the default), pdf or zip (single renders and a manifest), an animation as apng, gif or json (its manifest with the flash check). Answers 303 to a signed link that works for 15 minutes without a session; 409 until the export is ready',
+      query: exportFileQuerySchema,
     },
     async (req, res) => {
       const url = await exports.downloadUrl(
-        req.membership!.studioId,
+        req.membership.studioId,
         exportId(req),
-        formatOf(req),
+        req.query.format,
         (d) => `/api/downloads/${signDownload(secret, d)}`,
       );
       res.set('Cache-Control', 'private, no-store').redirect(303, url);
@@ -89,7 +75,7 @@ export function exportsRoutes(exports: ExportsService, secret: string, appUrl: s
     '/:exportId/links',
     { policy: studioRole('editor'), summary: "The export's read-only share links" },
     async (req, res) => {
-      res.json({ links: await exports.links(req.membership!.studioId, exportId(req)) });
+      res.json({ links: await exports.links(req.membership.studioId, exportId(req)) });
     },
   );
   api.route(
@@ -176,7 +162,7 @@ export function downloadRoutes(blobs: BlobStore, secret: string): ApiRouter {
 /** /api/shared-exports/<token>: what an export's share link opens, read-only, no account needed. */
 export function sharedExportRoutes(exports: ExportsService, secret: string): ApiRouter {
   const api = new ApiRouter('/shared-exports', 'Exports');
-  const token = (req: Parameters<RequestHandler>[0]) => String(req.params.token);
+  const token = (req: Pick<Request, 'params'>) => String(req.params.token);
   api.route(
     'get',
     '/:token',
@@ -203,9 +189,13 @@ export function sharedExportRoutes(exports: ExportsService, secret: string): Api
   api.route(
     'get',
     '/:token/file',
-    { policy: publicAccess, summary: "Download a shared export's file (?format=): 303 to a signed link that works for 15 minutes" },
+    {
+      policy: publicAccess,
+      summary: "Download a shared export's file: 303 to a signed link that works for 15 minutes",
+      query: exportFileQuerySchema,
+    },
     async (req, res) => {
-      const url = await exports.sharedDownloadUrl(token(req), formatOf(req), (d) => `/api/downloads/${signDownload(secret, d)}`);
+      const url = await exports.sharedDownloadUrl(token(req), req.query.format, (d) => `/api/downloads/${signDownload(secret, d)}`);
       res.set({ 'Cache-Control': 'private, no-store', 'Referrer-Policy': 'no-referrer' }).redirect(303, url);
     },
   );

@@ -1,21 +1,14 @@
-import type { RequestHandler } from 'express';
-import { FRAME_DATA_FORMATS } from '../../../shared/drive/frame-data-formats';
-import { matchMarksSchema, matchSaveSchema, matchUploadSchema } from '../../../shared/api/match.schema';
-import { ApiRouter } from '../../core/api-router';
-import { AppError } from '../../core/app-error';
+import type { Request } from 'express';
+import { matchMarksSchema, matchSaveSchema, matchUploadSchema, patternQuerySchema } from '../../../shared/api/match.schema';
+import { ApiRouter, type StudioCaller } from '../../core/api-router';
 import { idParam, studioRole } from '../../core/policy';
-import { uploadOne } from '../../core/upload';
-import { parseOrThrow } from '../../core/validate';
 import type { MatchesService } from './matches.service';
-
-/** The pattern's download formats: the image, then frame data. */
-const PATTERN_FORMATS = ['png', ...FRAME_DATA_FORMATS] as const;
 
 /** /api/studios/:studioId/matches: fit a panel type to a photo of the match pattern on a real panel. Viewers look, editors upload and fit, owners delete anyone's. */
 export function matchesRoutes(matches: MatchesService): ApiRouter {
   const api = new ApiRouter('/studios/:studioId/matches', 'Panel match');
-  const matchId = (req: Parameters<RequestHandler>[0]) => idParam(req, 'matchId', 'The match');
-  const actor = (req: Parameters<RequestHandler>[0]) => req.membership!;
+  const matchId = (req: Pick<Request, 'params'>) => idParam(req, 'matchId', 'The match');
+  const actor = (req: StudioCaller) => req.membership;
 
   api.route(
     'get',
@@ -23,19 +16,12 @@ export function matchesRoutes(matches: MatchesService): ApiRouter {
     {
       policy: studioRole('viewer'),
       summary:
-        "A look's match pattern (?look=<built-in preset id or studio:<id>>) to show on the real panel 1:1: ?format=png (one pixel a cell, the default), or frame data as bin, hex (Intel HEX) or c (a C header)",
+        "A look's match pattern (a built-in preset id, or studio:<preset id>) to show on the real panel 1:1: png (one pixel a cell, the default), or frame data as bin, hex (Intel HEX) or c (a C header)",
+      query: patternQuerySchema,
     },
     async (req, res) => {
-      if (typeof req.query.look !== 'string')
-        throw new AppError(400, 'invalid_input', 'Say which look the pattern is for: ?look=<built-in preset id or studio:<preset id>>.');
-      const format = PATTERN_FORMATS.find((f) => f === (req.query.format ?? 'png'));
-      if (!format)
-        throw new AppError(
-          400,
-          'invalid_input',
-          `format must be one of ${PATTERN_FORMATS.join(', ')}, got “${String(req.query.format).slice(0, 20)}”.`,
-        );
-      const { bytes, fileName, contentType } = await matches.pattern(req.membership!.studioId, req.query.look, format);
+      const { look, format } = req.query;
+      const { bytes, fileName, contentType } = await matches.pattern(req.membership.studioId, look, format);
       res
         .set({
           'Content-Type': contentType,
@@ -47,7 +33,7 @@ export function matchesRoutes(matches: MatchesService): ApiRouter {
     },
   );
   api.route('get', '/', { policy: studioRole('viewer'), summary: "The studio's panel matches, newest first" }, async (req, res) => {
-    res.json({ matches: await matches.list(req.membership!.studioId) });
+    res.json({ matches: await matches.list(req.membership.studioId) });
   });
   api.route(
     'post',
@@ -56,13 +42,11 @@ export function matchesRoutes(matches: MatchesService): ApiRouter {
       policy: studioRole('editor'),
       summary:
         'Upload a photo of the match pattern (multipart field "file"; look, and optional activeWidthMm, activeHeightMm, cameraGamma)',
+      upload: { fields: matchUploadSchema, file: 'the photo' },
       status: 201,
     },
-    uploadOne,
     async (req, res) => {
-      if (!req.file) throw new AppError(400, 'invalid_input', 'Attach the photo as the multipart field "file".');
-      const fields = parseOrThrow(matchUploadSchema, req.body ?? {}, 'upload fields');
-      res.status(201).json({ match: await matches.create(actor(req), req.file.buffer, req.file.originalname, fields) });
+      res.status(201).json({ match: await matches.create(actor(req), req.file.buffer, req.file.originalname, req.body) });
     },
   );
   api.route(
@@ -70,7 +54,7 @@ export function matchesRoutes(matches: MatchesService): ApiRouter {
     '/:matchId',
     { policy: studioRole('viewer'), summary: 'One match: its marks, the fit’s progress and result' },
     async (req, res) => {
-      res.json({ match: await matches.get(req.membership!.studioId, matchId(req)) });
+      res.json({ match: await matches.get(req.membership.studioId, matchId(req)) });
     },
   );
   api.route(
@@ -80,7 +64,7 @@ export function matchesRoutes(matches: MatchesService): ApiRouter {
     async (req, res) => {
       res
         .set({ 'Content-Type': 'image/jpeg', 'Cache-Control': 'private, max-age=3600' })
-        .send(await matches.photo(req.membership!.studioId, matchId(req)));
+        .send(await matches.photo(req.membership.studioId, matchId(req)));
     },
   );
   api.route(
@@ -94,7 +78,7 @@ export function matchesRoutes(matches: MatchesService): ApiRouter {
     async (req, res) => {
       res
         .set({ 'Content-Type': 'image/png', 'Cache-Control': 'private, no-store' })
-        .send(await matches.rectified(req.membership!.studioId, matchId(req)));
+        .send(await matches.rectified(req.membership.studioId, matchId(req)));
     },
   );
   api.route(
@@ -104,7 +88,7 @@ export function matchesRoutes(matches: MatchesService): ApiRouter {
     async (req, res) => {
       res
         .set({ 'Content-Type': 'image/png', 'Cache-Control': 'private, max-age=3600' })
-        .send(await matches.simulated(req.membership!.studioId, matchId(req)));
+        .send(await matches.simulated(req.membership.studioId, matchId(req)));
     },
   );
   api.route(
@@ -117,7 +101,7 @@ export function matchesRoutes(matches: MatchesService): ApiRouter {
     async (req, res) => {
       res
         .set({ 'Content-Type': 'image/png', 'Cache-Control': 'private, no-store' })
-        .send(await matches.residual(req.membership!.studioId, matchId(req)));
+        .send(await matches.residual(req.membership.studioId, matchId(req)));
     },
   );
   api.route(

@@ -2,14 +2,15 @@ import type { Request } from 'express';
 import {
   createPresetSchema,
   duplicatePresetSchema,
-  PRESET_SORTS,
   presetDocumentSchema,
+  presetListQuerySchema,
+  presetThumbnailQuerySchema,
   referenceSchema,
   restoreSchema,
   shareLinkSchema,
   updatePresetSchema,
 } from '../../../shared/api/preset.schema';
-import { ApiRouter } from '../../core/api-router';
+import { ApiRouter, type StudioCaller } from '../../core/api-router';
 import { AppError } from '../../core/app-error';
 import { idParam, publicAccess, studioRole } from '../../core/policy';
 import { issuesOf } from '../../core/validate';
@@ -18,8 +19,8 @@ import type { ArtworksService } from '../artworks/artworks.service';
 import type { RendersService } from '../renders/renders.service';
 import type { Actor, PresetsService } from './presets.service';
 
-const actorOf = (req: Request): Actor => ({ studioId: req.membership!.studioId, userId: req.user!.id, role: req.membership!.role });
-const presetId = (req: Request) => idParam(req, 'presetId', 'The preset');
+const actorOf = (req: StudioCaller): Actor => ({ studioId: req.membership.studioId, userId: req.user.id, role: req.membership.role });
+const presetId = (req: Pick<Request, 'params'>) => idParam(req, 'presetId', 'The preset');
 
 /** /api/studios/:studioId/presets: versioned presets, reference lock, share links, import/export. */
 export function presetsRoutes(presets: PresetsService, appUrl: string, artworks: ArtworksService, renders: RendersService): ApiRouter {
@@ -28,21 +29,14 @@ export function presetsRoutes(presets: PresetsService, appUrl: string, artworks:
   api.route(
     'get',
     '/',
-    { policy: studioRole('viewer'), summary: 'Presets (?panelTypeId=, ?q=, ?sort=name|-name|updated|-updated, ?page=, ?pageSize=)' },
+    {
+      policy: studioRole('viewer'),
+      summary: 'Presets, filtered by panel type, searched by name, sorted and paged',
+      query: presetListQuerySchema,
+    },
     async (req, res) => {
-      const str = (k: string) => (typeof req.query[k] === 'string' ? (req.query[k] as string) : undefined);
-      const page = Math.max(0, Number(str('page') ?? 0) | 0);
-      const pageSize = Math.min(100, Math.max(1, Number(str('pageSize') ?? 25) | 0));
-      const sort = PRESET_SORTS.find((s) => s === str('sort')) ?? '-updated';
-      res.json(
-        await presets.list(req.membership!.studioId, {
-          panelTypeId: str('panelTypeId'),
-          search: str('q')?.slice(0, 80),
-          sort,
-          page,
-          pageSize,
-        }),
-      );
+      const { q, ...rest } = req.query;
+      res.json(await presets.list(req.membership.studioId, { ...rest, search: q }));
     },
   );
   api.route(
@@ -90,25 +84,26 @@ export function presetsRoutes(presets: PresetsService, appUrl: string, artworks:
     },
   );
   api.route('get', '/:presetId', { policy: studioRole('viewer'), summary: 'One preset at its current revision' }, async (req, res) => {
-    res.json({ preset: await presets.get(req.membership!.studioId, presetId(req)) });
+    res.json({ preset: await presets.get(req.membership.studioId, presetId(req)) });
   });
   api.route(
     'get',
     '/:presetId/thumbnail',
     {
       policy: studioRole('viewer'),
-      summary: 'A small PNG of the preset on an artwork (?artworkId=, default the newest), made once per revision',
+      summary: 'A small PNG of the preset on an artwork (by default the newest), made once per revision',
+      query: presetThumbnailQuerySchema,
     },
     async (req, res) => {
-      const { studioId } = req.membership!;
+      const { studioId } = req.membership;
       const preset = await presets.get(studioId, presetId(req));
-      const wanted = typeof req.query.artworkId === 'string' ? req.query.artworkId : undefined;
+      const wanted = req.query.artworkId;
       if (wanted !== undefined && !/^[0-9a-f-]{36}$/i.test(wanted)) throw new AppError(404, 'not_found', 'The artwork was not found.');
       const artwork = wanted ? await artworks.get(studioId, wanted) : (await artworks.list(studioId, undefined, 'newest'))[0];
       if (!artwork) throw new AppError(404, 'no_artwork', 'The studio has no artwork to show the preset on yet. Upload one in Artworks.');
       const a = await artworks.get(studioId, artwork.id);
       const png = await renders.thumbnail(
-        { studioId, artworkId: a.id, userId: req.user!.id },
+        { studioId, artworkId: a.id, userId: req.user.id },
         { input: await artworks.original(a.id), sheet: a.sheet, parameters: preset.parameters },
       );
       res.set({
@@ -146,7 +141,7 @@ export function presetsRoutes(presets: PresetsService, appUrl: string, artworks:
     '/:presetId/revisions',
     { policy: studioRole('viewer'), summary: 'Every revision, newest first, with its parameter changes' },
     async (req, res) => {
-      res.json({ revisions: await presets.revisions(req.membership!.studioId, presetId(req)) });
+      res.json({ revisions: await presets.revisions(req.membership.studioId, presetId(req)) });
     },
   );
   api.route(
@@ -180,13 +175,13 @@ export function presetsRoutes(presets: PresetsService, appUrl: string, artworks:
     '/:presetId/export',
     { policy: studioRole('viewer'), summary: 'The preset as an Emberline preset document (JSON)' },
     async (req, res) => {
-      const p = await presets.get(req.membership!.studioId, presetId(req));
+      const p = await presets.get(req.membership.studioId, presetId(req));
       res.set('Content-Disposition', `attachment; filename="${p.name.replace(/[^\w .-]/g, '_')}.emberline-preset.json"`);
       res.json(presets.exportDocument(p));
     },
   );
   api.route('get', '/:presetId/links', { policy: studioRole('owner'), summary: 'Share links of a preset' }, async (req, res) => {
-    res.json({ links: await presets.links(req.membership!.studioId, presetId(req)) });
+    res.json({ links: await presets.links(req.membership.studioId, presetId(req)) });
   });
   api.route(
     'post',

@@ -1,9 +1,6 @@
 import { renderFieldsSchema } from '../../../shared/api/render.schema';
 import { ApiRouter } from '../../core/api-router';
-import { AppError } from '../../core/app-error';
 import { signedIn } from '../../core/policy';
-import { uploadOne } from '../../core/upload';
-import { parseOrThrow } from '../../core/validate';
 import { resolveParameters, type RendersService } from './renders.service';
 
 /** /api/renders: reference renders by the server's CPU pipeline, cached by content hash. */
@@ -13,14 +10,17 @@ export function rendersRoutes(renders: RendersService): ApiRouter {
   api.route(
     'post',
     '/',
-    { policy: signedIn, summary: 'Render an uploaded image (multipart field "file") with a preset or inline parameters', status: 201 },
-    uploadOne,
+    {
+      policy: signedIn,
+      summary: 'Render an uploaded image (multipart field "file") with a preset or inline parameters',
+      upload: { fields: renderFieldsSchema, file: 'the image' },
+      status: 201,
+    },
     async (req, res) => {
-      const fields = parseOrThrow(renderFieldsSchema, req.body ?? {}, 'render request');
-      if (!req.file) throw new AppError(400, 'invalid_input', 'Attach the image as the multipart field "file".');
+      const fields = req.body;
       const parameters = resolveParameters(fields);
       const render = await renders.render(
-        { userId: req.user!.id },
+        { userId: req.user.id },
         { input: req.file.buffer, parameters, scale: fields.scale, frame: fields.frame },
       );
       res.status(render.cached ? 200 : 201).json({ render });
@@ -33,7 +33,7 @@ export function rendersRoutes(renders: RendersService): ApiRouter {
     { policy: signedIn, summary: 'A stored render of a file you uploaded, as PNG (studio renders are under their studio)' },
     async (req, res) => {
       const key = String(req.params.key);
-      const png = await renders.read(key, { userId: req.user!.id });
+      const png = await renders.read(key, { userId: req.user.id });
       res.set({
         'Content-Type': 'image/png',
         'Content-Disposition': `inline; filename="render-${key.slice(0, 12)}.png"`,

@@ -1,10 +1,8 @@
-import { romPatchSchema, romUploadFieldsSchema } from '../../../shared/api/rom.schema';
+import type { Request } from 'express';
+import { romDetailQuerySchema, romPatchSchema, romUploadFieldsSchema } from '../../../shared/api/rom.schema';
 import { renameArtworkSchema } from '../../../shared/api/artwork.schema';
 import { ApiRouter } from '../../core/api-router';
-import { AppError } from '../../core/app-error';
 import { idParam, studioRole } from '../../core/policy';
-import { uploadOne } from '../../core/upload';
-import { parseOrThrow } from '../../core/validate';
 import type { RomsService } from './roms.service';
 
 /**
@@ -13,10 +11,10 @@ import type { RomsService } from './roms.service';
  */
 export function romsRoutes(roms: RomsService): ApiRouter {
   const api = new ApiRouter('/studios/:studioId/roms', 'Video BIOS');
-  const romId = (req: Parameters<typeof idParam>[0]) => idParam(req, 'romId', 'The ROM image');
+  const romId = (req: Pick<Request, 'params'>) => idParam(req, 'romId', 'The ROM image');
 
   api.route('get', '/', { policy: studioRole('editor'), summary: "The studio's ROM images, newest first" }, async (req, res) => {
-    res.json({ roms: await roms.list(req.membership!.studioId) });
+    res.json({ roms: await roms.list(req.membership.studioId) });
   });
   api.route(
     'post',
@@ -24,15 +22,13 @@ export function romsRoutes(roms: RomsService): ApiRouter {
     {
       policy: studioRole('editor'),
       summary: 'Upload a ROM image (multipart field "file", optional name); refused unless it starts with an option ROM header',
+      upload: { fields: romUploadFieldsSchema, file: 'the ROM image' },
       status: 201,
     },
-    uploadOne,
     async (req, res) => {
-      const fields = parseOrThrow(romUploadFieldsSchema, req.body ?? {}, 'upload fields');
-      if (!req.file) throw new AppError(400, 'invalid_input', 'Attach the ROM image as the multipart field "file".');
       res
         .status(201)
-        .json({ rom: await roms.upload(req.membership!.studioId, req.user!.id, req.file.buffer, req.file.originalname, fields.name) });
+        .json({ rom: await roms.upload(req.membership.studioId, req.user.id, req.file.buffer, req.file.originalname, req.body.name) });
     },
   );
   api.route(
@@ -40,18 +36,15 @@ export function romsRoutes(roms: RomsService): ApiRouter {
     '/:romId',
     {
       policy: studioRole('editor'),
-      summary: 'One image with its header, checksum and parameter table (?tableOffset= to read the table at an offset)',
+      summary: 'One image with its header, checksum and parameter table (read at tableOffset when given)',
+      query: romDetailQuerySchema,
     },
     async (req, res) => {
-      const raw = typeof req.query.tableOffset === 'string' ? req.query.tableOffset.trim() : '';
-      const tableOffset = raw === '' ? undefined : Number(raw.startsWith('0x') ? parseInt(raw.slice(2), 16) : raw);
-      if (tableOffset !== undefined && !Number.isInteger(tableOffset))
-        throw new AppError(400, 'invalid_input', `tableOffset must be a whole number (decimal or 0x… hex), got "${raw.slice(0, 20)}".`);
-      res.json(await roms.detail(req.membership!.studioId, romId(req), tableOffset));
+      res.json(await roms.detail(req.membership.studioId, romId(req), req.query.tableOffset));
     },
   );
   api.route('get', '/:romId/image', { policy: studioRole('editor'), summary: 'The image bytes, as a download' }, async (req, res) => {
-    const { name, bytes } = await roms.image(req.membership!.studioId, romId(req));
+    const { name, bytes } = await roms.image(req.membership.studioId, romId(req));
     const safeName = name.replace(/[^\w .-]/g, '_');
     res.set({
       'Content-Type': 'application/octet-stream',
@@ -71,7 +64,7 @@ export function romsRoutes(roms: RomsService): ApiRouter {
       status: 201,
     },
     async (req, res) => {
-      res.status(201).json(await roms.patch(req.membership!.studioId, req.user!.id, romId(req), req.body));
+      res.status(201).json(await roms.patch(req.membership.studioId, req.user.id, romId(req), req.body));
     },
   );
   api.route(
@@ -79,7 +72,7 @@ export function romsRoutes(roms: RomsService): ApiRouter {
     '/:romId',
     { policy: studioRole('editor'), summary: 'Rename an image', body: renameArtworkSchema },
     async (req, res) => {
-      res.json({ rom: await roms.rename(req.membership!.studioId, romId(req), req.body.name) });
+      res.json({ rom: await roms.rename(req.membership.studioId, romId(req), req.body.name) });
     },
   );
   api.route(
@@ -87,7 +80,7 @@ export function romsRoutes(roms: RomsService): ApiRouter {
     '/:romId',
     { policy: studioRole('editor'), summary: 'Delete an image (images patched from it stay)', status: 204 },
     async (req, res) => {
-      await roms.remove(req.membership!.studioId, req.user!.id, romId(req));
+      await roms.remove(req.membership.studioId, req.user.id, romId(req));
       res.status(204).end();
     },
   );

@@ -1,4 +1,4 @@
-import { createTimingSchema, updateTimingSchema } from '../../../shared/api/timing.schema';
+import { createTimingSchema, timingListQuerySchema, updateTimingSchema } from '../../../shared/api/timing.schema';
 import { ApiRouter } from '../../core/api-router';
 import { idParam, studioRole } from '../../core/policy';
 import type { TimingsService } from './timings.service';
@@ -9,10 +9,9 @@ export function timingsRoutes(timings: TimingsService): ApiRouter {
   api.route(
     'get',
     '/',
-    { policy: studioRole('viewer'), summary: "The studio's saved timings (optionally ?panelTypeId=)" },
+    { policy: studioRole('viewer'), summary: "The studio's saved timings (optionally one panel type's)", query: timingListQuerySchema },
     async (req, res) => {
-      const panelTypeId = typeof req.query.panelTypeId === 'string' ? req.query.panelTypeId : undefined;
-      res.json({ timings: await timings.list(req.membership!.studioId, panelTypeId) });
+      res.json({ timings: await timings.list(req.membership.studioId, req.query.panelTypeId) });
     },
   );
   api.route(
@@ -20,7 +19,7 @@ export function timingsRoutes(timings: TimingsService): ApiRouter {
     '/',
     { policy: studioRole('editor'), summary: 'Save a timing for a panel type', body: createTimingSchema, status: 201 },
     async (req, res) => {
-      res.status(201).json({ timing: await timings.create(req.membership!.studioId, req.user!.id, req.body) });
+      res.status(201).json({ timing: await timings.create(req.membership.studioId, req.user.id, req.body) });
     },
   );
   api.route(
@@ -28,7 +27,7 @@ export function timingsRoutes(timings: TimingsService): ApiRouter {
     '/:timingId',
     { policy: studioRole('viewer'), summary: 'One saved timing with its figures, registers input and warnings' },
     async (req, res) => {
-      res.json({ timing: await timings.get(req.membership!.studioId, idParam(req, 'timingId', 'The timing')) });
+      res.json({ timing: await timings.get(req.membership.studioId, idParam(req, 'timingId', 'The timing')) });
     },
   );
   api.route(
@@ -36,11 +35,11 @@ export function timingsRoutes(timings: TimingsService): ApiRouter {
     '/:timingId',
     { policy: studioRole('editor'), summary: 'Change a saved timing', body: updateTimingSchema },
     async (req, res) => {
-      res.json({ timing: await timings.update(req.membership!.studioId, idParam(req, 'timingId', 'The timing'), req.user!.id, req.body) });
+      res.json({ timing: await timings.update(req.membership.studioId, idParam(req, 'timingId', 'The timing'), req.user.id, req.body) });
     },
   );
   api.route('delete', '/:timingId', { policy: studioRole('editor'), summary: 'Delete a saved timing', status: 204 }, async (req, res) => {
-    await timings.remove(req.membership!.studioId, idParam(req, 'timingId', 'The timing'));
+    await timings.remove(req.membership.studioId, idParam(req, 'timingId', 'The timing'));
     res.status(204).end();
   });
   return api;
