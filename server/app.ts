@@ -95,7 +95,7 @@ export function createApp(deps: AppDeps): Express & {
   const blobs = createBlobStore(config);
   const renders = new RendersService(new RenderStore(blobs), renderEngine, sequelize, config.studioRenderBudgetBytes);
   const artworks = new ArtworksService(new FileStore(blobs), (bytes, sheet) => renderEngine.decodedFrames(bytes, sheet));
-  const presets = new PresetsService();
+  const presets = new PresetsService(artworks);
   const exports = exportsService(config, blobs, artworks, renderEngine, deps.jobs);
   const matches = new MatchesService(blobs, renderEngine, deps.jobs, presets);
   const studios = new StudiosService(

@@ -28,7 +28,7 @@ async function main(): Promise<void> {
   const jobs = JobQueue.create(config.db, config.jobs);
   const exports = exportsService(config, blobs, artworks, engine, jobs);
   await jobs.work<ExportJob>(QUEUES.exports, (job) => exports.run(job));
-  const matches = new MatchesService(blobs, engine, jobs, new PresetsService());
+  const matches = new MatchesService(blobs, engine, jobs, new PresetsService(artworks));
   await jobs.work<MatchJob>(QUEUES.matches, (job) => matches.run(job));
   console.log(`[worker] ${WORKER_NAME} runs exports and panel matches on ${engine.threads} render threads`);
   const stop = async () => {

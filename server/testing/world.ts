@@ -114,7 +114,7 @@ export async function createStudioWorld(
       {},
     )
   ).id;
-  const presets = new PresetsService();
+  const presets = new PresetsService(library);
   const actor = { studioId: studio.id, userId: users.owner.id, role: 'owner' as const };
   const preset = await presets.create(actor, { name: 'World look', panelTypeId: 'el-amber-640x480' });
   const link = await presets.createLink(actor, preset.id, { artworkId }, 'http://app.test');

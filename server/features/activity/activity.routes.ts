@@ -2,7 +2,7 @@ import type { ActivityDto } from '../../../shared/api/dto';
 import { activityQuerySchema } from '../../../shared/api/studio.schema';
 import { ApiRouter } from '../../core/api-router';
 import { studioRole } from '../../core/policy';
-import { User } from '../auth/user.model';
+import { displayNames } from '../auth/display-names';
 import { Activity } from './activity.model';
 
 /** /api/studios/:studioId/activity: the studio's feed, newest first. */
@@ -21,10 +21,7 @@ export function activityRoutes(): ApiRouter {
         ],
         limit: req.query.limit,
       });
-      const ids = [...new Set(rows.map((r) => r.actorId).filter((i): i is string => !!i))];
-      const who = new Map(
-        (ids.length ? await User.findAll({ where: { id: ids }, attributes: ['id', 'displayName'] }) : []).map((u) => [u.id, u.displayName]),
-      );
+      const who = await displayNames(rows.map((r) => r.actorId));
       const activity: ActivityDto[] = rows.map((r) => ({
         id: Number(r.id),
         kind: r.kind,

@@ -82,6 +82,16 @@ export class ArtworksService {
     return a;
   }
 
+  /** The studio's artwork with this id (null when it is not the studio's), or with no id its newest (null when it has none). */
+  pick(studioId: string, id?: string): Promise<Artwork | null> {
+    return id ? Artwork.findOne({ where: { id, studioId } }) : Artwork.findOne({ where: { studioId }, order: [['createdAt', 'DESC']] });
+  }
+
+  /** Those of the given artworks that are the studio's. */
+  pickAll(studioId: string, ids: readonly string[]): Promise<Artwork[]> {
+    return Artwork.findAll({ where: { id: [...ids], studioId } });
+  }
+
   /** Decodes (type by content, limits first), writes original and thumbnail, then the row. */
   async upload(
     studioId: string,

@@ -22,10 +22,9 @@ import type { Config } from '../../config';
 import type { BlobStore } from '../../storage/blob-store';
 import { FileStore } from '../../storage/file-store';
 import { record } from '../activity/activity.model';
-import { Artwork } from '../artworks/artwork.model';
 import type { ArtworksService } from '../artworks/artworks.service';
-import { User } from '../auth/user.model';
-import { Studio } from '../studios/studio.model';
+import { displayNames } from '../auth/display-names';
+import { studioName } from '../studios/studios.service';
 import { Export, ExportLink, type AnimationSpec, type LookSpec, type SheetSpec } from './export.model';
 import { resolveLook } from '../presets/looks';
 import { hashToken, newToken } from '../../core/tokens';
@@ -100,9 +99,9 @@ export class ExportsService {
   ) {}
 
   async create(actor: ExportActor, body: SheetRequest): Promise<ExportDto> {
-    const studio = await Studio.findByPk(actor.studioId);
-    if (!studio) throw notFound('The studio');
-    const found = await Artwork.findAll({ where: { id: body.artworkIds, studioId: actor.studioId } });
+    const studio = await studioName(actor.studioId);
+    if (studio === null) throw notFound('The studio');
+    const found = await this.artworks.pickAll(actor.studioId, body.artworkIds);
     const missing = body.artworkIds.filter((id) => !found.some((a) => a.id === id));
     if (missing.length)
       throw new AppError(
@@ -145,7 +144,7 @@ export class ExportsService {
     }
 
     const spec: SheetSpec = {
-      studioName: studio.name,
+      studioName: studio,
       layout: body.layout,
       scale: body.scale,
       frame: body.frame,
@@ -153,7 +152,7 @@ export class ExportsService {
       looks,
       report: body.report,
     };
-    const title = body.title ?? `${studio.name}: ${DEFAULT_TITLES[body.layout](looks.length)}`;
+    const title = body.title ?? `${studio}: ${DEFAULT_TITLES[body.layout](looks.length)}`;
     return this.queue(
       actor,
       { title, kind: 'sheet', layout: body.layout, spec },
@@ -163,9 +162,9 @@ export class ExportsService {
 
   /** An animated export: every frame of one animation through one look, checked in full before it is queued. */
   async createAnimation(actor: ExportActor, body: AnimationRequest): Promise<ExportDto> {
-    const studio = await Studio.findByPk(actor.studioId);
-    if (!studio) throw notFound('The studio');
-    const artwork = await Artwork.findOne({ where: { id: body.artworkId, studioId: actor.studioId } });
+    const studio = await studioName(actor.studioId);
+    if (studio === null) throw notFound('The studio');
+    const artwork = await this.artworks.pick(actor.studioId, body.artworkId);
     if (!artwork)
       throw new AppError(
         400,
@@ -196,7 +195,7 @@ export class ExportsService {
     }
     const durationMs = artwork.delaysMs.reduce((a, b) => a + b, 0);
     const spec: AnimationSpec = {
-      studioName: studio.name,
+      studioName: studio,
       artwork: { id: artwork.id, name: artwork.name },
       look,
       scale: body.scale,
@@ -228,7 +227,7 @@ export class ExportsService {
       throw err;
     }
     await record(actor.studioId, actor.userId, 'export.created', summary);
-    return this.dto(created, await this.names([created.createdById]));
+    return this.dto(created, await displayNames([created.createdById]));
   }
 
   private look(studioId: string, ref: string): Promise<LookSpec> {
@@ -238,14 +237,14 @@ export class ExportsService {
   async list(studioId: string): Promise<ExportDto[]> {
     await this.failStale(studioId);
     const rows = await Export.findAll({ where: { studioId }, order: [['createdAt', 'DESC']], limit: LIST_LIMIT });
-    const who = await this.names(rows.map((r) => r.createdById));
+    const who = await displayNames(rows.map((r) => r.createdById));
     return rows.map((r) => this.dto(r, who));
   }
 
   async get(studioId: string, id: string): Promise<ExportDto> {
     await this.failStale(studioId);
     const row = await this.row(studioId, id);
-    return this.dto(row, await this.names([row.createdById]));
+    return this.dto(row, await displayNames([row.createdById]));
   }
 
   /**
@@ -416,9 +415,9 @@ export class ExportsService {
     await row.update({ status: 'running', attempts: row.attempts + 1, workedBy: WORKER_NAME, progress: 0, step: 'Starting', error: null });
     const stillWanted = async () => (await Export.count({ where: { id: row.id, status: 'running' } })) === 1;
     try {
-      const by = row.createdById ? ((await User.findByPk(row.createdById))?.displayName ?? 'a former member') : 'a former member';
+      const by = (await displayNames([row.createdById])).get(row.createdById ?? '') ?? 'a former member';
       const source = async (a: { id: string; name: string }) => {
-        const artwork = await Artwork.findOne({ where: { id: a.id, studioId: row.studioId } });
+        const artwork = await this.artworks.pick(row.studioId, a.id);
         if (!artwork) throw new AppError(409, 'conflict', `“${a.name}” was deleted after the export was asked for. Ask again without it.`);
         return { input: await this.artworks.original(artwork.id), sheet: artwork.sheet };
       };
@@ -529,12 +528,6 @@ export class ExportsService {
     const row = await Export.findOne({ where: { id, studioId } });
     if (!row) throw notFound('The export');
     return row;
-  }
-
-  private async names(ids: (string | null)[]): Promise<Map<string, string>> {
-    const list = [...new Set(ids.filter((i): i is string => !!i))];
-    const users = list.length ? await User.findAll({ where: { id: list }, attributes: ['id', 'displayName'] }) : [];
-    return new Map(users.map((u) => [u.id, u.displayName]));
   }
 
   private dto(r: Export, names: Map<string, string>): ExportDto {

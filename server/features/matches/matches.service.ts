@@ -18,7 +18,7 @@ import { encodePng } from '../../render/encode';
 import type { RenderEngine } from '../../render/render-engine';
 import type { BlobStore } from '../../storage/blob-store';
 import { record } from '../activity/activity.model';
-import { User } from '../auth/user.model';
+import { displayNames } from '../auth/display-names';
 import { resolveLook } from '../presets/looks';
 import { Preset } from '../presets/preset.model';
 import type { PresetsService } from '../presets/presets.service';
@@ -114,18 +114,18 @@ export class MatchesService {
       throw err;
     }
     await record(actor.studioId, actor.userId, 'match.created', `uploaded a match photo of “${look.name}”`);
-    return this.dto(row, await names([row.createdById]));
+    return this.dto(row, await displayNames([row.createdById]));
   }
 
   async list(studioId: string): Promise<MatchDto[]> {
     const rows = await PanelMatch.findAll({ where: { studioId }, order: [['createdAt', 'DESC']], limit: 50 });
-    const who = await names(rows.map((r) => r.createdById));
+    const who = await displayNames(rows.map((r) => r.createdById));
     return rows.map((r) => this.dto(r, who));
   }
 
   async get(studioId: string, id: string): Promise<MatchDto> {
     const row = await this.row(studioId, id);
-    return this.dto(row, await names([row.createdById]));
+    return this.dto(row, await displayNames([row.createdById]));
   }
 
   /** The photo upright (as its EXIF orientation says), as a JPEG for placing the marks on. */
@@ -177,7 +177,7 @@ export class MatchesService {
       throw err;
     }
     await row.update({ marks, status: 'marking', progress: 0, step: '', error: null, result: null });
-    return this.dto(row, await names([row.createdById]));
+    return this.dto(row, await displayNames([row.createdById]));
   }
 
   /** Queues the fit (the marks must be placed). */
@@ -191,7 +191,7 @@ export class MatchesService {
     if (count === 0) throw new AppError(409, 'busy', 'The fit is already waiting or running.');
     await this.jobs.send(QUEUES.matches, { matchId: row.id } satisfies MatchJob);
     await row.reload();
-    return this.dto(row, await names([row.createdById]));
+    return this.dto(row, await displayNames([row.createdById]));
   }
 
   /** Saves the fitted parameters as a new studio preset, or as a new revision of the studio preset the fit started from. */
@@ -230,7 +230,7 @@ export class MatchesService {
       await this.presets.update(actor, presetId, { baseRevision: current.revision, parameters, message });
     }
     await row.update({ savedPresetId: presetId });
-    return { presetId, match: this.dto(row, await names([row.createdById])) };
+    return { presetId, match: this.dto(row, await displayNames([row.createdById])) };
   }
 
   async remove(actor: MatchActor, id: string): Promise<void> {
@@ -343,12 +343,6 @@ function patternLook(p: PanelParams): PanelParams {
     source: { ...p.source, fit: 'native', luma: 'rec709', brightness: 0, contrast: 1, gamma: 1, invert: false, threshold: 0 },
     drive: { ...p.drive, dither: 'none' },
   };
-}
-
-async function names(ids: (string | null)[]): Promise<Map<string, string>> {
-  const wanted = [...new Set(ids.filter((x): x is string => !!x))];
-  const users = wanted.length ? await User.findAll({ where: { id: wanted }, attributes: ['id', 'displayName'] }) : [];
-  return new Map(users.map((u) => [u.id, u.displayName]));
 }
 
 /** The photo's upright size, or 400/413 saying what is wrong with it. */

@@ -10,10 +10,11 @@ import { AppError, conflict, forbidden, notFound } from '../../core/app-error';
 import { ReadCache } from '../../core/read-cache';
 import { hashToken, newToken } from '../../core/tokens';
 import { record } from '../activity/activity.model';
-import { Artwork } from '../artworks/artwork.model';
-import { User } from '../auth/user.model';
-import { Membership } from '../studios/membership.model';
-import { Studio } from '../studios/studio.model';
+import type { Artwork } from '../artworks/artwork.model';
+import type { ArtworksService } from '../artworks/artworks.service';
+import { displayNames } from '../auth/display-names';
+import { roleIn } from '../studios/membership-lookup';
+import { studioName } from '../studios/studios.service';
 import { Preset, PresetRevision, ShareLink } from './preset.model';
 
 /** Who is acting, in which studio, with which role. */
@@ -23,18 +24,16 @@ export interface Actor {
   role: Role;
 }
 
-/** Display names by user id; inside a transaction it must be given, so a request holds one connection at most. */
-const names = async (ids: (string | null)[], transaction?: Transaction): Promise<Map<string, string>> => {
-  const list = [...new Set(ids.filter((i): i is string => !!i))];
-  const users = list.length ? await User.findAll({ where: { id: list }, attributes: ['id', 'displayName'], transaction }) : [];
-  return new Map(users.map((u) => [u.id, u.displayName]));
-};
-
 /** Studio presets: revisions on every save, optimistic concurrency, reference lock, share links. */
 /** Pages of a studio's preset list, served from memory for a few seconds; emptied by any write to presets, studios or users (server/db/models.ts). */
 export const presetListCache = new ReadCache<{ presets: PresetDto[]; total: number }>('preset-lists', 5_000, { maxEntries: 2_000 });
 
 export class PresetsService {
+  constructor(
+    /** The studio's library: a share link shows a look on one of its artworks. */
+    private readonly artworks: Pick<ArtworksService, 'pick'>,
+  ) {}
+
   list(
     studioId: string,
     q: { panelTypeId?: string; search?: string; sort: string; page: number; pageSize: number },
@@ -54,13 +53,13 @@ export class PresetsService {
     const dir = q.sort.startsWith('-') ? 'DESC' : 'ASC';
     const order: Order = q.sort.endsWith('name') ? [['name', dir]] : [['updatedAt', dir]];
     const { rows, count } = await Preset.findAndCountAll({ where, order, limit: q.pageSize, offset: q.page * q.pageSize });
-    const who = await names(rows.map((r) => r.updatedById));
+    const who = await displayNames(rows.map((r) => r.updatedById));
     return { presets: rows.map((r) => this.dto(r, who)), total: count };
   }
 
   async get(studioId: string, id: string): Promise<PresetDto> {
     const row = await this.row(studioId, id);
-    return this.dto(row, await names([row.updatedById]));
+    return this.dto(row, await displayNames([row.updatedById]));
   }
 
   /**
@@ -94,7 +93,7 @@ export class PresetsService {
         { transaction },
       );
       await record(actor.studioId, actor.userId, `preset.${how}`, `${how} preset “${row.name}”`, transaction);
-      return this.dto(row, await names([actor.userId], transaction));
+      return this.dto(row, await displayNames([actor.userId], transaction));
     });
   }
 
@@ -161,17 +160,17 @@ export class PresetsService {
       'preset.reference',
       `${isReference ? 'locked' : 'unlocked'} preset “${row.name}” as the reference look`,
     );
-    return this.dto(row, await names([row.updatedById]));
+    return this.dto(row, await displayNames([row.updatedById]));
   }
 
   /** Copies a preset into another studio where the caller is an editor or owner. */
   async duplicate(actor: Actor, id: string, targetStudioId: string, name?: string): Promise<PresetDto> {
     const row = await this.row(actor.studioId, id);
-    const membership = await Membership.findOne({ where: { studioId: targetStudioId, userId: actor.userId } });
-    if (!membership) throw notFound('The target studio');
-    if (!roleAtLeast(membership.role, 'editor')) throw forbidden('You need to be an editor in the target studio.');
+    const role = await roleIn(targetStudioId, actor.userId);
+    if (!role) throw notFound('The target studio');
+    if (!roleAtLeast(role, 'editor')) throw forbidden('You need to be an editor in the target studio.');
     return this.create(
-      { studioId: targetStudioId, userId: actor.userId, role: membership.role },
+      { studioId: targetStudioId, userId: actor.userId, role },
       { name: name ?? `${row.name} (copy)`, panelTypeId: row.panelTypeId, parameters: row.parameters },
       { message: 'Duplicated', numberName: true, how: 'copied' },
     );
@@ -180,7 +179,7 @@ export class PresetsService {
   async revisions(studioId: string, id: string): Promise<PresetRevisionDto[]> {
     await this.row(studioId, id);
     const rows = await PresetRevision.findAll({ where: { presetId: id }, order: [['revision', 'DESC']] });
-    const who = await names(rows.map((r) => r.authorId));
+    const who = await displayNames(rows.map((r) => r.authorId));
     return rows.map((r) => ({
       revision: r.revision,
       name: r.name,
@@ -205,9 +204,7 @@ export class PresetsService {
   async createLink(actor: Actor, id: string, body: { artworkId?: string; expiresInDays?: number }, appUrl: string): Promise<ShareLinkDto> {
     const row = await this.row(actor.studioId, id);
     // A link always shows the look on a picture: the chosen artwork, else the studio's newest.
-    const artwork = body.artworkId
-      ? await Artwork.findOne({ where: { id: body.artworkId, studioId: actor.studioId } })
-      : await Artwork.findOne({ where: { studioId: actor.studioId }, order: [['createdAt', 'DESC']] });
+    const artwork = await this.artworks.pick(actor.studioId, body.artworkId);
     if (body.artworkId && !artwork) throw notFound('The artwork');
     if (!artwork)
       throw new AppError(
@@ -266,16 +263,15 @@ export class PresetsService {
     if (!link || link.revokedAt || (link.expiresAt && link.expiresAt.getTime() < Date.now())) throw notFound('The shared look');
     const preset = await Preset.findByPk(link.presetId);
     if (!preset) throw notFound('The shared look');
-    const studio = await Studio.findByPk(preset.studioId);
+    const studio = await studioName(preset.studioId);
     // The link's artwork, or — when it was deleted since — the studio's newest, so a client never gets a look without a picture.
     const artwork =
-      (link.artworkId ? await Artwork.findOne({ where: { id: link.artworkId, studioId: preset.studioId } }) : null) ??
-      (await Artwork.findOne({ where: { studioId: preset.studioId }, order: [['createdAt', 'DESC']] }));
+      (link.artworkId ? await this.artworks.pick(preset.studioId, link.artworkId) : null) ?? (await this.artworks.pick(preset.studioId));
     return {
       artwork,
       view: {
         preset: { name: preset.name, panelTypeId: preset.panelTypeId, parameters: preset.parameters, revision: preset.revision },
-        studioName: studio?.name ?? '',
+        studioName: studio ?? '',
         artwork: artwork
           ? { name: artwork.name, width: artwork.width, height: artwork.height, frameCount: artwork.frameCount, delaysMs: artwork.delaysMs }
           : null,
@@ -316,7 +312,7 @@ export class PresetsService {
       })`,
       transaction,
     );
-    return this.dto(row, await names([actor.userId], transaction));
+    return this.dto(row, await displayNames([actor.userId], transaction));
   }
 
   /** The names of the studio's presets, lower-cased (names are unique per studio, case aside). */
@@ -347,7 +343,7 @@ export class PresetsService {
 
   private async stale(row: Preset, base: number, transaction?: Transaction): Promise<Error> {
     const message = `Someone saved revision ${row.revision} since you opened revision ${base}. Merge your changes into it and save again.`;
-    return conflict('stale_revision', message, { current: this.dto(row, await names([row.updatedById], transaction)) });
+    return conflict('stale_revision', message, { current: this.dto(row, await displayNames([row.updatedById], transaction)) });
   }
 
   private assertMayChange(row: Preset, actor: Actor): void {

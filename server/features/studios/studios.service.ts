@@ -40,6 +40,11 @@ const inviteDto = (i: Invite): InviteDto => ({
   createdAt: i.createdAt.toISOString(),
 });
 
+/** A studio's name, or null when it is gone (what a share link's page says the look is from). */
+export async function studioName(studioId: string): Promise<string | null> {
+  return (await Studio.findByPk(studioId, { attributes: ['name'] }))?.name ?? null;
+}
+
 /** Studios, their members and invitations. */
 export class StudiosService {
   constructor(
