@@ -1,4 +1,11 @@
+import type { HarnessLoader } from '@angular/cdk/testing';
+import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
 import { Component, signal } from '@angular/core';
+import { MatButtonHarness } from '@angular/material/button/testing';
+import { MatExpansionPanelHarness } from '@angular/material/expansion/testing';
+import { MatSelectHarness } from '@angular/material/select/testing';
+import { MatSliderHarness } from '@angular/material/slider/testing';
+import { MatSlideToggleHarness } from '@angular/material/slide-toggle/testing';
 import { TestBed } from '@angular/core/testing';
 import { BUILT_IN_PRESETS } from '../../../../shared/model/panel-types';
 import type { PanelParams } from '../../../../shared/model/parameters';
@@ -80,5 +87,56 @@ describe('ParamControls (issue "Workflow", item 2)', () => {
     expect(field(el, 'drive-grayLevels').readOnly).toBe(true);
     expect(field(el, 'drive-grayLevels').value).toBe('6');
     expect(el.querySelector('#drive-grayLevels-lock')!.textContent).toContain('Set by the duty table');
+  });
+});
+
+describe('ParamControls through Material harnesses (issue "Craft", item 8)', () => {
+  let loader: HarnessLoader;
+  let host: Host;
+  beforeEach(async () => {
+    TestBed.configureTestingModule({ imports: [Host] });
+    const fixture = TestBed.createComponent(Host);
+    loader = TestbedHarnessEnvironment.loader(fixture);
+    host = fixture.componentInstance;
+    await fixture.whenStable();
+  });
+
+  test('one panel a group, in the order of the light; the first, Glass and Drive open', async () => {
+    const panels = await loader.getAllHarnesses(MatExpansionPanelHarness);
+    const titles = await Promise.all(panels.map((p) => p.getTitle()));
+    expect(titles).toEqual(['Source', 'Drive', 'Cell', 'Emission', 'Glass', 'Viewing']);
+    const open = await Promise.all(panels.map((p) => p.isExpanded()));
+    expect(titles.filter((_, k) => open[k])).toEqual(['Source', 'Drive', 'Glass']);
+  });
+
+  test('a choice is picked by its label and stored as its value', async () => {
+    const dither = await loader.getHarness(MatSelectHarness.with({ selector: '#drive-dither' }));
+    await dither.open();
+    const labels = await Promise.all((await dither.getOptions()).map((o) => o.getText()));
+    expect(labels).toContain('Error diffusion (Floyd–Steinberg)');
+    await dither.clickOptions({ text: 'Error diffusion (Floyd–Steinberg)' });
+    expect(host.params().drive.dither).toBe('floyd-steinberg');
+    expect(await dither.getValueText()).toBe('Error diffusion (Floyd–Steinberg)');
+  });
+
+  test('a switch sets a yes/no parameter, and the group can then be reset', async () => {
+    const reset = await loader.getHarness(MatButtonHarness.with({ text: /Reset Source/ }));
+    expect(await reset.isDisabled()).toBe(true);
+    const invert = await loader.getHarness(MatSlideToggleHarness.with({ label: 'Invert' }));
+    await invert.toggle();
+    expect(host.params().source.invert).toBe(!BUILT_IN_PRESETS[0].parameters.source.invert);
+    expect(await reset.isDisabled()).toBe(false);
+    await reset.click();
+    expect(host.params().source).toEqual(BUILT_IN_PRESETS[0].parameters.source);
+    expect(await invert.isChecked()).toBe(BUILT_IN_PRESETS[0].parameters.source.invert);
+  });
+
+  test('a slider moves its parameter within the range, and the number box beside it follows', async () => {
+    const slider = await loader.getHarness(MatSliderHarness.with({ selector: ':has(input[aria-label="Glow share"])' }));
+    expect(await slider.getMaxValue()).toBe(0.9);
+    const thumb = await slider.getEndThumb();
+    await thumb.setValue(0.45);
+    expect(host.params().glass.glowShare).toBe(0.45);
+    expect((document.querySelector('#glass-glowShare') as HTMLInputElement).value).toBe('0.45');
   });
 });
