@@ -3,6 +3,9 @@
 // (jest-preset-angular, zoneless).
 const { createCjsPreset } = require('jest-preset-angular/presets');
 
+/** The `@shared/…` alias of tsconfig.json's paths, for code outside shared/. */
+const moduleNameMapper = { '^@shared/(.*)$': '<rootDir>/shared/$1' };
+
 /** @type {import('jest').Config} */
 module.exports = {
   testTimeout: 30000,
@@ -28,6 +31,7 @@ module.exports = {
       // pixelmatch is an ES module only: let ts-jest transform it.
       transformIgnorePatterns: ['/node_modules/(?!(pixelmatch|colorjs\\.io)/)'],
       globalSetup: '<rootDir>/server/testing/global-setup.ts',
+      moduleNameMapper,
     },
     {
       displayName: 'client',
@@ -35,6 +39,7 @@ module.exports = {
       roots: ['<rootDir>/src'],
       testMatch: ['**/*.spec.ts'],
       setupFilesAfterEnv: ['<rootDir>/src/test-setup.ts'],
+      moduleNameMapper,
     },
   ],
 };

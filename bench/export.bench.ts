@@ -2,7 +2,7 @@
 // export job makes it (the render pool, then the sheet put together and encoded), against one
 // pooled reference render. A benchmark, not a test: a table, then one JSON line of figures.
 import os from 'node:os';
-import { builtInPresetById, panelTypeById } from '../shared/model/panel-types';
+import { builtInPresetById, panelTypeById } from '@shared/model/panel-types';
 import type { SheetSpec } from '../server/features/exports/export.model';
 import { makeSheet } from '../server/features/exports/sheet-cells';
 import { RenderEngine } from '../server/render/render-engine';

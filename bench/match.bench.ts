@@ -1,11 +1,11 @@
 // Panel match: the time to fit a 640 × 480 panel type to a photo of its match pattern (a synthetic
 // photo made from the pipeline, about 4.5 photo pixels a cell), stage by stage.
 import os from 'node:os';
-import { fitPanel } from '../shared/match/fit';
-import { patternFor } from '../shared/match/pattern';
-import { panelTypeById } from '../shared/model/panel-types';
-import { mergeParams } from '../shared/model/parameters';
-import { syntheticPhoto } from '../shared/testing/synthetic-photo';
+import { fitPanel } from '@shared/match/fit';
+import { patternFor } from '@shared/match/pattern';
+import { panelTypeById } from '@shared/model/panel-types';
+import { mergeParams } from '@shared/model/parameters';
+import { syntheticPhoto } from '@shared/testing/synthetic-photo';
 import { median } from './timing';
 
 const RUNS = 3;

@@ -1,15 +1,15 @@
 // `npm run bench:render`: reference render timing (a benchmark, not a test). Prints a table and,
 // as the last line, one JSON object of figures.
 import sharp from 'sharp';
-import { builtInPresetById } from '../shared/model/panel-types';
-import { mergeParams, type PanelParams } from '../shared/model/parameters';
+import { builtInPresetById } from '@shared/model/panel-types';
+import { mergeParams, type PanelParams } from '@shared/model/parameters';
 import { decodeImage } from '../server/render/decode';
 import { encodePng } from '../server/render/encode';
 import { RenderEngine, type RenderRequest } from '../server/render/render-engine';
-import { renderCpu } from '../shared/pipeline/render';
-import { panelEmission, panelGlow } from '../shared/pipeline/render';
-import { compose } from '../shared/pipeline/output/compose';
-import { outputUniforms } from '../shared/pipeline/output/uniforms';
+import { renderCpu } from '@shared/pipeline/render';
+import { panelEmission, panelGlow } from '@shared/pipeline/render';
+import { compose } from '@shared/pipeline/output/compose';
+import { outputUniforms } from '@shared/pipeline/output/uniforms';
 import { pngOf } from '../server/testing/images';
 import { medianMs } from './timing';
 

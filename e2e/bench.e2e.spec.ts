@@ -1,6 +1,6 @@
 import type { Page } from '@playwright/test';
-import { readPngText } from '../shared/api/png-text';
-import { PANEL_TYPES } from '../shared/model/panel-types';
+import { readPngText } from '@shared/api/png-text';
+import { PANEL_TYPES } from '@shared/model/panel-types';
 import { choose, draws, drift, studioIdOf, thirdPartyArtworks, uploadArtwork, waitForDraw, type Drift } from './bench-helpers';
 
 /**

@@ -1,7 +1,7 @@
 import { PNG } from 'pngjs';
 import sharp from 'sharp';
 import type { Page } from '@playwright/test';
-import { sheetGeometry } from '../shared/export/sheet';
+import { sheetGeometry } from '@shared/export/sheet';
 import { choose, studioIdOf } from './bench-helpers';
 import { expect, signIn, test } from './fixtures';
 

@@ -1,6 +1,6 @@
 import { writeFile } from 'node:fs/promises';
-import { handheldShot } from '../shared/testing/match-fixtures';
-import { syntheticPhoto } from '../shared/testing/synthetic-photo';
+import { handheldShot } from '@shared/testing/match-fixtures';
+import { syntheticPhoto } from '@shared/testing/synthetic-photo';
 import { choose } from './bench-helpers';
 import { expect, signIn, test } from './fixtures';
 

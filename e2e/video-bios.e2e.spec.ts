@@ -1,6 +1,6 @@
 import type { Page } from '@playwright/test';
-import { syntheticRom } from '../shared/drive/sample-rom';
-import { readRom } from '../shared/drive/vga-rom';
+import { syntheticRom } from '@shared/drive/sample-rom';
+import { readRom } from '@shared/drive/vga-rom';
 import { choose, studioIdOf } from './bench-helpers';
 import { expect, signIn, test } from './fixtures';
 

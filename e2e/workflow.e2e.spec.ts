@@ -1,6 +1,6 @@
 import AxeBuilder from '@axe-core/playwright';
 import type { Page } from '@playwright/test';
-import { PANEL_TYPES } from '../shared/model/panel-types';
+import { PANEL_TYPES } from '@shared/model/panel-types';
 import { choose, studioIdOf, uploadArtwork, waitForDraw } from './bench-helpers';
 import { expect, signIn, test } from './fixtures';
 import { pngOf } from '../server/testing/images';

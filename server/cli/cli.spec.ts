@@ -3,12 +3,12 @@ import os from 'node:os';
 import path from 'node:path';
 import { PNG } from 'pngjs';
 import sharp from 'sharp';
-import { bandChromaticity } from '../../shared/testing/band-chromaticity';
+import { bandChromaticity } from '@shared/testing/band-chromaticity';
 import { main } from './main';
 import { pngOf } from '../testing/images';
-import { syntheticRom } from '../../shared/drive/sample-rom';
-import { builtInPresetById } from '../../shared/model/panel-types';
-import { mergeParams } from '../../shared/model/parameters';
+import { syntheticRom } from '@shared/drive/sample-rom';
+import { builtInPresetById } from '@shared/model/panel-types';
+import { mergeParams } from '@shared/model/parameters';
 
 /** Runs the CLI in-process and captures what it prints. */
 async function cli(...argv: string[]): Promise<{ code: number; out: string; err: string }> {

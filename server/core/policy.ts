@@ -1,5 +1,5 @@
 import type { Request, RequestHandler } from 'express';
-import { roleAtLeast, type Role } from '../../shared/model/roles';
+import { roleAtLeast, type Role } from '@shared/model/roles';
 import { forbidden, notFound, unauthenticated } from './app-error';
 
 /** Who may call a route. Every /api route declares one; a route without one is a test failure. */

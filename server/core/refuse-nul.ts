@@ -1,5 +1,5 @@
 import type { RequestHandler } from 'express';
-import { hasNul } from '../../shared/api/text.schema';
+import { hasNul } from '@shared/api/text.schema';
 import { AppError } from './app-error';
 
 /** The dotted path of the first string holding a NUL character, or null. */

@@ -2,7 +2,7 @@ import sharp from 'sharp';
 import { newToken } from './tokens';
 import { signDownload } from './signed-links';
 import { POLICY } from './policy';
-import { BUILT_IN_PRESETS } from '../../shared/model/panel-types';
+import { BUILT_IN_PRESETS } from '@shared/model/panel-types';
 import { EmailVerification } from '../features/auth/email-verification.model';
 import { PasswordReset } from '../features/auth/password-reset.model';
 import { Invite } from '../features/studios/invite.model';
@@ -12,7 +12,7 @@ import { FileStore } from '../storage/file-store';
 import { Membership } from '../features/studios/membership.model';
 import { createHarness, TestClient, uniqueEmail, type Harness } from '../testing/harness';
 import { pngOf } from '../testing/images';
-import { syntheticRom } from '../../shared/drive/sample-rom';
+import { syntheticRom } from '@shared/drive/sample-rom';
 import { ACTORS, createStudioWorld, createUsers, TIMING_BODY, WORLD_PASSWORD, type Actor, type WorldUsers } from '../testing/world';
 
 /**

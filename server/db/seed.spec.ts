@@ -1,7 +1,7 @@
 import { Membership } from '../features/studios/membership.model';
 import { Studio } from '../features/studios/studio.model';
 import { createHarness, TestClient, type Harness } from '../testing/harness';
-import { readRom } from '../../shared/drive/vga-rom';
+import { readRom } from '@shared/drive/vga-rom';
 import { VideoRom } from '../features/roms/rom.model';
 import { DEMO_ACCOUNTS, DEMO_MARKER, DEMO_ROM_ID, DEMO_ROM_MARKER, DEMO_STUDIO, DEMO_STUDIO_ID, seedDemo } from './seed';
 

@@ -1,12 +1,12 @@
 import type { Sequelize, Transaction } from 'sequelize';
-import type { Role } from '../../shared/model/roles';
+import type { Role } from '@shared/model/roles';
 import { hashPassword } from '../features/auth/password';
 import { User } from '../features/auth/user.model';
 import { Membership } from '../features/studios/membership.model';
 import { Studio } from '../features/studios/studio.model';
 import type { ArtworksService } from '../features/artworks/artworks.service';
 import { createHash } from 'node:crypto';
-import { syntheticRom } from '../../shared/drive/sample-rom';
+import { syntheticRom } from '@shared/drive/sample-rom';
 import { VideoRom } from '../features/roms/rom.model';
 import { SavedTiming } from '../features/timings/timing.model';
 import { demoArtworks } from './demo-art';

@@ -1,6 +1,6 @@
 import sharp, { type Metadata, type OutputInfo } from 'sharp';
-import { checkSpriteSheet, SHEET_LIMITS, sliceSpriteSheet, type SpriteSheet } from '../../shared/pipeline/sprite-sheet';
-import type { Frame } from '../../shared/pipeline/types';
+import { checkSpriteSheet, SHEET_LIMITS, sliceSpriteSheet, type SpriteSheet } from '@shared/pipeline/sprite-sheet';
+import type { Frame } from '@shared/pipeline/types';
 import { AppError } from '../core/app-error';
 
 /** Upload limits: enforced before any pixel is decoded. */

@@ -1,5 +1,5 @@
 import sharp from 'sharp';
-import type { RgbaImage } from '../../shared/pipeline/types';
+import type { RgbaImage } from '@shared/pipeline/types';
 
 /**
  * Opaque RGBA → RGB PNG with sharp, fast compression (renders are large and re-encoded rarely).

@@ -1,17 +1,17 @@
-import type { PanelParams } from '../../shared/model/parameters';
-import { compose, glowRowsFor, type RowBand } from '../../shared/pipeline/output/compose';
-import { outputUniforms } from '../../shared/pipeline/output/uniforms';
-import { componentAcross, componentDown, glowComponents, glowFieldSize, glowPlan, sumComponents } from '../../shared/pipeline/glow/glow';
-import { panelEmission } from '../../shared/pipeline/render';
-import { GLOW_SLOT, scratchArray } from '../../shared/pipeline/scratch';
-import type { Field, Frame } from '../../shared/pipeline/types';
-import { fitPanel, MatchRefusal, type MatchInput, type MatchResult } from '../../shared/match/fit';
+import type { PanelParams } from '@shared/model/parameters';
+import { compose, glowRowsFor, type RowBand } from '@shared/pipeline/output/compose';
+import { outputUniforms } from '@shared/pipeline/output/uniforms';
+import { componentAcross, componentDown, glowComponents, glowFieldSize, glowPlan, sumComponents } from '@shared/pipeline/glow/glow';
+import { panelEmission } from '@shared/pipeline/render';
+import { GLOW_SLOT, scratchArray } from '@shared/pipeline/scratch';
+import type { Field, Frame } from '@shared/pipeline/types';
+import { fitPanel, MatchRefusal, type MatchInput, type MatchResult } from '@shared/match/fit';
 import type { MessagePort } from 'node:worker_threads';
-import { encode8 } from '../../shared/color/srgb';
-import { solveHomography, type Point } from '../../shared/match/homography';
-import { patternFor } from '../../shared/match/pattern';
-import { linearise, rectify } from '../../shared/match/photo';
-import type { RgbaImage } from '../../shared/pipeline/types';
+import { encode8 } from '@shared/color/srgb';
+import { solveHomography, type Point } from '@shared/match/homography';
+import { patternFor } from '@shared/match/pattern';
+import { linearise, rectify } from '@shared/match/photo';
+import type { RgbaImage } from '@shared/pipeline/types';
 
 /**
  * The tasks the render pool's worker threads run. Large arrays live in SharedArrayBuffers, so

@@ -1,8 +1,8 @@
 import { createHash } from 'node:crypto';
 import sharp from 'sharp';
-import { builtInPresetById } from '../../shared/model/panel-types';
-import { mergeParams } from '../../shared/model/parameters';
-import { renderCpu } from '../../shared/pipeline/render';
+import { builtInPresetById } from '@shared/model/panel-types';
+import { mergeParams } from '@shared/model/parameters';
+import { renderCpu } from '@shared/pipeline/render';
 import { pngOf } from '../testing/images';
 import { decodeImage } from './decode';
 import { RenderEngine } from './render-engine';

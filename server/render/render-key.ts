@@ -1,5 +1,5 @@
 import { createHash } from 'node:crypto';
-import { PIPELINE_VERSION } from '../../shared/pipeline/render';
+import { PIPELINE_VERSION } from '@shared/pipeline/render';
 import type { RenderRequest } from './render-engine';
 
 /**

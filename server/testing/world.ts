@@ -1,4 +1,4 @@
-import type { Role } from '../../shared/model/roles';
+import type { Role } from '@shared/model/roles';
 import { newToken } from '../core/tokens';
 import { hashPassword } from '../features/auth/password';
 import { User } from '../features/auth/user.model';
@@ -7,7 +7,7 @@ import { Membership } from '../features/studios/membership.model';
 import { Studio } from '../features/studios/studio.model';
 import { SavedTiming } from '../features/timings/timing.model';
 import { VideoRom } from '../features/roms/rom.model';
-import { syntheticRom } from '../../shared/drive/sample-rom';
+import { syntheticRom } from '@shared/drive/sample-rom';
 import { PresetsService } from '../features/presets/presets.service';
 import os from 'node:os';
 import path from 'node:path';

@@ -1,5 +1,5 @@
-import type { ActivityDto } from '../../../shared/api/dto';
-import { activityQuerySchema } from '../../../shared/api/studio.schema';
+import type { ActivityDto } from '@shared/api/dto';
+import { activityQuerySchema } from '@shared/api/studio.schema';
 import { ApiRouter } from '../../core/api-router';
 import { studioRole } from '../../core/policy';
 import { displayNames } from '../auth/display-names';

@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import type { SpriteSheet } from '../../../shared/pipeline/sprite-sheet';
+import type { SpriteSheet } from '@shared/pipeline/sprite-sheet';
 
 /** An uploaded artwork (still, animation or sprite sheet). */
 export class Artwork extends Model<InferAttributes<Artwork>, InferCreationAttributes<Artwork>> {

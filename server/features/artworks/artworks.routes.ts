@@ -1,5 +1,5 @@
 import type { Request } from 'express';
-import { artworkListQuerySchema, renameArtworkSchema, studioRenderSchema, uploadFieldsSchema } from '../../../shared/api/artwork.schema';
+import { artworkListQuerySchema, renameArtworkSchema, studioRenderSchema, uploadFieldsSchema } from '@shared/api/artwork.schema';
 import { ApiRouter } from '../../core/api-router';
 import { idParam, studioRole } from '../../core/policy';
 import { resolveParameters, type RendersService } from '../renders/renders.service';

@@ -1,9 +1,9 @@
 import { randomUUID } from 'node:crypto';
 import sharp from 'sharp';
 import { Op, type Order, type Transaction } from 'sequelize';
-import type { ArtworkDto } from '../../../shared/api/dto';
-import type { SpriteSheet } from '../../../shared/pipeline/sprite-sheet';
-import type { Frame } from '../../../shared/pipeline/types';
+import type { ArtworkDto } from '@shared/api/dto';
+import type { SpriteSheet } from '@shared/pipeline/sprite-sheet';
+import type { Frame } from '@shared/pipeline/types';
 import { AppError, notFound } from '../../core/app-error';
 import { ReadCache } from '../../core/read-cache';
 import { decodeImage, framesOf } from '../../render/decode';
@@ -11,7 +11,7 @@ import { BlobNotFound } from '../../storage/blob-store';
 import type { FileStore } from '../../storage/file-store';
 import { record } from '../activity/activity.model';
 import { Artwork } from './artwork.model';
-import { withoutControls } from '../../../shared/api/text.schema';
+import { withoutControls } from '@shared/api/text.schema';
 
 const FOLDER = 'artworks';
 const THUMB_PX = 256;

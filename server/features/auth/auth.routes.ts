@@ -8,7 +8,7 @@ import {
   signInSchema,
   signUpSchema,
   verifyEmailSchema,
-} from '../../../shared/api/auth.schema';
+} from '@shared/api/auth.schema';
 import { ApiRouter } from '../../core/api-router';
 import { AppError } from '../../core/app-error';
 import { publicAccess, signedIn } from '../../core/policy';

@@ -1,5 +1,5 @@
 import { Op, type Sequelize } from 'sequelize';
-import type { SignUpBody } from '../../../shared/api/auth.schema';
+import type { SignUpBody } from '@shared/api/auth.schema';
 import { AppError, conflict } from '../../core/app-error';
 import { hashToken, newToken } from '../../core/tokens';
 import type { MailOutbox } from '../../mail/outbox';
@@ -9,7 +9,7 @@ import { decoyPasswordHash, hashPassword, verifyPassword } from './password';
 import { PasswordReset } from './password-reset.model';
 import { endSessionsOf } from './sessions';
 import { sessionCache } from '../../core/session';
-import type { UserDto } from '../../../shared/api/dto';
+import type { UserDto } from '@shared/api/dto';
 import { accountKey, type SignInThrottle } from './sign-in-throttle';
 import { User } from './user.model';
 

@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import type { UserDto } from '../../../shared/api/dto';
+import type { UserDto } from '@shared/api/dto';
 
 /** An account. E-mail is stored lower-cased and is the sign-in name. */
 export class User extends Model<InferAttributes<User>, InferCreationAttributes<User>> {

@@ -1,10 +1,10 @@
 import { applyPalette, GIFEncoder, quantize } from 'gifenc';
 import UPNG from 'upng-js';
-import type { ExportFlash, ExportFormat } from '../../../shared/api/export.schema';
-import { flashCheck } from '../../../shared/analysis/flash-check';
-import { PIPELINE_VERSION } from '../../../shared/pipeline/render';
-import type { SpriteSheet } from '../../../shared/pipeline/sprite-sheet';
-import type { Frame, RgbaImage } from '../../../shared/pipeline/types';
+import type { ExportFlash, ExportFormat } from '@shared/api/export.schema';
+import { flashCheck } from '@shared/analysis/flash-check';
+import { PIPELINE_VERSION } from '@shared/pipeline/render';
+import type { SpriteSheet } from '@shared/pipeline/sprite-sheet';
+import type { Frame, RgbaImage } from '@shared/pipeline/types';
 import type { RenderRequest } from '../../render/render-engine';
 import type { AnimationSpec } from './export.model';
 import { lookManifest } from './export-files';

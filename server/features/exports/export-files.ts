@@ -1,5 +1,5 @@
-import type { ExportFormat, ExportKind } from '../../../shared/api/export.schema';
-import { PRESET_FORMAT } from '../../../shared/api/preset.schema';
+import type { ExportFormat, ExportKind } from '@shared/api/export.schema';
+import { PRESET_FORMAT } from '@shared/api/preset.schema';
 import type { LookSpec } from './export.model';
 
 /** The files an export leaves, by format: the stored name, the content type, what people read. */

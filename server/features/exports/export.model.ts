@@ -1,7 +1,7 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import type { ExportDto, ExportFlash, ExportKind, ExportStatus } from '../../../shared/api/export.schema';
-import type { SheetLayout } from '../../../shared/export/sheet';
-import type { PanelParams } from '../../../shared/model/parameters';
+import type { ExportDto, ExportFlash, ExportKind, ExportStatus } from '@shared/api/export.schema';
+import type { SheetLayout } from '@shared/export/sheet';
+import type { PanelParams } from '@shared/model/parameters';
 
 /** A look as a request froze it: a preset's parameters at its revision then. */
 export interface LookSpec {

@@ -1,5 +1,5 @@
 import type { Request } from 'express';
-import { animationRequestSchema, exportFileQuerySchema, exportLinkSchema, sheetRequestSchema } from '../../../shared/api/export.schema';
+import { animationRequestSchema, exportFileQuerySchema, exportLinkSchema, sheetRequestSchema } from '@shared/api/export.schema';
 import { ApiRouter, type StudioCaller } from '../../core/api-router';
 import { AppError } from '../../core/app-error';
 import { idParam, publicAccess, studioRole } from '../../core/policy';

@@ -9,11 +9,11 @@ import {
   type ExportLinkDto,
   type SharedExportDto,
   type SheetRequest,
-} from '../../../shared/api/export.schema';
-import type { SpriteSheet } from '../../../shared/pipeline/sprite-sheet';
-import { LABEL_LINES, MAX_SHEET_PIXELS, REPORT_LINES, sheetGeometry, type SheetLayout } from '../../../shared/export/sheet';
-import type { Role } from '../../../shared/model/roles';
-import type { RgbaImage } from '../../../shared/pipeline/types';
+} from '@shared/api/export.schema';
+import type { SpriteSheet } from '@shared/pipeline/sprite-sheet';
+import { LABEL_LINES, MAX_SHEET_PIXELS, REPORT_LINES, sheetGeometry, type SheetLayout } from '@shared/export/sheet';
+import type { Role } from '@shared/model/roles';
+import type { RgbaImage } from '@shared/pipeline/types';
 import { AppError, forbidden, notFound } from '../../core/app-error';
 import type { SignedDownload } from '../../core/signed-links';
 import { QUEUES, WORKER_NAME, type JobQueue } from '../../jobs/job-queue';

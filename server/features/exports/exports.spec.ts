@@ -1,14 +1,14 @@
 import { strFromU8, unzipSync } from 'fflate';
 import sharp from 'sharp';
 import pixelmatch from 'pixelmatch';
-import { sheetGeometry } from '../../../shared/export/sheet';
+import { sheetGeometry } from '@shared/export/sheet';
 import { QUEUES } from '../../jobs/job-queue';
 import { createHarness, TestClient, type Harness } from '../../testing/harness';
 import { pngOf } from '../../testing/images';
 import { Membership } from '../studios/membership.model';
 import { Export, ExportLink } from './export.model';
 import { cellReport } from './sheet-cells';
-import { builtInPresetById } from '../../../shared/model/panel-types';
+import { builtInPresetById } from '@shared/model/panel-types';
 import type { ExportJob } from './exports.service';
 
 let h: Harness;

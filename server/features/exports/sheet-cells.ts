@@ -1,22 +1,15 @@
-import {
-  composeSheet,
-  differenceMap,
-  fitNearest,
-  SHEET_LAYOUT_LABELS,
-  type SheetCell,
-  type SheetInput,
-} from '../../../shared/export/sheet';
-import { PARAMS, type EnumSpec } from '../../../shared/model/parameters';
-import { legibility, lightFigures } from '../../../shared/analysis/panel-report';
-import { panelEmission, PIPELINE_VERSION } from '../../../shared/pipeline/render';
-import type { SpriteSheet } from '../../../shared/pipeline/sprite-sheet';
-import type { Frame, RgbaImage } from '../../../shared/pipeline/types';
+import { composeSheet, differenceMap, fitNearest, SHEET_LAYOUT_LABELS, type SheetCell, type SheetInput } from '@shared/export/sheet';
+import { PARAMS, type EnumSpec } from '@shared/model/parameters';
+import { legibility, lightFigures } from '@shared/analysis/panel-report';
+import { panelEmission, PIPELINE_VERSION } from '@shared/pipeline/render';
+import type { SpriteSheet } from '@shared/pipeline/sprite-sheet';
+import type { Frame, RgbaImage } from '@shared/pipeline/types';
 import { encodePng } from '../../render/encode';
 import type { RenderRequest } from '../../render/render-engine';
-import type { ExportDto, ExportFormat } from '../../../shared/api/export.schema';
+import type { ExportDto, ExportFormat } from '@shared/api/export.schema';
 import type { SheetSpec } from './export.model';
 import { rendersZip, sheetPdf, type CellReport } from './sheet-files';
-import { levelCount } from '../../../shared/pipeline/levels/spacing';
+import { levelCount } from '@shared/pipeline/levels/spacing';
 
 const ditherLabel = (PARAMS.find((p) => p.key === 'dither') as EnumSpec).optionLabels;
 const plural = (n: number, one: string) => `${n} ${one}${n === 1 ? '' : 's'}`;

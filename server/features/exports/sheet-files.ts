@@ -3,10 +3,10 @@ import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { inflateSync } from 'node:zlib';
 import PDFDocument from 'pdfkit';
-import type { LightFrame } from '../../../shared/analysis/panel-report';
-import type { ExportDto } from '../../../shared/api/export.schema';
-import { SHEET_LAYOUT_LABELS } from '../../../shared/export/sheet';
-import { PIPELINE_VERSION } from '../../../shared/pipeline/render';
+import type { LightFrame } from '@shared/analysis/panel-report';
+import type { ExportDto } from '@shared/api/export.schema';
+import { SHEET_LAYOUT_LABELS } from '@shared/export/sheet';
+import { PIPELINE_VERSION } from '@shared/pipeline/render';
 import type { SheetSpec } from './export.model';
 import { lookManifest } from './export-files';
 

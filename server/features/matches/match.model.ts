@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import type { MatchResultDto, MatchStatus } from '../../../shared/api/match.schema';
+import type { MatchResultDto, MatchStatus } from '@shared/api/match.schema';
 import type { LookSpec } from '../exports/export.model';
 
 /** A photo of the match pattern on a real panel, its marks, and the fit's state and result. */

@@ -1,5 +1,5 @@
 import type { Request } from 'express';
-import { matchMarksSchema, matchSaveSchema, matchUploadSchema, patternQuerySchema } from '../../../shared/api/match.schema';
+import { matchMarksSchema, matchSaveSchema, matchUploadSchema, patternQuerySchema } from '@shared/api/match.schema';
 import { ApiRouter, type StudioCaller } from '../../core/api-router';
 import { idParam, studioRole } from '../../core/policy';
 import type { MatchesService } from './matches.service';

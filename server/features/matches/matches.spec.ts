@@ -1,10 +1,10 @@
 import sharp from 'sharp';
-import { patternFor } from '../../../shared/match/pattern';
-import { builtInPresetById } from '../../../shared/model/panel-types';
-import { mergeParams, type PanelParams } from '../../../shared/model/parameters';
-import type { MatchResult } from '../../../shared/match/fit';
-import { inWorker } from '../../../shared/testing/in-worker';
-import { HANDHELD_LOOK, handheldShot, type syntheticJpeg } from '../../../shared/testing/match-fixtures';
+import { patternFor } from '@shared/match/pattern';
+import { builtInPresetById } from '@shared/model/panel-types';
+import { mergeParams, type PanelParams } from '@shared/model/parameters';
+import type { MatchResult } from '@shared/match/fit';
+import { inWorker } from '@shared/testing/in-worker';
+import { HANDHELD_LOOK, handheldShot, type syntheticJpeg } from '@shared/testing/match-fixtures';
 import { QUEUES } from '../../jobs/job-queue';
 import { createHarness, TestClient, type Harness } from '../../testing/harness';
 import { pngOf } from '../../testing/images';

@@ -1,5 +1,5 @@
-import { BUILT_IN_PRESETS, PANEL_TYPES } from '../../../shared/model/panel-types';
-import { PARAMS } from '../../../shared/model/parameters';
+import { BUILT_IN_PRESETS, PANEL_TYPES } from '@shared/model/panel-types';
+import { PARAMS } from '@shared/model/parameters';
 import { ApiRouter } from '../../core/api-router';
 import { publicAccess } from '../../core/policy';
 

@@ -1,4 +1,4 @@
-import { builtInPresetById, panelTypeById } from '../../../shared/model/panel-types';
+import { builtInPresetById, panelTypeById } from '@shared/model/panel-types';
 import { AppError } from '../../core/app-error';
 import type { LookSpec } from '../exports/export.model';
 import { Preset } from './preset.model';

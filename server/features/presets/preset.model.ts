@@ -1,6 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import type { PanelParams } from '../../../shared/model/parameters';
-import type { ParamChange } from '../../../shared/model/param-diff';
+import type { PanelParams } from '@shared/model/parameters';
+import type { ParamChange } from '@shared/model/param-diff';
 
 /** A studio's named look for a panel type; `revision` counts its saves. */
 export class Preset extends Model<InferAttributes<Preset>, InferCreationAttributes<Preset>> {

@@ -9,12 +9,12 @@ import {
   restoreSchema,
   shareLinkSchema,
   updatePresetSchema,
-} from '../../../shared/api/preset.schema';
+} from '@shared/api/preset.schema';
 import { ApiRouter, type StudioCaller } from '../../core/api-router';
 import { AppError } from '../../core/app-error';
 import { idParam, publicAccess, studioRole } from '../../core/policy';
 import { issuesOf } from '../../core/validate';
-import { fieldLabel, plainMessage } from '../../../shared/model/param-diff';
+import { fieldLabel, plainMessage } from '@shared/model/param-diff';
 import type { ArtworksService } from '../artworks/artworks.service';
 import type { RendersService } from '../renders/renders.service';
 import type { Actor, PresetsService } from './presets.service';

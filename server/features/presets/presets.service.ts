@@ -1,11 +1,11 @@
 import { Op, type Order, type Transaction } from 'sequelize';
-import type { PresetDto, PresetRevisionDto, SharedViewDto, ShareLinkDto } from '../../../shared/api/dto';
-import type { PresetDocument } from '../../../shared/api/preset.schema';
-import { PRESET_FORMAT } from '../../../shared/api/preset.schema';
-import { changeLabel, paramDiff } from '../../../shared/model/param-diff';
-import { panelTypeById } from '../../../shared/model/panel-types';
-import type { PanelParams } from '../../../shared/model/parameters';
-import { roleAtLeast, type Role } from '../../../shared/model/roles';
+import type { PresetDto, PresetRevisionDto, SharedViewDto, ShareLinkDto } from '@shared/api/dto';
+import type { PresetDocument } from '@shared/api/preset.schema';
+import { PRESET_FORMAT } from '@shared/api/preset.schema';
+import { changeLabel, paramDiff } from '@shared/model/param-diff';
+import { panelTypeById } from '@shared/model/panel-types';
+import type { PanelParams } from '@shared/model/parameters';
+import { roleAtLeast, type Role } from '@shared/model/roles';
 import { AppError, conflict, forbidden, notFound } from '../../core/app-error';
 import { ReadCache } from '../../core/read-cache';
 import { hashToken, newToken } from '../../core/tokens';

@@ -1,8 +1,8 @@
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
-import { presetDocumentJsonSchema } from '../../../shared/api/preset-json-schema';
-import { BUILT_IN_PRESETS } from '../../../shared/model/panel-types';
-import { mergeParams } from '../../../shared/model/parameters';
+import { presetDocumentJsonSchema } from '@shared/api/preset-json-schema';
+import { BUILT_IN_PRESETS } from '@shared/model/panel-types';
+import { mergeParams } from '@shared/model/parameters';
 import { createHarness, TestClient, type Harness } from '../../testing/harness';
 import { pngOf } from '../../testing/images';
 import { Preset, ShareLink } from './preset.model';

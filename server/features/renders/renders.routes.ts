@@ -1,4 +1,4 @@
-import { renderFieldsSchema } from '../../../shared/api/render.schema';
+import { renderFieldsSchema } from '@shared/api/render.schema';
 import { ApiRouter } from '../../core/api-router';
 import { signedIn } from '../../core/policy';
 import { resolveParameters, type RendersService } from './renders.service';

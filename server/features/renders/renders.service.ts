@@ -1,14 +1,8 @@
 import { Op, type Sequelize } from 'sequelize';
 import sharp from 'sharp';
-import type { RenderDto } from '../../../shared/api/render.schema';
-import { builtInPresetById } from '../../../shared/model/panel-types';
-import {
-  mergeParams,
-  panelParamsPatchSchema,
-  panelParamsSchema,
-  type PanelParams,
-  type PanelParamsPatch,
-} from '../../../shared/model/parameters';
+import type { RenderDto } from '@shared/api/render.schema';
+import { builtInPresetById } from '@shared/model/panel-types';
+import { mergeParams, panelParamsPatchSchema, panelParamsSchema, type PanelParams, type PanelParamsPatch } from '@shared/model/parameters';
 import { AppError, notFound } from '../../core/app-error';
 import { parseOrThrow } from '../../core/validate';
 import type { RenderedPng, RenderEngine, RenderRequest } from '../../render/render-engine';

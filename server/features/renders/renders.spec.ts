@@ -1,7 +1,7 @@
 import { PNG } from 'pngjs';
-import { builtInPresetById } from '../../../shared/model/panel-types';
-import { mergeParams } from '../../../shared/model/parameters';
-import { renderCpu } from '../../../shared/pipeline/render';
+import { builtInPresetById } from '@shared/model/panel-types';
+import { mergeParams } from '@shared/model/parameters';
+import { renderCpu } from '@shared/pipeline/render';
 import { createHarness, TestClient, type Harness } from '../../testing/harness';
 import { pngBomb, pngOf } from '../../testing/images';
 import { Render } from './render.model';

@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import type { RomPatchRecord } from '../../../shared/api/dto';
+import type { RomPatchRecord } from '@shared/api/dto';
 
 /** A video option ROM image uploaded to a studio, or patched from one. */
 export class VideoRom extends Model<InferAttributes<VideoRom>, InferCreationAttributes<VideoRom>> {

@@ -1,6 +1,6 @@
 import type { Request } from 'express';
-import { romDetailQuerySchema, romPatchSchema, romUploadFieldsSchema } from '../../../shared/api/rom.schema';
-import { renameArtworkSchema } from '../../../shared/api/artwork.schema';
+import { romDetailQuerySchema, romPatchSchema, romUploadFieldsSchema } from '@shared/api/rom.schema';
+import { renameArtworkSchema } from '@shared/api/artwork.schema';
 import { ApiRouter } from '../../core/api-router';
 import { idParam, studioRole } from '../../core/policy';
 import type { RomsService } from './roms.service';

@@ -1,12 +1,12 @@
 import { createHash } from 'node:crypto';
-import type { RomPatchRecord, VideoRomDetailDto, VideoRomDto } from '../../../shared/api/dto';
-import type { RomPatchBody } from '../../../shared/api/rom.schema';
-import { patchRom, readRom, romHeader, RomError } from '../../../shared/drive/vga-rom';
+import type { RomPatchRecord, VideoRomDetailDto, VideoRomDto } from '@shared/api/dto';
+import type { RomPatchBody } from '@shared/api/rom.schema';
+import { patchRom, readRom, romHeader, RomError } from '@shared/drive/vga-rom';
 import { AppError, conflict, notFound } from '../../core/app-error';
 import { record } from '../activity/activity.model';
 import type { TimingsService } from '../timings/timings.service';
 import { VideoRom } from './rom.model';
-import { withoutControls } from '../../../shared/api/text.schema';
+import { withoutControls } from '@shared/api/text.schema';
 
 /** Images a studio keeps (each at most 512 KiB). */
 export const MAX_ROMS_PER_STUDIO = 100;

@@ -1,5 +1,5 @@
-import { syntheticRom } from '../../../shared/drive/sample-rom';
-import { readRom } from '../../../shared/drive/vga-rom';
+import { syntheticRom } from '@shared/drive/sample-rom';
+import { readRom } from '@shared/drive/vga-rom';
 import { createHarness, TestClient, type Harness } from '../../testing/harness';
 import { TIMING_BODY } from '../../testing/world';
 import { VideoRom } from './rom.model';

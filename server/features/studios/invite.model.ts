@@ -7,7 +7,7 @@ import {
   type NonAttribute,
   type Sequelize,
 } from 'sequelize';
-import type { Role } from '../../../shared/model/roles';
+import type { Role } from '@shared/model/roles';
 import type { Studio } from './studio.model';
 
 /** An e-mailed invitation to join a studio; only the SHA-256 of the token is kept. */

@@ -1,5 +1,5 @@
 import { QueryTypes } from 'sequelize';
-import type { Role } from '../../../shared/model/roles';
+import type { Role } from '@shared/model/roles';
 import { ReadCache } from '../../core/read-cache';
 import { Membership } from './membership.model';
 

@@ -7,7 +7,7 @@ import {
   type NonAttribute,
   type Sequelize,
 } from 'sequelize';
-import type { Role } from '../../../shared/model/roles';
+import type { Role } from '@shared/model/roles';
 import type { User } from '../auth/user.model';
 import type { Studio } from './studio.model';
 

@@ -1,4 +1,4 @@
-import { changeRoleSchema, createStudioSchema, inviteSchema, updateStudioSchema } from '../../../shared/api/studio.schema';
+import { changeRoleSchema, createStudioSchema, inviteSchema, updateStudioSchema } from '@shared/api/studio.schema';
 import { ApiRouter } from '../../core/api-router';
 import { forbidden } from '../../core/app-error';
 import { idParam, publicAccess, signedIn, studioRole } from '../../core/policy';

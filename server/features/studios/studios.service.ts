@@ -1,6 +1,6 @@
 import { Op, type Transaction } from 'sequelize';
-import type { InviteDto, InvitePreviewDto, MemberDto, StudioDto } from '../../../shared/api/dto';
-import type { Role } from '../../../shared/model/roles';
+import type { InviteDto, InvitePreviewDto, MemberDto, StudioDto } from '@shared/api/dto';
+import type { Role } from '@shared/model/roles';
 import { AppError, conflict, notFound } from '../../core/app-error';
 import { hashToken, newToken } from '../../core/tokens';
 import type { MailOutbox } from '../../mail/outbox';

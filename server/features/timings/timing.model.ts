@@ -1,6 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import type { TimingSource } from '../../../shared/api/timing.schema';
-import type { PanelInterface } from '../../../shared/drive/interface';
+import type { TimingSource } from '@shared/api/timing.schema';
+import type { PanelInterface } from '@shared/drive/interface';
 
 /** A studio's saved drive timing for one panel type. */
 export class SavedTiming extends Model<InferAttributes<SavedTiming>, InferCreationAttributes<SavedTiming>> {

@@ -1,4 +1,4 @@
-import { createTimingSchema, timingListQuerySchema, updateTimingSchema } from '../../../shared/api/timing.schema';
+import { createTimingSchema, timingListQuerySchema, updateTimingSchema } from '@shared/api/timing.schema';
 import { ApiRouter } from '../../core/api-router';
 import { idParam, studioRole } from '../../core/policy';
 import type { TimingsService } from './timings.service';

@@ -1,7 +1,7 @@
-import type { SavedTimingDto } from '../../../shared/api/dto';
-import type { CreateTimingBody } from '../../../shared/api/timing.schema';
-import { evaluateTiming } from '../../../shared/drive/evaluate';
-import { panelTypeById } from '../../../shared/model/panel-types';
+import type { SavedTimingDto } from '@shared/api/dto';
+import type { CreateTimingBody } from '@shared/api/timing.schema';
+import { evaluateTiming } from '@shared/drive/evaluate';
+import { panelTypeById } from '@shared/model/panel-types';
 import { AppError, notFound } from '../../core/app-error';
 import { SavedTiming } from './timing.model';
 

@@ -1,5 +1,5 @@
 import { HttpErrorResponse } from '@angular/common/http';
-import type { ApiErrorBody } from '../../../shared/api/dto';
+import type { ApiErrorBody } from '@shared/api/dto';
 
 /** A readable sentence for a failed API call: the server's message, or what the status means. */
 export function apiErrorMessage(err: unknown): string {

@@ -1,7 +1,7 @@
 import { HttpClient } from '@angular/common/http';
 import { computed, inject, Injectable, signal } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
-import type { StudioDto, UserDto } from '../../../shared/api/dto';
+import type { StudioDto, UserDto } from '@shared/api/dto';
 
 /** The signed-in user and their studios, shared by guards, the shell and pages. */
 @Injectable({ providedIn: 'root' })

@@ -1,6 +1,6 @@
-import { apertureTaps, glowTaps, lineTaps } from '../../../shared/pipeline/output/compose';
-import type { OutputUniforms } from '../../../shared/pipeline/output/uniforms';
-import type { Field } from '../../../shared/pipeline/types';
+import { apertureTaps, glowTaps, lineTaps } from '@shared/pipeline/output/compose';
+import type { OutputUniforms } from '@shared/pipeline/output/uniforms';
+import type { Field } from '@shared/pipeline/types';
 import { THRESHOLD_CODES, thresholdTable } from './threshold-table';
 import { ENCODE_FRAGMENT, FULLSCREEN_VERTEX, PANEL_FRAGMENT, V_FRAGMENT } from './output.glsl';
 

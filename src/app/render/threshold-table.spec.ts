@@ -1,8 +1,8 @@
-import { srgbEncode } from '../../../shared/color/srgb';
-import { PANEL_TYPES } from '../../../shared/model/panel-types';
-import { mergeParams } from '../../../shared/model/parameters';
-import { softKnee } from '../../../shared/pipeline/output/formulas';
-import { outputUniforms } from '../../../shared/pipeline/output/uniforms';
+import { srgbEncode } from '@shared/color/srgb';
+import { PANEL_TYPES } from '@shared/model/panel-types';
+import { mergeParams } from '@shared/model/parameters';
+import { softKnee } from '@shared/pipeline/output/formulas';
+import { outputUniforms } from '@shared/pipeline/output/uniforms';
 import { THRESHOLD_CODES, thresholdTable } from './threshold-table';
 
 /** The shader's bisection (output.glsl.ts encodeV), per channel, on the float32 table. */

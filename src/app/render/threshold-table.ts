@@ -1,5 +1,5 @@
-import { ChannelCoder } from '../../../shared/pipeline/output/compose';
-import type { OutputUniforms } from '../../../shared/pipeline/output/uniforms';
+import { ChannelCoder } from '@shared/pipeline/output/compose';
+import type { OutputUniforms } from '@shared/pipeline/output/uniforms';
 
 /** Texels of the threshold table: one per code value 0–255. */
 export const THRESHOLD_CODES = 256;

@@ -1,10 +1,10 @@
 import { HttpClient, HttpEventType, type HttpEvent } from '@angular/common/http';
 import { inject, Injectable } from '@angular/core';
 import { filter, firstValueFrom, map, type Observable } from 'rxjs';
-import type { ArtworkDto } from '../../../../shared/api/dto';
-import type { SpriteSheet } from '../../../../shared/pipeline/sprite-sheet';
-import { unpackFrames } from '../../../../shared/pipeline/frames';
-import type { Frame } from '../../../../shared/pipeline/types';
+import type { ArtworkDto } from '@shared/api/dto';
+import type { SpriteSheet } from '@shared/pipeline/sprite-sheet';
+import { unpackFrames } from '@shared/pipeline/frames';
+import type { Frame } from '@shared/pipeline/types';
 
 /** Upload progress (0–1) until the server answers with the stored artwork. */
 export type UploadEvent = { kind: 'progress'; share: number } | { kind: 'done'; artwork: ArtworkDto };

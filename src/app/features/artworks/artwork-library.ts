@@ -10,7 +10,7 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { RouterLink } from '@angular/router';
-import type { ArtworkDto } from '../../../../shared/api/dto';
+import type { ArtworkDto } from '@shared/api/dto';
 import { apiErrorMessage } from '../../core/api-error';
 import { formatBytes } from '../../core/format-bytes';
 import { Confirm } from '../../shared/confirm-dialog';

@@ -20,17 +20,17 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import type { ChartConfiguration } from 'chart.js';
 import { BaseChartDirective, provideCharts, withDefaultRegisterables } from 'ng2-charts';
-import type { Acuity } from '../../../../shared/analysis/acuity';
-import type { FlashSafety } from '../../../../shared/analysis/flash-safety';
-import { LOST_CONTRAST, testPattern, type PanelReport } from '../../../../shared/analysis/panel-report';
-import type { PanelParams } from '../../../../shared/model/parameters';
-import type { Frame } from '../../../../shared/pipeline/types';
+import type { Acuity } from '@shared/analysis/acuity';
+import type { FlashSafety } from '@shared/analysis/flash-safety';
+import { LOST_CONTRAST, testPattern, type PanelReport } from '@shared/analysis/panel-report';
+import type { PanelParams } from '@shared/model/parameters';
+import type { Frame } from '@shared/pipeline/types';
 import { apiErrorMessage } from '../../core/api-error';
 import { ArtworkApi } from '../artworks/artwork-api';
 import { downloadText } from '../drive/download';
 import { StudioContext } from '../studio/studio-context';
 import { BenchEngine } from './bench-engine';
-import { levelCount } from '../../../../shared/pipeline/levels/spacing';
+import { levelCount } from '@shared/pipeline/levels/spacing';
 
 /**
  * The bench's analysis of the current view: legibility (with a map of where one-cell detail is

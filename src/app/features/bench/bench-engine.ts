@@ -1,5 +1,5 @@
-import type { PanelParams } from '../../../../shared/model/parameters';
-import type { Frame } from '../../../../shared/pipeline/types';
+import type { PanelParams } from '@shared/model/parameters';
+import type { Frame } from '@shared/pipeline/types';
 import type { WorkerRequest, WorkerResult } from './bench-messages';
 
 export type PanelResult = Extract<WorkerResult, { type: 'result' }>;

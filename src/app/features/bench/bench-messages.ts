@@ -1,7 +1,7 @@
-import type { PanelParams } from '../../../../shared/model/parameters';
-import type { FlashSafety } from '../../../../shared/analysis/flash-safety';
-import type { PanelReport } from '../../../../shared/analysis/panel-report';
-import type { Field, Frame, RgbaImage } from '../../../../shared/pipeline/types';
+import type { PanelParams } from '@shared/model/parameters';
+import type { FlashSafety } from '@shared/analysis/flash-safety';
+import type { PanelReport } from '@shared/analysis/panel-report';
+import type { Field, Frame, RgbaImage } from '@shared/pipeline/types';
 
 /** Page → worker. */
 export type WorkerRequest =

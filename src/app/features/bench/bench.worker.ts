@@ -1,11 +1,11 @@
 /// <reference lib="webworker" />
-import type { PanelParams } from '../../../../shared/model/parameters';
-import { compose } from '../../../../shared/pipeline/output/compose';
-import { outputUniforms } from '../../../../shared/pipeline/output/uniforms';
-import { flashCheck, frcCycle } from '../../../../shared/analysis/flash-check';
-import { burnIn, legibility, lightFigures, type PanelReport } from '../../../../shared/analysis/panel-report';
-import { panelEmission, panelEmissions, panelGlow } from '../../../../shared/pipeline/render';
-import type { Frame } from '../../../../shared/pipeline/types';
+import type { PanelParams } from '@shared/model/parameters';
+import { compose } from '@shared/pipeline/output/compose';
+import { outputUniforms } from '@shared/pipeline/output/uniforms';
+import { flashCheck, frcCycle } from '@shared/analysis/flash-check';
+import { burnIn, legibility, lightFigures, type PanelReport } from '@shared/analysis/panel-report';
+import { panelEmission, panelEmissions, panelGlow } from '@shared/pipeline/render';
+import type { Frame } from '@shared/pipeline/types';
 import type { WorkerRequest, WorkerResult } from './bench-messages';
 
 // The bench's Web Worker: the same panel stages and glow field as the server, off the page's thread.

@@ -7,8 +7,8 @@ import { MatSelectHarness } from '@angular/material/select/testing';
 import { MatSliderHarness } from '@angular/material/slider/testing';
 import { MatSlideToggleHarness } from '@angular/material/slide-toggle/testing';
 import { TestBed } from '@angular/core/testing';
-import { BUILT_IN_PRESETS } from '../../../../shared/model/panel-types';
-import type { PanelParams } from '../../../../shared/model/parameters';
+import { BUILT_IN_PRESETS } from '@shared/model/panel-types';
+import type { PanelParams } from '@shared/model/parameters';
 import { applyParamEdit, ParamControls, type ParamEdit } from './param-controls';
 
 /** The bench's wiring, reduced to what the race needs: the parameters live here, edits apply to them. */

@@ -16,8 +16,8 @@ import {
   type NumberSpec,
   type PanelParams,
   type ParamSpec,
-} from '../../../../shared/model/parameters';
-import { haloRadiusFromGlass } from '../../../../shared/pipeline/glow/glow';
+} from '@shared/model/parameters';
+import { haloRadiusFromGlass } from '@shared/pipeline/glow/glow';
 
 /** A control another setting decides: shown read-only with the value in force and why. */
 export interface ParamLock {

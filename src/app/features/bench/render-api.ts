@@ -1,8 +1,8 @@
 import { HttpClient } from '@angular/common/http';
 import { inject, Injectable } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
-import type { RenderDto } from '../../../../shared/api/render.schema';
-import type { PanelParams } from '../../../../shared/model/parameters';
+import type { RenderDto } from '@shared/api/render.schema';
+import type { PanelParams } from '@shared/model/parameters';
 
 /** Reference renders of studio artworks, made on the server (the drift check's and the download's source). */
 @Injectable({ providedIn: 'root' })

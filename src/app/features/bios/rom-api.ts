@@ -1,8 +1,8 @@
 import { HttpClient } from '@angular/common/http';
 import { inject, Injectable } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
-import type { RomPatchRecord, VideoRomDetailDto, VideoRomDto } from '../../../../shared/api/dto';
-import type { RomPatchBody } from '../../../../shared/api/rom.schema';
+import type { RomPatchRecord, VideoRomDetailDto, VideoRomDto } from '@shared/api/dto';
+import type { RomPatchBody } from '@shared/api/rom.schema';
 
 /** HTTP calls for a studio's video option ROM images. */
 @Injectable({ providedIn: 'root' })

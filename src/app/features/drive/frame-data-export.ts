@@ -8,28 +8,21 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
-import {
-  BITS_PER_CELL,
-  checkFrameLayout,
-  describeLayout,
-  frameData,
-  MAX_FRC_LEVELS,
-  type FrameLayout,
-} from '../../../../shared/drive/frame-data';
-import { frameLayoutSvg } from '../../../../shared/drive/frame-data-diagram';
+import { BITS_PER_CELL, checkFrameLayout, describeLayout, frameData, MAX_FRC_LEVELS, type FrameLayout } from '@shared/drive/frame-data';
+import { frameLayoutSvg } from '@shared/drive/frame-data-diagram';
 import {
   cIdentifier,
   encodeFrameData,
   FRAME_DATA_FORMAT_INFO,
   FRAME_DATA_FORMATS,
   type FrameDataFormat,
-} from '../../../../shared/drive/frame-data-formats';
-import { PIXELS_PER_CLOCK, type PanelInterface } from '../../../../shared/drive/interface';
-import type { PanelParams } from '../../../../shared/model/parameters';
-import type { RgbaImage } from '../../../../shared/pipeline/types';
+} from '@shared/drive/frame-data-formats';
+import { PIXELS_PER_CLOCK, type PanelInterface } from '@shared/drive/interface';
+import type { PanelParams } from '@shared/model/parameters';
+import type { RgbaImage } from '@shared/pipeline/types';
 import { downloadBlob, downloadText } from './download';
-import { frcFrames } from '../../../../shared/pipeline/levels/levels';
-import { levelCount } from '../../../../shared/pipeline/levels/spacing';
+import { frcFrames } from '@shared/pipeline/levels/levels';
+import { levelCount } from '@shared/pipeline/levels/spacing';
 
 let instances = 0;
 

@@ -3,7 +3,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatExpansionModule } from '@angular/material/expansion';
 import { MatIconModule } from '@angular/material/icon';
 import { MatSnackBar } from '@angular/material/snack-bar';
-import { hex2, type VgaRegisters } from '../../../../shared/drive/registers';
+import { hex2, type VgaRegisters } from '@shared/drive/registers';
 import { downloadText } from './download';
 
 /** CR00–CR18, the misc register and SR01–SR04, each with its bit fields; copy as hex, download as JSON or text. */

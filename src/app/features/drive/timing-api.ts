@@ -1,8 +1,8 @@
 import { HttpClient } from '@angular/common/http';
 import { inject, Injectable } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
-import type { SavedTimingDto } from '../../../../shared/api/dto';
-import type { CreateTimingBody } from '../../../../shared/api/timing.schema';
+import type { SavedTimingDto } from '@shared/api/dto';
+import type { CreateTimingBody } from '@shared/api/timing.schema';
 
 /** HTTP calls for a studio's saved drive timings. */
 @Injectable({ providedIn: 'root' })

@@ -1,9 +1,9 @@
 import { ChangeDetectionStrategy, Component, computed, DestroyRef, inject, input } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
-import { timingDiagramSvg } from '../../../../shared/drive/diagram';
-import type { PanelInterface } from '../../../../shared/drive/interface';
-import type { Timing } from '../../../../shared/drive/timing';
+import { timingDiagramSvg } from '@shared/drive/diagram';
+import type { PanelInterface } from '@shared/drive/interface';
+import type { Timing } from '@shared/drive/timing';
 import { downloadText } from './download';
 
 /** The line and frame diagram (shared SVG generator), shown as an image and downloadable. */

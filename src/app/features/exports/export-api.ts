@@ -1,7 +1,7 @@
 import { HttpClient } from '@angular/common/http';
 import { inject, Injectable } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
-import type { AnimationRequest, ExportDto, ExportLinkDto, SharedExportDto, SheetRequest } from '../../../../shared/api/export.schema';
+import type { AnimationRequest, ExportDto, ExportLinkDto, SharedExportDto, SheetRequest } from '@shared/api/export.schema';
 
 /** HTTP calls for a studio's exports (comparison sheets made in the background). */
 @Injectable({ providedIn: 'root' })

@@ -5,7 +5,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
-import type { ExportDto } from '../../../../shared/api/export.schema';
+import type { ExportDto } from '@shared/api/export.schema';
 import { apiErrorMessage } from '../../core/api-error';
 import { StudioContext } from '../studio/studio-context';
 import { ExportApi } from './export-api';

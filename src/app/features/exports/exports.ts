@@ -14,7 +14,7 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTooltipModule } from '@angular/material/tooltip';
 import { ActivatedRoute, RouterLink } from '@angular/router';
 import { catchError, filter, from, merge, of, Subject, switchMap, timer } from 'rxjs';
-import { EXPORT_STATUS_LABELS, type ExportDto, type ExportKind, type ExportStatus } from '../../../../shared/api/export.schema';
+import { EXPORT_STATUS_LABELS, type ExportDto, type ExportKind, type ExportStatus } from '@shared/api/export.schema';
 import {
   LABEL_LINES,
   MAX_SHEET_ARTWORKS,
@@ -26,8 +26,8 @@ import {
   SHEET_LAYOUTS,
   sheetGeometry,
   type SheetLayout,
-} from '../../../../shared/export/sheet';
-import { outputUniforms } from '../../../../shared/pipeline/output/uniforms';
+} from '@shared/export/sheet';
+import { outputUniforms } from '@shared/pipeline/output/uniforms';
 import { apiErrorMessage } from '../../core/api-error';
 import { AuthStore } from '../../core/auth-store';
 import { formatBytes } from '../../core/format-bytes';

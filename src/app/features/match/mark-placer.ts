@@ -1,5 +1,5 @@
 import { ChangeDetectionStrategy, Component, effect, ElementRef, input, model, signal, viewChild } from '@angular/core';
-import { MARK_NAMES } from '../../../../shared/match/pattern';
+import { MARK_NAMES } from '@shared/match/pattern';
 
 type Mark = [number, number];
 /** Photo pixels the magnifier shows across (its canvas is 4 times that). */

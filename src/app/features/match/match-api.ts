@@ -1,7 +1,7 @@
 import { HttpClient } from '@angular/common/http';
 import { inject, Injectable } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
-import type { MatchDto } from '../../../../shared/api/match.schema';
+import type { MatchDto } from '@shared/api/match.schema';
 
 /** HTTP calls for a studio's panel matches (a panel type fitted to a photo of the real panel). */
 @Injectable({ providedIn: 'root' })

@@ -1,6 +1,6 @@
-import type { PresetDto } from '../../../../shared/api/dto';
-import { BUILT_IN_PRESETS, panelTypeById } from '../../../../shared/model/panel-types';
-import type { PanelParams } from '../../../../shared/model/parameters';
+import type { PresetDto } from '@shared/api/dto';
+import { BUILT_IN_PRESETS, panelTypeById } from '@shared/model/panel-types';
+import type { PanelParams } from '@shared/model/parameters';
 
 /** A look to choose: a studio preset at its current revision ("studio:<id>"), or a built-in preset. */
 export interface LookOption {

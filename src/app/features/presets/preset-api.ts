@@ -1,12 +1,12 @@
 import { HttpClient } from '@angular/common/http';
 import { inject, Injectable } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
-import type { ActivityDto, PresetDto, PresetRevisionDto, SharedViewDto, ShareLinkDto } from '../../../../shared/api/dto';
-import type { PresetDocument } from '../../../../shared/api/preset.schema';
-import type { RenderDto } from '../../../../shared/api/render.schema';
-import type { PanelParams } from '../../../../shared/model/parameters';
-import { unpackFrames } from '../../../../shared/pipeline/frames';
-import type { Frame } from '../../../../shared/pipeline/types';
+import type { ActivityDto, PresetDto, PresetRevisionDto, SharedViewDto, ShareLinkDto } from '@shared/api/dto';
+import type { PresetDocument } from '@shared/api/preset.schema';
+import type { RenderDto } from '@shared/api/render.schema';
+import type { PanelParams } from '@shared/model/parameters';
+import { unpackFrames } from '@shared/pipeline/frames';
+import type { Frame } from '@shared/pipeline/types';
 
 /** HTTP calls for studio presets, their revisions, links, and the activity feed. */
 @Injectable({ providedIn: 'root' })

@@ -15,7 +15,7 @@ import { MatTableModule } from '@angular/material/table';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { Router, RouterLink } from '@angular/router';
 import { map } from 'rxjs';
-import { PANEL_TYPES, panelTypeById } from '../../../../shared/model/panel-types';
+import { PANEL_TYPES, panelTypeById } from '@shared/model/panel-types';
 import { apiErrorCode, apiErrorMessage } from '../../core/api-error';
 import { ArtworkApi } from '../artworks/artwork-api';
 import { StudioContext } from '../studio/studio-context';

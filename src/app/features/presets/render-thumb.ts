@@ -1,5 +1,5 @@
 import { ChangeDetectionStrategy, Component, inject, input, resource } from '@angular/core';
-import type { PanelParams } from '../../../../shared/model/parameters';
+import type { PanelParams } from '@shared/model/parameters';
 import { PresetApi } from './preset-api';
 
 /** A server reference render of an artwork with some parameters, as an image (cached by the server). */

@@ -3,7 +3,7 @@ import { ChangeDetectionStrategy, Component, inject, input, resource } from '@an
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
-import { SHEET_LAYOUT_LABELS } from '../../../../shared/export/sheet';
+import { SHEET_LAYOUT_LABELS } from '@shared/export/sheet';
 import { apiErrorMessage } from '../../core/api-error';
 import { formatBytes } from '../../core/format-bytes';
 import { ExportApi } from '../exports/export-api';

@@ -11,9 +11,9 @@ import {
   viewChild,
 } from '@angular/core';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
-import { panelTypeById } from '../../../../shared/model/panel-types';
-import { outputUniforms } from '../../../../shared/pipeline/output/uniforms';
-import type { Frame } from '../../../../shared/pipeline/types';
+import { panelTypeById } from '@shared/model/panel-types';
+import { outputUniforms } from '@shared/pipeline/output/uniforms';
+import type { Frame } from '@shared/pipeline/types';
 import { apiErrorMessage } from '../../core/api-error';
 import { PanelRenderer } from '../../render/panel-renderer';
 import { BenchEngine } from '../bench/bench-engine';

@@ -1,8 +1,8 @@
 import { HttpClient } from '@angular/common/http';
 import { inject, Injectable } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
-import type { InviteDto, InvitePreviewDto, MemberDto, StudioDto } from '../../../../shared/api/dto';
-import type { Role } from '../../../../shared/model/roles';
+import type { InviteDto, InvitePreviewDto, MemberDto, StudioDto } from '@shared/api/dto';
+import type { Role } from '@shared/model/roles';
 
 /** HTTP calls for studios, members and invites (the /api/studios and /api/invites routes). */
 @Injectable({ providedIn: 'root' })

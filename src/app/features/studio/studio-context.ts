@@ -1,6 +1,6 @@
 import { computed, Injectable, signal } from '@angular/core';
-import type { StudioDto } from '../../../../shared/api/dto';
-import { roleAtLeast } from '../../../../shared/model/roles';
+import type { StudioDto } from '@shared/api/dto';
+import { roleAtLeast } from '@shared/model/roles';
 
 /** The studio open in the shell, shared with its pages; provided by StudioShell. */
 @Injectable()
