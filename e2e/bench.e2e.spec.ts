@@ -287,8 +287,9 @@ test('the compare divider follows a drag across the stage, can be grabbed again 
   await openBenchAsEditor(page);
   await choose(page, 'Compare with', 'Original artwork');
   const stage = page.getByTestId('stage');
-  await expect(stage.getByText(/^A · /)).toBeVisible();
-  await expect(stage.getByText('B · Original artwork')).toBeVisible();
+  const preview = page.getByRole('group', { name: 'Preview' });
+  await expect(preview.getByText(/^A · /)).toBeVisible();
+  await expect(preview.getByText('B · Original artwork')).toBeVisible();
   const divider = page.getByRole('slider', { name: 'Compare divider' });
   const box = (await stage.boundingBox())!;
   const y = box.y + box.height / 2;
@@ -317,6 +318,63 @@ test('the compare divider follows a drag across the stage, can be grabbed again 
   await page.keyboard.press('PageDown');
   await expect(divider).toHaveAttribute('aria-valuenow', '90');
   await expect(divider).toHaveAttribute('aria-valuetext', /90 % A: .+, the rest B: Original artwork/);
+});
+
+test('the view pans by drag and keys and zooms about the pointer (wheel with Ctrl, + and −); the inspector finds the cell under the pointer through it', async ({
+  page,
+  guard,
+}) => {
+  void guard;
+  await openBenchAsEditor(page);
+  const preview = page.getByRole('group', { name: 'Preview' });
+  const stage = page.getByTestId('stage');
+  const inspector = page.getByTestId('inspector');
+  const zoomShown = async () => Number((await page.getByTestId('view-zoom').textContent())!.replace(/[^\d]/g, ''));
+  const cellAt = async (x: number, y: number) => {
+    await page.mouse.move(x, y);
+    const [, c, r] = (await inspector.textContent())!.match(/cell (\d+), (\d+)/)!.map(Number);
+    return { c, r };
+  };
+  await preview.scrollIntoViewIfNeeded();
+  const wrap = (await preview.boundingBox())!;
+  const middle = { x: wrap.x + wrap.width / 2, y: wrap.y + wrap.height / 2 };
+  const before = await cellAt(middle.x, middle.y);
+  const fitted = await zoomShown();
+
+  // Ctrl + wheel zooms about the pointer: the same cell stays under it.
+  await page.keyboard.down('Control');
+  await page.mouse.wheel(0, -600);
+  await page.keyboard.up('Control');
+  await expect.poll(zoomShown).toBeGreaterThan(fitted * 2);
+  const zoomed = await cellAt(middle.x, middle.y);
+  expect(Math.abs(zoomed.c - before.c)).toBeLessThanOrEqual(1);
+  expect(Math.abs(zoomed.r - before.r)).toBeLessThanOrEqual(1);
+
+  // A drag moves the image with the pointer: the cell that was under the start is under the end.
+  const start = (await stage.boundingBox())!;
+  await page.mouse.move(middle.x, middle.y);
+  await page.mouse.down();
+  await page.mouse.move(middle.x - 120, middle.y - 40, { steps: 6 });
+  await page.mouse.up();
+  const moved = (await stage.boundingBox())!;
+  expect(moved.x - start.x).toBeCloseTo(-120, 0);
+  expect(moved.y - start.y).toBeCloseTo(-40, 0);
+  const dragged = await cellAt(middle.x - 120, middle.y - 40);
+  expect(Math.abs(dragged.c - zoomed.c)).toBeLessThanOrEqual(1);
+
+  // On the focused preview the keys work too; 0 and Reset view go back to Fit.
+  await preview.focus();
+  const keyed = await zoomShown();
+  await page.keyboard.press('-');
+  await expect.poll(zoomShown).toBeLessThan(keyed);
+  await page.keyboard.press('ArrowLeft');
+  await expect.poll(async () => (await stage.boundingBox())!.x).toBeGreaterThan(moved.x);
+  await page.keyboard.press('0');
+  await expect.poll(zoomShown).toBe(fitted);
+  await page.getByRole('button', { name: 'Zoom in' }).click();
+  await page.getByRole('button', { name: 'Reset view' }).click();
+  await expect.poll(zoomShown).toBe(fitted);
+  await expect(page.getByRole('button', { name: 'Reset view' })).toHaveCount(0);
 });
 
 test('the current view downloads as the reference PNG at this scale, with its parameters inside the file', async ({ page, guard }) => {

@@ -51,6 +51,7 @@ import { downloadBlob } from '../drive/download';
 import { FrameDataExport } from '../drive/frame-data-export';
 import { AnalysisReport } from './analysis-report';
 import { frcFrames, isFrc } from '@shared/pipeline/levels/levels';
+import { clampView, cssTransform, homeView, imagePointAt, viewMatrix, zoomAround, type Size, type ViewState } from './view-transform';
 
 /** ID-1 card width in mm (ISO/IEC 7810), the on-screen ruler for real size. */
 const CARD_MM = { width: 85.6, height: 53.98 };
@@ -106,6 +107,7 @@ export class Bench {
   private readonly dCanvas = viewChild<ElementRef<HTMLCanvasElement>>('dCanvas');
   private readonly diffCanvas = viewChild<ElementRef<HTMLCanvasElement>>('diffCanvas');
   private readonly driftSection = viewChild<ElementRef<HTMLElement>>('driftSection');
+  private readonly stageWrap = viewChild<ElementRef<HTMLElement>>('stageWrap');
   private readonly engine = new BenchEngine();
   private readonly engineB = new BenchEngine();
   private readonly engineFlash = new BenchEngine();
@@ -182,15 +184,32 @@ export class Bench {
   protected readonly card = CARD_MM;
 
   protected readonly uniforms = computed(() => outputUniforms(this.params(), this.scale()));
-  protected readonly displaySize = computed(() => {
-    const u = this.uniforms();
-    if (this.zoom() === 'pixels') return { width: `${u.width}px`, height: `${u.height}px` };
-    if (this.zoom() === 'real') {
-      const p = this.params().cell;
-      return { width: `${p.cols * p.pitchXMm * this.pxPerMm()}px`, height: `${p.rows * p.pitchYMm * this.pxPerMm()}px` };
-    }
-    return { width: '100%', height: 'auto' };
+  /** The preview's visible box, CSS px (measured). */
+  private readonly box = signal<Size>({ width: 0, height: 0 });
+  /** The output image's size, output px. */
+  private readonly imageSize = computed<Size>(() => ({ width: this.uniforms().width, height: this.uniforms().height }));
+  /** CSS px per output px at the mode's own scale: the image fitted to the box, one CSS px a pixel, or millimetres true. */
+  protected readonly baseScale = computed(() => {
+    const { width, height } = this.imageSize();
+    if (this.zoom() === 'pixels') return 1;
+    if (this.zoom() === 'real') return (this.params().cell.cols * this.params().cell.pitchXMm * this.pxPerMm()) / width;
+    const box = this.box();
+    return box.width > 0 && box.height > 0 ? Math.min(box.width / width, box.height / height) : 1;
   });
+  /** The box's height as the layout gives it: the image's at the mode's scale (fitted by width for Fit), held to the page's limit by CSS. */
+  protected readonly boxHeight = computed(() => {
+    const { width, height } = this.imageSize();
+    const k = this.zoom() === 'fit' ? this.box().width / width : this.baseScale();
+    return Math.max(120, Math.round(height * (k || 1)));
+  });
+  /** The user's zoom and pan; null: the mode's own view (and it follows the box as it resizes). */
+  protected readonly userView = signal<ViewState | null>(null);
+  protected readonly view = computed(() => this.userView() ?? homeView(this.imageSize(), this.box(), this.baseScale()));
+  /** One matrix places every layer of the stage; inverted, it finds the cell under the pointer. */
+  protected readonly viewMatrix = computed(() => viewMatrix(this.baseScale(), this.view()));
+  protected readonly stageTransform = computed(() => cssTransform(this.viewMatrix()));
+  /** On screen pixels per output pixel: above 1.5 the canvases are shown as blocks, not blurred. */
+  protected readonly magnification = computed(() => this.baseScale() * this.view().zoom);
   /** How far the viewer is from the panel (kept in this browser): flash areas and acuity depend on it. */
   protected readonly distanceMm = signal(Number(localStorage.getItem('emberline.distanceMm')) || 600);
   protected readonly sight = computed(() => {
@@ -245,6 +264,14 @@ export class Bench {
       this.engineFlash.dispose();
       clearTimeout(this.flashTimer);
       this.playing.set(false);
+    });
+    // The preview's box, measured as the layout changes it.
+    effect((onCleanup) => {
+      const el = this.stageWrap()?.nativeElement;
+      if (!el) return;
+      const observer = new ResizeObserver(() => this.box.set({ width: el.clientWidth, height: el.clientHeight }));
+      observer.observe(el);
+      onCleanup(() => observer.disconnect());
     });
     // A linked saved timing drives the panel's refresh rate (persistence and flicker).
     effect(() => {
@@ -490,16 +517,96 @@ export class Bench {
     if (f) putImage(this.bCanvas()!.nativeElement, f.image.data, f.image.width, f.image.height);
   }
 
+  /** The cell under the pointer: the box point through the inverted view matrix, then image pixels to cells. */
   protected inspectAt(e: PointerEvent): void {
-    const el = e.currentTarget as HTMLElement;
-    const rect = el.getBoundingClientRect();
+    const at = this.boxPoint(e);
+    const pixel = imagePointAt(this.viewMatrix(), at.x, at.y);
     const p = this.params().cell;
-    const c = Math.floor(((e.clientX - rect.left) / rect.width) * p.cols);
-    const r = Math.floor(((e.clientY - rect.top) / rect.height) * p.rows);
+    const { width, height } = this.imageSize();
     const emission = this.lastResult?.emission;
-    if (!emission || c < 0 || r < 0 || c >= p.cols || r >= p.rows) return this.inspect.set(null);
+    if (!pixel || !emission) return this.inspect.set(null);
+    const c = Math.floor((pixel[0] / width) * p.cols);
+    const r = Math.floor((pixel[1] / height) * p.rows);
+    if (c < 0 || r < 0 || c >= p.cols || r >= p.rows) return this.inspect.set(null);
     const level = emission[r * p.cols + c];
     this.inspect.set({ c, r, level, cd: level * this.params().viewing.peakCdM2 + this.params().viewing.offCdM2 });
+  }
+
+  /** A pointer's place in the preview's box, CSS px from its top-left. */
+  private boxPoint(e: { clientX: number; clientY: number }): { x: number; y: number } {
+    const el = this.stageWrap()!.nativeElement;
+    const rect = el.getBoundingClientRect();
+    return { x: e.clientX - rect.left - el.clientLeft, y: e.clientY - rect.top - el.clientTop };
+  }
+
+  protected setZoomMode(mode: 'fit' | 'pixels' | 'real'): void {
+    this.zoom.set(mode);
+    this.userView.set(null);
+  }
+
+  /** Applies a change of view, keeping some of the image in the box. */
+  private changeView(change: (v: ViewState) => ViewState): void {
+    this.userView.set(clampView(change(this.view()), this.imageSize(), this.box(), this.baseScale()));
+  }
+
+  protected zoomBy(factor: number, at?: { x: number; y: number }): void {
+    const { x, y } = at ?? { x: this.box().width / 2, y: this.box().height / 2 };
+    this.changeView((v) => zoomAround(v, factor, x, y));
+  }
+
+  /** Pointers down on the preview: one drags the view, two pinch it. */
+  private readonly pointers = new Map<number, { x: number; y: number }>();
+
+  protected grabView(e: PointerEvent): void {
+    if (e.button !== 0 || (e.target as HTMLElement).closest('.divider')) return;
+    (e.currentTarget as HTMLElement).setPointerCapture(e.pointerId);
+    this.pointers.set(e.pointerId, this.boxPoint(e));
+  }
+
+  protected moveView(e: PointerEvent): void {
+    this.inspectAt(e);
+    const last = this.pointers.get(e.pointerId);
+    if (!last) return;
+    const now = this.boxPoint(e);
+    if (this.pointers.size === 2) {
+      const other = [...this.pointers].find(([id]) => id !== e.pointerId)![1];
+      const before = Math.hypot(last.x - other.x, last.y - other.y);
+      const after = Math.hypot(now.x - other.x, now.y - other.y);
+      if (before > 0) this.zoomBy(after / before, { x: (now.x + other.x) / 2, y: (now.y + other.y) / 2 });
+    } else {
+      this.changeView((v) => ({ ...v, x: v.x + now.x - last.x, y: v.y + now.y - last.y }));
+    }
+    this.pointers.set(e.pointerId, now);
+  }
+
+  protected releaseView(e: PointerEvent): void {
+    this.pointers.delete(e.pointerId);
+  }
+
+  /** Ctrl (or ⌘) with the wheel, and a trackpad pinch, zoom about the pointer; the wheel alone scrolls the page. */
+  protected wheelZoom(e: WheelEvent): void {
+    if (!e.ctrlKey && !e.metaKey) return;
+    e.preventDefault();
+    this.zoomBy(Math.exp(-e.deltaY * 0.002), this.boxPoint(e));
+  }
+
+  /** + and − zoom about the middle, the arrows move the view, 0 goes back to the mode's own view. */
+  protected keyView(e: KeyboardEvent): void {
+    const step = e.shiftKey ? 120 : 40;
+    const keys: Record<string, () => void> = {
+      '+': () => this.zoomBy(1.25),
+      '=': () => this.zoomBy(1.25),
+      '-': () => this.zoomBy(0.8),
+      '0': () => this.userView.set(null),
+      ArrowLeft: () => this.changeView((v) => ({ ...v, x: v.x + step })),
+      ArrowRight: () => this.changeView((v) => ({ ...v, x: v.x - step })),
+      ArrowUp: () => this.changeView((v) => ({ ...v, y: v.y + step })),
+      ArrowDown: () => this.changeView((v) => ({ ...v, y: v.y - step })),
+    };
+    const act = keys[e.key];
+    if (!act || e.target !== e.currentTarget) return;
+    e.preventDefault();
+    act();
   }
 
   /** What the left (A) side of a comparison shows: the look being tuned. */
@@ -514,17 +621,26 @@ export class Bench {
   protected readonly labelB = computed(() => (this.compare() === 'original' ? 'Original artwork' : this.lookName(this.comparePresetId())));
 
   protected grabSplit(e: PointerEvent): void {
+    e.stopPropagation();
     (e.currentTarget as HTMLElement).setPointerCapture(e.pointerId);
     this.moveSplit(e);
   }
 
-  /** The divider follows the pointer across the whole stage (its own box is only a few pixels wide). */
+  /** The divider follows the pointer across the whole preview (its own box is only a few pixels wide), in image terms. */
   protected moveSplit(e: PointerEvent): void {
     const divider = e.currentTarget as HTMLElement;
     if (!divider.hasPointerCapture(e.pointerId)) return;
-    const rect = divider.parentElement!.getBoundingClientRect();
-    this.split.set(Math.round(Math.min(100, Math.max(0, ((e.clientX - rect.left) / rect.width) * 100))));
+    const at = this.boxPoint(e);
+    const pixel = imagePointAt(this.viewMatrix(), at.x, at.y);
+    if (pixel) this.split.set(Math.round(Math.min(100, Math.max(0, (pixel[0] / this.imageSize().width) * 100))));
   }
+
+  /** Where the split is in the image, as a place in the preview's box (CSS px); kept a grip's width inside the box so it can always be grabbed. */
+  protected readonly dividerX = computed(() => {
+    const m = this.viewMatrix();
+    const x = m[0] * (this.split() / 100) * this.imageSize().width + m[6];
+    return Math.min(this.box().width - 6, Math.max(6, x));
+  });
 
   protected nudgeSplit(e: KeyboardEvent): void {
     const to: Record<string, (v: number) => number> = {
