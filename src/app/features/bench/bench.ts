@@ -15,6 +15,7 @@ import {
   viewChild,
 } from '@angular/core';
 import { FormsModule } from '@angular/forms';
+import { defer, repeat, timer, type Subscription } from 'rxjs';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -26,8 +27,6 @@ import { MatSliderModule } from '@angular/material/slider';
 import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { MatTooltipModule } from '@angular/material/tooltip';
 import { RouterLink } from '@angular/router';
-import pixelmatch from 'pixelmatch';
-import { pixelDiff } from '@shared/analysis/pixel-diff';
 import { acuity } from '@shared/analysis/acuity';
 import type { FlashSafety } from '@shared/analysis/flash-safety';
 import { withPngText } from '@shared/api/png-text';
@@ -36,17 +35,20 @@ import type { PanelParams } from '@shared/model/parameters';
 import { outputUniforms } from '@shared/pipeline/output/uniforms';
 import type { Frame } from '@shared/pipeline/types';
 import { MatSnackBar } from '@angular/material/snack-bar';
-import { apiErrorCode, apiErrorMessage } from '../../core/api-error';
+import { apiErrorMessage } from '../../core/api-error';
 import { PresetApi } from '../presets/preset-api';
-import { PanelRenderer } from '../../render/panel-renderer';
 import { ArtworkApi } from '../artworks/artwork-api';
 import { TimingApi } from '../drive/timing-api';
 import { StudioContext } from '../studio/studio-context';
-import { BenchEngine, type PanelResult } from './bench-engine';
+import { BenchEngine } from './bench-engine';
+import { PanelPreview, putImage } from './panel-preview';
+import { PresetSave } from './preset-save';
+import type { PresetDto } from '@shared/api/dto';
 import { applyParamEdit, ParamControls, type ParamEdit, type ParamLock } from './param-controls';
 import { Confirm } from '../../shared/confirm-dialog';
 import { describeChange, paramDiff } from '@shared/model/param-diff';
 import { RenderApi } from './render-api';
+import { DriftCheck } from './drift-check';
 import { downloadBlob } from '../drive/download';
 import { FrameDataExport } from '../drive/frame-data-export';
 import { AnalysisReport } from './analysis-report';
@@ -79,6 +81,8 @@ const clampPxPerMm = (v: number) => Math.min(12, Math.max(2, v));
     ParamControls,
     FrameDataExport,
     AnalysisReport,
+    PanelPreview,
+    PresetSave,
   ],
   templateUrl: './bench.html',
   styleUrl: './bench.scss',
@@ -91,6 +95,7 @@ export class Bench {
   private readonly snackBar = inject(MatSnackBar);
   private readonly confirm = inject(Confirm);
   private readonly renders = inject(RenderApi);
+  private readonly driftCheck = inject(DriftCheck);
   protected readonly context = inject(StudioContext);
 
   /** ?artwork= from the library. */
@@ -100,18 +105,15 @@ export class Bench {
   /** ?preset= a studio preset to open. */
   readonly preset = input<string | undefined>();
 
-  private readonly glCanvas = viewChild<ElementRef<HTMLCanvasElement>>('glCanvas');
-  private readonly cpuCanvas = viewChild<ElementRef<HTMLCanvasElement>>('cpuCanvas');
+  private readonly preview = viewChild(PanelPreview);
   private readonly bCanvas = viewChild<ElementRef<HTMLCanvasElement>>('bCanvas');
   private readonly cCanvas = viewChild<ElementRef<HTMLCanvasElement>>('cCanvas');
   private readonly dCanvas = viewChild<ElementRef<HTMLCanvasElement>>('dCanvas');
   private readonly diffCanvas = viewChild<ElementRef<HTMLCanvasElement>>('diffCanvas');
   private readonly driftSection = viewChild<ElementRef<HTMLElement>>('driftSection');
   private readonly stageWrap = viewChild<ElementRef<HTMLElement>>('stageWrap');
-  private readonly engine = new BenchEngine();
   private readonly engineB = new BenchEngine();
   private readonly engineFlash = new BenchEngine();
-  private gl: PanelRenderer | null | undefined;
 
   protected readonly panelTypes = PANEL_TYPES;
   protected readonly artworks = resource({ params: () => this.context.studioId(), loader: ({ params }) => this.api.list(params) });
@@ -144,8 +146,6 @@ export class Bench {
     () => this.context.canEdit() && !!this.studioPreset() && (!this.studioPreset()!.isReference || this.context.canManage()),
   );
   protected readonly dirty = computed(() => JSON.stringify(this.params()) !== JSON.stringify(this.defaults()));
-  protected readonly newPresetName = signal('');
-  protected readonly saving = signal(false);
   protected readonly params = linkedSignal<PanelParams>(() => structuredClone(this.defaults()));
   protected readonly timings = resource({
     params: () => ({ studioId: this.context.studioId(), panelTypeId: this.panelTypeId() }),
@@ -175,7 +175,7 @@ export class Bench {
   protected readonly lastMs = signal(0);
   /** Finished draws, for tests and the benchmark to wait on. */
   protected readonly draws = signal(0);
-  protected readonly usingCpu = signal(false);
+  protected readonly usingCpu = computed(() => this.preview()?.usingCpu() ?? false);
   protected readonly inspect = signal<{ c: number; r: number; level: number; cd: number } | null>(null);
   protected readonly drift = signal<{ busy: boolean; share?: number; pixels?: number; maxChannel?: number; error?: string }>({
     busy: false,
@@ -259,7 +259,6 @@ export class Bench {
   constructor() {
     const destroy = inject(DestroyRef);
     destroy.onDestroy(() => {
-      this.engine.dispose();
       this.engineB.dispose();
       this.engineFlash.dispose();
       clearTimeout(this.flashTimer);
@@ -272,6 +271,11 @@ export class Bench {
       const observer = new ResizeObserver(() => this.box.set({ width: el.clientWidth, height: el.clientHeight }));
       observer.observe(el);
       onCleanup(() => observer.disconnect());
+    });
+    effect((onCleanup) => {
+      if (!this.playing()) return;
+      const playback = untracked(() => this.play());
+      onCleanup(() => playback.unsubscribe());
     });
     // A linked saved timing drives the panel's refresh rate (persistence and flicker).
     effect(() => {
@@ -291,7 +295,6 @@ export class Bench {
         this.presetId.set(`studio:${found.id}`);
       });
     });
-    effect(() => void this.redraw(this.params(), this.frame(), this.scale()));
     // A drift result belongs to the view it was taken of.
     effect(() => {
       this.params();
@@ -332,26 +335,24 @@ export class Bench {
       if (!on || frames.length === 0) return;
       let stopped = false;
       let raf = 0;
+      const preview = untracked(() => this.preview());
       onCleanup(() => {
         stopped = true;
         cancelAnimationFrame(raf);
-        untracked(() => this.drawAverage(params, scale));
+        untracked(() => preview?.restore(params, scale));
       });
       void untracked(async () => {
         this.sendFrames(this.engineFlash, frames);
         const cycle = await this.engineFlash.cycle(params, frame).catch((err: Error) => (this.status.set(err.message), null));
-        const gl = this.gl;
-        if (stopped || !cycle || !gl) return;
+        if (stopped || !cycle || !preview?.canShowRefreshes) return;
         const period = 1000 / params.drive.refreshHz;
-        const u = outputUniforms(params, scale);
         const start = performance.now();
         let shown = -1;
         const tick = (now: number) => {
           if (stopped) return;
           const r = Math.floor((now - start) / period) % cycle.emissions.length;
           if (r !== shown) {
-            gl.uploadEmission(cycle.emissions[r]);
-            gl.draw(u);
+            preview.showEmission(cycle.emissions[r], params, scale);
             shown = r;
             this.flickerShown.update((n) => n + 1);
           }
@@ -360,6 +361,22 @@ export class Bench {
         raf = requestAnimationFrame(tick);
       });
     });
+  }
+
+  /**
+   * Playback: while playing, each frame shows for its own delay (over the speed), then the next;
+   * without loop it stops on the last. An RxJS timer made anew for every frame, so a change of
+   * speed or frame takes effect at the next step; stopping (or leaving the page) unsubscribes.
+   */
+  private play(): Subscription {
+    const delay = () => ((this.frames.hasValue() ? this.frames.value()[this.frame()]?.delayMs : 0) || 100) / this.speed();
+    return defer(() => timer(delay()))
+      .pipe(repeat())
+      .subscribe(() => {
+        const frames = this.frames.hasValue() ? this.frames.value() : [];
+        if (!frames.length || (!this.loop() && this.frame() === frames.length - 1)) return this.playing.set(false);
+        this.step(1);
+      });
   }
 
   /** Unsaved tuning is never dropped without a word: switching panel type or preset asks first. */
@@ -399,93 +416,23 @@ export class Bench {
     });
   }
 
-  /** Saves the current parameters as the studio preset's next revision (409: someone was faster). */
-  protected async saveRevision(): Promise<void> {
-    const p = this.studioPreset();
-    if (!p) return;
-    this.saving.set(true);
-    try {
-      const saved = await this.presetApi.save(this.context.studioId(), p.id, { baseRevision: p.revision, parameters: this.params() });
-      this.studioPresets.update((list) => list?.map((x) => (x.id === saved.id ? saved : x)));
-      this.snackBar.open(`Saved “${saved.name}” as revision ${saved.revision}.`, undefined, { duration: 3000 });
-    } catch (err) {
-      if (apiErrorCode(err) === 'stale_revision') this.studioPresets.reload();
-      this.snackBar.open(apiErrorMessage(err), 'Dismiss', { duration: 10000 });
-    } finally {
-      this.saving.set(false);
-    }
+  /** A revision saved by the save panel replaces its preset in the list. */
+  protected revisionSaved(saved: PresetDto): void {
+    this.studioPresets.update((list) => list?.map((x) => (x.id === saved.id ? saved : x)));
   }
 
-  protected async saveAsNewPreset(): Promise<void> {
-    const name = this.newPresetName().trim();
-    if (!name) return;
-    this.saving.set(true);
-    try {
-      const created = await this.presetApi.create(this.context.studioId(), {
-        name,
-        panelTypeId: this.panelTypeId(),
-        parameters: this.params(),
-      });
-      this.studioPresets.update((list) => [...(list ?? []), created]);
-      this.presetId.set(`studio:${created.id}`);
-      this.newPresetName.set('');
-      this.snackBar.open(`Created preset “${created.name}”.`, undefined, { duration: 3000 });
-    } catch (err) {
-      this.snackBar.open(apiErrorMessage(err), 'Dismiss', { duration: 8000 });
-    } finally {
-      this.saving.set(false);
-    }
+  /** A preset created from the bench joins the list and opens. */
+  protected presetCreated(created: PresetDto): void {
+    this.studioPresets.update((list) => [...(list ?? []), created]);
+    this.presetId.set(`studio:${created.id}`);
   }
 
-  protected async redraw(params: PanelParams, frame: number, scale: number): Promise<void> {
-    if (!this.frames.hasValue() || !this.glCanvas()) return;
-    const frames = this.frames.value();
-    this.sendFrames(this.engine, frames);
-    this.gl ??= this.renderer() === 'cpu' ? null : PanelRenderer.create(this.glCanvas()!.nativeElement);
-    this.usingCpu.set(this.gl === null);
-    const started = performance.now();
-    const key = panelStageKey(params, frame, frames);
-    // Output-stage edits (light, colour, spot) reuse the panel fields: one GPU pass.
-    if (this.gl && this.lastResult && key === this.lastKey) {
-      this.gl.draw(outputUniforms(params, scale));
-      return this.finishDraw(started);
-    }
-    let result: PanelResult | null;
-    try {
-      result = await this.engine.render(params, frame, scale, this.gl === null);
-    } catch (err) {
-      this.status.set((err as Error).message);
-      return;
-    }
-    if (!result) return;
-    this.status.set('');
-    this.lastResult = result;
-    this.lastKey = key;
-    if (this.gl) {
-      this.gl.upload(result.emission, params.cell.cols, params.cell.rows, result.glow);
-      this.gl.draw(outputUniforms(params, scale));
-    } else if (result.image) {
-      putImage(this.cpuCanvas()!.nativeElement, result.image.data, result.image.width, result.image.height);
-    }
-    this.finishDraw(started);
-  }
-
-  /** Puts the panel's average (the last render) back on the canvas, after the flicker played. */
-  private drawAverage(params: PanelParams, scale: number): void {
-    if (!this.gl || !this.lastResult) return;
-    this.gl.upload(this.lastResult.emission, params.cell.cols, params.cell.rows, this.lastResult.glow);
-    this.gl.draw(outputUniforms(params, scale));
-  }
-
-  /** Waits for the GPU, then records the redraw (User Timing "emberline-redraw", from edit to finished frame). */
-  private finishDraw(started: number): void {
-    this.gl?.finish();
-    performance.measure('emberline-redraw', { start: started, end: performance.now() });
-    this.lastMs.set(performance.now() - started);
+  /** A frame of the live view finished: for the readout, and for tests and the benchmark to wait on. */
+  protected onDrawn(ms: number): void {
+    this.lastMs.set(ms);
     this.draws.update((n) => n + 1);
   }
-  private lastKey = '';
-  private lastResult?: PanelResult;
+
   private readonly sent = new WeakMap<BenchEngine, Frame[]>();
 
   /** Gives an engine the current frames once per artwork. */
@@ -523,7 +470,7 @@ export class Bench {
     const pixel = imagePointAt(this.viewMatrix(), at.x, at.y);
     const p = this.params().cell;
     const { width, height } = this.imageSize();
-    const emission = this.lastResult?.emission;
+    const emission = this.preview()?.emission;
     if (!pixel || !emission) return this.inspect.set(null);
     const c = Math.floor((pixel[0] / width) * p.cols);
     const r = Math.floor((pixel[1] / height) * p.rows);
@@ -677,14 +624,6 @@ export class Bench {
     // Played to the end without looping: start again from the first frame.
     if (!this.loop() && this.frame() === count - 1) this.frame.set(0);
     this.playing.set(true);
-    const delay = () => ((this.frames.hasValue() ? this.frames.value()[this.frame()]?.delayMs : 0) || 100) / this.speed();
-    const tick = () => {
-      if (!this.playing() || !this.frames.hasValue()) return;
-      if (!this.loop() && this.frame() === this.frames.value().length - 1) return this.playing.set(false);
-      this.step(1);
-      setTimeout(tick, delay());
-    };
-    setTimeout(tick, delay());
   }
 
   /** Where a drag of the card outline started: pointer x and the outline's width then. */
@@ -787,20 +726,11 @@ export class Bench {
     // The result shows above the preview: bring it into view within the preview pane.
     setTimeout(() => this.driftSection()?.nativeElement.scrollIntoView({ block: 'nearest' }));
     try {
-      const body = { artworkId: artwork.id, parameters: this.params(), scale: this.scale(), frame: this.frame() };
-      const render = await this.renders.render(this.context.studioId(), body);
-      const blob = await this.renders.png(render);
-      const reference = await decodePng(blob);
-      const live = this.livePixels();
-      const { width, height } = render;
-      if (live.length !== reference.length)
-        throw new Error(`the live view is ${this.uniforms().width} × ${this.uniforms().height} but the reference is ${width} × ${height}`);
-      // The heatmap marks every pixel that differs at all (threshold 0); the figures are exact.
-      const diff = new Uint8Array(width * height * 4);
-      pixelmatch(live, reference, diff, width, height, { threshold: 0 });
-      putImage(this.diffCanvas()!.nativeElement, diff, width, height);
-      const exact = pixelDiff(live, reference);
-      this.drift.set({ busy: false, share: exact.differing / exact.pixels, pixels: exact.differing, maxChannel: exact.maxChannel });
+      const view = { artworkId: artwork.id, parameters: this.params(), scale: this.scale(), frame: this.frame() };
+      const { width, height } = this.uniforms();
+      const d = await this.driftCheck.measure(this.context.studioId(), view, { pixels: this.livePixels(), width, height });
+      putImage(this.diffCanvas()!.nativeElement, d.heatmap.data, d.heatmap.width, d.heatmap.height);
+      this.drift.set({ busy: false, share: d.share, pixels: d.pixels, maxChannel: d.maxChannel });
     } catch (err) {
       this.drift.set({ busy: false, error: apiErrorMessage(err) });
     }
@@ -808,39 +738,6 @@ export class Bench {
 
   /** The live view's pixels, top-down RGBA. */
   livePixels(): Uint8Array {
-    if (this.gl) return this.gl.readPixels();
-    const canvas = this.cpuCanvas()!.nativeElement;
-    return new Uint8Array(canvas.getContext('2d')!.getImageData(0, 0, canvas.width, canvas.height).data.buffer);
+    return this.preview()!.pixels();
   }
-}
-
-/** Everything the panel-resolution stages and the glow field depend on (not the output stages). */
-function panelStageKey(p: PanelParams, frame: number, frames: Frame[]): string {
-  // Viewing, the emission colour and the CRT spot act only in the output stages.
-  const stages = { source: p.source, drive: p.drive, glass: p.glass, cell: { ...p.cell, spotSigma: 0 }, decayMs: p.emission.decayMs };
-  return JSON.stringify({ stages, frame, frames: framesId(frames) });
-}
-
-const frameIds = new WeakMap<Frame[], number>();
-let nextFramesId = 1;
-function framesId(frames: Frame[]): number {
-  if (!frameIds.has(frames)) frameIds.set(frames, nextFramesId++);
-  return frameIds.get(frames)!;
-}
-
-function putImage(canvas: HTMLCanvasElement, data: Uint8Array | Uint8ClampedArray, width: number, height: number): void {
-  canvas.width = width;
-  canvas.height = height;
-  canvas
-    .getContext('2d')!
-    .putImageData(new ImageData(new Uint8ClampedArray(data.buffer as ArrayBuffer, data.byteOffset, data.byteLength), width, height), 0, 0);
-}
-
-/** Decodes a PNG without colour management, as stored. */
-async function decodePng(blob: Blob): Promise<Uint8Array> {
-  const bitmap = await createImageBitmap(blob, { colorSpaceConversion: 'none', premultiplyAlpha: 'none' });
-  const canvas = new OffscreenCanvas(bitmap.width, bitmap.height);
-  const ctx = canvas.getContext('2d')!;
-  ctx.drawImage(bitmap, 0, 0);
-  return new Uint8Array(ctx.getImageData(0, 0, bitmap.width, bitmap.height).data.buffer);
 }
