@@ -1,12 +1,14 @@
 import type { RequestHandler } from 'express';
 import multer from 'multer';
-import { IMAGE_LIMITS } from '../render/decode';
 import { AppError } from './app-error';
 import { assertNoNul } from './refuse-nul';
 
+/** The largest file an upload takes (an image, a photo, a ROM); the image decoder holds to it too. */
+export const UPLOAD_MAX_BYTES = 20 * 1024 * 1024;
+
 const upload = multer({
   storage: multer.memoryStorage(),
-  limits: { fileSize: IMAGE_LIMITS.maxBytes, files: 1, fields: 8, fieldSize: 4096, parts: 10 },
+  limits: { fileSize: UPLOAD_MAX_BYTES, files: 1, fields: 8, fieldSize: 4096, parts: 10 },
   // File names arrive as UTF-8 from every current browser; busboy's default (latin1) garbles "ü".
   defParamCharset: 'utf8',
 });
@@ -25,9 +27,7 @@ export const uploadOne: RequestHandler = (req, res, next) =>
     }
     if (err instanceof multer.MulterError) {
       if (err.code === 'LIMIT_FILE_SIZE')
-        return next(
-          new AppError(413, 'file_too_large', `The file is larger than the limit of ${IMAGE_LIMITS.maxBytes / 1024 / 1024} MiB.`),
-        );
+        return next(new AppError(413, 'file_too_large', `The file is larger than the limit of ${UPLOAD_MAX_BYTES / 1024 / 1024} MiB.`));
       return next(new AppError(400, 'bad_upload', `The upload was refused: ${err.message}${err.field ? ` (${err.field})` : ''}.`));
     }
     // busboy's parse errors (an unterminated or malformed multipart body) are the client's.

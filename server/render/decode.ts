@@ -2,10 +2,11 @@ import sharp, { type Metadata, type OutputInfo } from 'sharp';
 import { checkSpriteSheet, SHEET_LIMITS, sliceSpriteSheet, type SpriteSheet } from '@shared/pipeline/sprite-sheet';
 import type { Frame } from '@shared/pipeline/types';
 import { AppError } from '../core/app-error';
+import { UPLOAD_MAX_BYTES } from '../core/upload';
 
 /** Upload limits: enforced before any pixel is decoded. */
 export const IMAGE_LIMITS = {
-  maxBytes: 20 * 1024 * 1024,
+  maxBytes: UPLOAD_MAX_BYTES,
   /** Pixels of one frame. */
   maxPixels: 16_000_000,
   maxFrames: SHEET_LIMITS.maxFrames,
