@@ -3,8 +3,7 @@
 // (jest-preset-angular, zoneless).
 const { createCjsPreset } = require('jest-preset-angular/presets');
 
-/** The `@shared/…` alias of tsconfig.json's paths, for code outside shared/. */
-const moduleNameMapper = { '^@shared/(.*)$': '<rootDir>/shared/$1' };
+const { moduleNameMapper } = require('./jest.paths');
 
 /** @type {import('jest').Config} */
 module.exports = {

@@ -1,5 +1,7 @@
 // The reliability drills (`npm run test:reliability`): hostile uploads, crashes and a database
 // outage against real server processes. They stop and start PostgreSQL, so they run alone, in band.
+const { moduleNameMapper } = require('./jest.paths');
+
 /** @type {import('jest').Config} */
 module.exports = {
   displayName: 'reliability',
@@ -12,4 +14,5 @@ module.exports = {
   maxWorkers: 1,
   transform: { '^.+\\.(ts|js|mjs)$': ['ts-jest', { tsconfig: '<rootDir>/tsconfig.server.json' }] },
   transformIgnorePatterns: ['/node_modules/(?!(pixelmatch|colorjs\\.io)/)'],
+  moduleNameMapper,
 };
