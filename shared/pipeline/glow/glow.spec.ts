@@ -1,6 +1,6 @@
 import sharp from 'sharp';
 import { extendedBox, extendedBoxVariance, gaussianBlur } from './blur';
-import { fluxField, glowField, glowPlan, haloRadiusFromGlass } from './glow';
+import { fluxField, glowField, glowPlan, haloRadiusFromGlass, ringOffsets, ringRows } from './glow';
 import { PANEL_TYPES } from '../../model/panel-types';
 
 describe('extended box cascade', () => {
@@ -130,5 +130,26 @@ describe('the halo is a ring (light reflected back by the glass–air surface)',
   test('it keeps the halo share of the cell’s light [calc]', () => {
     const total = field.data.reduce((a, b) => a + b, 0) / (m * m);
     expect(total).toBeCloseTo(0.2, 4);
+  });
+
+  test('each sample is the mean of the ring offsets inside the field, summed in offset order in double precision [def]', () => {
+    // Every path of ringRows (columns where all offsets are inside, four at a time, and the
+    // edges, where some fall off) against the definition, sample by sample, bit for bit.
+    const [w, h] = [37, 23];
+    const data = Float32Array.from({ length: w * h }, (_, i) => ((i * 2654435761) % 1000) / 997);
+    const ring = ringOffsets(6.4, 4.2, 1.1);
+    const out = new Float32Array(w * (h - 3));
+    ringRows({ width: w, height: h, data }, ring, 2, h - 1, out);
+    const expected = new Float32Array(out.length);
+    for (let y = 2; y < h - 1; y++)
+      for (let x = 0; x < w; x++) {
+        let sum = 0;
+        for (let k = 0; k < ring.length / 2; k++) {
+          const [sx, sy] = [x + ring[2 * k], y + ring[2 * k + 1]];
+          if (sx >= 0 && sx < w && sy >= 0 && sy < h) sum += data[sy * w + sx];
+        }
+        expected[(y - 2) * w + x] = sum * (2 / ring.length);
+      }
+    expect(Array.from(out)).toEqual(Array.from(expected));
   });
 });

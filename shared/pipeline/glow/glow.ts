@@ -107,10 +107,31 @@ function ringRowsOf(data: Float32Array, width: number, height: number, ring: Int
       hi = Math.min(hi, width - dx);
     }
     const o = (y - y0) * width;
-    for (let x = 0; x < width; x++) {
+    // Inside [lo, hi) every offset's sample is in the field: four columns at a time share each
+    // offset's index (four independent sums, each in offset order).
+    let x = 0;
+    for (; x < width; x++) {
+      if (x >= lo && x + 3 < hi) {
+        let s0 = 0;
+        let s1 = 0;
+        let s2 = 0;
+        let s3 = 0;
+        for (let k = 0; k < taps; k++) {
+          const b = bases[k] + x;
+          s0 += data[b];
+          s1 += data[b + 1];
+          s2 += data[b + 2];
+          s3 += data[b + 3];
+        }
+        out[o + x] = s0 * scale;
+        out[o + x + 1] = s1 * scale;
+        out[o + x + 2] = s2 * scale;
+        out[o + x + 3] = s3 * scale;
+        x += 3;
+        continue;
+      }
       let sum = 0;
-      if (x >= lo && x < hi) for (let k = 0; k < taps; k++) sum += data[bases[k] + x];
-      else for (let k = 0; k < taps; k++) if (x + shifts[k] >= 0 && x + shifts[k] < width) sum += data[bases[k] + x];
+      for (let k = 0; k < taps; k++) if (x + shifts[k] >= 0 && x + shifts[k] < width) sum += data[bases[k] + x];
       out[o + x] = sum * scale;
     }
   }
