@@ -25,12 +25,12 @@ const directivesOf = (csp: string) =>
       .map(([name, ...values]) => [name, values]),
   );
 
-test('the page: scripts from our origin only, styles by a fresh nonce that the page carries', async () => {
+test('the page: scripts from our origin only (and WebAssembly compiled, not eval), styles by a fresh nonce that the page carries', async () => {
   const client = new TestClient(h.app);
   const [first, second] = [await client.get('/studio/bench'), await client.get('/studio/bench')];
   expect(first.status).toBe(200);
   const directives = directivesOf(first.headers['content-security-policy']);
-  expect(directives.get('script-src')).toEqual(["'self'"]);
+  expect(directives.get('script-src')).toEqual(["'self'", "'wasm-unsafe-eval'"]);
   expect(directives.get('object-src')).toEqual(["'none'"]);
   expect(directives.get('frame-ancestors')).toEqual(["'none'"]);
   const nonce = directives

@@ -7,7 +7,9 @@ const helmetWithCsp = helmet({
     useDefaults: false,
     directives: {
       defaultSrc: ["'self'"],
-      scriptSrc: ["'self'"],
+      // 'wasm-unsafe-eval' lets the bench's worker compile the glow blur's WebAssembly kernels;
+      // it allows no eval() of script text.
+      scriptSrc: ["'self'", "'wasm-unsafe-eval'"],
       // Angular inserts component styles as <style> elements carrying the ngCspNonce value.
       styleSrc: ["'self'", (_req, res) => `'nonce-${(res as unknown as { locals: { cspNonce: string } }).locals.cspNonce}'`],
       imgSrc: ["'self'", 'data:', 'blob:'],

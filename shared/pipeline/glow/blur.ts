@@ -1,4 +1,5 @@
 import { scratchArray } from '../scratch';
+import { blurKernels } from './blur-kernels';
 
 /**
  * Gaussian blur by a cascade of extended box filters (Gwosdek, Grewenig, Bruhn & Weickert,
@@ -44,7 +45,8 @@ function passRow(from: Float32Array, to: Float32Array, width: number, pad: numbe
 }
 
 /**
- * The horizontal cascade for rows [y0, y1): each row through all passes in two small padded
+ * The horizontal cascade for rows [y0, y1) (by the SIMD kernels of blur.wat where the engine has
+ * them; the same bits either way): each row through all passes in two small padded
  * buffers (they stay in the processor's cache), written once to dst. `row(y, into, offset)`
  * supplies row y.
  */
@@ -57,6 +59,8 @@ function blurRows(
   r: number,
   alpha: number,
 ): void {
+  const kernels = blurKernels();
+  if (kernels) return kernels.across(row, dst, width, y0, y1, r, alpha, BOX_PASSES);
   const pad = r + 1;
   const size = width + 2 * pad;
   // Zero margins: the passes write only the row's own samples.
@@ -173,12 +177,15 @@ export function blurAcross(
 }
 
 /**
- * The second half for columns [x0, x1) of `data`, in place: σy down. Scratch arrays of this
+ * The second half for columns [x0, x1) of `data`, in place: σy down (by the SIMD kernels where
+ * the engine has them). Scratch arrays of this
  * thread carry the passes between, so two threads may each take a column band of one array.
  */
 export function blurDown(data: Float32Array, width: number, height: number, x0: number, x1: number, sigmaY: number): void {
   if (!(sigmaY > 0)) return;
   const { r, alpha } = extendedBox(sigmaY);
+  const kernels = blurKernels();
+  if (kernels) return kernels.down(data, width, height, x0, x1, r, alpha, BOX_PASSES);
   const sums = new Float64Array(width);
   let from: Float32Array = data;
   for (let p = 0; p < BOX_PASSES; p++) {
