@@ -1,10 +1,11 @@
+import { align16, instantiate, kernelsEnabled, reserve } from '../wasm';
 import { BLUR_WASM_BASE64 } from './blur-wasm';
 
 /**
  * The glow blur's passes as WebAssembly SIMD kernels (blur.wat): two samples per instruction,
  * the same bits as the TypeScript passes in blur.ts, three to four times as fast. One instance
  * per thread (each worker loads this module anew). Where WebAssembly or its SIMD is missing,
- * `blurKernels()` is null and blur.ts runs its own loops.
+ * `blurKernels()` is null and blur.ts runs its own loops (see ../wasm.ts).
  */
 export interface BlurKernels {
   /** Rows [y0, y1) of `row`'s field through `passes` extended-box passes across, into dst (width samples a row). */
@@ -30,42 +31,20 @@ interface Exports {
 
 /** Columns the down pass takes at a time: a band of 960 rows is then 2 MB, and its rows stay in cache. */
 const DOWN_COLUMNS = 512;
-const PAGE = 65536;
-const align16 = (bytes: number) => Math.ceil(bytes / 16) * 16;
 
 let loaded: BlurKernels | null | undefined;
-let enabled = true;
 
 /** The kernels of this thread, or null where WebAssembly SIMD is not available (or switched off). */
 export function blurKernels(): BlurKernels | null {
-  if (!enabled) return null;
+  if (!kernelsEnabled()) return null;
   if (loaded === undefined) loaded = load();
   return loaded;
 }
 
-/** Switches the kernels off (blur.ts then runs its own loops) or back on: for tests that compare the two. */
-export function useBlurKernels(on: boolean): void {
-  enabled = on;
-}
-
 function load(): BlurKernels | null {
-  if (typeof WebAssembly !== 'object') return null;
-  const bytes = Uint8Array.from(atob(BLUR_WASM_BASE64), (ch) => ch.charCodeAt(0));
-  // An engine without SIMD does not validate the module.
-  if (!WebAssembly.validate(bytes)) return null;
-  let k: Exports;
-  try {
-    k = new WebAssembly.Instance(new WebAssembly.Module(bytes), {}).exports as unknown as Exports;
-  } catch {
-    // A page whose Content-Security-Policy lacks 'wasm-unsafe-eval' may not compile it.
-    return null;
-  }
-  /** Float32 view of the whole memory with at least `bytes` bytes (grown when short; views made before are then stale). */
-  const memory = (bytes: number): Float32Array => {
-    const short = bytes - k.memory.buffer.byteLength;
-    if (short > 0) k.memory.grow(Math.ceil(short / PAGE));
-    return new Float32Array(k.memory.buffer);
-  };
+  const k = instantiate<Exports>(BLUR_WASM_BASE64);
+  if (!k) return null;
+  const memory = (bytes: number) => new Float32Array(reserve(k.memory, bytes));
   return {
     across(row, dst, width, y0, y1, r, alpha, passes) {
       const p = r + 1;

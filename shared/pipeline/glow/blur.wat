@@ -2,7 +2,7 @@
 ;; instruction in double precision. Each sample goes through the same operations in the same
 ;; order as the TypeScript passes — float32 in, promoted to float64, no fused multiply-add,
 ;; rounded to float32 on the way out — so the two give the same bits (blur-kernels.spec.ts).
-;; Compiled by `npx tsx scripts/gen-blur-wasm.ts` into blur-wasm.ts.
+;; Compiled by `npx tsx scripts/gen-wasm.ts` into blur-wasm.ts.
 ;;
 ;; Buffers carry zero margins of p = r + 1 samples (across) or rows (down) on both sides, so the
 ;; window never needs an edge check: adding a zero leaves a sum of light unchanged.

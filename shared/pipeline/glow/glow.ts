@@ -2,6 +2,7 @@ import type { PanelParams } from '../../model/parameters';
 import type { Field } from '../types';
 import { RING_SLOT, scratchArray } from '../scratch';
 import { blurAcross, blurDown } from './blur';
+import { sumKernels } from './sum-kernels';
 
 /** Halation ring radius from faceplate thickness t and index n: r = 2·t·tan(asin(1/n)). */
 export function haloRadiusFromGlass(thicknessMm: number, n: number): number {
@@ -83,7 +84,9 @@ export function ringOffsets(rx: number, ry: number, sigma: number): Int32Array {
  * Into `out`, whose row 0 is field row y0.
  */
 export function ringRows(field: Field, ring: Int32Array, y0: number, y1: number, out: Float32Array): void {
-  ringRowsOf(field.data, field.width, field.height, ring, y0, y1, out);
+  const kernels = sumKernels();
+  if (kernels) kernels.ring(field.data, field.width, field.height, ring, y0, y1, out);
+  else ringRowsOf(field.data, field.width, field.height, ring, y0, y1, out);
 }
 
 /** ringRows on a plain array and numbers (see upsampleRows for why). */
@@ -227,6 +230,8 @@ function upsampleRows(
 ): void {
   const xs = bilinearTaps(fw, cw, m, M);
   const ys = bilinearTaps(fh, ch, m, M);
+  const kernels = sumKernels();
+  if (kernels) return kernels.upsample(src, cw, coarseRow0, dst, fw, fineRow0, xs, ys, share, y0, y1);
   const xi0 = xs.i0;
   const xi1 = xs.i1;
   const xt = xs.t;

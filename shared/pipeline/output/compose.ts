@@ -1,6 +1,7 @@
 import { srgbDecode } from '../../color/srgb';
 import type { Field, RgbaImage } from '../types';
 import { apertureCoverage, lineCoverage } from './formulas';
+import { composeRows } from './compose-kernels';
 import type { OutputUniforms } from './uniforms';
 
 /** Per output column or row: which cells (or lines) touch it and with what coverage. */
@@ -311,80 +312,83 @@ export function compose(
   // precision (the same sums as interpolating both ways per pixel, a third of the work). Rows
   // are needed in order, so a few reused buffers hold the recent ones.
   const profiles = new RecentRows(ys.stride + 2);
-  const profileRows = Array.from({ length: profiles.size }, () => new Float32Array(width));
+  const glowRows = new RecentRows(4);
+  const coder = new PixelCoder(u);
+  const { perV, vMax } = coder;
+  // The words as signed integers: a final word (alpha 255) is negative. Read as unsigned, every
+  // opaque word is past 2³¹, a number the engine would allocate on the heap, once a pixel.
+  const table = new Int32Array(coder.table.buffer, coder.table.byteOffset, coder.table.length);
+  // The per-pixel loops run as WebAssembly kernels where the engine has them (same bits), on row
+  // buffers in the kernels' memory; else here.
+  const kernels = composeRows({
+    width,
+    cols,
+    glowWidth: glow.width,
+    profiles: profiles.size,
+    glowRows: glowRows.size,
+    xs,
+    gx,
+    table,
+    perV,
+    vMax,
+  });
+  const profileRows = kernels?.profiles ?? Array.from({ length: profiles.size }, () => new Float32Array(width));
   const profileOf = (r: number): Float32Array => {
     const row = profileRows[profiles.slot(r)];
     if (!profiles.holds(r)) {
-      rowProfile(emission, r, cols, xs, row);
+      if (kernels) kernels.rowProfile(emission, r, row);
+      else rowProfile(emission, r, cols, xs, row);
       profiles.mark(r);
     }
     return row;
   };
-  const glowRows = new RecentRows(4);
-  const glowRowBuffers = Array.from({ length: glowRows.size }, () => new Float64Array(width));
+  const glowRowBuffers = kernels?.glowRows ?? Array.from({ length: glowRows.size }, () => new Float64Array(width));
   const glowRowOf = (g: number): Float64Array => {
     const row = glowRowBuffers[glowRows.slot(g)];
     if (!glowRows.holds(g)) {
-      glowRowAcross(glow.data, (g - glowRow0) * glow.width, gx.index, gx.weight, row);
+      const base = (g - glowRow0) * glow.width;
+      if (kernels) kernels.glowRowAcross(glow.data, base, row);
+      else glowRowAcross(glow.data, base, gx.index, gx.weight, row);
       glowRows.mark(g);
     }
     return row;
   };
-  const coder = new PixelCoder(u);
+  const word = (v: number) => coder.word(v);
   const directShare = u.directShare;
-  const direct = new Float32Array(width);
+  const direct = kernels?.direct ?? new Float32Array(width);
   const data = image.data;
   // Output rows are encoded into `words`: the image itself where its bytes line up as
   // little-endian words, else a row buffer copied out byte by byte.
   const view = LITTLE_ENDIAN && data.byteOffset % 4 === 0 ? new Int32Array(data.buffer, data.byteOffset, data.length / 4) : null;
   const rowWords = new Int32Array(width);
-  const { perV, vMax } = coder;
-  // The words as signed integers: a final word (alpha 255) is negative. Read as unsigned, every
-  // opaque word is past 2³¹, a number the engine would allocate on the heap, once a pixel.
-  const table = new Int32Array(coder.table.buffer, coder.table.byteOffset, coder.table.length);
+  // The panel rows (or CRT lines) an output row sees, and their weights.
+  const seenWeights = new Float64Array(ys.stride);
+  const seen: Float32Array[] = [];
   for (let y = band.y0; y < band.y1; y++) {
-    // The direct light: the panel rows (or CRT lines) this output row sees, weighted. One or two
-    // rows (the common cases) are summed inside encodeRow; more are summed here into `direct`.
     let taps = 0;
-    let w0 = 0;
-    let w1 = 0;
-    let p0: Float32Array = direct;
-    let p1: Float32Array = direct;
     for (let k = 0; k < ys.stride; k++) {
       const wy = ys.weight[y * ys.stride + k];
       if (wy === 0) continue;
-      const p = profileOf(ys.index[y * ys.stride + k]);
-      if (taps === 0) {
-        w0 = wy;
-        p0 = p;
-      } else if (taps === 1) {
-        w1 = wy;
-        p1 = p;
-      } else {
-        if (taps === 2) for (let x = 0; x < width; x++) direct[x] = Math.fround(Math.fround(w0 * p0[x]) + w1 * p1[x]);
-        for (let x = 0; x < width; x++) direct[x] += wy * p[x];
-      }
-      taps++;
+      seenWeights[taps] = wy;
+      seen[taps++] = profileOf(ys.index[y * ys.stride + k]);
     }
-    if (taps > 2) p0 = direct;
+    // The direct light: one or two rows (the common cases) are summed inside encodeRow; more
+    // are summed into `direct` first, in float32 steps.
+    const [w0, w1] = [seenWeights[0], seenWeights[1]];
+    const p1 = seen[1] ?? direct;
+    let p0 = seen[0] ?? direct;
+    if (taps > 2) {
+      if (kernels) kernels.sumProfiles(taps, seenWeights, seen);
+      else {
+        for (let x = 0; x < width; x++) direct[x] = Math.fround(Math.fround(w0 * p0[x]) + w1 * p1[x]);
+        for (let k = 2; k < taps; k++) for (let x = 0; x < width; x++) direct[x] += seenWeights[k] * seen[k][x];
+      }
+      p0 = direct;
+    }
     const words = view ? view.subarray(y * width, (y + 1) * width) : rowWords;
-    encodeRow(
-      words,
-      taps,
-      w0,
-      p0,
-      w1,
-      p1,
-      directShare,
-      glowRowOf(gy.index[y * 2]),
-      gy.weight[y * 2],
-      glowRowOf(gy.index[y * 2 + 1]),
-      gy.weight[y * 2 + 1],
-      table,
-      perV,
-      vMax,
-      coder,
-    );
+    const [h0, h1] = [glowRowOf(gy.index[y * 2]), glowRowOf(gy.index[y * 2 + 1])];
+    if (kernels) kernels.encodeRow(words, taps, w0, p0, w1, p1, directShare, h0, gy.weight[y * 2], h1, gy.weight[y * 2 + 1], word);
+    else encodeRow(words, taps, w0, p0, w1, p1, directShare, h0, gy.weight[y * 2], h1, gy.weight[y * 2 + 1], table, perV, vMax, coder);
     if (!view) {
       const o = y * width * 4;
       for (let x = 0; x < width; x++) {

@@ -1,0 +1,129 @@
+import { align16, instantiate, kernelsEnabled, reserve } from '../wasm';
+import { SUM_WASM_BASE64 } from './sum-wasm';
+
+interface Exports {
+  memory: WebAssembly.Memory;
+  ringRows(
+    data: number,
+    width: number,
+    height: number,
+    ring: number,
+    n: number,
+    y0: number,
+    y1: number,
+    out: number,
+    scale: number,
+    bases: number,
+    shifts: number,
+  ): void;
+  acrossRow(row: number, i0: number, i1: number, t: number, out: number, n: number): void;
+  blendRow(dst: number, top: number, bottom: number, n: number, share: number, t: number): void;
+}
+
+/** Bilinear taps along one axis (glow.ts bilinearTaps). */
+export interface AxisTaps {
+  i0: Int32Array;
+  i1: Int32Array;
+  t: Float64Array;
+}
+
+/**
+ * The glow components' sum (glow.ts) as WebAssembly kernels (sum.wat): the halo's ring spread
+ * and the upsampling of a coarse component onto the finer grid, with the same bits as glow.ts's
+ * loops. The arrays are copied into the kernels' memory and the results back. Null where the
+ * kernels cannot run.
+ */
+export interface SumKernels {
+  /** glow.ts ringRows: rows [y0, y1) of a width × height field spread over `ring`, into `out`. */
+  ring(data: Float32Array, width: number, height: number, ring: Int32Array, y0: number, y1: number, out: Float32Array): void;
+  /**
+   * glow.ts upsampleRows: fine rows [y0, y1) of `dst` (rows from fineRow0 on, fw wide) gain share ×
+   * the coarse field `src` (rows from coarseRow0 on, cw wide) interpolated by the taps.
+   */
+  upsample(
+    src: Float32Array,
+    cw: number,
+    coarseRow0: number,
+    dst: Float32Array,
+    fw: number,
+    fineRow0: number,
+    xs: AxisTaps,
+    ys: AxisTaps,
+    share: number,
+    y0: number,
+    y1: number,
+  ): void;
+}
+
+let loaded: SumKernels | null | undefined;
+
+export function sumKernels(): SumKernels | null {
+  if (!kernelsEnabled()) return null;
+  if (loaded === undefined) loaded = load();
+  return loaded;
+}
+
+/** Byte offsets of regions laid out one after the other on 16-byte boundaries, and the end. */
+function layout(sizes: number[]): { at: number[]; end: number } {
+  const at: number[] = [];
+  let end = 0;
+  for (const bytes of sizes) {
+    at.push(end);
+    end += align16(bytes);
+  }
+  return { at, end };
+}
+
+function load(): SumKernels | null {
+  const k = instantiate<Exports>(SUM_WASM_BASE64);
+  if (!k) return null;
+  return {
+    ring(data, width, height, ring, y0, y1, out) {
+      const n = ring.length / 2;
+      // Only the field rows these rows reach.
+      let [dyMin, dyMax] = [0, 0];
+      for (let i = 1; i < ring.length; i += 2) [dyMin, dyMax] = [Math.min(dyMin, ring[i]), Math.max(dyMax, ring[i])];
+      const [from, to] = [Math.max(0, y0 + dyMin), Math.min(height, y1 + dyMax)];
+      const rows = Math.max(0, to - from);
+      const {
+        at: [fieldAt, ringAt, basesAt, shiftsAt, outAt],
+        end,
+      } = layout([rows * width * 4, ring.length * 4, n * 4, n * 4, (y1 - y0) * width * 4]);
+      const buffer = reserve(k.memory, end);
+      new Float32Array(buffer, fieldAt, rows * width).set(data.subarray(from * width, to * width));
+      new Int32Array(buffer, ringAt, ring.length).set(ring);
+      // Row 0 of the field sits `from` rows before the copy (addresses wrap as unsigned: only rows from `from` on are read).
+      k.ringRows(fieldAt - from * width * 4, width, height, ringAt, n, y0, y1, outAt, 1 / n, basesAt, shiftsAt);
+      out.set(new Float32Array(buffer, outAt, (y1 - y0) * width));
+    },
+    upsample(src, cw, coarseRow0, dst, fw, fineRow0, xs, ys, share, y0, y1) {
+      const coarseRows = src.length / cw;
+      const {
+        at: [srcAt, i0At, i1At, tAt, across0At, across1At, rowAt],
+        end,
+      } = layout([src.length * 4, fw * 4, fw * 4, fw * 8, fw * 8, fw * 8, fw * 4]);
+      const buffer = reserve(k.memory, end);
+      new Float32Array(buffer, srcAt, src.length).set(src);
+      new Int32Array(buffer, i0At, fw).set(xs.i0);
+      new Int32Array(buffer, i1At, fw).set(xs.i1);
+      new Float64Array(buffer, tAt, fw).set(xs.t);
+      const row = new Float32Array(buffer, rowAt, fw);
+      // Each coarse row interpolated across once and kept while fine rows read it: odd rows in
+      // one buffer, even in the other (rows are read in order), as glow.ts does.
+      const held = [-1, -1];
+      const across = [across0At, across1At];
+      for (let y = y0; y < y1; y++) {
+        for (const r of [ys.i0[y], ys.i1[y]]) {
+          if (held[r & 1] === r) continue;
+          if (r - coarseRow0 < 0 || r - coarseRow0 >= coarseRows) throw new RangeError(`coarse row ${r} is not in the rows given`);
+          k.acrossRow(srcAt + (r - coarseRow0) * cw * 4, i0At, i1At, tAt, across[r & 1], fw);
+          held[r & 1] = r;
+        }
+        const o = (y - fineRow0) * fw;
+        row.set(dst.subarray(o, o + fw));
+        k.blendRow(rowAt, across[ys.i0[y] & 1], across[ys.i1[y] & 1], fw, share, ys.t[y]);
+        dst.set(row, o);
+      }
+    },
+  };
+}
