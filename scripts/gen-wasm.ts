@@ -11,7 +11,12 @@ const MODULES = [
     name: 'BLUR_WASM_BASE64',
     what: 'The glow blur kernels (blur.wat)',
   },
-  { source: 'shared/pipeline/glow/sum.wat', out: 'shared/pipeline/glow/sum-wasm.ts', name: 'SUM_WASM_BASE64', what: 'The glow sum kernels (sum.wat)' },
+  {
+    source: 'shared/pipeline/glow/sum.wat',
+    out: 'shared/pipeline/glow/sum-wasm.ts',
+    name: 'SUM_WASM_BASE64',
+    what: 'The glow sum kernels (sum.wat)',
+  },
   {
     source: 'shared/pipeline/output/compose.wat',
     out: 'shared/pipeline/output/compose-wasm.ts',
