@@ -18,6 +18,15 @@ test('without WebGL the CPU fallback draws the reference picture, with a notice'
   await waitForDraw(page, 0);
   await expect(page.getByText('WebGL2 is not available here')).toBeVisible();
   await expect(page.getByTestId('cpu-canvas')).toBeVisible();
+  // The worker's glow and composer run as WebAssembly kernels: the page's policy lets it compile
+  // them (an empty module here), and the picture still equals the server's to the byte.
+  const compiles = await page.evaluate(() =>
+    WebAssembly.compile(new Uint8Array([0, 97, 115, 109, 1, 0, 0, 0])).then(
+      () => 'compiles',
+      (err: Error) => err.message,
+    ),
+  );
+  expect(compiles).toBe('compiles');
   expect(await driftShare(page)).toBe(0);
   await choose(page, 'Panel type', 'Monochrome CRT, green (P1-like)');
   await waitForDraw(page, 1);
