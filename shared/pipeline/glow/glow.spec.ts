@@ -1,6 +1,6 @@
 import sharp from 'sharp';
 import { extendedBox, extendedBoxVariance, gaussianBlur } from './blur';
-import { fluxField, glowField, glowPlan, haloRadiusFromGlass, ringOffsets, ringRows } from './glow';
+import { apertureShare, fluxField, glowField, glowPlan, haloRadiusFromGlass, ringOffsets, ringRows } from './glow';
 import { PANEL_TYPES } from '../../model/panel-types';
 
 describe('extended box cascade', () => {
@@ -83,6 +83,18 @@ describe('glass', () => {
     const flux = fluxField(new Float32Array([1, 0, 0.5, 0, 0, 1]), cell, 4);
     const total = flux.data.reduce((a, b) => a + b, 0) / 16;
     expect(total).toBeCloseTo((1 + 0.5 + 1) * 0.5 * 0.75, 9);
+  });
+
+  test.each([1, 2, 3, 4])('at %i samples a cell, each sub-sample is the cell’s light × its aperture shares across and down [def]', (m) => {
+    const cell = { ...PANEL_TYPES[0].defaults.cell, cols: 3, rows: 2, fillX: 0.55, fillY: 0.8 };
+    const emission = new Float32Array([1, 0.25, 0.5, 0.125, 0.75, 1]);
+    const flux = fluxField(emission, cell, m);
+    const expected = Float32Array.from({ length: 3 * m * 2 * m }, (_, i) => {
+      const [x, y] = [i % (3 * m), Math.floor(i / (3 * m))];
+      const e = emission[Math.floor(y / m) * 3 + Math.floor(x / m)] * apertureShare(0.8, y % m, m);
+      return e * apertureShare(0.55, x % m, m);
+    });
+    expect(Array.from(flux.data)).toEqual(Array.from(expected));
   });
 });
 

@@ -179,6 +179,16 @@ export function fluxRows(
       for (let c = 0; c < cols; c++) into[offset + c] = emission[base + c] * w * k0;
       return;
     }
+    if (m === 2) {
+      // The common oversampling, unrolled (the same products as the loop below).
+      const [k0, k1] = [wx[0], wx[1]];
+      for (let c = 0; c < cols; c++) {
+        const e = emission[base + c] * w;
+        into[offset + 2 * c] = e * k0;
+        into[offset + 2 * c + 1] = e * k1;
+      }
+      return;
+    }
     for (let c = 0; c < cols; c++) {
       const e = emission[base + c] * w;
       for (let k = 0; k < m; k++) into[offset + c * m + k] = e * wx[k];
