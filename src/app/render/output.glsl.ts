@@ -5,10 +5,10 @@
  * lineTaps, glowTaps), uploaded as small float textures. The shader fetches them by hand (no
  * hardware filtering) and forms v = direct + bilinear glow, in the CPU composer's order of
  * operations; light, exposure, soft knee and sRGB encode (formulas.ts) are the composer's own
- * per-channel code thresholds on v (threshold-table.ts), found by bisection. Every constant comes
+ * pixel table and per-channel code thresholds on v (threshold-table.ts). Every constant comes
  * from outputUniforms().
  */
-import { THRESHOLD_CODES } from './threshold-table';
+import { THRESHOLD_CODES, WORD_TABLE_WIDTH } from './threshold-table';
 
 export const FULLSCREEN_VERTEX = /* glsl */ `#version 300 es
 in vec2 position;
@@ -19,6 +19,8 @@ const HEADER = /* glsl */ `#version 300 es
 precision highp float;
 precision highp int;
 #define THRESHOLD_CODES ${THRESHOLD_CODES}
+#define WORD_TABLE_WIDTH ${WORD_TABLE_WIDTH}
+#define REFINE_STEPS 4
 uniform highp sampler2D emission;
 uniform highp sampler2D glow;
 // Per output column, texel row 0: (first cell, its coverage, next cell's coverage, 0);
@@ -36,6 +38,13 @@ uniform int lineStride;
 uniform float directShare;
 // Per code value c (texel c): the v from which red, green and blue show c (threshold-table.ts).
 uniform highp sampler2D thresholds;
+// The composer's pixel table over [0, vMax), perV cells per unit of v (threshold-table.ts wordTable).
+uniform highp usampler2D words;
+uniform float perV;
+uniform float vMax;
+// The codes of v = 0 and of any v ≥ vMax (constants).
+uniform vec3 zeroCodes;
+uniform vec3 topCodes;
 out vec4 outColor;
 `;
 
@@ -81,14 +90,37 @@ float computeV() {
 }
 `;
 
-/** Light, exposure, soft knee and sRGB encode of v: each channel's code by bisection over its thresholds. */
+/**
+ * Light, exposure, soft knee and sRGB encode of v: the codes of v = 0 and v ≥ vMax as given; in
+ * between, the composer's pixel table (one fetch; near a threshold, a lower bound stepped up past
+ * the thresholds v has reached); anything else (never light), each channel's code by bisection.
+ */
 const ENCODE_V = /* glsl */ `
+float thresholdOf(int code, int channel) { return texelFetch(thresholds, ivec2(code, 0), 0)[channel]; }
 vec4 encodeV(float v) {
+  if (v == 0.0) return vec4(zeroCodes / 255.0, 1.0);
+  if (v >= vMax) return vec4(topCodes / 255.0, 1.0);
+  if (v > 0.0) {
+    ivec2 size = textureSize(words, 0);
+    int cell = min(int(v * perV), size.x * size.y - 1);
+    uvec4 word = texelFetch(words, ivec2(cell % WORD_TABLE_WIDTH, cell / WORD_TABLE_WIDTH), 0);
+    ivec3 code = ivec3(word.rgb);
+    if (word.a == 255u) return vec4(vec3(code) / 255.0, 1.0);
+    for (int step = 0; step < REFINE_STEPS; step++) {
+      bvec3 up = bvec3(
+        code.r < THRESHOLD_CODES - 1 && v >= thresholdOf(code.r + 1, 0),
+        code.g < THRESHOLD_CODES - 1 && v >= thresholdOf(code.g + 1, 1),
+        code.b < THRESHOLD_CODES - 1 && v >= thresholdOf(code.b + 1, 2));
+      if (!any(up)) return vec4(vec3(code) / 255.0, 1.0);
+      code += ivec3(up);
+    }
+    // Still climbing after that many steps (very dense thresholds): bisection below.
+  }
   ivec3 lo = ivec3(0);
   ivec3 hi = ivec3(THRESHOLD_CODES - 1);
   for (int step = 0; step < 8; step++) {
     ivec3 mid = (lo + hi + 1) / 2;
-    vec3 t = vec3(texelFetch(thresholds, ivec2(mid.r, 0), 0).r, texelFetch(thresholds, ivec2(mid.g, 0), 0).g, texelFetch(thresholds, ivec2(mid.b, 0), 0).b);
+    vec3 t = vec3(thresholdOf(mid.r, 0), thresholdOf(mid.g, 1), thresholdOf(mid.b, 2));
     bvec3 above = greaterThanEqual(vec3(v), t);
     lo = ivec3(above.r ? mid.r : lo.r, above.g ? mid.g : lo.g, above.b ? mid.b : lo.b);
     hi = ivec3(above.r ? hi.r : mid.r - 1, above.g ? hi.g : mid.g - 1, above.b ? hi.b : mid.b - 1);

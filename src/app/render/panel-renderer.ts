@@ -1,7 +1,7 @@
 import { apertureTaps, glowTaps, lineTaps } from '@shared/pipeline/output/compose';
 import type { OutputUniforms } from '@shared/pipeline/output/uniforms';
 import type { Field } from '@shared/pipeline/types';
-import { THRESHOLD_CODES, thresholdTable } from './threshold-table';
+import { THRESHOLD_CODES, thresholdTable, wordTable } from './threshold-table';
 import { ENCODE_FRAGMENT, FULLSCREEN_VERTEX, PANEL_FRAGMENT, V_FRAGMENT } from './output.glsl';
 
 function compile(gl: WebGL2RenderingContext, vertex: string, fragment: string): WebGLProgram {
@@ -42,6 +42,8 @@ export class PanelRenderer {
   private readonly rowTex: WebGLTexture;
   private readonly lineTex: WebGLTexture;
   private readonly thresholdTex: WebGLTexture;
+  private readonly wordTex: WebGLTexture;
+  private words?: ReturnType<typeof wordTable>;
   private encodeKey = '';
   private grid = [0, 0];
   private glowSize = [0, 0];
@@ -72,15 +74,16 @@ export class PanelRenderer {
     gl.bufferData(gl.ARRAY_BUFFER, new Float32Array([-1, -1, 3, -1, -1, 3]), gl.STATIC_DRAW);
     gl.enableVertexAttribArray(0);
     gl.vertexAttribPointer(0, 2, gl.FLOAT, false, 0, 0);
-    this.emissionTex = this.floatTexture();
-    this.glowTex = this.floatTexture();
-    this.columnTex = this.floatTexture();
-    this.rowTex = this.floatTexture();
-    this.lineTex = this.floatTexture();
-    this.thresholdTex = this.floatTexture();
+    this.emissionTex = this.nearestTexture();
+    this.glowTex = this.nearestTexture();
+    this.columnTex = this.nearestTexture();
+    this.rowTex = this.nearestTexture();
+    this.lineTex = this.nearestTexture();
+    this.thresholdTex = this.nearestTexture();
+    this.wordTex = this.nearestTexture();
   }
 
-  /** The code thresholds on v, rebuilt when the light or colour uniforms change. */
+  /** The code thresholds and the pixel table on v, rebuilt when the light or colour uniforms change. */
   private uploadThresholds(u: OutputUniforms): void {
     const key = JSON.stringify([u.colour, u.colourY, u.ambientCdM2, u.peakCdM2, u.offCdM2, u.gain, u.knee]);
     if (key === this.encodeKey) return;
@@ -88,6 +91,11 @@ export class PanelRenderer {
     const gl = this.gl;
     gl.bindTexture(gl.TEXTURE_2D, this.thresholdTex);
     gl.texImage2D(gl.TEXTURE_2D, 0, gl.RGBA32F, THRESHOLD_CODES, 1, 0, gl.RGBA, gl.FLOAT, thresholdTable(u));
+    const words = wordTable(u);
+    gl.pixelStorei(gl.UNPACK_ALIGNMENT, 1);
+    gl.bindTexture(gl.TEXTURE_2D, this.wordTex);
+    gl.texImage2D(gl.TEXTURE_2D, 0, gl.RGBA8UI, words.width, words.height, 0, gl.RGBA_INTEGER, gl.UNSIGNED_BYTE, words.texels);
+    this.words = words;
   }
 
   /** Per-column and per-row taps (coverage and glow coordinates), rebuilt when the geometry changes. */
@@ -154,7 +162,7 @@ export class PanelRenderer {
     this.lineStride = lines.stride;
   }
 
-  private floatTexture(): WebGLTexture {
+  private nearestTexture(): WebGLTexture {
     const gl = this.gl;
     const tex = gl.createTexture()!;
     gl.bindTexture(gl.TEXTURE_2D, tex);
@@ -229,6 +237,7 @@ export class PanelRenderer {
       ['rowTaps', this.rowTex],
       ['lineTaps', this.lineTex],
       ['thresholds', this.thresholdTex],
+      ['words', this.wordTex],
       ['vField', vField],
     ];
     textures.forEach(([name, tex], unit) => {
@@ -243,6 +252,10 @@ export class PanelRenderer {
     gl.uniform1i(loc('crt'), u.crt ? 1 : 0);
     gl.uniform1i(loc('lineStride'), this.lineStride);
     gl.uniform1f(loc('directShare'), u.directShare);
+    gl.uniform1f(loc('perV'), this.words!.perV);
+    gl.uniform1f(loc('vMax'), this.words!.vMax);
+    gl.uniform3fv(loc('zeroCodes'), this.words!.zeroCodes);
+    gl.uniform3fv(loc('topCodes'), this.words!.topCodes);
     gl.drawArrays(gl.TRIANGLES, 0, 3);
   }
 
