@@ -28,8 +28,19 @@ export function reserve(memory: WebAssembly.Memory, bytes: number): ArrayBuffer 
   return memory.buffer;
 }
 
-/** Byte counts rounded up to whole 16-byte vectors, for laying out buffers. */
-export const align16 = (bytes: number) => Math.ceil(bytes / 16) * 16;
+/**
+ * Buffers laid out one after the other in a module's memory, each on a 16-byte boundary: the
+ * byte offset of each named region, and where the last one ends.
+ */
+export function layout<K extends string>(sizes: Record<K, number>): { at: Record<K, number>; end: number } {
+  const at = {} as Record<K, number>;
+  let end = 0;
+  for (const name of Object.keys(sizes) as K[]) {
+    at[name] = end;
+    end += Math.ceil(sizes[name] / 16) * 16;
+  }
+  return { at, end };
+}
 
 let enabled = true;
 

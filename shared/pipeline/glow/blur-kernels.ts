@@ -1,4 +1,4 @@
-import { align16, instantiate, kernelsEnabled, reserve } from '../wasm';
+import { instantiate, kernelsEnabled, layout, reserve } from '../wasm';
 import { BLUR_WASM_BASE64 } from './blur-wasm';
 
 /**
@@ -49,11 +49,13 @@ function load(): BlurKernels | null {
     across(row, dst, width, y0, y1, r, alpha, passes) {
       const p = r + 1;
       // Two row buffers, then two interleaved pass buffers with p zero positions either side.
-      const rowBytes = align16(width * 4);
-      const pairBytes = align16((width + 2 * p) * 8);
-      const [a, b, p0, p1] = [0, rowBytes, 2 * rowBytes, 2 * rowBytes + pairBytes];
-      const f32 = memory(p1 + pairBytes);
-      f32.fill(0, p0 / 4, (p1 + pairBytes) / 4);
+      const pairBytes = (width + 2 * p) * 8;
+      const {
+        at: { a, b, p0, p1 },
+        end,
+      } = layout({ a: width * 4, b: width * 4, p0: pairBytes, p1: pairBytes });
+      const f32 = memory(end);
+      f32.fill(0, p0 / 4, end / 4);
       const c = 1 / (2 * r + 1 + 2 * alpha);
       for (let y = y0; y < y1; y += 2) {
         const pair = y + 1 < y1;
@@ -68,9 +70,12 @@ function load(): BlurKernels | null {
     down(data, width, height, x0, x1, r, alpha, passes) {
       const p = r + 1;
       const most = Math.min(DOWN_COLUMNS, x1 - x0);
-      const bandBytes = align16((height + 2 * p) * most * 4);
-      const [sums, b0, b1] = [0, align16(most * 8), align16(most * 8) + bandBytes];
-      const f32 = memory(b1 + bandBytes);
+      const bandBytes = (height + 2 * p) * most * 4;
+      const {
+        at: { sums, b0, b1 },
+        end,
+      } = layout({ sums: most * 8, b0: bandBytes, b1: bandBytes });
+      const f32 = memory(end);
       const c = 1 / (2 * r + 1 + 2 * alpha);
       for (let cx = x0; cx < x1; cx += DOWN_COLUMNS) {
         const w = Math.min(DOWN_COLUMNS, x1 - cx);

@@ -1,4 +1,4 @@
-import { align16, instantiate, kernelsEnabled, reserve } from '../wasm';
+import { instantiate, kernelsEnabled, layout, reserve } from '../wasm';
 import { SUM_WASM_BASE64 } from './sum-wasm';
 
 interface Exports {
@@ -63,17 +63,6 @@ export function sumKernels(): SumKernels | null {
   return loaded;
 }
 
-/** Byte offsets of regions laid out one after the other on 16-byte boundaries, and the end. */
-function layout(sizes: number[]): { at: number[]; end: number } {
-  const at: number[] = [];
-  let end = 0;
-  for (const bytes of sizes) {
-    at.push(end);
-    end += align16(bytes);
-  }
-  return { at, end };
-}
-
 function load(): SumKernels | null {
   const k = instantiate<Exports>(SUM_WASM_BASE64);
   if (!k) return null;
@@ -85,43 +74,43 @@ function load(): SumKernels | null {
       for (let i = 1; i < ring.length; i += 2) [dyMin, dyMax] = [Math.min(dyMin, ring[i]), Math.max(dyMax, ring[i])];
       const [from, to] = [Math.max(0, y0 + dyMin), Math.min(height, y1 + dyMax)];
       const rows = Math.max(0, to - from);
-      const {
-        at: [fieldAt, ringAt, basesAt, shiftsAt, outAt],
-        end,
-      } = layout([rows * width * 4, ring.length * 4, n * 4, n * 4, (y1 - y0) * width * 4]);
+      const { at, end } = layout({
+        field: rows * width * 4,
+        ring: ring.length * 4,
+        bases: n * 4,
+        shifts: n * 4,
+        out: (y1 - y0) * width * 4,
+      });
       const buffer = reserve(k.memory, end);
-      new Float32Array(buffer, fieldAt, rows * width).set(data.subarray(from * width, to * width));
-      new Int32Array(buffer, ringAt, ring.length).set(ring);
+      new Float32Array(buffer, at.field, rows * width).set(data.subarray(from * width, to * width));
+      new Int32Array(buffer, at.ring, ring.length).set(ring);
       // Row 0 of the field sits `from` rows before the copy (addresses wrap as unsigned: only rows from `from` on are read).
-      k.ringRows(fieldAt - from * width * 4, width, height, ringAt, n, y0, y1, outAt, 1 / n, basesAt, shiftsAt);
-      out.set(new Float32Array(buffer, outAt, (y1 - y0) * width));
+      k.ringRows(at.field - from * width * 4, width, height, at.ring, n, y0, y1, at.out, 1 / n, at.bases, at.shifts);
+      out.set(new Float32Array(buffer, at.out, (y1 - y0) * width));
     },
     upsample(src, cw, coarseRow0, dst, fw, fineRow0, xs, ys, share, y0, y1) {
       const coarseRows = src.length / cw;
-      const {
-        at: [srcAt, i0At, i1At, tAt, across0At, across1At, rowAt],
-        end,
-      } = layout([src.length * 4, fw * 4, fw * 4, fw * 8, fw * 8, fw * 8, fw * 4]);
+      const { at, end } = layout({ src: src.length * 4, i0: fw * 4, i1: fw * 4, t: fw * 8, across0: fw * 8, across1: fw * 8, row: fw * 4 });
       const buffer = reserve(k.memory, end);
-      new Float32Array(buffer, srcAt, src.length).set(src);
-      new Int32Array(buffer, i0At, fw).set(xs.i0);
-      new Int32Array(buffer, i1At, fw).set(xs.i1);
-      new Float64Array(buffer, tAt, fw).set(xs.t);
-      const row = new Float32Array(buffer, rowAt, fw);
+      new Float32Array(buffer, at.src, src.length).set(src);
+      new Int32Array(buffer, at.i0, fw).set(xs.i0);
+      new Int32Array(buffer, at.i1, fw).set(xs.i1);
+      new Float64Array(buffer, at.t, fw).set(xs.t);
+      const row = new Float32Array(buffer, at.row, fw);
       // Each coarse row interpolated across once and kept while fine rows read it: odd rows in
       // one buffer, even in the other (rows are read in order), as glow.ts does.
       const held = [-1, -1];
-      const across = [across0At, across1At];
+      const across = [at.across0, at.across1];
       for (let y = y0; y < y1; y++) {
         for (const r of [ys.i0[y], ys.i1[y]]) {
           if (held[r & 1] === r) continue;
           if (r - coarseRow0 < 0 || r - coarseRow0 >= coarseRows) throw new RangeError(`coarse row ${r} is not in the rows given`);
-          k.acrossRow(srcAt + (r - coarseRow0) * cw * 4, i0At, i1At, tAt, across[r & 1], fw);
+          k.acrossRow(at.src + (r - coarseRow0) * cw * 4, at.i0, at.i1, at.t, across[r & 1], fw);
           held[r & 1] = r;
         }
         const o = (y - fineRow0) * fw;
         row.set(dst.subarray(o, o + fw));
-        k.blendRow(rowAt, across[ys.i0[y] & 1], across[ys.i1[y] & 1], fw, share, ys.t[y]);
+        k.blendRow(at.row, across[ys.i0[y] & 1], across[ys.i1[y] & 1], fw, share, ys.t[y]);
         dst.set(row, o);
       }
     },

@@ -1,4 +1,4 @@
-import { align16, instantiate, kernelsEnabled, reserve } from '../wasm';
+import { instantiate, kernelsEnabled, layout, reserve } from '../wasm';
 import { COMPOSE_WASM_BASE64 } from './compose-wasm';
 
 interface Exports {
@@ -90,8 +90,8 @@ export function composeRows(shape: ComposeShape): ComposeRows | null {
   const k = loaded;
   if (!k) return null;
   const { width, cols, glowWidth, xs, gx, table, perV, vMax } = shape;
-  // Byte layout, one region after the other (each on a 16-byte boundary).
-  const regions = {
+  // Byte layout, one region after the other.
+  const { at, end } = layout({
     table: table.length * 4,
     xsIndex: xs.index.length * 4,
     xsWeight: xs.weight.length * 4,
@@ -107,13 +107,7 @@ export function composeRows(shape: ComposeShape): ComposeRows | null {
     slowV: width * 8,
     seenWeights: shape.profiles * 8,
     seenRows: shape.profiles * 4,
-  };
-  const at = {} as Record<keyof typeof regions, number>;
-  let end = 0;
-  for (const [name, bytes] of Object.entries(regions) as [keyof typeof regions, number][]) {
-    at[name] = end;
-    end += align16(bytes);
-  }
+  });
   const buffer = reserve(k.memory, end);
   new Int32Array(buffer, at.table, table.length).set(table);
   new Int32Array(buffer, at.xsIndex, xs.index.length).set(xs.index);
