@@ -4,7 +4,7 @@ import sharp from 'sharp';
 import { builtInPresetById } from '@shared/model/panel-types';
 import { mergeParams, type PanelParams } from '@shared/model/parameters';
 import { decodeImage } from '../server/render/decode';
-import { encodePng } from '../server/render/encode';
+import { renderPng } from '../server/render/png';
 import { RenderEngine, type RenderRequest } from '../server/render/render-engine';
 import { renderCpu } from '@shared/pipeline/render';
 import { panelEmission, panelGlow } from '@shared/pipeline/render';
@@ -31,8 +31,8 @@ async function main() {
   const base = builtInPresetById('el-amber-640x480.standard')!.parameters;
   const withGlow = (mm: number): PanelParams => mergeParams(base, { glass: { glowRadiusMm: mm } });
   const scale = 3;
-  // Single thread: decode, the whole CPU pipeline and PNG encode on this thread.
-  const singleThread = async (parameters: PanelParams) => encodePng(renderCpu((await decodeImage(input)).frames, parameters, { scale }));
+  // Single thread: decode, the whole CPU pipeline and the PNG file (one band) on this thread.
+  const singleThread = async (parameters: PanelParams) => renderPng(renderCpu((await decodeImage(input)).frames, parameters, { scale }));
   const renderMs = await time(() => singleThread(base));
   const small = await time(() => singleThread(withGlow(0.2)));
   const large = await time(() => singleThread(withGlow(5)));
@@ -63,7 +63,7 @@ async function main() {
   const panelMs = await time(async () => (emission = panelEmission(frames, base)));
   const glowMs = await time(async () => (glow = panelGlow(emission, base)));
   const composeMs = await time(async () => (image = compose(emission, glow, u)));
-  const encodeMs = await time(() => encodePng(image));
+  const encodeMs = await time(async () => renderPng(image));
 
   // Baseline: sharp blurring an image of the same output size with the same σ in output pixels, encoded as PNG.
   const sigmaPx = (base.glass.glowRadiusMm / base.cell.pitchXMm) * scale;
@@ -77,12 +77,12 @@ async function main() {
 
   const rows: [string, number][] = [
     ['full render, 640×480 → 1920×1440 PNG, one thread', renderMs],
-    [`full render on the pool (${engine.threads} threads, row bands)`, parallelRenderMs],
+    [`full render on the pool (${engine.threads} threads, row bands deflated there)`, parallelRenderMs],
     ['  decode input', decodeMs],
     ['  panel stages (fit, tone, levels, row loading)', panelMs],
     ['  glow field', glowMs],
     ['  output stages (cells, glow, colour, light, encode8)', composeMs],
-    ['  PNG encode', encodeMs],
+    ['  PNG file (scanlines, deflate level 2, one band)', encodeMs],
     ['full render, glow radius 0.2 mm', small],
     ['full render, glow radius 5 mm', large],
     [`sharp blur(σ = ${sigmaPx.toFixed(2)} px) + PNG, same size`, sharpBaselineMs],

@@ -1,5 +1,5 @@
-// Compiles the pipeline's WebAssembly kernels (shared/pipeline/**/*.wat) with wabt and writes each
-// module beside its source as base64 (blur.wat → blur-wasm.ts). With --check it writes nothing
+// Compiles the WebAssembly kernels (shared/pipeline/**/*.wat, server/render/png.wat) with wabt and
+// writes each module beside its source as base64 (blur.wat → blur-wasm.ts). With --check it writes nothing
 // and exits 1 when a committed module differs from its source (a shared test runs that).
 import { readFileSync, writeFileSync } from 'node:fs';
 import wabt from 'wabt';
@@ -22,6 +22,12 @@ const MODULES = [
     out: 'shared/pipeline/output/compose-wasm.ts',
     name: 'COMPOSE_WASM_BASE64',
     what: "The composer's per-pixel kernels (compose.wat)",
+  },
+  {
+    source: 'server/render/png.wat',
+    out: 'server/render/png-wasm.ts',
+    name: 'PNG_WASM_BASE64',
+    what: "The PNG writer's byte loops (png.wat)",
   },
 ];
 

@@ -2,8 +2,9 @@ import sharp from 'sharp';
 import type { RgbaImage } from '@shared/pipeline/types';
 
 /**
- * Opaque RGBA → RGB PNG with sharp, fast compression (renders are large and re-encoded rarely).
- * Renders are always opaque, so the alpha channel is dropped: a third less to compress.
+ * Opaque RGBA → RGB PNG with sharp, fast compression, on libvips' threads: for sheets and match
+ * images. The alpha channel is dropped (a third less to compress). Reference renders are written
+ * by png.ts instead, in bands on the render pool's threads.
  */
 export function encodePng(image: RgbaImage): Promise<Buffer> {
   return sharp(Buffer.from(image.data.buffer, image.data.byteOffset, image.data.byteLength), {

@@ -12,6 +12,7 @@ import { solveHomography, type Point } from '@shared/match/homography';
 import { patternFor } from '@shared/match/pattern';
 import { linearise, rectify } from '@shared/match/photo';
 import type { RgbaImage } from '@shared/pipeline/types';
+import { deflateBand, type PngBand } from './png';
 
 /**
  * The tasks the render pool's worker threads run. Large arrays live in SharedArrayBuffers, so
@@ -56,7 +57,8 @@ export function glowStep(task: {
  * field's rows this band reads are summed from the blurred components here first, into this
  * thread's own scratch (a row or two at a band's edges is summed by both neighbours, the same
  * values): one round trip less than a separate sum step, and the rows are still in the cache
- * when compose reads them.
+ * when compose reads them. With `png`, the band's rows are then deflated for the PNG file
+ * (png.ts), while they are still in the cache too.
  */
 export function band(task: {
   emission: Float32Array;
@@ -65,7 +67,8 @@ export function band(task: {
   scale: number;
   rows: RowBand;
   out: Uint8Array;
-}): number {
+  png: boolean;
+}): PngBand | null {
   const { cell, glass } = task.parameters;
   const u = outputUniforms(task.parameters, task.scale);
   const plan = glowPlan(cell, glass);
@@ -73,8 +76,9 @@ export function band(task: {
   const rows = glowRowsFor(u, size.height, task.rows);
   const glow: Field = { ...size, data: scratchArray(GLOW_SLOT, (rows.y1 - rows.y0) * size.width) };
   sumComponents(cell, plan, task.components, glow, rows.y0, rows.y1, rows.y0);
-  compose(task.emission, glow, u, { width: u.width, height: u.height, data: task.out }, task.rows, rows.y0);
-  return task.rows.y1 - task.rows.y0;
+  const image = { width: u.width, height: u.height, data: task.out };
+  compose(task.emission, glow, u, image, task.rows, rows.y0);
+  return task.png ? deflateBand(image, task.rows.y0, task.rows.y1, task.rows.y1 === u.height) : null;
 }
 
 /** A panel match's fit (shared/match/fit.ts), its progress posted on `port`; a photo it cannot fit comes back as a refusal, not an error. */

@@ -11,7 +11,7 @@ import type { SpriteSheet } from '@shared/pipeline/sprite-sheet';
 import type { Frame, RgbaImage } from '@shared/pipeline/types';
 import { AppError } from '../core/app-error';
 import { decodeImage, framesOf } from './decode';
-import { encodePng } from './encode';
+import { joinPng, type PngBand } from './png';
 import { shared } from './pool-tasks';
 import { SharedBufferPool } from './shared-buffers';
 
@@ -92,11 +92,11 @@ class FrameCache {
 
 /**
  * Reference renders on a pool of worker threads (piscina), sized to the cores. The HTTP thread
- * decodes (sharp, on libvips' own threads), checks sizes and encodes; every pipeline stage runs in
- * a worker. One render is split in steps — the panel stages, the glow components blurred in
- * bands, then the output stages in row bands (each summing the glow rows it reads), one band a
- * thread — so a single large render uses every core, and the
- * bytes equal a single-thread render (each output row depends only on the inputs).
+ * decodes (sharp, on libvips' own threads), checks sizes and joins the PNG file; every pipeline
+ * stage runs in a worker. One render is split in steps — the panel stages, the glow components
+ * blurred in bands, then the output stages in row bands (each summing the glow rows it reads and
+ * deflating its rows for the PNG file), one band a thread — so a single large render uses every
+ * core, and the pixels equal a single-thread render (each output row depends only on the inputs).
  */
 export class RenderEngine {
   readonly threads: number;
@@ -153,18 +153,34 @@ export class RenderEngine {
     return this.frames.get(input, sheet);
   }
 
-  /** A full render: decode (cached), panel stages and glow, output stages in bands, PNG. */
+  /** A full render: decode (cached), panel stages and glow, output stages in bands, each band deflated there; the PNG joined here. */
   async render(req: RenderRequest, options: { bands?: number } = {}): Promise<RenderedPng> {
-    return this.withRender(req, options, async (image) => ({ png: await encodePng(image), width: image.width, height: image.height }));
+    return this.withRender(req, options, true, (image, bands) => ({
+      png: joinPng(image.width, image.height, bands),
+      width: image.width,
+      height: image.height,
+    }));
   }
 
   /** A full render as raw RGBA (its own copy), for work that puts renders together (comparison sheets). */
   async renderImage(req: RenderRequest, options: { bands?: number } = {}): Promise<RgbaImage> {
-    return this.withRender(req, options, async (image) => ({ width: image.width, height: image.height, data: new Uint8Array(image.data) }));
+    return this.withRender(req, options, false, (image) => ({
+      width: image.width,
+      height: image.height,
+      data: new Uint8Array(image.data),
+    }));
   }
 
-  /** Renders into reused shared buffers and hands the output image to `use` before the buffers go back. */
-  private async withRender<T>(req: RenderRequest, options: { bands?: number }, use: (image: RgbaImage) => Promise<T>): Promise<T> {
+  /**
+   * Renders into reused shared buffers and hands the output image to `use` before the buffers go
+   * back, with each band's PNG data when `png` is asked for.
+   */
+  private async withRender<T>(
+    req: RenderRequest,
+    options: { bands?: number },
+    png: boolean,
+    use: (image: RgbaImage, bands: PngBand[]) => T,
+  ): Promise<T> {
     const { width, height } = RenderEngine.check(req);
     if (this.pending >= this.maxPending) {
       throw new AppError(503, 'render_busy', `The renderer has ${this.pending} renders in hand, its limit. Try again in a few seconds.`, {
@@ -202,7 +218,7 @@ export class RenderEngine {
           'glowStep',
           steps('down', (c) => c.width),
         );
-        await this.runAll(
+        const pngBands = await this.runAll(
           'band',
           bandsOf(height, threads).map(([y0, y1]) => ({
             emission,
@@ -211,9 +227,10 @@ export class RenderEngine {
             scale: req.scale,
             rows: { y0, y1 },
             out,
+            png,
           })),
         );
-        return await use({ width, height, data: out });
+        return use({ width, height, data: out }, pngBands as PngBand[]);
       } finally {
         this.buffers.release(...buffers);
       }
@@ -226,10 +243,11 @@ export class RenderEngine {
    * Runs tasks at once and waits for every one to settle before answering: a failed task must not
    * leave another still writing into buffers that go back to the pool.
    */
-  private async runAll(name: TaskName, tasks: unknown[]): Promise<void> {
+  private async runAll(name: TaskName, tasks: unknown[]): Promise<unknown[]> {
     const settled = await Promise.allSettled(tasks.map((t) => this.run(name, t)));
     const failed = settled.find((r) => r.status === 'rejected');
     if (failed) throw failed.reason;
+    return settled.map((r) => (r as PromiseFulfilledResult<unknown>).value);
   }
 
   /** Runs a named task; a worker's error comes back as 500 render_failed, and the pool replaces a dead worker. */

@@ -1,0 +1,153 @@
+import zlib from 'node:zlib';
+import { instantiate, kernelsEnabled, layout, reserve } from '@shared/pipeline/wasm';
+import type { RgbaImage } from '@shared/pipeline/types';
+import { PNG_WASM_BASE64 } from './png-wasm';
+
+/**
+ * PNG files of renders, written in row bands on the render pool's threads (the way pigz
+ * compresses in parallel). Each band's scanlines — filter type 0, then RGB; renders are opaque —
+ * are deflated on their own (zlib level 2), every band but the last ending on a sync flush so its
+ * bytes end on a byte boundary, with the Adler-32 of its scanlines. The HTTP thread then joins the
+ * bands into one zlib stream (header, the bands' deflate data in order, the Adler-32 of them all
+ * combined) in one IDAT chunk. The file format: PNG (ISO/IEC 15948, W3C PNG 2nd edition); the
+ * stream: RFC 1950 (zlib) and RFC 1951 (deflate). A band starts without the previous band's
+ * window, which costs a few hundred bytes a band; its pixels are the same.
+ */
+
+/** One band's deflate data and what joining it needs. */
+export interface PngBand {
+  /** Raw deflate data (RFC 1951): a sync flush at the end, or the final block for the last band. */
+  deflated: Uint8Array;
+  /** Adler-32 of the band's scanlines. */
+  adler: number;
+  /** Length of the band's scanlines in bytes. */
+  length: number;
+}
+
+/** zlib level 2: about the size of level 6 on renders at a third of the time (measured in bench/render.bench.ts). */
+const LEVEL = 2;
+const ADLER_BASE = 65521;
+
+interface Exports {
+  memory: WebAssembly.Memory;
+  packRows(src: number, dst: number, width: number, rows: number): void;
+  adler32(adler: number, p: number, len: number): number;
+}
+let loaded: Exports | null | undefined;
+/** The kernels, or null where they cannot run (the loops below run instead). */
+export const pngKernels = (): Exports | null => {
+  if (!kernelsEnabled()) return null;
+  if (loaded === undefined) loaded = instantiate<Exports>(PNG_WASM_BASE64);
+  return loaded;
+};
+
+/** Bytes of PNG scanlines of `rows` rows `width` pixels wide (RGB, a filter byte a row). */
+const scanlineBytes = (width: number, rows: number) => rows * (width * 3 + 1);
+
+/** Rows y0 … y1 of an RGBA image as PNG scanlines (filter 0, RGB): the definition of png.wat's packRows. */
+export function packRows(image: RgbaImage, y0: number, y1: number, out = new Uint8Array(scanlineBytes(image.width, y1 - y0))): Uint8Array {
+  const { width, data } = image;
+  let o = 0;
+  for (let y = y0; y < y1; y++) {
+    out[o++] = 0;
+    for (let x = 0, i = y * width * 4; x < width; x++, i += 4) {
+      out[o++] = data[i];
+      out[o++] = data[i + 1];
+      out[o++] = data[i + 2];
+    }
+  }
+  return out;
+}
+
+/** Adler-32 (RFC 1950, section 8.2) of `bytes`, continuing from `adler`: the definition of png.wat's adler32. */
+export function adler32(bytes: Uint8Array, adler = 1): number {
+  let s1 = adler & 0xffff;
+  let s2 = adler >>> 16;
+  for (let i = 0; i < bytes.length;) {
+    // The remainder every 5552 bytes, as zlib takes it (NMAX).
+    const end = Math.min(bytes.length, i + 5552);
+    for (; i < end; i++) {
+      s1 += bytes[i];
+      s2 += s1;
+    }
+    s1 %= ADLER_BASE;
+    s2 %= ADLER_BASE;
+  }
+  return ((s2 << 16) | s1) >>> 0;
+}
+
+/** The Adler-32 of A followed by B from the Adler-32 of each and B's length (zlib's adler32_combine). */
+export function adler32Combine(a: number, b: number, lengthB: number): number {
+  const rem = lengthB % ADLER_BASE;
+  let s1 = a & 0xffff;
+  let s2 = (rem * s1) % ADLER_BASE;
+  s1 += (b & 0xffff) + ADLER_BASE - 1;
+  s2 += (a >>> 16) + (b >>> 16) + ADLER_BASE - rem;
+  if (s1 >= ADLER_BASE) s1 -= ADLER_BASE;
+  if (s1 >= ADLER_BASE) s1 -= ADLER_BASE;
+  if (s2 >= 2 * ADLER_BASE) s2 -= 2 * ADLER_BASE;
+  if (s2 >= ADLER_BASE) s2 -= ADLER_BASE;
+  return ((s2 << 16) | s1) >>> 0;
+}
+
+/** The scanlines of rows y0 … y1 and their Adler-32, through the kernels where they run. */
+function scanlines(image: RgbaImage, y0: number, y1: number): { bytes: Uint8Array; adler: number } {
+  const k = pngKernels();
+  const length = scanlineBytes(image.width, y1 - y0);
+  if (!k) {
+    const bytes = packRows(image, y0, y1);
+    return { bytes, adler: adler32(bytes) };
+  }
+  const rgba = image.width * 4 * (y1 - y0);
+  // The packed rows' 16-byte stores run up to 4 bytes past the end.
+  const { at, end } = layout({ src: rgba, dst: length + 4 });
+  const buffer = reserve(k.memory, end);
+  new Uint8Array(buffer, at.src, rgba).set(image.data.subarray(image.width * 4 * y0, image.width * 4 * y1));
+  k.packRows(at.src, at.dst, image.width, y1 - y0);
+  return { bytes: new Uint8Array(buffer, at.dst, length), adler: k.adler32(1, at.dst, length) >>> 0 };
+}
+
+/** Rows y0 … y1 of an opaque RGBA image deflated as one band of a PNG file; `last` for the band that ends the image. */
+export function deflateBand(image: RgbaImage, y0: number, y1: number, last: boolean): PngBand {
+  const { bytes, adler } = scanlines(image, y0, y1);
+  const deflated = zlib.deflateRawSync(bytes, {
+    level: LEVEL,
+    finishFlush: last ? zlib.constants.Z_FINISH : zlib.constants.Z_SYNC_FLUSH,
+  });
+  return { deflated, adler, length: bytes.length };
+}
+
+/** One PNG chunk: length, type, data and the CRC-32 of type and data (PNG specification, section 5.3). */
+export function pngChunk(type: string, data: Uint8Array): Buffer {
+  const head = Buffer.alloc(8);
+  head.writeUInt32BE(data.length, 0);
+  head.write(type, 4, 'latin1');
+  const crc = Buffer.alloc(4);
+  crc.writeUInt32BE(zlib.crc32(data, zlib.crc32(head.subarray(4))) >>> 0, 0);
+  return Buffer.concat([head, data, crc]);
+}
+
+/** The eight bytes every PNG file starts with. */
+export const PNG_SIGNATURE = Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
+/** zlib header: deflate, 32 KiB window, "fast" level; (0x78 · 256 + 0x5e) is a multiple of 31. */
+const ZLIB_HEADER = Buffer.from([0x78, 0x5e]);
+
+/** The PNG file of an opaque RGB image from its bands, top to bottom. */
+export function joinPng(width: number, height: number, bands: readonly PngBand[]): Buffer {
+  const header = Buffer.alloc(13);
+  header.writeUInt32BE(width, 0);
+  header.writeUInt32BE(height, 4);
+  // 8 bits a sample, colour type 2 (RGB), deflate, adaptive filtering method 0, no interlace.
+  header.set([8, 2, 0, 0, 0], 8);
+  let adler = 1;
+  for (const b of bands) adler = adler32Combine(adler, b.adler, b.length);
+  const trailer = Buffer.alloc(4);
+  trailer.writeUInt32BE(adler, 0);
+  const data = Buffer.concat([ZLIB_HEADER, ...bands.map((b) => b.deflated), trailer]);
+  return Buffer.concat([PNG_SIGNATURE, pngChunk('IHDR', header), pngChunk('IDAT', data), pngChunk('IEND', new Uint8Array(0))]);
+}
+
+/** An opaque RGBA image as a PNG file, in one band on this thread (single-thread renders and tests). */
+export function renderPng(image: RgbaImage): Buffer {
+  return joinPng(image.width, image.height, [deflateBand(image, 0, image.height, true)]);
+}
