@@ -2,7 +2,8 @@ import type { PanelParams } from '@shared/model/parameters';
 import { compose, glowRowsFor, type RowBand } from '@shared/pipeline/output/compose';
 import { outputUniforms } from '@shared/pipeline/output/uniforms';
 import { componentAcross, componentDown, glowComponents, glowFieldSize, glowPlan, sumComponents } from '@shared/pipeline/glow/glow';
-import { panelEmission } from '@shared/pipeline/render';
+import { cellDemand, panelEmission, stillEmission } from '@shared/pipeline/render';
+import type { GridRows } from '@shared/pipeline/fit/fit';
 import { GLOW_SLOT, scratchArray } from '@shared/pipeline/scratch';
 import type { Field, Frame } from '@shared/pipeline/types';
 import { fitPanel, MatchRefusal, type MatchInput, type MatchResult } from '@shared/match/fit';
@@ -27,9 +28,24 @@ export function shared<T extends Float32Array | Uint8Array>(a: T): T {
   return copy;
 }
 
-/** Panel-resolution stages for one frame (stages 1–5), written into the shared emission array. */
-export function panel(task: { frames: Frame[]; parameters: PanelParams; frame: number; emissionOut: Float32Array }): number {
-  task.emissionOut.set(panelEmission(task.frames, task.parameters, task.frame));
+/** Fit and tone (stages 1–2) of a band of grid rows of a frame that stands alone, written into the shared demand array. */
+export function demand(task: { frames: Frame[]; parameters: PanelParams; frame: number; band: GridRows; demandOut: Float32Array }): number {
+  cellDemand(task.frames[task.frame].image, task.parameters, task.demandOut, task.band);
+  return task.band.r1 - task.band.r0;
+}
+
+/**
+ * Panel-resolution stages for one frame (stages 1–5), written into the shared emission array;
+ * given the frame's drive demand (demand tasks), from there.
+ */
+export function panel(task: {
+  frames: Frame[];
+  parameters: PanelParams;
+  frame: number;
+  demand?: Float32Array;
+  emissionOut: Float32Array;
+}): number {
+  task.emissionOut.set(task.demand ? stillEmission(task.demand, task.parameters) : panelEmission(task.frames, task.parameters, task.frame));
   return task.emissionOut.length;
 }
 

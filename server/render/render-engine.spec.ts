@@ -41,6 +41,19 @@ test.each(plans)(
   },
 );
 
+test.each(['native', 'integer', 'area'] as const)(
+  'artwork smaller than the grid, %s fit (fitted and toned in bands of grid rows): the same pixels as the single-thread pipeline',
+  async (fit) => {
+    const small = pngOf(50, 37, (x, y) => [(x * 5) & 255, (y * 7) & 255, (x ^ y) & 255, 255]);
+    const p = mergeParams(parameters, { source: { fit } });
+    const reference = renderCpu((await decodeImage(small)).frames, p, { scale: 2 });
+    for (const bands of [2, 3]) {
+      const { png } = await engine.render({ input: small, parameters: p, scale: 2, frame: 0 }, { bands });
+      expect({ bands, hash: sha(await sharp(png).ensureAlpha().raw().toBuffer()) }).toEqual({ bands, hash: sha(reference.data) });
+    }
+  },
+);
+
 test('a CRT render on the pool has the same pixels as the single-thread pipeline', async () => {
   const p = mergeParams(builtInPresetById('crt-green-p1.standard')!.parameters, { cell: { cols: 64, rows: 48 } });
   const reference = renderCpu((await decodeImage(input)).frames, p, { scale: 4 });

@@ -7,6 +7,7 @@ import type { MatchInput, MatchResult } from '@shared/match/fit';
 import type { PanelParams } from '@shared/model/parameters';
 import { componentSize, glowComponents, glowPlan } from '@shared/pipeline/glow/glow';
 import { outputUniforms } from '@shared/pipeline/output/uniforms';
+import { standsAlone } from '@shared/pipeline/render';
 import type { SpriteSheet } from '@shared/pipeline/sprite-sheet';
 import type { Frame, RgbaImage } from '@shared/pipeline/types';
 import { AppError } from '../core/app-error';
@@ -16,7 +17,7 @@ import { shared } from './pool-tasks';
 import { SharedBufferPool } from './shared-buffers';
 
 /** The pool's tasks (pool-tasks.ts). */
-type TaskName = 'panel' | 'glowStep' | 'band' | 'match' | 'rectifyPhoto' | 'fail';
+type TaskName = 'demand' | 'panel' | 'glowStep' | 'band' | 'match' | 'rectifyPhoto' | 'fail';
 
 /** [from, to) ranges splitting 0 … n into at most `count` nearly equal bands (none empty). */
 function bandsOf(n: number, count: number): [number, number][] {
@@ -93,10 +94,11 @@ class FrameCache {
 /**
  * Reference renders on a pool of worker threads (piscina), sized to the cores. The HTTP thread
  * decodes (sharp, on libvips' own threads), checks sizes and joins the PNG file; every pipeline
- * stage runs in a worker. One render is split in steps — the panel stages, the glow components
- * blurred in bands, then the output stages in row bands (each summing the glow rows it reads and
- * deflating its rows for the PNG file), one band a thread — so a single large render uses every
- * core, and the pixels equal a single-thread render (each output row depends only on the inputs).
+ * stage runs in a worker. One render is split in steps — the panel stages (fit and tone in bands
+ * of grid rows for a frame that stands alone), the glow components blurred in bands, then the
+ * output stages in row bands (each summing the glow rows it reads and deflating its rows for the
+ * PNG file), one band a thread — so a single large render uses every core, and the pixels equal a
+ * single-thread render (each output row depends only on the inputs).
  */
 export class RenderEngine {
   readonly threads: number;
@@ -104,7 +106,7 @@ export class RenderEngine {
   private readonly maxPending: number;
   private readonly frames: FrameCache;
   private pending = 0;
-  /** The emission, glow and output arrays of renders, reused (up to 256 MiB held while idle). */
+  /** The emission, output, demand and glow arrays of renders, reused (up to 256 MiB held while idle). */
   private readonly buffers = new SharedBufferPool(256 * 1024 * 1024);
 
   constructor(options: RenderEngineOptions = {}) {
@@ -195,15 +197,30 @@ export class RenderEngine {
       const { cell, glass } = req.parameters;
       const plan = glowPlan(cell, glass);
       const components = glowComponents(plan).map((c) => componentSize(cell, c));
-      const buffers = [cell.cols * cell.rows * 4, width * height * 4, ...components.map((c) => c.width * c.height * 4)].map((n) =>
-        this.buffers.acquire(n),
-      );
+      const buffers = [
+        cell.cols * cell.rows * 4,
+        width * height * 4,
+        cell.cols * cell.rows * 4,
+        ...components.map((c) => c.width * c.height * 4),
+      ].map((n) => this.buffers.acquire(n));
       try {
         const emission = new Float32Array(buffers[0]);
         const out = new Uint8Array(buffers[1]);
-        const componentData = buffers.slice(2).map((b) => new Float32Array(b));
+        const componentData = buffers.slice(3).map((b) => new Float32Array(b));
         const threads = Math.max(1, options.bands ?? this.threads);
-        await this.run('panel', { frames, parameters: req.parameters, frame: req.frame, emissionOut: emission });
+        const panelTask = { frames, parameters: req.parameters, frame: req.frame, emissionOut: emission };
+        if (standsAlone(frames, req.parameters)) {
+          // Fit and tone in bands of grid rows; then levels (error diffusion runs in cell order)
+          // and the rest of the panel stages in one task.
+          const demand = new Float32Array(buffers[2]);
+          await this.runAll(
+            'demand',
+            bandsOf(cell.rows, threads).map(([r0, r1]) => ({ ...panelTask, band: { r0, r1 }, demandOut: demand })),
+          );
+          await this.run('panel', { ...panelTask, demand });
+        } else {
+          await this.run('panel', panelTask);
+        }
         // The glow components blurred in two steps, each split in bands across the threads:
         // across (row bands), then down (column bands). Each output band then sums the glow
         // rows it reads and composes its rows.

@@ -1,12 +1,12 @@
 import type { PanelParams } from '../model/parameters';
-import { fitToGrid } from './fit/fit';
+import { fitToGrid, type GridRows } from './fit/fit';
 import { glowField, glowFieldSize, glowPlan } from './glow/glow';
 import { quantise, quantiseRefresh } from './levels/levels';
 import { compose } from './output/compose';
 import { outputUniforms } from './output/uniforms';
 import { decayFactor, interlaceField, persist } from './persistence/persistence';
 import { rowLoading } from './row-loading/row-loading';
-import { GLOW_SLOT, scratchArray } from './scratch';
+import { DEMAND_SLOT, FIT_SLOT, GLOW_SLOT, scratchArray } from './scratch';
 import { tone } from './tone/tone';
 import type { Field, Frame, RgbaImage } from './types';
 
@@ -19,22 +19,58 @@ export function refreshesOf(delayMs: number, refreshHz: number): number {
 }
 
 /**
- * Stages 1–3 for one image: fit, tone, levels → each cell's drive level as the light it gives, a
+ * Stages 1–2 for the grid rows in `band` (all by default): fit and tone → each cell's drive
+ * demand in linear light, written into `out` (a whole grid, row-major). Each row depends on the
+ * artwork alone, so bands may be worked on different threads. The fitted colours live in this
+ * thread's scratch.
+ */
+export function cellDemand(
+  frame: Frame['image'],
+  p: PanelParams,
+  out: Float32Array,
+  band: GridRows = { r0: 0, r1: p.cell.rows },
+): Float32Array {
+  const { cols, rows } = p.cell;
+  const rgb = fitToGrid(frame, p.cell, p.source.fit, { cols, rows, data: scratchArray(FIT_SLOT, cols * rows * 3) }, band);
+  const part = { cols, rows: band.r1 - band.r0, data: rgb.data.subarray(band.r0 * cols * 3, band.r1 * cols * 3) };
+  tone(part, p.source, out.subarray(band.r0 * cols, band.r1 * cols));
+  return out;
+}
+
+/**
+ * Stage 3 for a whole grid of drive demand: each cell's drive level as the light it gives, a
  * share of full on (levels/spacing.ts): what a controller is told to show, before the panel's row
  * droop. With frame-rate control, the average over its cycle — or, given `refresh`, the levels of
  * that refresh of the cycle.
  */
-export function driveLevels(frame: Frame['image'], p: PanelParams, refresh?: number): Float32Array {
-  const rgb = fitToGrid(frame, p.cell, p.source.fit);
-  const demand = tone(rgb, p.source);
+function levelsOf(demand: Float32Array, p: PanelParams, refresh?: number): Float32Array {
   return refresh === undefined
     ? quantise(demand, p.cell.cols, p.cell.rows, p.drive)
     : quantiseRefresh(demand, p.cell.cols, p.cell.rows, p.drive, refresh);
 }
 
+/** Stages 1–3 for one image: fit, tone, levels (levelsOf); the demand in between lives in this thread's scratch. */
+export function driveLevels(frame: Frame['image'], p: PanelParams, refresh?: number): Float32Array {
+  return levelsOf(cellDemand(frame, p, scratchArray(DEMAND_SLOT, p.cell.cols * p.cell.rows)), p, refresh);
+}
+
 /** Stages 1–4 for one image: fit, tone, levels, row loading → emission per cell (0–1); `refresh` as in driveLevels. */
 export function driveImage(frame: Frame['image'], p: PanelParams, refresh?: number): Float32Array {
   return rowLoading(driveLevels(frame, p, refresh), p.cell.cols, p.cell.rows, p.drive.rowLoading);
+}
+
+/**
+ * Whether frame `index` shows on the panel without anything from the frames before it (a still, or
+ * a panel whose light does not persist from one refresh to the next): then its emission is
+ * stillEmission of its cellDemand, which may be worked in bands.
+ */
+export function standsAlone(frames: readonly Frame[], p: PanelParams): boolean {
+  return !persists(frames, p);
+}
+
+/** panelEmission of a frame that stands alone, from its drive demand (cellDemand): levels, row loading and, on a CRT, the field. */
+export function stillEmission(demand: Float32Array, p: PanelParams): Float32Array {
+  return withField(rowLoading(levelsOf(demand, p), p.cell.cols, p.cell.rows, p.drive.rowLoading), p);
 }
 
 /**

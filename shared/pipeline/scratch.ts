@@ -6,9 +6,15 @@
  */
 const slots: Float32Array[] = [];
 
-/** Slots in use: 0–3 the blur's passes (glow/blur.ts), 4 a blurred glow component and 6 its ring (glow/glow.ts), 5 renderCpu's glow field. */
+/**
+ * Slots in use: 0–3 the blur's passes (glow/blur.ts), 4 a blurred glow component and 6 its ring
+ * (glow/glow.ts), 5 renderCpu's glow field, 7 the fitted colours and 8 the drive demand of the
+ * panel stages (render.ts).
+ */
 export const GLOW_SLOT = 5;
 export const RING_SLOT = 6;
+export const FIT_SLOT = 7;
+export const DEMAND_SLOT = 8;
 
 /** A Float32Array of `length` from `slot`, grown when too short; its contents are whatever the slot last held. */
 export function scratchArray(slot: number, length: number): Float32Array {

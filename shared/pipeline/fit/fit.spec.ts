@@ -115,3 +115,28 @@ describe('whole-cell placement for native and integer fits', () => {
     expect(Number.isInteger(p.offsetX) && Number.isInteger(p.offsetY)).toBe(true);
   });
 });
+
+describe('fit in bands of grid rows (the render pool fits a still in bands on different threads)', () => {
+  // Artwork smaller, larger and with odd offsets against the grid, for each placement rule; one
+  // image has transparent pixels. Bands of uneven heights, the first and last rows included.
+  const art = [gray(50, 37, (x, y) => (x * 5 + y * 3) & 255), gray(100, 90, (x, y) => (x ^ y) & 255)];
+  art[0].data[3] = 100;
+  const fits = ['native', 'integer', 'area'] as const;
+  const cases = art.flatMap((image) =>
+    fits.map((fit): [string, typeof image, (typeof fits)[number]] => [`${image.width} × ${image.height}, ${fit}`, image, fit]),
+  );
+  test.each(cases)('%s: the bands put together are the whole fit, bit for bit', (_name, image, fit) => {
+    const grid = cell(64, 48, 0.35);
+    const whole = fitToGrid(image, grid, fit);
+    // Stale values in the array: each band must write (or clear) every value of its rows.
+    const banded = { cols: 64, rows: 48, data: new Float32Array(64 * 48 * 3).fill(7) };
+    for (const [r0, r1] of [
+      [0, 1],
+      [1, 20],
+      [20, 47],
+      [47, 48],
+    ])
+      fitToGrid(image, grid, fit, banded, { r0, r1 });
+    expect(Array.from(banded.data)).toEqual(Array.from(whole.data));
+  });
+});

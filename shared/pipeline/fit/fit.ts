@@ -49,17 +49,32 @@ export function placement(width: number, height: number, cell: PanelParams['cell
 /** Overlap length of [a0, a1] and [b0, b1]. */
 const overlap = (a0: number, a1: number, b0: number, b1: number) => Math.max(0, Math.min(a1, b1) - Math.max(a0, b0));
 
+/** Grid rows [r0, r1). */
+export interface GridRows {
+  r0: number;
+  r1: number;
+}
+
 /**
  * Resamples the artwork onto the grid by exact area averaging in linear light: each cell's value
  * is the mean of the pixels under it, weighted by their overlap (so a 1:1 placement copies and an
- * integer enlargement repeats pixels exactly). Areas outside the artwork are black.
+ * integer enlargement repeats pixels exactly). Areas outside the artwork are black. Only the grid
+ * rows in `band` are written (all by default; each row depends on the artwork alone, so bands
+ * may be fitted apart, on different threads).
  */
-export function fitToGrid(image: RgbaImage, cell: PanelParams['cell'], fit: PanelParams['source']['fit'], out?: CellRgb): CellRgb {
+export function fitToGrid(
+  image: RgbaImage,
+  cell: PanelParams['cell'],
+  fit: PanelParams['source']['fit'],
+  out?: CellRgb,
+  band: GridRows = { r0: 0, r1: cell.rows },
+): CellRgb {
   const { cols, rows } = cell;
   const result = out ?? { cols, rows, data: new Float32Array(cols * rows * 3) };
-  result.data.fill(0);
+  result.data.fill(0, band.r0 * cols * 3, band.r1 * cols * 3);
   const p = placement(image.width, image.height, cell, fit);
-  if (p.scaleX === 1 && p.scaleY === 1 && Number.isInteger(p.offsetX) && Number.isInteger(p.offsetY)) return copyOneToOne(image, p, result);
+  if (p.scaleX === 1 && p.scaleY === 1 && Number.isInteger(p.offsetX) && Number.isInteger(p.offsetY))
+    return copyOneToOne(image, p, result, band);
   // Per axis: for each cell, the pixel span and weights it covers (separable box overlap).
   const spans = (n: number, scale: number, offset: number, size: number) =>
     Array.from({ length: n }, (_, c) => {
@@ -84,7 +99,7 @@ export function fitToGrid(image: RgbaImage, cell: PanelParams['cell'], fit: Pane
   const dst = result.data;
   // A local, not the module's import: no property load per pixel once compiled to CommonJS.
   const decode = SRGB_TO_LINEAR;
-  for (let r = 0; r < rows; r++) {
+  for (let r = band.r0; r < band.r1; r++) {
     const sy = ys[r];
     if (!sy.idx.length) continue;
     for (let c = 0; c < cols; c++) {
@@ -113,12 +128,12 @@ export function fitToGrid(image: RgbaImage, cell: PanelParams['cell'], fit: Pane
   return result;
 }
 
-/** The 1:1 case of fitToGrid (whole-cell offset): a straight copy through the decode table. */
-function copyOneToOne(image: RgbaImage, p: Placement, out: CellRgb): CellRgb {
+/** The 1:1 case of fitToGrid (whole-cell offset): a straight copy through the decode table, for the grid rows in `band`. */
+function copyOneToOne(image: RgbaImage, p: Placement, out: CellRgb, band: GridRows): CellRgb {
   const x0 = Math.max(0, -p.offsetX);
-  const y0 = Math.max(0, -p.offsetY);
+  const y0 = Math.max(0, -p.offsetY, band.r0 - p.offsetY);
   const x1 = Math.min(image.width, out.cols - p.offsetX);
-  const y1 = Math.min(image.height, out.rows - p.offsetY);
+  const y1 = Math.min(image.height, out.rows - p.offsetY, band.r1 - p.offsetY);
   // Locals for the hot loop: typed arrays and numbers only, no property loads per pixel.
   const src = image.data;
   const dst = out.data;
