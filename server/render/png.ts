@@ -90,31 +90,55 @@ export function adler32Combine(a: number, b: number, lengthB: number): number {
   return ((s2 << 16) | s1) >>> 0;
 }
 
-/** The scanlines of rows y0 … y1 and their Adler-32, through the kernels where they run. */
-function scanlines(image: RgbaImage, y0: number, y1: number): { bytes: Uint8Array; adler: number } {
-  const k = pngKernels();
-  const length = scanlineBytes(image.width, y1 - y0);
-  if (!k) {
-    const bytes = packRows(image, y0, y1);
-    return { bytes, adler: adler32(bytes) };
-  }
-  const rgba = image.width * 4 * (y1 - y0);
+/** Where a band of `rows` RGBA rows and its scanlines lie in the kernels' memory. */
+const bandLayout = (width: number, rows: number) =>
   // The packed rows' 16-byte stores run up to 4 bytes past the end.
-  const { at, end } = layout({ src: rgba, dst: length + 4 });
-  const buffer = reserve(k.memory, end);
-  new Uint8Array(buffer, at.src, rgba).set(image.data.subarray(image.width * 4 * y0, image.width * 4 * y1));
-  k.packRows(at.src, at.dst, image.width, y1 - y0);
-  return { bytes: new Uint8Array(buffer, at.dst, length), adler: k.adler32(1, at.dst, length) >>> 0 };
+  layout({ rgba: width * 4 * rows, scanlines: scanlineBytes(width, rows) + 4 });
+
+/**
+ * An RGBA buffer for a band of `rows` rows `width` pixels wide, in the kernels' memory where they
+ * run: fill it (compose writes its rows there), then deflateRgba packs it where it lies, with no
+ * copy. Valid until the next call on this thread.
+ */
+export function bandBuffer(width: number, rows: number): RgbaImage {
+  const k = pngKernels();
+  if (!k) return { width, height: rows, data: new Uint8Array(width * 4 * rows) };
+  const { at, end } = bandLayout(width, rows);
+  return { width, height: rows, data: new Uint8Array(reserve(k.memory, end), at.rgba, width * 4 * rows) };
 }
 
-/** Rows y0 … y1 of an opaque RGBA image deflated as one band of a PNG file; `last` for the band that ends the image. */
-export function deflateBand(image: RgbaImage, y0: number, y1: number, last: boolean): PngBand {
-  const { bytes, adler } = scanlines(image, y0, y1);
+/** An RGBA image's scanlines and their Adler-32, through the kernels where they run. */
+function scanlines(image: RgbaImage): { bytes: Uint8Array; adler: number } {
+  const k = pngKernels();
+  if (!k) {
+    const bytes = packRows(image, 0, image.height);
+    return { bytes, adler: adler32(bytes) };
+  }
+  const { width, height } = image;
+  const { at, end } = bandLayout(width, height);
+  const buffer = reserve(k.memory, end);
+  const rgba = new Uint8Array(buffer, at.rgba, width * 4 * height);
+  // A bandBuffer is packed where it lies; any other image is copied in first.
+  if (image.data.buffer !== buffer || image.data.byteOffset !== at.rgba) rgba.set(image.data.subarray(0, rgba.length));
+  const length = scanlineBytes(width, height);
+  k.packRows(at.rgba, at.scanlines, width, height);
+  return { bytes: new Uint8Array(buffer, at.scanlines, length), adler: k.adler32(1, at.scanlines, length) >>> 0 };
+}
+
+/** An opaque RGBA image (or bandBuffer) deflated as one band of a PNG file; `last` for the band that ends the image. */
+export function deflateRgba(image: RgbaImage, last: boolean): PngBand {
+  const { bytes, adler } = scanlines(image);
   const deflated = zlib.deflateRawSync(bytes, {
     level: LEVEL,
     finishFlush: last ? zlib.constants.Z_FINISH : zlib.constants.Z_SYNC_FLUSH,
   });
   return { deflated, adler, length: bytes.length };
+}
+
+/** Rows y0 … y1 of an opaque RGBA image deflated as one band of a PNG file; `last` for the band that ends the image. */
+export function deflateBand(image: RgbaImage, y0: number, y1: number, last: boolean): PngBand {
+  const rows = { width: image.width, height: y1 - y0, data: image.data.subarray(image.width * 4 * y0, image.width * 4 * y1) };
+  return deflateRgba(rows, last);
 }
 
 /** One PNG chunk: length, type, data and the CRC-32 of type and data (PNG specification, section 5.3). */

@@ -13,7 +13,7 @@ import { solveHomography, type Point } from '@shared/match/homography';
 import { patternFor } from '@shared/match/pattern';
 import { linearise, rectify } from '@shared/match/photo';
 import type { RgbaImage } from '@shared/pipeline/types';
-import { deflateBand, type PngBand } from './png';
+import { bandBuffer, deflateRgba, type PngBand } from './png';
 
 /**
  * The tasks the render pool's worker threads run. Large arrays live in SharedArrayBuffers, so
@@ -73,8 +73,8 @@ export function glowStep(task: {
  * field's rows this band reads are summed from the blurred components here first, into this
  * thread's own scratch (a row or two at a band's edges is summed by both neighbours, the same
  * values): one round trip less than a separate sum step, and the rows are still in the cache
- * when compose reads them. With `png`, the band's rows are then deflated for the PNG file
- * (png.ts), while they are still in the cache too.
+ * when compose reads them. With `png`, the band's rows are composed into the PNG writer's buffer
+ * instead of the shared image and deflated for the PNG file (png.ts).
  */
 export function band(task: {
   emission: Float32Array;
@@ -82,7 +82,8 @@ export function band(task: {
   parameters: PanelParams;
   scale: number;
   rows: RowBand;
-  out: Uint8Array;
+  /** The shared output image, or null when the band is deflated for a PNG file instead. */
+  out: Uint8Array | null;
   png: boolean;
 }): PngBand | null {
   const { cell, glass } = task.parameters;
@@ -92,9 +93,14 @@ export function band(task: {
   const rows = glowRowsFor(u, size.height, task.rows);
   const glow: Field = { ...size, data: scratchArray(GLOW_SLOT, (rows.y1 - rows.y0) * size.width) };
   sumComponents(cell, plan, task.components, glow, rows.y0, rows.y1, rows.y0);
-  const image = { width: u.width, height: u.height, data: task.out };
-  compose(task.emission, glow, u, image, task.rows, rows.y0);
-  return task.png ? deflateBand(image, task.rows.y0, task.rows.y1, task.rows.y1 === u.height) : null;
+  if (!task.png) {
+    compose(task.emission, glow, u, { width: u.width, height: u.height, data: task.out! }, task.rows, rows.y0);
+    return null;
+  }
+  // For the PNG file, the rows go straight into the PNG writer's buffer, packed where they lie.
+  const band = bandBuffer(u.width, task.rows.y1 - task.rows.y0);
+  compose(task.emission, glow, u, band, task.rows, rows.y0, task.rows.y0);
+  return deflateRgba(band, task.rows.y1 === u.height);
 }
 
 /** A panel match's fit (shared/match/fit.ts), its progress posted on `port`; a photo it cannot fit comes back as a refusal, not an error. */

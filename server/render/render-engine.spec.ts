@@ -28,7 +28,7 @@ const plans: [string, Parameters<typeof mergeParams>[1]][] = [
 ];
 
 test.each(plans)(
-  '%s: a render split into 1, 2, 3 and 7 bands (rows; the glow blurred down in column bands) has the same pixels as the single-thread pipeline',
+  '%s: a render split into 1, 2, 3 and 7 bands (rows; the glow blurred down in column bands) has the same pixels as the single-thread pipeline, as a PNG file and as a raw image',
   async (_name, patch) => {
     const p = mergeParams(parameters, patch);
     const reference = renderCpu((await decodeImage(input)).frames, p, { scale: 3 });
@@ -37,6 +37,9 @@ test.each(plans)(
       expect([width, height]).toEqual([reference.width, reference.height]);
       const raw = await sharp(png).ensureAlpha().raw().toBuffer();
       expect({ bands, hash: sha(raw) }).toEqual({ bands, hash: sha(reference.data) });
+      // The raw image (for sheets) is composed into the shared output image instead.
+      const image = await engine.renderImage({ input, parameters: p, scale: 3, frame: 0 }, { bands });
+      expect({ bands, raw: sha(image.data) }).toEqual({ bands, raw: sha(reference.data) });
     }
   },
 );

@@ -157,31 +157,23 @@ export class RenderEngine {
 
   /** A full render: decode (cached), panel stages and glow, output stages in bands, each band deflated there; the PNG joined here. */
   async render(req: RenderRequest, options: { bands?: number } = {}): Promise<RenderedPng> {
-    return this.withRender(req, options, true, (image, bands) => ({
-      png: joinPng(image.width, image.height, bands),
-      width: image.width,
-      height: image.height,
-    }));
+    return this.withRender(req, options, true, ({ width, height }, bands) => ({ png: joinPng(width, height, bands), width, height }));
   }
 
   /** A full render as raw RGBA (its own copy), for work that puts renders together (comparison sheets). */
   async renderImage(req: RenderRequest, options: { bands?: number } = {}): Promise<RgbaImage> {
-    return this.withRender(req, options, false, (image) => ({
-      width: image.width,
-      height: image.height,
-      data: new Uint8Array(image.data),
-    }));
+    return this.withRender(req, options, false, ({ width, height }, _bands, out) => ({ width, height, data: new Uint8Array(out!) }));
   }
 
   /**
-   * Renders into reused shared buffers and hands the output image to `use` before the buffers go
-   * back, with each band's PNG data when `png` is asked for.
+   * Renders into reused shared buffers and hands the result to `use` before the buffers go back:
+   * each band's PNG data when `png` is asked for, else the output image.
    */
   private async withRender<T>(
     req: RenderRequest,
     options: { bands?: number },
     png: boolean,
-    use: (image: RgbaImage, bands: PngBand[]) => T,
+    use: (size: { width: number; height: number }, bands: PngBand[], out: Uint8Array | null) => T,
   ): Promise<T> {
     const { width, height } = RenderEngine.check(req);
     if (this.pending >= this.maxPending) {
@@ -197,22 +189,23 @@ export class RenderEngine {
       const { cell, glass } = req.parameters;
       const plan = glowPlan(cell, glass);
       const components = glowComponents(plan).map((c) => componentSize(cell, c));
-      const buffers = [
-        cell.cols * cell.rows * 4,
-        width * height * 4,
-        cell.cols * cell.rows * 4,
-        ...components.map((c) => c.width * c.height * 4),
-      ].map((n) => this.buffers.acquire(n));
+      const held: SharedArrayBuffer[] = [];
+      const hold = (bytes: number) => {
+        const b = this.buffers.acquire(bytes);
+        held.push(b);
+        return b;
+      };
       try {
-        const emission = new Float32Array(buffers[0]);
-        const out = new Uint8Array(buffers[1]);
-        const componentData = buffers.slice(3).map((b) => new Float32Array(b));
+        const emission = new Float32Array(hold(cell.cols * cell.rows * 4));
+        const componentData = components.map((c) => new Float32Array(hold(c.width * c.height * 4)));
+        // A PNG file's bands are composed straight into the PNG writer's buffers: no output image.
+        const out = png ? null : new Uint8Array(hold(width * height * 4));
         const threads = Math.max(1, options.bands ?? this.threads);
         const panelTask = { frames, parameters: req.parameters, frame: req.frame, emissionOut: emission };
         if (standsAlone(frames, req.parameters)) {
           // Fit and tone in bands of grid rows; then levels (error diffusion runs in cell order)
           // and the rest of the panel stages in one task.
-          const demand = new Float32Array(buffers[2]);
+          const demand = new Float32Array(hold(cell.cols * cell.rows * 4));
           await this.runAll(
             'demand',
             bandsOf(cell.rows, threads).map(([r0, r1]) => ({ ...panelTask, band: { r0, r1 }, demandOut: demand })),
@@ -247,9 +240,9 @@ export class RenderEngine {
             png,
           })),
         );
-        return use({ width, height, data: out }, pngBands as PngBand[]);
+        return use({ width, height }, pngBands as PngBand[], out);
       } finally {
-        this.buffers.release(...buffers);
+        this.buffers.release(...held);
       }
     } finally {
       this.pending--;

@@ -291,7 +291,7 @@ export function glowRowsFor(u: OutputUniforms, glowHeight: number, band: RowBand
  * encode. Writes an opaque RGBA image of u.width × u.height — or only the rows of `band`: every
  * output row depends on the inputs alone, so bands computed apart give the same bytes as one pass.
  * `glow.data` may hold only the field's rows from glowRow0 on (glowRowsFor the band); its height
- * stays the whole field's.
+ * stays the whole field's. Likewise `out.data` may hold only the output rows from outRow0 on.
  */
 export function compose(
   emission: Float32Array,
@@ -300,6 +300,7 @@ export function compose(
   out?: RgbaImage,
   band: RowBand = { y0: 0, y1: u.height },
   glowRow0 = 0,
+  outRow0 = 0,
 ): RgbaImage {
   const { width, height, cols, rows } = u;
   const image = out ?? { width, height, data: new Uint8Array(width * height * 4) };
@@ -385,12 +386,12 @@ export function compose(
       }
       p0 = direct;
     }
-    const words = view ? view.subarray(y * width, (y + 1) * width) : rowWords;
+    const words = view ? view.subarray((y - outRow0) * width, (y - outRow0 + 1) * width) : rowWords;
     const [h0, h1] = [glowRowOf(gy.index[y * 2]), glowRowOf(gy.index[y * 2 + 1])];
     if (kernels) kernels.encodeRow(words, taps, w0, p0, w1, p1, directShare, h0, gy.weight[y * 2], h1, gy.weight[y * 2 + 1], word);
     else encodeRow(words, taps, w0, p0, w1, p1, directShare, h0, gy.weight[y * 2], h1, gy.weight[y * 2 + 1], table, perV, vMax, coder);
     if (!view) {
-      const o = y * width * 4;
+      const o = (y - outRow0) * width * 4;
       for (let x = 0; x < width; x++) {
         const w = rowWords[x];
         data[o + x * 4] = w & 255;
