@@ -131,6 +131,9 @@ export function deflateRgba(image: RgbaImage, last: boolean): PngBand {
   const deflated = zlib.deflateRawSync(bytes, {
     level: LEVEL,
     finishFlush: last ? zlib.constants.Z_FINISH : zlib.constants.Z_SYNC_FLUSH,
+    // Output pieces near an eighth of the input (renders deflate to a tenth or so) instead of
+    // 16 KiB ones: fewer trips through zlib and one short join (about 1 ms a 1920 × 720 band).
+    chunkSize: Math.max(zlib.constants.Z_DEFAULT_CHUNK, Math.min(1 << 18, bytes.length >> 3)),
   });
   return { deflated, adler, length: bytes.length };
 }

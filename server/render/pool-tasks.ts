@@ -45,7 +45,8 @@ export function panel(task: {
   demand?: Float32Array;
   emissionOut: Float32Array;
 }): number {
-  task.emissionOut.set(task.demand ? stillEmission(task.demand, task.parameters) : panelEmission(task.frames, task.parameters, task.frame));
+  if (task.demand) stillEmission(task.demand, task.parameters, task.emissionOut);
+  else task.emissionOut.set(panelEmission(task.frames, task.parameters, task.frame));
   return task.emissionOut.length;
 }
 

@@ -43,10 +43,10 @@ export function cellDemand(
  * droop. With frame-rate control, the average over its cycle — or, given `refresh`, the levels of
  * that refresh of the cycle.
  */
-function levelsOf(demand: Float32Array, p: PanelParams, refresh?: number): Float32Array {
+function levelsOf(demand: Float32Array, p: PanelParams, refresh?: number, out?: Float32Array): Float32Array {
   return refresh === undefined
-    ? quantise(demand, p.cell.cols, p.cell.rows, p.drive)
-    : quantiseRefresh(demand, p.cell.cols, p.cell.rows, p.drive, refresh);
+    ? quantise(demand, p.cell.cols, p.cell.rows, p.drive, out)
+    : quantiseRefresh(demand, p.cell.cols, p.cell.rows, p.drive, refresh, out);
 }
 
 /** Stages 1–3 for one image: fit, tone, levels (levelsOf); the demand in between lives in this thread's scratch. */
@@ -68,9 +68,9 @@ export function standsAlone(frames: readonly Frame[], p: PanelParams): boolean {
   return !persists(frames, p);
 }
 
-/** panelEmission of a frame that stands alone, from its drive demand (cellDemand): levels, row loading and, on a CRT, the field. */
-export function stillEmission(demand: Float32Array, p: PanelParams): Float32Array {
-  return withField(rowLoading(levelsOf(demand, p), p.cell.cols, p.cell.rows, p.drive.rowLoading), p);
+/** panelEmission of a frame that stands alone, from its drive demand (cellDemand): levels, row loading and, on a CRT, the field (into `out` if given). */
+export function stillEmission(demand: Float32Array, p: PanelParams, out?: Float32Array): Float32Array {
+  return withField(rowLoading(levelsOf(demand, p, undefined, out), p.cell.cols, p.cell.rows, p.drive.rowLoading), p);
 }
 
 /**
