@@ -4,7 +4,7 @@ import sharp from 'sharp';
 import { builtInPresetById } from '@shared/model/panel-types';
 import { mergeParams, type PanelParams } from '@shared/model/parameters';
 import { decodeImage } from '../server/render/decode';
-import { renderPng } from '../server/render/png';
+import { bandBuffer, renderPng } from '../server/render/png';
 import { RenderEngine, type RenderRequest } from '../server/render/render-engine';
 import { renderCpu } from '@shared/pipeline/render';
 import { panelEmission, panelGlow } from '@shared/pipeline/render';
@@ -31,8 +31,12 @@ async function main() {
   const base = builtInPresetById('el-amber-640x480.standard')!.parameters;
   const withGlow = (mm: number): PanelParams => mergeParams(base, { glass: { glowRadiusMm: mm } });
   const scale = 3;
-  // Single thread: decode, the whole CPU pipeline and the PNG file (one band) on this thread.
-  const singleThread = async (parameters: PanelParams) => renderPng(renderCpu((await decodeImage(input)).frames, parameters, { scale }));
+  // Single thread: decode, the whole CPU pipeline and the PNG file (one band) on this thread,
+  // composed straight into the PNG writer's buffer as the pool's bands are (the glow radius does
+  // not change the output's size).
+  const size = outputUniforms(base, scale);
+  const singleThread = async (parameters: PanelParams) =>
+    renderPng(renderCpu((await decodeImage(input)).frames, parameters, { scale, out: bandBuffer(size.width, size.height) }));
   const renderMs = await time(() => singleThread(base));
   const small = await time(() => singleThread(withGlow(0.2)));
   const large = await time(() => singleThread(withGlow(5)));

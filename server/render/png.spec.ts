@@ -3,7 +3,7 @@ import { PNG } from 'pngjs';
 import sharp from 'sharp';
 import { bothWays, firstDifference } from '@shared/testing/kernels';
 import type { RgbaImage } from '@shared/pipeline/types';
-import { adler32, adler32Combine, deflateBand, joinPng, packRows, pngKernels, renderPng } from './png';
+import { adler32, adler32Combine, bandBuffer, deflateBand, deflateRgba, joinPng, packRows, pngKernels, renderPng } from './png';
 
 /**
  * The render PNG writer (png.ts): checked against general-purpose libraries — zlib's own
@@ -108,6 +108,18 @@ describe('a PNG joined from bands', () => {
     const { data, info } = await sharp(png).raw().toBuffer({ resolveWithObject: true });
     expect(info.channels).toBe(3);
     expect(firstDifference(data, rgbOf(image))).toBe('same');
+  });
+
+  test('a band filled in the writer’s own buffer (as the pool composes into it) is packed where it lies, to the same bytes as a copy', () => {
+    const band = bandBuffer(image.width, 50);
+    band.data.set(image.data.subarray(0, image.width * 4 * 50));
+    expect(band.data.buffer).toBe(pngKernels()!.memory.buffer);
+    const inPlace = deflateRgba(band, true);
+    const copied = deflateBand(image, 0, 50, true);
+    expect({ ...inPlace, deflated: Buffer.from(inPlace.deflated).toString('base64') }).toEqual({
+      ...copied,
+      deflated: Buffer.from(copied.deflated).toString('base64'),
+    });
   });
 
   test('the IDAT data is one zlib stream whose checksum zlib’s inflate accepts', () => {

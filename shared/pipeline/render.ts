@@ -120,12 +120,16 @@ export function panelGlow(emission: Float32Array, p: PanelParams): Field {
   return glowField(emission, p.cell, glowPlan(p.cell, p.glass));
 }
 
-/** The whole pipeline on the CPU: frames + parameters → the output image at `scale` px per pitch. */
-export function renderCpu(frames: readonly Frame[], p: PanelParams, options: { scale: number; frame?: number }): RgbaImage {
+/** The whole pipeline on the CPU: frames + parameters → the output image at `scale` px per pitch (into `out` if given, of the output's size). */
+export function renderCpu(
+  frames: readonly Frame[],
+  p: PanelParams,
+  options: { scale: number; frame?: number; out?: RgbaImage },
+): RgbaImage {
   const emission = panelEmission(frames, p, options.frame ?? 0);
   // The glow field lives only until compose has read it: a reused array (no page faults).
   const plan = glowPlan(p.cell, p.glass);
   const { width, height } = glowFieldSize(p.cell, plan);
   const glow = glowField(emission, p.cell, plan, scratchArray(GLOW_SLOT, width * height));
-  return compose(emission, glow, outputUniforms(p, options.scale));
+  return compose(emission, glow, outputUniforms(p, options.scale), options.out);
 }
