@@ -11,7 +11,7 @@ import type { MessagePort } from 'node:worker_threads';
 import { encode8 } from '@shared/color/srgb';
 import { solveHomography, type Point } from '@shared/match/homography';
 import { patternFor } from '@shared/match/pattern';
-import { linearise, rectify } from '@shared/match/photo';
+import { linearise, rectifiedSize, rectifyPlanes } from '@shared/match/photo';
 import type { RgbaImage } from '@shared/pipeline/types';
 import { bandBuffer, deflateRgba, type PngBand } from './png';
 
@@ -74,8 +74,8 @@ export function glowStep(task: {
  * field's rows this band reads are summed from the blurred components here first, into this
  * thread's own scratch (a row or two at a band's edges is summed by both neighbours, the same
  * values): one round trip less than a separate sum step, and the rows are still in the cache
- * when compose reads them. With `png`, the band's rows are composed into the PNG writer's buffer
- * instead of the shared image and deflated for the PNG file (png.ts).
+ * when compose reads them. For a PNG file (no `out`), the band's rows are composed into the PNG
+ * writer's buffer instead of a shared image and come back deflated (png.ts).
  */
 export function band(task: {
   emission: Float32Array;
@@ -83,9 +83,8 @@ export function band(task: {
   parameters: PanelParams;
   scale: number;
   rows: RowBand;
-  /** The shared output image, or null when the band is deflated for a PNG file instead. */
+  /** The shared output image, or null for a PNG file: then the band comes back deflated. */
   out: Uint8Array | null;
-  png: boolean;
 }): PngBand | null {
   const { cell, glass } = task.parameters;
   const u = outputUniforms(task.parameters, task.scale);
@@ -94,8 +93,8 @@ export function band(task: {
   const rows = glowRowsFor(u, size.height, task.rows);
   const glow: Field = { ...size, data: scratchArray(GLOW_SLOT, (rows.y1 - rows.y0) * size.width) };
   sumComponents(cell, plan, task.components, glow, rows.y0, rows.y1, rows.y0);
-  if (!task.png) {
-    compose(task.emission, glow, u, { width: u.width, height: u.height, data: task.out! }, task.rows, rows.y0);
+  if (task.out) {
+    compose(task.emission, glow, u, { width: u.width, height: u.height, data: task.out }, task.rows, rows.y0);
     return null;
   }
   // For the PNG file, the rows go straight into the PNG writer's buffer, packed where they lie.
@@ -116,15 +115,32 @@ export function match(task: { input: MatchInput; port: MessagePort }): { result:
   }
 }
 
-/** A match photo resampled onto the panel's grid through its marks (sRGB, `scale` px a pitch), written into the shared output image. */
-export function rectifyPhoto(task: { photo: RgbaImage; marks: Point[]; base: PanelParams; scale: number; out: Uint8Array }): number {
+/**
+ * Rows [row0, row1) of a match photo resampled onto the panel's grid through its marks (sRGB,
+ * `scale` px a pitch), written into the shared output image: the three planes at once.
+ */
+export function rectifyPhoto(task: {
+  photo: RgbaImage;
+  marks: Point[];
+  base: PanelParams;
+  scale: number;
+  rows: [number, number];
+  out: Uint8Array;
+}): number {
   const layout = patternFor(task.base);
   const h = solveHomography(layout.fiducials, task.marks);
   const photo = linearise(task.photo, { kind: 'srgb' });
   const sy = (task.scale * task.base.cell.pitchYMm) / task.base.cell.pitchXMm;
   const rect = { x: 0, y: 0, w: layout.cols, h: layout.rows };
-  const [r, g, b] = [photo.r, photo.g, photo.b].map((plane) => rectify(plane, photo, h.forward, rect, task.scale, sy).data);
-  for (let i = 0; i < r.length; i++) task.out.set([encode8(r[i]), encode8(g[i]), encode8(b[i]), 255], i * 4);
+  const [r, g, b] = rectifyPlanes([photo.r, photo.g, photo.b], photo, h.forward, rect, task.scale, sy, { rows: task.rows });
+  const out = task.out;
+  const at = task.rows[0] * rectifiedSize(rect, task.scale, sy).width * 4;
+  for (let i = 0, o = at; i < r.length; i++, o += 4) {
+    out[o] = encode8(r[i]);
+    out[o + 1] = encode8(g[i]);
+    out[o + 2] = encode8(b[i]);
+    out[o + 3] = 255;
+  }
   return r.length;
 }
 

@@ -106,7 +106,7 @@ export class RenderEngine {
   private readonly maxPending: number;
   private readonly frames: FrameCache;
   private pending = 0;
-  /** The emission, output, demand and glow arrays of renders, reused (up to 256 MiB held while idle). */
+  /** The emission, glow, output and demand arrays of renders, reused (up to 256 MiB held while idle). */
   private readonly buffers = new SharedBufferPool(256 * 1024 * 1024);
 
   constructor(options: RenderEngineOptions = {}) {
@@ -237,7 +237,6 @@ export class RenderEngine {
             scale: req.scale,
             rows: { y0, y1 },
             out,
-            png,
           })),
         );
         return use({ width, height }, pngBands as PngBand[], out);
@@ -304,12 +303,16 @@ export class RenderEngine {
     }
   }
 
-  /** A match photo resampled onto the panel's grid through its marks, `scale` px a pitch (on a pool thread). */
+  /** A match photo resampled onto the panel's grid through its marks, `scale` px a pitch (in row bands across the pool). */
   async rectifyPhoto(photo: RgbaImage, marks: [number, number][], base: PanelParams, scale: number): Promise<RgbaImage> {
     const width = Math.round(base.cell.cols * scale);
     const height = Math.round((base.cell.rows * scale * base.cell.pitchYMm) / base.cell.pitchXMm);
     const out = new Uint8Array(new SharedArrayBuffer(width * height * 4));
-    await this.run('rectifyPhoto', { photo: { ...photo, data: shared(photo.data as Uint8Array) }, marks, base, scale, out });
+    const task = { photo: { ...photo, data: shared(photo.data as Uint8Array) }, marks, base, scale, out };
+    await this.runAll(
+      'rectifyPhoto',
+      bandsOf(height, this.threads).map((rows) => ({ ...task, rows })),
+    );
     return { width, height, data: out };
   }
 

@@ -7,6 +7,7 @@ import type { SyntheticShot } from '../testing/synthetic-photo';
 import type { MatchOptions, MatchResult } from './fit';
 import { applyHomography, checkMarks, MarkError, solveHomography, type Point } from './homography';
 import { matchLayout, patternFor, patternImage, type MatchLayout } from './pattern';
+import { bilinear, rectify, rectifyPlanes } from './photo';
 
 const EL = panelTypeById('el-amber-640x480')!.defaults;
 /** The look the fit starts from: the amber EL type on a 320 × 240 grid. */
@@ -107,6 +108,77 @@ describe('homography by direct linear transform', () => {
   ])('refuses marks %s with the reason and what to do', (_name, marks, message) => {
     expect(() => checkMarks(marks as Point[], 1000, 800)).toThrow(MarkError);
     expect(() => checkMarks(marks as Point[], 1000, 800)).toThrow(message);
+  });
+});
+
+describe('resampling a photo onto the grid', () => {
+  /** rectify's definition: each sample the mean of its taps, each tap bilinear() at the homography's point. */
+  function definition(
+    plane: Float32Array,
+    pw: number,
+    ph: number,
+    m: number[],
+    rect: { x: number; y: number; w: number; h: number },
+    s: number,
+    k: number,
+  ) {
+    const width = Math.round(rect.w * s);
+    const height = Math.round(rect.h * s);
+    const data = new Float32Array(width * height);
+    for (let j = 0; j < height; j++)
+      for (let i = 0; i < width; i++) {
+        let sum = 0;
+        for (let b = 0; b < k; b++)
+          for (let a = 0; a < k; a++) {
+            const cy = rect.y + (j + (b + 0.5) / k) / s;
+            const cx = rect.x + (i + (a + 0.5) / k) / s;
+            const w = m[2] * cx + m[5] * cy + m[8];
+            sum += bilinear(plane, pw, ph, (m[0] * cx + m[3] * cy + m[6]) / w, (m[1] * cx + m[4] * cy + m[7]) / w);
+          }
+        data[j * width + i] = sum / (k * k);
+      }
+    return data;
+  }
+
+  test('three planes at once and in bands of rows give each plane’s samples bit for bit, the photo’s edges (zeros outside) included', () => {
+    const [pw, ph] = [97, 71];
+    const planes = [0, 1, 2].map((c) => Float32Array.from({ length: pw * ph }, (_, i) => ((i * (7 + c * 13)) % 101) / 100));
+    // A perspective view whose grid runs past the photo's left and bottom edges.
+    const h = solveHomography(
+      [
+        [0, 0],
+        [40, 0],
+        [40, 30],
+        [0, 30],
+      ],
+      [
+        [-6, 4],
+        [90, 9],
+        [85, 77],
+        [2, 66],
+      ],
+    );
+    const rect = { x: 0, y: 0, w: 40, h: 30 };
+    for (const [s, k] of [
+      [2, 2],
+      [3, 1],
+    ]) {
+      const want = planes.map((p) => definition(p, pw, ph, Array.from(h.forward), rect, s, k));
+      const height = Math.round(rect.h * s);
+      const cut = Math.floor(height / 3);
+      const bands = [
+        [0, cut],
+        [cut, height],
+      ].map(([r0, r1]) =>
+        rectifyPlanes(planes, { width: pw, height: ph }, h.forward, rect, s, s, { taps: k, rows: [r0, r1] as [number, number] }),
+      );
+      planes.forEach((p, c) => {
+        const joined = Float32Array.from([...bands[0][c], ...bands[1][c]]);
+        expect(joined).toEqual(want[c]);
+        expect(rectify(p, { width: pw, height: ph }, h.forward, rect, s, s, { taps: k }).data).toEqual(want[c]);
+      });
+      expect(want[0].some((v) => v === 0) && want[0].some((v) => v > 0)).toBe(true);
+    }
   });
 });
 

@@ -84,9 +84,32 @@ export function rectify(
   sy: number,
   options: { shift?: [number, number]; taps?: number } = {},
 ): Rectified {
-  const width = Math.round(rect.w * sx);
-  const height = Math.round(rect.h * sy);
-  const data = new Float32Array(width * height);
+  const { width, height } = rectifiedSize(rect, sx, sy);
+  return { width, height, data: rectifyPlanes([plane], photo, toPhoto, rect, sx, sy, options)[0] };
+}
+
+/** The size of rectify's result. */
+export function rectifiedSize(rect: CellRect, sx: number, sy: number): { width: number; height: number } {
+  return { width: Math.round(rect.w * sx), height: Math.round(rect.h * sy) };
+}
+
+/**
+ * rectify for several planes of one photo at once, each tap's position in the photo worked out
+ * once for all of them, and only the result's rows [row0, row1) (all by default): one array a
+ * plane, row row0 first. Each value is rectify's, bit for bit (bilinear's arithmetic, inline).
+ */
+export function rectifyPlanes(
+  planes: readonly ArrayLike<number>[],
+  photo: Pick<LinearPhoto, 'width' | 'height'>,
+  toPhoto: mat3,
+  rect: CellRect,
+  sx: number,
+  sy: number,
+  options: { shift?: [number, number]; taps?: number; rows?: [number, number] } = {},
+): Float32Array[] {
+  const { width, height } = rectifiedSize(rect, sx, sy);
+  const [row0, row1] = options.rows ?? [0, height];
+  const out = planes.map(() => new Float32Array(width * (row1 - row0)));
   const [dx, dy] = options.shift ?? [0, 0];
   const ppc = pixelsPerCell(toPhoto, rect.x + rect.w / 2, rect.y + rect.h / 2);
   // Taps across and down: enough to cover each sample's footprint in the photo (at most 4 each way).
@@ -94,21 +117,44 @@ export function rectify(
   const ky = options.taps ?? Math.min(4, Math.max(1, Math.ceil(ppc.down / sy)));
   // The homography's entries (column-major), applied inline: this loop runs millions of times.
   const m = toPhoto;
-  for (let j = 0; j < height; j++) {
+  const pw = photo.width;
+  const ph = photo.height;
+  const n = planes.length;
+  const sums = new Float64Array(n);
+  for (let j = row0; j < row1; j++) {
     for (let i = 0; i < width; i++) {
-      let sum = 0;
+      sums.fill(0);
       for (let b = 0; b < ky; b++) {
         const cy = rect.y + dy + (j + (b + 0.5) / ky) / sy;
         for (let a = 0; a < kx; a++) {
           const cx = rect.x + dx + (i + (a + 0.5) / kx) / sx;
           const w = m[2] * cx + m[5] * cy + m[8];
-          sum += bilinear(plane, photo.width, photo.height, (m[0] * cx + m[3] * cy + m[6]) / w, (m[1] * cx + m[4] * cy + m[7]) / w);
+          // bilinear(plane, pw, ph, x, y) for each plane, its corners found once.
+          const u = (m[0] * cx + m[3] * cy + m[6]) / w - 0.5;
+          const v = (m[1] * cx + m[4] * cy + m[7]) / w - 0.5;
+          const x0 = Math.floor(u);
+          const y0 = Math.floor(v);
+          const tx = u - x0;
+          const ty = v - y0;
+          const left = x0 >= 0 && x0 < pw;
+          const right = x0 + 1 >= 0 && x0 + 1 < pw;
+          const top = y0 >= 0 && y0 < ph;
+          const bottom = y0 + 1 >= 0 && y0 + 1 < ph;
+          const o = y0 * pw + x0;
+          for (let k = 0; k < n; k++) {
+            const p = planes[k];
+            const a00 = left && top ? p[o] : 0;
+            const a10 = right && top ? p[o + 1] : 0;
+            const a01 = left && bottom ? p[o + pw] : 0;
+            const a11 = right && bottom ? p[o + pw + 1] : 0;
+            sums[k] += (a00 * (1 - tx) + a10 * tx) * (1 - ty) + (a01 * (1 - tx) + a11 * tx) * ty;
+          }
         }
       }
-      data[j * width + i] = sum / (kx * ky);
+      for (let k = 0; k < n; k++) out[k][(j - row0) * width + i] = sums[k] / (kx * ky);
     }
   }
-  return { width, height, data };
+  return out;
 }
 
 /** Photo pixels per cell across and down at a cell position (how finely the photo resolves the cells there). */
