@@ -116,8 +116,20 @@ export function match(task: { input: MatchInput; port: MessagePort }): { result:
 }
 
 /**
- * Rows [row0, row1) of a match photo resampled onto the panel's grid through its marks (sRGB,
- * `scale` px a pitch), written into the shared output image: the three planes at once.
+ * Where a match photo's straightened preview lies: the pattern's whole grid at `scale` px a
+ * pitch across (and the pitches' ratio down), and the preview's size. One definition for the
+ * engine, which sizes the image and cuts it in bands, and the tasks that fill the bands.
+ */
+export function previewGrid(base: PanelParams, scale: number) {
+  const layout = patternFor(base);
+  const rect = { x: 0, y: 0, w: layout.cols, h: layout.rows };
+  const sy = (scale * base.cell.pitchYMm) / base.cell.pitchXMm;
+  return { layout, rect, sx: scale, sy, ...rectifiedSize(rect, scale, sy) };
+}
+
+/**
+ * Rows [row0, row1) of a match photo's straightened preview (previewGrid), resampled through its
+ * marks and written into the shared output image as sRGB: the three planes at once.
  */
 export function rectifyPhoto(task: {
   photo: RgbaImage;
@@ -127,15 +139,12 @@ export function rectifyPhoto(task: {
   rows: [number, number];
   out: Uint8Array;
 }): number {
-  const layout = patternFor(task.base);
-  const h = solveHomography(layout.fiducials, task.marks);
+  const grid = previewGrid(task.base, task.scale);
+  const h = solveHomography(grid.layout.fiducials, task.marks);
   const photo = linearise(task.photo, { kind: 'srgb' });
-  const sy = (task.scale * task.base.cell.pitchYMm) / task.base.cell.pitchXMm;
-  const rect = { x: 0, y: 0, w: layout.cols, h: layout.rows };
-  const [r, g, b] = rectifyPlanes([photo.r, photo.g, photo.b], photo, h.forward, rect, task.scale, sy, { rows: task.rows });
+  const [r, g, b] = rectifyPlanes([photo.r, photo.g, photo.b], photo, h.forward, grid.rect, grid.sx, grid.sy, { rows: task.rows });
   const out = task.out;
-  const at = task.rows[0] * rectifiedSize(rect, task.scale, sy).width * 4;
-  for (let i = 0, o = at; i < r.length; i++, o += 4) {
+  for (let i = 0, o = task.rows[0] * grid.width * 4; i < r.length; i++, o += 4) {
     out[o] = encode8(r[i]);
     out[o + 1] = encode8(g[i]);
     out[o + 2] = encode8(b[i]);

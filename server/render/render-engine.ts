@@ -13,7 +13,7 @@ import type { Frame, RgbaImage } from '@shared/pipeline/types';
 import { AppError } from '../core/app-error';
 import { decodeImage, framesOf } from './decode';
 import { joinPng, type PngBand } from './png';
-import { shared } from './pool-tasks';
+import { previewGrid, shared } from './pool-tasks';
 import { SharedBufferPool } from './shared-buffers';
 
 /** The pool's tasks (pool-tasks.ts). */
@@ -305,8 +305,7 @@ export class RenderEngine {
 
   /** A match photo resampled onto the panel's grid through its marks, `scale` px a pitch (in row bands across the pool). */
   async rectifyPhoto(photo: RgbaImage, marks: [number, number][], base: PanelParams, scale: number): Promise<RgbaImage> {
-    const width = Math.round(base.cell.cols * scale);
-    const height = Math.round((base.cell.rows * scale * base.cell.pitchYMm) / base.cell.pitchXMm);
+    const { width, height } = previewGrid(base, scale);
     const out = new Uint8Array(new SharedArrayBuffer(width * height * 4));
     const task = { photo: { ...photo, data: shared(photo.data as Uint8Array) }, marks, base, scale, out };
     await this.runAll(
