@@ -49,9 +49,12 @@ function levelsOf(demand: Float32Array, p: PanelParams, refresh?: number, out?: 
     : quantiseRefresh(demand, p.cell.cols, p.cell.rows, p.drive, refresh, out);
 }
 
-/** Stages 1–3 for one image: fit, tone, levels (levelsOf); the demand in between lives in this thread's scratch. */
+/** cellDemand of a whole frame into this thread's scratch (valid until the next call). */
+const demandOf = (frame: Frame['image'], p: PanelParams) => cellDemand(frame, p, scratchArray(DEMAND_SLOT, p.cell.cols * p.cell.rows));
+
+/** Stages 1–3 for one image: fit, tone, levels (levelsOf). */
 export function driveLevels(frame: Frame['image'], p: PanelParams, refresh?: number): Float32Array {
-  return levelsOf(cellDemand(frame, p, scratchArray(DEMAND_SLOT, p.cell.cols * p.cell.rows)), p, refresh);
+  return levelsOf(demandOf(frame, p), p, refresh);
 }
 
 /** Stages 1–4 for one image: fit, tone, levels, row loading → emission per cell (0–1); `refresh` as in driveLevels. */
@@ -62,7 +65,7 @@ export function driveImage(frame: Frame['image'], p: PanelParams, refresh?: numb
 /**
  * Whether frame `index` shows on the panel without anything from the frames before it (a still, or
  * a panel whose light does not persist from one refresh to the next): then its emission is
- * stillEmission of its cellDemand, which may be worked in bands.
+ * stillEmission of its cellDemand (as panelEmission takes it), and the demand may be worked in bands.
  */
 export function standsAlone(frames: readonly Frame[], p: PanelParams): boolean {
   return !persists(frames, p);
@@ -81,7 +84,7 @@ export function stillEmission(demand: Float32Array, p: PanelParams, out?: Float3
 export function panelEmission(frames: readonly Frame[], p: PanelParams, index = 0): Float32Array {
   if (index < 0 || index >= frames.length) throw new RangeError(`frame must be from 0 to ${frames.length - 1}, got ${index}`);
   // Without persistence a frame depends on nothing before it.
-  if (!persists(frames, p)) return withField(driveImage(frames[index].image, p), p);
+  if (!persists(frames, p)) return stillEmission(demandOf(frames[index].image, p), p);
   let last: Float32Array | undefined;
   for (const emission of emissionsThrough(frames, p, index)) last = emission;
   return last!;
@@ -103,7 +106,7 @@ export function panelEmissions(frames: readonly Frame[], p: PanelParams): Float3
 /** The emission of frames 0 … last in order, each its own array. */
 function* emissionsThrough(frames: readonly Frame[], p: PanelParams, last: number): Generator<Float32Array> {
   if (!persists(frames, p)) {
-    for (let k = 0; k <= last; k++) yield withField(driveImage(frames[k].image, p), p);
+    for (let k = 0; k <= last; k++) yield stillEmission(demandOf(frames[k].image, p), p);
     return;
   }
   const n = p.cell.cols * p.cell.rows;
