@@ -34,9 +34,23 @@ async function main() {
   // Single thread: decode, the whole CPU pipeline and the PNG file (one band) on this thread,
   // composed straight into the PNG writer's buffer as the pool's bands are (the glow radius does
   // not change the output's size).
-  const size = outputUniforms(base, scale);
+  const u = outputUniforms(base, scale);
   const singleThread = async (parameters: PanelParams) =>
-    renderPng(renderCpu((await decodeImage(input)).frames, parameters, { scale, out: bandBuffer(size.width, size.height) }));
+    renderPng(renderCpu((await decodeImage(input)).frames, parameters, { scale, out: bandBuffer(u.width, u.height) }));
+  // The sharp baseline is timed right before the render it is compared with: this machine's speed
+  // drifts by up to a third over tens of seconds, and the ratio is meant to compare the two, not
+  // the machine at two moments. (Each has its own warm-ups, so neither runs in the other's
+  // garbage collection.)
+  const frames = (await decodeImage(input)).frames;
+  let image = compose(panelEmission(frames, base), panelGlow(panelEmission(frames, base), base), u);
+  const sigmaPx = (base.glass.glowRadiusMm / base.cell.pitchXMm) * scale;
+  const raw = Buffer.from(image.data.buffer);
+  const sharpBaselineMs = await time(() =>
+    sharp(raw, { raw: { width: u.width, height: u.height, channels: 4 } })
+      .blur(sigmaPx)
+      .png({ compressionLevel: 2, adaptiveFiltering: false })
+      .toBuffer(),
+  );
   const renderMs = await time(() => singleThread(base));
   const small = await time(() => singleThread(withGlow(0.2)));
   const large = await time(() => singleThread(withGlow(5)));
@@ -58,26 +72,13 @@ async function main() {
   await engine.close();
 
   // Stage split of one render.
-  const frames = (await decodeImage(input)).frames;
-  const u = outputUniforms(base, scale);
   let emission: Float32Array = new Float32Array();
   let glow = panelGlow(panelEmission(frames, base), base);
-  let image = compose(panelEmission(frames, base), glow, u);
   const decodeMs = await time(() => decodeImage(input));
   const panelMs = await time(async () => (emission = panelEmission(frames, base)));
   const glowMs = await time(async () => (glow = panelGlow(emission, base)));
   const composeMs = await time(async () => (image = compose(emission, glow, u)));
   const encodeMs = await time(async () => renderPng(image));
-
-  // Baseline: sharp blurring an image of the same output size with the same σ in output pixels, encoded as PNG.
-  const sigmaPx = (base.glass.glowRadiusMm / base.cell.pitchXMm) * scale;
-  const raw = Buffer.from(image.data.buffer);
-  const sharpBaselineMs = await time(() =>
-    sharp(raw, { raw: { width: u.width, height: u.height, channels: 4 } })
-      .blur(sigmaPx)
-      .png({ compressionLevel: 2, adaptiveFiltering: false })
-      .toBuffer(),
-  );
 
   const rows: [string, number][] = [
     ['full render, 640×480 → 1920×1440 PNG, one thread', renderMs],
