@@ -21,6 +21,9 @@ test('this Node.js runs the kernels (so the comparisons with the loops compare t
       table: new Int32Array(16),
       perV: 1,
       vMax: 2,
+      zero: -1,
+      top: -1,
+      thresholds: new Float64Array(3 * 257),
     }),
   ).not.toBeNull();
 });

@@ -9,8 +9,12 @@ import { outputUniforms } from './uniforms';
 const sha = (b: Uint8Array) => createHash('sha256').update(b).digest('hex');
 
 /** compose of a seeded emission image for these parameters, both ways. */
-function composed(p: PanelParams, scale: number, options: { unaligned?: boolean; band?: { y0: number; y1: number } } = {}) {
-  const emission = lightSamples(p.cell.cols * p.cell.rows, p.cell.cols).map((v) => Math.min(v, 1));
+function composed(
+  p: PanelParams,
+  scale: number,
+  options: { unaligned?: boolean; band?: { y0: number; y1: number }; emission?: Float32Array } = {},
+) {
+  const emission = options.emission ?? lightSamples(p.cell.cols * p.cell.rows, p.cell.cols).map((v) => Math.min(v, 1));
   const glow = panelGlow(emission, p);
   const u = outputUniforms(p, scale);
   return bothWays(() => {
@@ -44,5 +48,20 @@ describe('the kernels give the same bytes as the TypeScript loops [def]', () => 
     expect(unaligned.kernels).toBe(unaligned.loops);
     const band = composed(p, 2, { band: { y0: 37, y1: 300 } });
     expect(band.kernels).toBe(band.loops);
+  });
+
+  test("the pixel coder's edges: v = 0, v past the table (to 10 × full on) and v below 0", () => {
+    // No glow: the gaps between apertures and the dark cells are exactly 0. Unclamped light
+    // samples reach 10 (the table ends at vMax ≥ 2); every 97th cell is negative, one infinite and
+    // one NaN (the coder's own path). Exposure −2 EV too, where the table's top word is not white.
+    const dark = mergeParams(builtInPresetById('el-amber-320x240.standard')!.parameters, { glass: { glowShare: 0, haloShare: 0 } });
+    const emission = lightSamples(dark.cell.cols * dark.cell.rows, 7).map((v, i) => (i % 97 === 0 ? -v : v));
+    emission[1000] = Infinity;
+    emission[2000] = NaN;
+    for (const exposureEv of [0, -2]) {
+      const p = mergeParams(dark, { viewing: { exposureEv } });
+      const { kernels, loops } = composed(p, 2, { emission });
+      expect(kernels).toBe(loops);
+    }
   });
 });

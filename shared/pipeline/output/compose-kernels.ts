@@ -22,6 +22,9 @@ interface Exports {
     table: number,
     perV: number,
     vMax: number,
+    zero: number,
+    top: number,
+    thresholds: number,
     slowX: number,
     slowV: number,
   ): number;
@@ -41,7 +44,7 @@ export interface ComposeRows {
   sumProfiles(count: number, weights: Float64Array, rows: readonly Float32Array[]): void;
   /** glowRows[slot] = glow-field row at `base` of `glow` interpolated across. */
   glowRowAcross(glow: Float32Array, base: number, slot: Float64Array): void;
-  /** One output row's words into `words` (the pixel coder's slow cases through `word`). */
+  /** One output row's words into `words` (v below 0, NaN or infinite through the pixel coder's `word`). */
   encodeRow(
     words: Int32Array,
     taps: number,
@@ -72,10 +75,13 @@ export interface ComposeShape {
   /** Aperture taps across (stride a column) and the glow's bilinear taps across (two a column). */
   xs: { index: Int32Array; weight: Float32Array; stride: number };
   gx: { index: Int32Array; weight: Float32Array };
-  /** The pixel coder's table and its scale. */
+  /** The pixel coder's table, its scale, its words for v = 0 and v ≥ vMax, and its channels' thresholds (PixelCoder). */
   table: Int32Array;
   perV: number;
   vMax: number;
+  zero: number;
+  top: number;
+  thresholds: Float64Array;
 }
 
 /**
@@ -89,10 +95,11 @@ export function composeRows(shape: ComposeShape): ComposeRows | null {
   if (loaded === undefined) loaded = instantiate<Exports>(COMPOSE_WASM_BASE64);
   const k = loaded;
   if (!k) return null;
-  const { width, cols, glowWidth, xs, gx, table, perV, vMax } = shape;
+  const { width, cols, glowWidth, xs, gx, table, perV, vMax, zero, top, thresholds } = shape;
   // Byte layout, one region after the other.
   const { at, end } = layout({
     table: table.length * 4,
+    thresholds: thresholds.length * 8,
     xsIndex: xs.index.length * 4,
     xsWeight: xs.weight.length * 4,
     gxIndex: width * 8,
@@ -110,6 +117,7 @@ export function composeRows(shape: ComposeShape): ComposeRows | null {
   });
   const buffer = reserve(k.memory, end);
   new Int32Array(buffer, at.table, table.length).set(table);
+  new Float64Array(buffer, at.thresholds, thresholds.length).set(thresholds);
   new Int32Array(buffer, at.xsIndex, xs.index.length).set(xs.index);
   new Float32Array(buffer, at.xsWeight, xs.weight.length).set(xs.weight);
   new Int32Array(buffer, at.gxIndex, width * 2).set(gx.index);
@@ -155,6 +163,9 @@ export function composeRows(shape: ComposeShape): ComposeRows | null {
         at.table,
         perV,
         vMax,
+        zero,
+        top,
+        at.thresholds,
         at.slowX,
         at.slowV,
       );

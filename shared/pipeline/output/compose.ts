@@ -138,7 +138,11 @@ export class PixelCoder {
   readonly table: Uint32Array;
   readonly perV: number;
   readonly vMax: number;
-  private readonly zero: number;
+  /** The words for v = 0 and for any finite v ≥ vMax (every channel's code is then its last). */
+  readonly zero: number;
+  readonly top: number;
+  /** The channels' thresholds one after the other (R, G, B; 257 each), as refine steps through them. */
+  readonly thresholds: Float64Array;
   private readonly r: Float64Array;
   private readonly g: Float64Array;
   private readonly b: Float64Array;
@@ -150,6 +154,8 @@ export class PixelCoder {
     this.vMax = vMax;
     this.perV = cells / vMax;
     this.zero = this.slow(0);
+    this.top = this.slow(vMax);
+    this.thresholds = Float64Array.from([...this.r, ...this.g, ...this.b]);
     // The cells that hold a threshold, in order.
     const cuts = this.channels
       .flatMap((c) => Array.from(c.v))
@@ -315,7 +321,7 @@ export function compose(
   const profiles = new RecentRows(ys.stride + 2);
   const glowRows = new RecentRows(4);
   const coder = new PixelCoder(u);
-  const { perV, vMax } = coder;
+  const { perV, vMax, zero, top, thresholds } = coder;
   // The words as signed integers: a final word (alpha 255) is negative. Read as unsigned, every
   // opaque word is past 2³¹, a number the engine would allocate on the heap, once a pixel.
   const table = new Int32Array(coder.table.buffer, coder.table.byteOffset, coder.table.length);
@@ -332,6 +338,9 @@ export function compose(
     table,
     perV,
     vMax,
+    zero,
+    top,
+    thresholds,
   });
   const profileRows = kernels?.profiles ?? Array.from({ length: profiles.size }, () => new Float32Array(width));
   const profileOf = (r: number): Float32Array => {

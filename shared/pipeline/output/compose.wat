@@ -75,46 +75,106 @@
 
   ;; One output row: the direct light d from `taps` profile rows (0; w0·p0; w0·p0 + w1·p1 in
   ;; float32 steps; more than two already summed into p0), plus the glow, is the relative
-  ;; luminance v = share·d + (h0·ty0 + h1·ty1). A table word with alpha 255 (negative as i32)
-  ;; is the pixel; any other v goes to the slow list (its column and v) for the pixel coder.
-  ;; Returns the length of that list.
+  ;; luminance v = share·d + (h0·ty0 + h1·ty1), and its word from the pixel coder's table
+  ;; (PixelCoder.word): final when its alpha is 255 (negative as i32), else stepped up ($refine).
+  ;; v = 0 is the word `zero`, a finite v from vMax on the word `top`; any other v (negative, NaN,
+  ;; infinite) goes to the slow list (its column and v) for the pixel coder. Returns the length of
+  ;; that list. Two pixels at a time: v in the two lanes of an f64x2 (the same IEEE operations lane
+  ;; by lane, float32 roundings by demote and promote), then each lane through the table. An odd
+  ;; last pixel reads one value past its rows (every row buffer has others after it in memory) and
+  ;; stores nothing of that lane.
   (func (export "encodeRow")
         (param $words i32) (param $n i32) (param $taps i32)
         (param $w0 f64) (param $p0 i32) (param $w1 f64) (param $p1 i32) (param $share f64)
         (param $h0 i32) (param $ty0 f64) (param $h1 i32) (param $ty1 f64)
-        (param $table i32) (param $perV f64) (param $vMax f64)
+        (param $table i32) (param $perV f64) (param $vMax f64) (param $zero i32) (param $top i32) (param $thresholds i32)
         (param $slowX i32) (param $slowV i32) (result i32)
-    (local $x i32) (local $slow i32) (local $d f64) (local $v f64) (local $word i32) (local $o4 i32) (local $o8 i32)
-    (block $done (loop $pixels
+    (local $x i32) (local $slow i32) (local $v f64) (local $word i32) (local $o4 i32) (local $o8 i32)
+    (local $d v128) (local $lanes v128) (local $W0 v128) (local $W1 v128) (local $S v128) (local $T0 v128) (local $T1 v128)
+    (local.set $W0 (f64x2.splat (local.get $w0)))
+    (local.set $W1 (f64x2.splat (local.get $w1)))
+    (local.set $S (f64x2.splat (local.get $share)))
+    (local.set $T0 (f64x2.splat (local.get $ty0)))
+    (local.set $T1 (f64x2.splat (local.get $ty1)))
+    (block $done (loop $pairs
       (br_if $done (i32.ge_u (local.get $x) (local.get $n)))
       (local.set $o4 (i32.shl (local.get $x) (i32.const 2)))
       (local.set $o8 (i32.shl (local.get $x) (i32.const 3)))
-      (if (i32.eqz (local.get $taps))
-        (then (local.set $d (f64.const 0)))
-        (else (if (i32.eq (local.get $taps) (i32.const 1))
-          (then (local.set $d (f64.promote_f32 (f32.demote_f64
-            (f64.mul (local.get $w0) (f64.promote_f32 (f32.load (i32.add (local.get $p0) (local.get $o4)))))))))
-          (else (if (i32.eq (local.get $taps) (i32.const 2))
-            (then (local.set $d (f64.promote_f32 (f32.demote_f64
-              (f64.add
-                (f64.promote_f32 (f32.demote_f64 (f64.mul (local.get $w0) (f64.promote_f32 (f32.load (i32.add (local.get $p0) (local.get $o4)))))))
-                (f64.mul (local.get $w1) (f64.promote_f32 (f32.load (i32.add (local.get $p1) (local.get $o4))))))))))
-            (else (local.set $d (f64.promote_f32 (f32.load (i32.add (local.get $p0) (local.get $o4)))))))))))
-      (local.set $v
-        (f64.add (f64.mul (local.get $share) (local.get $d))
-                 (f64.add (f64.mul (f64.load (i32.add (local.get $h0) (local.get $o8))) (local.get $ty0))
-                          (f64.mul (f64.load (i32.add (local.get $h1) (local.get $o8))) (local.get $ty1)))))
+      (block $direct
+        (block $many (block $two (block $one (block $none
+          (br_table $none $one $two $many (local.get $taps)))
+          (local.set $d (v128.const f64x2 0 0))
+          (br $direct))
+          (local.set $d (f64x2.promote_low_f32x4 (f32x4.demote_f64x2_zero
+            (f64x2.mul (local.get $W0) (f64x2.promote_low_f32x4 (v128.load64_zero (i32.add (local.get $p0) (local.get $o4))))))))
+          (br $direct))
+          (local.set $d (f64x2.promote_low_f32x4 (f32x4.demote_f64x2_zero
+            (f64x2.add
+              (f64x2.promote_low_f32x4 (f32x4.demote_f64x2_zero
+                (f64x2.mul (local.get $W0) (f64x2.promote_low_f32x4 (v128.load64_zero (i32.add (local.get $p0) (local.get $o4)))))))
+              (f64x2.mul (local.get $W1) (f64x2.promote_low_f32x4 (v128.load64_zero (i32.add (local.get $p1) (local.get $o4)))))))))
+          (br $direct))
+        (local.set $d (f64x2.promote_low_f32x4 (v128.load64_zero (i32.add (local.get $p0) (local.get $o4))))))
+      (local.set $lanes
+        (f64x2.add (f64x2.mul (local.get $S) (local.get $d))
+                   (f64x2.add (f64x2.mul (v128.load (i32.add (local.get $h0) (local.get $o8))) (local.get $T0))
+                              (f64x2.mul (v128.load (i32.add (local.get $h1) (local.get $o8))) (local.get $T1)))))
+      (local.set $v (f64x2.extract_lane 0 (local.get $lanes)))
       (local.set $word (i32.const 0))
       (if (i32.and (f64.gt (local.get $v) (f64.const 0)) (f64.lt (local.get $v) (local.get $vMax)))
         (then (local.set $word (i32.load (i32.add (local.get $table)
           (i32.shl (i32.trunc_sat_f64_s (f64.mul (local.get $v) (local.get $perV))) (i32.const 2)))))))
-      (if (i32.lt_s (local.get $word) (i32.const 0))
+      (if (i32.ge_s (local.get $word) (i32.const 0))
+        (then (local.set $word (call $rare (local.get $v) (local.get $word) (local.get $vMax) (local.get $zero) (local.get $top) (local.get $thresholds)))))
+      (if (local.get $word)
         (then (i32.store (i32.add (local.get $words) (local.get $o4)) (local.get $word)))
         (else
           (i32.store (i32.add (local.get $slowX) (i32.shl (local.get $slow) (i32.const 2))) (local.get $x))
           (f64.store (i32.add (local.get $slowV) (i32.shl (local.get $slow) (i32.const 3))) (local.get $v))
           (local.set $slow (i32.add (local.get $slow) (i32.const 1)))))
       (local.set $x (i32.add (local.get $x) (i32.const 1)))
-      (br $pixels)))
+      (br_if $done (i32.ge_u (local.get $x) (local.get $n)))
+      (local.set $o4 (i32.add (local.get $o4) (i32.const 4)))
+      (local.set $v (f64x2.extract_lane 1 (local.get $lanes)))
+      (local.set $word (i32.const 0))
+      (if (i32.and (f64.gt (local.get $v) (f64.const 0)) (f64.lt (local.get $v) (local.get $vMax)))
+        (then (local.set $word (i32.load (i32.add (local.get $table)
+          (i32.shl (i32.trunc_sat_f64_s (f64.mul (local.get $v) (local.get $perV))) (i32.const 2)))))))
+      (if (i32.ge_s (local.get $word) (i32.const 0))
+        (then (local.set $word (call $rare (local.get $v) (local.get $word) (local.get $vMax) (local.get $zero) (local.get $top) (local.get $thresholds)))))
+      (if (local.get $word)
+        (then (i32.store (i32.add (local.get $words) (local.get $o4)) (local.get $word)))
+        (else
+          (i32.store (i32.add (local.get $slowX) (i32.shl (local.get $slow) (i32.const 2))) (local.get $x))
+          (f64.store (i32.add (local.get $slowV) (i32.shl (local.get $slow) (i32.const 3))) (local.get $v))
+          (local.set $slow (i32.add (local.get $slow) (i32.const 1)))))
+      (local.set $x (i32.add (local.get $x) (i32.const 1)))
+      (br $pairs)))
     (local.get $slow))
+
+  ;; The word for a v the table does not give outright: inside (0, vMax), the lower bound `word`
+  ;; (alpha 0) with each channel's code stepped up past the thresholds v has reached; v = 0 and a
+  ;; finite v from vMax on, the constant words; otherwise 0 (no word: alpha is never 0).
+  (func $rare (param $v f64) (param $word i32) (param $vMax f64) (param $zero i32) (param $top i32) (param $thresholds i32) (result i32)
+    (if (i32.and (f64.gt (local.get $v) (f64.const 0)) (f64.lt (local.get $v) (local.get $vMax)))
+      (then (return (i32.or
+        (i32.or (call $step (local.get $v) (i32.and (local.get $word) (i32.const 255)) (local.get $thresholds))
+                (i32.shl (call $step (local.get $v) (i32.and (i32.shr_u (local.get $word) (i32.const 8)) (i32.const 255))
+                                     (i32.add (local.get $thresholds) (i32.const 2056))) (i32.const 8)))
+        (i32.or (i32.shl (call $step (local.get $v) (i32.and (i32.shr_u (local.get $word) (i32.const 16)) (i32.const 255))
+                                     (i32.add (local.get $thresholds) (i32.const 4112))) (i32.const 16))
+                (i32.const 0xff000000))))))
+    (if (f64.eq (local.get $v) (f64.const 0)) (then (return (local.get $zero))))
+    (if (i32.and (f64.ge (local.get $v) (local.get $vMax)) (f64.lt (local.get $v) (f64.const inf)))
+      (then (return (local.get $top))))
+    (i32.const 0))
+
+  ;; One channel's code c stepped up while c < 255 and v ≥ its threshold c + 1 (257 f64 at `t`).
+  (func $step (param $v f64) (param $c i32) (param $t i32) (result i32)
+    (block $done (loop $up
+      (br_if $done (i32.ge_u (local.get $c) (i32.const 255)))
+      (br_if $done (i32.eqz (f64.ge (local.get $v) (f64.load offset=8 (i32.add (local.get $t) (i32.shl (local.get $c) (i32.const 3)))))))
+      (local.set $c (i32.add (local.get $c) (i32.const 1)))
+      (br $up)))
+    (local.get $c))
 )
