@@ -125,6 +125,35 @@ describe('ChannelCoder (light → knee → sRGB as thresholds)', () => {
   );
 });
 
+describe('the pixel coder a thread keeps (PixelCoder.of)', () => {
+  const { PixelCoder } = jest.requireActual('./compose') as typeof import('./compose');
+  const { outputUniforms } = jest.requireActual('./uniforms') as typeof import('./uniforms');
+  const { PANEL_TYPES } = jest.requireActual('../../model/panel-types') as typeof import('../../model/panel-types');
+  const { mergeParams } = jest.requireActual('../../model/parameters') as typeof import('../../model/parameters');
+  const base = PANEL_TYPES[0].defaults;
+
+  test('is reused for the same light at another scale, and built anew when the light changes [def]', () => {
+    const first = PixelCoder.of(outputUniforms(base, 3));
+    expect(PixelCoder.of(outputUniforms(base, 2))).toBe(first);
+    for (const patch of [{ viewing: { exposureEv: 1 } }, { viewing: { ambientCdM2: 30 } }, { viewing: { knee: 0.6 } }]) {
+      const u = outputUniforms(mergeParams(base, patch), 3);
+      const kept = PixelCoder.of(u);
+      expect(kept).not.toBe(first);
+      const fresh = new PixelCoder(u);
+      const probes = Array.from({ length: 5000 }, (_, i) => (i / 5000) * 3);
+      expect(probes.filter((v) => kept.word(v) !== fresh.word(v))).toEqual([]);
+    }
+  });
+
+  test('its words for v = 0 and for every finite v from vMax on are the channel codes there [def]', () => {
+    const coder = new PixelCoder(outputUniforms(mergeParams(base, { viewing: { exposureEv: 3 } }), 3));
+    const codes = (v: number) => coder.channels.map((c) => c.code(v));
+    const bytes = (w: number) => [w & 255, (w >>> 8) & 255, (w >>> 16) & 255];
+    expect(bytes(coder.zero)).toEqual(codes(0));
+    for (const v of [coder.vMax, coder.vMax * 1.5, 1e300]) expect(bytes(coder.top)).toEqual(codes(v));
+  });
+});
+
 describe('scan-line sampling (area-true or centred on pixel rows)', () => {
   const { renderCpu } = jest.requireActual('../render') as typeof import('../render');
   const { outputUniforms } = jest.requireActual('./uniforms') as typeof import('./uniforms');
