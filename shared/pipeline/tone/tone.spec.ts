@@ -31,4 +31,19 @@ describe('tone', () => {
     expect(out[0]).toBe(0);
     expect(out[1]).toBeCloseTo(1, 6);
   });
+
+  test('a cell toned from the memo, or after the memo gave up on a call, has the demand it has toned alone [def]', () => {
+    let seed = 3;
+    const random = () => (seed = (seed * 1103515245 + 12345) % 2147483648) / 2147483648;
+    const palette = Array.from({ length: 300 }, () => [random(), random(), random()]);
+    // Pixel art (a palette, repeated, with black and -0), then a photograph (every colour new).
+    const art = Array.from({ length: 20000 }, (_, i) => (i % 50 === 0 ? [0, -0, 0] : palette[Math.floor(random() * 300)]));
+    const photo = Array.from({ length: 20000 }, () => [random(), random(), random()]);
+    for (const settings of [source, { ...source, luma: 'rec601' as const, gamma: 1.4, contrast: 1.2, threshold: 0.1, invert: true }])
+      for (const colours of [art, photo]) {
+        const together = tone(cells(...colours), settings);
+        const alone = colours.map((c) => tone(cells(c), settings)[0]);
+        expect(Array.from(together).findIndex((d, i) => !Object.is(d, alone[i]))).toBe(-1);
+      }
+  });
 });
