@@ -147,14 +147,35 @@ export function deflateBand(image: RgbaImage, y0: number, y1: number, last: bool
   return deflateRgba(rows, last);
 }
 
+/**
+ * PNG chunks, each a type and the pieces of its data, written after `lead` into one buffer: length,
+ * type, data and the CRC-32 of type and data (PNG specification, section 5.3). One allocation
+ * and one copy of each piece, however many pieces a chunk has.
+ */
+function writeChunks(lead: Uint8Array, chunks: readonly (readonly [string, readonly Uint8Array[]])[]): Buffer {
+  let size = lead.length;
+  for (const [, parts] of chunks) for (const part of parts) size += part.length;
+  const out = Buffer.allocUnsafe(size + 12 * chunks.length);
+  out.set(lead, 0);
+  let o = lead.length;
+  for (const [type, parts] of chunks) {
+    const start = o;
+    out.write(type, start + 4, 'latin1');
+    o += 8;
+    for (const part of parts) {
+      out.set(part, o);
+      o += part.length;
+    }
+    out.writeUInt32BE(o - start - 8, start);
+    out.writeUInt32BE(zlib.crc32(out.subarray(start + 4, o)) >>> 0, o);
+    o += 4;
+  }
+  return out;
+}
+
 /** One PNG chunk: length, type, data and the CRC-32 of type and data (PNG specification, section 5.3). */
 export function pngChunk(type: string, data: Uint8Array): Buffer {
-  const head = Buffer.alloc(8);
-  head.writeUInt32BE(data.length, 0);
-  head.write(type, 4, 'latin1');
-  const crc = Buffer.alloc(4);
-  crc.writeUInt32BE(zlib.crc32(data, zlib.crc32(head.subarray(4))) >>> 0, 0);
-  return Buffer.concat([head, data, crc]);
+  return writeChunks(new Uint8Array(0), [[type, [data]]]);
 }
 
 /** The eight bytes every PNG file starts with. */
@@ -162,7 +183,7 @@ export const PNG_SIGNATURE = Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x
 /** zlib header: deflate, 32 KiB window, "fast" level; (0x78 · 256 + 0x5e) is a multiple of 31. */
 const ZLIB_HEADER = Buffer.from([0x78, 0x5e]);
 
-/** The PNG file of an opaque RGB image from its bands, top to bottom. */
+/** The PNG file of an opaque RGB image from its bands, top to bottom: the bands' data copied once, into the file. */
 export function joinPng(width: number, height: number, bands: readonly PngBand[]): Buffer {
   const header = Buffer.alloc(13);
   header.writeUInt32BE(width, 0);
@@ -173,8 +194,11 @@ export function joinPng(width: number, height: number, bands: readonly PngBand[]
   for (const b of bands) adler = adler32Combine(adler, b.adler, b.length);
   const trailer = Buffer.alloc(4);
   trailer.writeUInt32BE(adler, 0);
-  const data = Buffer.concat([ZLIB_HEADER, ...bands.map((b) => b.deflated), trailer]);
-  return Buffer.concat([PNG_SIGNATURE, pngChunk('IHDR', header), pngChunk('IDAT', data), pngChunk('IEND', new Uint8Array(0))]);
+  return writeChunks(PNG_SIGNATURE, [
+    ['IHDR', [header]],
+    ['IDAT', [ZLIB_HEADER, ...bands.map((b) => b.deflated), trailer]],
+    ['IEND', []],
+  ]);
 }
 
 /** An opaque RGBA image as a PNG file, in one band on this thread (single-thread renders and tests). */
