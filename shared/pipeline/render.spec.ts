@@ -2,7 +2,9 @@ import fc from 'fast-check';
 import { BUILT_IN_PRESETS, PANEL_TYPES } from '../model/panel-types';
 import { mergeParams, type PanelParams } from '../model/parameters';
 import { outputUniforms } from './output/uniforms';
-import { panelEmission, panelEmissions, panelGlow, renderCpu } from './render';
+import { cellDemand, panelEmission, panelEmissions, panelGlow, renderCpu } from './render';
+import { fitToGrid } from './fit/fit';
+import { tone } from './tone/tone';
 import { unpackFrames } from './frames';
 
 const small = (p: PanelParams, patch: Partial<PanelParams['cell']> = {}) => mergeParams(p, { cell: { cols: 24, rows: 16, ...patch } });
@@ -159,5 +161,48 @@ describe('unpackFrames [calc: frames × width × height × 4 bytes]', () => {
     expect(() => unpackFrames(new ArrayBuffer(47), { width: 2, height: 3, delaysMs: [100, 250] })).toThrow(
       'arrived incomplete (47 of 48 bytes)',
     );
+  });
+});
+
+describe('cellDemand at one pixel a cell comes straight from the pixels, with the numbers of fit then tone [def]', () => {
+  let seed = 11;
+  const random = () => (seed = (seed * 1103515245 + 12345) % 2147483648) / 2147483648;
+  const image = (width: number, height: number, pixel: () => number[]) => {
+    const data = new Uint8Array(width * height * 4);
+    for (let i = 0; i < width * height; i++) data.set(pixel(), i * 4);
+    return { width, height, data };
+  };
+  // Pixel art: a 12-colour palette, some of it translucent or transparent.
+  const palette = Array.from({ length: 12 }, (_, i) =>
+    [random() * 256, random() * 256, random() * 256, [255, 255, 128, 0][i % 4]].map(Math.floor),
+  );
+  const art = (width: number, height: number) => image(width, height, () => palette[Math.floor(random() * 12)]);
+  // A photograph's worth of colours: most cells new, past the memo's trial of 8192 cells.
+  const noise = (width: number, height: number) =>
+    image(width, height, () => [random(), random(), random(), random()].map((u) => Math.floor(u * 256)));
+  const settings = [{}, { luma: 'rec601' as const, gamma: 1.4, contrast: 1.2, threshold: 0.1, invert: true }];
+  const cases: [string, ReturnType<typeof image>, number, number, 'native' | 'area'][] = [
+    ['art smaller than the grid (black around it)', art(50, 37), 64, 48, 'native'],
+    ['art larger than the grid (cropped)', art(100, 90), 64, 48, 'native'],
+    ['art the size of the grid, area fit', art(64, 48), 64, 48, 'area'],
+    ['random colours, the size of the grid', noise(128, 96), 128, 96, 'area'],
+  ];
+  test.each(cases)('%s', (_name, artwork, cols, rows, fit) => {
+    for (const source of settings) {
+      const p = mergeParams(PANEL_TYPES[0].defaults, { cell: { cols, rows }, source: { ...source, fit } });
+      const expected = tone(fitToGrid(artwork, p.cell, fit), p.source);
+      const whole = cellDemand(artwork, p, new Float32Array(cols * rows).fill(7));
+      expect(Array.from(whole).findIndex((d, i) => !Object.is(d, expected[i]))).toBe(-1);
+      // In bands over stale memory, as the render pool works.
+      const banded = new Float32Array(cols * rows).fill(7);
+      for (const [r0, r1] of [
+        [0, 1],
+        [1, 20],
+        [20, rows - 1],
+        [rows - 1, rows],
+      ])
+        cellDemand(artwork, p, banded, { r0, r1 });
+      expect(Array.from(banded).findIndex((d, i) => !Object.is(d, expected[i]))).toBe(-1);
+    }
   });
 });

@@ -1,5 +1,5 @@
 import type { PanelParams } from '../model/parameters';
-import { fitToGrid, type GridRows } from './fit/fit';
+import { fitToGrid, isOneToOne, placement, type GridRows } from './fit/fit';
 import { glowField, glowFieldSize, glowPlan } from './glow/glow';
 import { quantise, quantiseRefresh } from './levels/levels';
 import { compose } from './output/compose';
@@ -7,7 +7,7 @@ import { outputUniforms } from './output/uniforms';
 import { decayFactor, interlaceField, persist } from './persistence/persistence';
 import { rowLoading } from './row-loading/row-loading';
 import { DEMAND_SLOT, FIT_SLOT, GLOW_SLOT, scratchArray } from './scratch';
-import { tone } from './tone/tone';
+import { tone, toneOneToOne } from './tone/tone';
 import type { Field, Frame, RgbaImage } from './types';
 
 /** Bumped whenever a stage's output can change for the same input; part of the render cache key. */
@@ -22,7 +22,7 @@ export function refreshesOf(delayMs: number, refreshHz: number): number {
  * Stages 1–2 for the grid rows in `band` (all by default): fit and tone → each cell's drive
  * demand in linear light, written into `out` (a whole grid, row-major). Each row depends on the
  * artwork alone, so bands may be worked on different threads. The fitted colours live in this
- * thread's scratch.
+ * thread's scratch; a one-to-one placement needs none (toneOneToOne).
  */
 export function cellDemand(
   frame: Frame['image'],
@@ -31,6 +31,9 @@ export function cellDemand(
   band: GridRows = { r0: 0, r1: p.cell.rows },
 ): Float32Array {
   const { cols, rows } = p.cell;
+  // One pixel a cell: the demand straight from the pixels (the same numbers as below).
+  const place = placement(frame.width, frame.height, p.cell, p.source.fit);
+  if (isOneToOne(place) && toneOneToOne(frame, place, cols, band, p.source, out)) return out;
   const rgb = fitToGrid(frame, p.cell, p.source.fit, { cols, rows, data: scratchArray(FIT_SLOT, cols * rows * 3) }, band);
   const part = { cols, rows: band.r1 - band.r0, data: rgb.data.subarray(band.r0 * cols * 3, band.r1 * cols * 3) };
   tone(part, p.source, out.subarray(band.r0 * cols, band.r1 * cols));

@@ -73,8 +73,7 @@ export function fitToGrid(
   const result = out ?? { cols, rows, data: new Float32Array(cols * rows * 3) };
   result.data.fill(0, band.r0 * cols * 3, band.r1 * cols * 3);
   const p = placement(image.width, image.height, cell, fit);
-  if (p.scaleX === 1 && p.scaleY === 1 && Number.isInteger(p.offsetX) && Number.isInteger(p.offsetY))
-    return copyOneToOne(image, p, result, band);
+  if (isOneToOne(p)) return copyOneToOne(image, p, result, band);
   // Per axis: for each cell, the pixel span and weights it covers (separable box overlap).
   const spans = (n: number, scale: number, offset: number, size: number) =>
     Array.from({ length: n }, (_, c) => {
@@ -128,12 +127,50 @@ export function fitToGrid(
   return result;
 }
 
+/** Whether a placement maps each pixel onto one whole cell (scale 1, whole-cell offset): fitToGrid then copies. */
+export const isOneToOne = (p: Placement): boolean =>
+  p.scaleX === 1 && p.scaleY === 1 && Number.isInteger(p.offsetX) && Number.isInteger(p.offsetY);
+
+/**
+ * The pixels [x0, x1) × [y0, y1) of a one-to-one placement that land on the grid rows in `band`
+ * (within the grid) of a grid `cols` wide: pixel (x, y) lands on cell (x + offsetX, y + offsetY).
+ */
+export function oneToOneSpan(
+  image: { width: number; height: number },
+  p: Placement,
+  cols: number,
+  band: GridRows,
+): { x0: number; x1: number; y0: number; y1: number } {
+  return {
+    x0: Math.max(0, -p.offsetX),
+    y0: Math.max(0, -p.offsetY, band.r0 - p.offsetY),
+    x1: Math.min(image.width, cols - p.offsetX),
+    y1: Math.min(image.height, band.r1 - p.offsetY),
+  };
+}
+
+/**
+ * A pixel's colour in linear light, composited on black: the RGBA bytes at `o` of `src` into
+ * `dst` at `d` (three values). The definition a one-to-one fit copies by.
+ */
+export function pixelLinear(src: RgbaImage['data'], o: number, dst: Float32Array, d: number): void {
+  const decode = SRGB_TO_LINEAR;
+  const alpha = src[o + 3];
+  if (alpha === 255) {
+    dst[d] = decode[src[o]];
+    dst[d + 1] = decode[src[o + 1]];
+    dst[d + 2] = decode[src[o + 2]];
+  } else {
+    const a = alpha / 255;
+    dst[d] = a * decode[src[o]];
+    dst[d + 1] = a * decode[src[o + 1]];
+    dst[d + 2] = a * decode[src[o + 2]];
+  }
+}
+
 /** The 1:1 case of fitToGrid (whole-cell offset): a straight copy through the decode table, for the grid rows in `band`. */
 function copyOneToOne(image: RgbaImage, p: Placement, out: CellRgb, band: GridRows): CellRgb {
-  const x0 = Math.max(0, -p.offsetX);
-  const y0 = Math.max(0, -p.offsetY, band.r0 - p.offsetY);
-  const x1 = Math.min(image.width, out.cols - p.offsetX);
-  const y1 = Math.min(image.height, out.rows - p.offsetY, band.r1 - p.offsetY);
+  const { x0, x1, y0, y1 } = oneToOneSpan(image, p, out.cols, band);
   // Locals for the hot loop: typed arrays and numbers only, no property loads per pixel.
   const src = image.data;
   const dst = out.data;
@@ -145,6 +182,7 @@ function copyOneToOne(image: RgbaImage, p: Placement, out: CellRgb, band: GridRo
   for (let y = y0; y < y1; y++) {
     let o = (y * width + x0) * 4;
     let d = ((y + oy) * cols + x0 + ox) * 3;
+    // pixelLinear, written out: as a call a pixel, this loop took two to three times as long.
     for (let x = x0; x < x1; x++, o += 4, d += 3) {
       const alpha = src[o + 3];
       if (alpha === 255) {
