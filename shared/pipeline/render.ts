@@ -31,10 +31,11 @@ export function cellDemand(
   band: GridRows = { r0: 0, r1: p.cell.rows },
 ): Float32Array {
   const { cols, rows } = p.cell;
+  const fitted = { cols, rows, data: scratchArray(FIT_SLOT, cols * rows * 3) };
   // One pixel a cell: the demand straight from the pixels (the same numbers as below).
   const place = placement(frame.width, frame.height, p.cell, p.source.fit);
-  if (isOneToOne(place) && toneOneToOne(frame, place, cols, band, p.source, out)) return out;
-  const rgb = fitToGrid(frame, p.cell, p.source.fit, { cols, rows, data: scratchArray(FIT_SLOT, cols * rows * 3) }, band);
+  if (isOneToOne(place) && toneOneToOne(frame, p, place, band, out, fitted)) return out;
+  const rgb = fitToGrid(frame, p.cell, p.source.fit, fitted, band);
   const part = { cols, rows: band.r1 - band.r0, data: rgb.data.subarray(band.r0 * cols * 3, band.r1 * cols * 3) };
   tone(part, p.source, out.subarray(band.r0 * cols, band.r1 * cols));
   return out;

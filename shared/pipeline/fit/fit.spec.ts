@@ -20,6 +20,14 @@ describe('fit', () => {
     expect(lit).toEqual([0, 0, 0, 0, 0, 1, 1, 0, 0, 1, 1, 0, 0, 0, 0, 0]);
   });
 
+  test('native: a translucent pixel is its linear colour times its alpha (composited on black), a transparent one black [std] IEC 61966-2-1 decode', () => {
+    const art = { width: 2, height: 1, data: Uint8Array.from([200, 100, 50, 128, 255, 255, 255, 0]) };
+    const out = fitToGrid(art, cell(2, 1), 'native');
+    const a = 128 / 255;
+    [200, 100, 50].forEach((code, k) => expect(out.data[k]).toBeCloseTo(a * srgbDecode(code / 255), 6));
+    expect(Array.from(out.data.subarray(3))).toEqual([0, 0, 0]);
+  });
+
   test('integer: the largest whole enlargement, repeating pixels exactly [calc]', () => {
     expect(placement(3, 2, cell(10, 10), 'integer')).toMatchObject({ scaleX: 3, scaleY: 3 });
     const out = fitToGrid(

@@ -149,25 +149,6 @@ export function oneToOneSpan(
   };
 }
 
-/**
- * A pixel's colour in linear light, composited on black: the RGBA bytes at `o` of `src` into
- * `dst` at `d` (three values). The definition a one-to-one fit copies by.
- */
-export function pixelLinear(src: RgbaImage['data'], o: number, dst: Float32Array, d: number): void {
-  const decode = SRGB_TO_LINEAR;
-  const alpha = src[o + 3];
-  if (alpha === 255) {
-    dst[d] = decode[src[o]];
-    dst[d + 1] = decode[src[o + 1]];
-    dst[d + 2] = decode[src[o + 2]];
-  } else {
-    const a = alpha / 255;
-    dst[d] = a * decode[src[o]];
-    dst[d + 1] = a * decode[src[o + 1]];
-    dst[d + 2] = a * decode[src[o + 2]];
-  }
-}
-
 /** The 1:1 case of fitToGrid (whole-cell offset): a straight copy through the decode table, for the grid rows in `band`. */
 function copyOneToOne(image: RgbaImage, p: Placement, out: CellRgb, band: GridRows): CellRgb {
   const { x0, x1, y0, y1 } = oneToOneSpan(image, p, out.cols, band);
@@ -182,7 +163,6 @@ function copyOneToOne(image: RgbaImage, p: Placement, out: CellRgb, band: GridRo
   for (let y = y0; y < y1; y++) {
     let o = (y * width + x0) * 4;
     let d = ((y + oy) * cols + x0 + ox) * 3;
-    // pixelLinear, written out: as a call a pixel, this loop took two to three times as long.
     for (let x = x0; x < x1; x++, o += 4, d += 3) {
       const alpha = src[o + 3];
       if (alpha === 255) {

@@ -1,6 +1,6 @@
 import { REC601, REC709, srgbDecodeFast as srgbDecode, srgbEncodeFast as srgbEncode } from '../../color/srgb';
 import type { PanelParams } from '../../model/parameters';
-import { oneToOneSpan, pixelLinear, type CellRgb, type GridRows, type Placement } from '../fit/fit';
+import { fitToGrid, oneToOneSpan, type CellRgb, type GridRows, type Placement } from '../fit/fit';
 import type { RgbaImage } from '../types';
 
 /** Slots of tone's memos of colours it has toned, per thread: direct-mapped caches. */
@@ -84,30 +84,32 @@ export function tone(rgb: CellRgb, source: PanelParams['source'], out?: Float32A
 }
 
 /**
- * tone of fitToGrid for a one-to-one placement (fit.ts isOneToOne), for the grid rows in `band` of
- * a grid `cols` wide, into `out` (a whole grid): each cell's demand straight from its pixel's RGBA
- * word, through a memo keyed by that word, without the grid of linear colours in between. A
- * pixel's colour is made as the fit makes it (pixelLinear, into float32s), so the demand is the
- * same number; cells outside the artwork are black. Null, with `out` part written, when most of
- * the first rows' pixels missed the memo (a photograph: fit and tone are then quicker).
+ * tone of fitToGrid for a one-to-one placement `place` (fit.ts isOneToOne) of `image` on the grid
+ * of `p`, for the grid rows in `band`, into `out` (a whole grid): each cell's demand straight from
+ * its pixel's RGBA word, through a memo keyed by that word, without a grid of linear colours in
+ * between. A pixel the memo misses is toned from its row fitted into `fitted` (a whole grid of
+ * the fit's own numbers), so the demand is the same number; cells outside the artwork are black.
+ * Null, with `out` part written, when most of the first rows' pixels missed the memo (a
+ * photograph: fit and tone are then quicker).
  */
 export function toneOneToOne(
   image: RgbaImage,
-  p: Placement,
-  cols: number,
+  p: Pick<PanelParams, 'cell' | 'source'>,
+  place: Placement,
   band: GridRows,
-  source: PanelParams['source'],
   out: Float32Array,
+  fitted: CellRgb,
 ): Float32Array | null {
-  const demand = toneCurve(source);
+  const cols = p.cell.cols;
+  const demand = toneCurve(p.source);
   const black = demand(0, 0, 0);
   out.fill(black, band.r0 * cols, band.r1 * cols);
-  const { x0, x1, y0, y1 } = oneToOneSpan(image, p, cols, band);
+  const { x0, x1, y0, y1 } = oneToOneSpan(image, place, cols, band);
   const src = image.data;
   const width = image.width;
+  const linear = fitted.data;
   // RGBA words where the bytes line up; else each pixel's four bytes put together.
   const words = src.byteOffset % 4 === 0 ? new Uint32Array(src.buffer, src.byteOffset, src.length >> 2) : null;
-  const rgb = new Float32Array(3);
   // Every slot starts as transparent black (word 0), whose demand is black's.
   const keys = pixelKeys;
   const values = pixelValues;
@@ -115,9 +117,11 @@ export function toneOneToOne(
   values.fill(black);
   let seen = 0;
   let misses = 0;
+  let fittedRow = -1;
   for (let y = y0; y < y1; y++) {
     if (seen >= MEMO_TRIAL && misses > MEMO_TRIAL / 2) return null;
-    let d = (y + p.offsetY) * cols + x0 + p.offsetX;
+    const row = y + place.offsetY;
+    let d = row * cols + x0 + place.offsetX;
     for (let x = x0, o = (y * width + x0) * 4; x < x1; x++, o += 4, d++) {
       const key = words ? words[o >> 2] : (src[o] | (src[o + 1] << 8) | (src[o + 2] << 16) | (src[o + 3] << 24)) >>> 0;
       const slot = slotOf(key, 0, 0);
@@ -126,9 +130,12 @@ export function toneOneToOne(
         continue;
       }
       misses++;
-      pixelLinear(src, o, rgb, 0);
+      if (fittedRow !== row) {
+        fitToGrid(image, p.cell, p.source.fit, fitted, { r0: row, r1: row + 1 });
+        fittedRow = row;
+      }
       keys[slot] = key;
-      out[d] = values[slot] = demand(rgb[0], rgb[1], rgb[2]);
+      out[d] = values[slot] = demand(linear[d * 3], linear[d * 3 + 1], linear[d * 3 + 2]);
     }
     seen += x1 - x0;
   }
