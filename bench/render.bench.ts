@@ -11,7 +11,7 @@ import { panelEmission, panelGlow } from '@shared/pipeline/render';
 import { compose } from '@shared/pipeline/output/compose';
 import { outputUniforms } from '@shared/pipeline/output/uniforms';
 import { pngOf } from '../server/testing/images';
-import { medianMs } from './timing';
+import { median, medianMs } from './timing';
 
 const RUNS = 7;
 /**
@@ -59,16 +59,25 @@ async function main() {
   const engine = new RenderEngine();
   const request = (p: PanelParams): RenderRequest => ({ input, parameters: p, scale, frame: 0 });
   const parallelRenderMs = await time(() => engine.render(request(base)));
+  // Batches of 8 requests at once: renders a second, and how long the first, middle and last of
+  // each batch took to come back (the pool's queue runs earlier renders' steps first).
   const inFlight = 8;
   const batches = 3;
   const started = performance.now();
-  for (let b = 0; b < batches; b++)
-    await Promise.all(
+  const waits: number[][] = [];
+  for (let b = 0; b < batches; b++) {
+    const sent = performance.now();
+    const back = await Promise.all(
       Array.from({ length: inFlight }, (_, i) =>
-        engine.render(request(mergeParams(base, { viewing: { exposureEv: (b * inFlight + i) / 100 } }))),
+        engine
+          .render(request(mergeParams(base, { viewing: { exposureEv: (b * inFlight + i) / 100 } })))
+          .then(() => performance.now() - sent),
       ),
     );
+    waits.push(back.sort((x, y) => x - y));
+  }
   const throughputPerS = (inFlight * batches) / ((performance.now() - started) / 1000);
+  const waitMs = (k: number) => median(waits.map((w) => w[k]));
   await engine.close();
 
   // Stage split of one render.
@@ -96,10 +105,14 @@ async function main() {
   console.log('| step | ms |\n| --- | ---: |');
   for (const [name, ms] of rows) console.log(`| ${name} | ${ms.toFixed(1)} |`);
   console.log(`| renders per second, ${inFlight} in flight on the pool | ${throughputPerS.toFixed(2)} /s |`);
+  console.log(
+    `| ${inFlight} sent at once: first, middle and last back (median of ${batches} batches) | ${[0, inFlight / 2, inFlight - 1].map((k) => waitMs(k).toFixed(0)).join(', ')} ms |`,
+  );
   const figures = {
     renderMs: +renderMs.toFixed(1),
     parallelRenderMs: +parallelRenderMs.toFixed(1),
     throughputPerS: +throughputPerS.toFixed(2),
+    inFlightWaitMs: { first: Math.round(waitMs(0)), middle: Math.round(waitMs(inFlight / 2)), last: Math.round(waitMs(inFlight - 1)) },
     radiusRatio: +(large / small).toFixed(3),
     sharpBaselineMs: +sharpBaselineMs.toFixed(1),
     ratioToSharp: +(renderMs / sharpBaselineMs).toFixed(3),

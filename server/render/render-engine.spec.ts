@@ -85,6 +85,22 @@ test('more renders than the queue holds are refused with 503 render_busy before 
   expect(engine.load).toBe(0);
 });
 
+test('an interactive render queued after three exports (background work) on one thread finishes first', async () => {
+  const one = new RenderEngine({ threads: 1, maxPending: 8 });
+  try {
+    const req = (i: number) => ({ input, parameters: mergeParams(parameters, { viewing: { exposureEv: i / 10 } }), scale: 2, frame: 0 });
+    const finished: string[] = [];
+    const exports = [0, 1, 2].map((i) => one.renderImage(req(i), { background: true }).then(() => finished.push(`export ${i}`)));
+    const interactive = one.render(req(3)).then(() => finished.push('interactive'));
+    await Promise.all([...exports, interactive]);
+    // First in, first out, the four renders would take their steps in turn and the interactive one finish last.
+    expect(finished[0]).toBe('interactive');
+    expect(finished.slice(1).sort()).toEqual(['export 0', 'export 1', 'export 2']);
+  } finally {
+    await one.close();
+  }
+});
+
 test('a render larger than the output limit is refused before it is queued', () => {
   expect(() => RenderEngine.check({ parameters: mergeParams(parameters, { cell: { cols: 2048, rows: 2048 } }), scale: 8 })).toThrow(
     expect.objectContaining({ code: 'output_too_large' }),

@@ -15,6 +15,7 @@ import { decodeImage, framesOf } from './decode';
 import { joinPng, type PngBand } from './png';
 import { previewGrid, shared } from './pool-tasks';
 import { SharedBufferPool } from './shared-buffers';
+import { RenderTaskQueue, withOrder, type TaskOrder } from './task-queue';
 
 /** The pool's tasks (pool-tasks.ts). */
 type TaskName = 'demand' | 'panel' | 'glowStep' | 'band' | 'match' | 'rectifyPhoto' | 'fail';
@@ -36,6 +37,12 @@ export interface RenderRequest {
   parameters: PanelParams;
   scale: number;
   frame: number;
+}
+
+/** How a render is run: in how many output bands (default: one a thread), and whether it is background work (an export), which waits while interactive renders are queued. */
+export interface RenderOptions {
+  bands?: number;
+  background?: boolean;
 }
 
 /** A finished render. */
@@ -106,6 +113,8 @@ export class RenderEngine {
   private readonly maxPending: number;
   private readonly frames: FrameCache;
   private pending = 0;
+  /** Pieces of work taken so far (renders, fits, previews): the queue runs earlier ones' tasks first. */
+  private works = 0;
   /** The emission, glow, output and demand arrays of renders, reused (up to 256 MiB held while idle). */
   private readonly buffers = new SharedBufferPool(256 * 1024 * 1024);
 
@@ -118,6 +127,7 @@ export class RenderEngine {
       minThreads: this.threads,
       maxThreads: this.threads,
       idleTimeout: 60_000,
+      taskQueue: new RenderTaskQueue(),
     });
   }
 
@@ -156,12 +166,12 @@ export class RenderEngine {
   }
 
   /** A full render: decode (cached), panel stages and glow, output stages in bands, each band deflated there; the PNG joined here. */
-  async render(req: RenderRequest, options: { bands?: number } = {}): Promise<RenderedPng> {
+  async render(req: RenderRequest, options: RenderOptions = {}): Promise<RenderedPng> {
     return this.withRender(req, options, true, ({ width, height }, bands) => ({ png: joinPng(width, height, bands), width, height }));
   }
 
   /** A full render as raw RGBA (its own copy), for work that puts renders together (comparison sheets). */
-  async renderImage(req: RenderRequest, options: { bands?: number } = {}): Promise<RgbaImage> {
+  async renderImage(req: RenderRequest, options: RenderOptions = {}): Promise<RgbaImage> {
     return this.withRender(req, options, false, ({ width, height }, _bands, out) => ({ width, height, data: new Uint8Array(out!) }));
   }
 
@@ -171,7 +181,7 @@ export class RenderEngine {
    */
   private async withRender<T>(
     req: RenderRequest,
-    options: { bands?: number },
+    options: RenderOptions,
     png: boolean,
     use: (size: { width: number; height: number }, bands: PngBand[], out: Uint8Array | null) => T,
   ): Promise<T> {
@@ -182,6 +192,7 @@ export class RenderEngine {
       });
     }
     this.pending++;
+    const order: TaskOrder = { background: options.background ?? false, work: this.works++ };
     try {
       const frames = await this.frames.get(req.input, req.sheet);
       if (req.frame >= frames.length)
@@ -209,10 +220,11 @@ export class RenderEngine {
           await this.runAll(
             'demand',
             bandsOf(cell.rows, threads).map(([r0, r1]) => ({ ...panelTask, band: { r0, r1 }, demandOut: demand })),
+            order,
           );
-          await this.run('panel', { ...panelTask, demand });
+          await this.run('panel', { ...panelTask, demand }, order);
         } else {
-          await this.run('panel', panelTask);
+          await this.run('panel', panelTask, order);
         }
         // The glow components blurred in two steps, each split in bands across the threads:
         // across (row bands), then down (column bands). Each output band then sums the glow
@@ -223,10 +235,12 @@ export class RenderEngine {
         await this.runAll(
           'glowStep',
           steps('across', (c) => c.height),
+          order,
         );
         await this.runAll(
           'glowStep',
           steps('down', (c) => c.width),
+          order,
         );
         const pngBands = await this.runAll(
           'band',
@@ -238,6 +252,7 @@ export class RenderEngine {
             rows: { y0, y1 },
             out,
           })),
+          order,
         );
         return use({ width, height }, pngBands as PngBand[], out);
       } finally {
@@ -252,17 +267,20 @@ export class RenderEngine {
    * Runs tasks at once and waits for every one to settle before answering: a failed task must not
    * leave another still writing into buffers that go back to the pool.
    */
-  private async runAll(name: TaskName, tasks: unknown[]): Promise<unknown[]> {
-    const settled = await Promise.allSettled(tasks.map((t) => this.run(name, t)));
+  private async runAll(name: TaskName, tasks: object[], order?: TaskOrder): Promise<unknown[]> {
+    const settled = await Promise.allSettled(tasks.map((t) => this.run(name, t, order)));
     const failed = settled.find((r) => r.status === 'rejected');
     if (failed) throw failed.reason;
     return settled.map((r) => (r as PromiseFulfilledResult<unknown>).value);
   }
 
-  /** Runs a named task; a worker's error comes back as 500 render_failed, and the pool replaces a dead worker. */
-  async run(name: TaskName, task: unknown): Promise<unknown> {
+  /**
+   * Runs a named task, queued by `order` (else as interactive work of its own); a worker's error
+   * comes back as 500 render_failed, and the pool replaces a dead worker.
+   */
+  async run(name: TaskName, task: object, order: TaskOrder = { background: false, work: this.works++ }): Promise<unknown> {
     try {
-      return await this.pool.run(task, { name });
+      return await this.pool.run(withOrder(task, order), { name });
     } catch (err) {
       if (err instanceof AppError) throw err;
       console.error(`[render] a ${name} task failed: ${(err as Error).message}`);
@@ -288,7 +306,7 @@ export class RenderEngine {
     try {
       const photo = { ...input.photo, data: shared(input.photo.data as Uint8Array) };
       return (await this.pool.run(
-        { input: { ...input, photo }, port: channel.port2 },
+        withOrder({ input: { ...input, photo }, port: channel.port2 }, { background: false, work: this.works++ }),
         { name: 'match', transferList: [channel.port2] },
       )) as { result: MatchResult } | { refusal: string };
     } catch (err) {
@@ -311,6 +329,7 @@ export class RenderEngine {
     await this.runAll(
       'rectifyPhoto',
       bandsOf(height, this.threads).map((rows) => ({ ...task, rows })),
+      { background: false, work: this.works++ },
     );
     return { width, height, data: out };
   }

@@ -486,11 +486,14 @@ export class ExportsService {
     }
   }
 
-  /** A render on the pool; when the pool is full (interactive renders come first) it waits its turn instead of failing. */
+  /**
+   * A render on the pool as background work: its tasks wait while interactive renders are queued,
+   * and when the pool is full it waits its turn instead of failing.
+   */
   private async renderPatiently(req: RenderRequest): Promise<RgbaImage> {
     for (let attempt = 0; ; attempt++) {
       try {
-        return await this.engine.renderImage(req);
+        return await this.engine.renderImage(req, { background: true });
       } catch (err) {
         if (!(err instanceof AppError && err.code === 'render_busy') || attempt >= 120) throw err;
         await new Promise((resolve) => setTimeout(resolve, 500));
