@@ -289,6 +289,8 @@ function bilinearTaps(n: number, size: number, m: number, M: number): { i0: Int3
 
 /** into[i] = share × from[i + shift] for i in [i0, i1) (0 + x is exactly x: the same values as adding into zeros). */
 function scaleInto(into: Float32Array, from: Float32Array, share: number, i0: number, i1: number, shift: number): void {
+  const kernels = sumKernels();
+  if (kernels) return kernels.scale(into, from, share, i0, i1, shift);
   for (let i = i0; i < i1; i++) into[i] = share * from[i + shift];
 }
 

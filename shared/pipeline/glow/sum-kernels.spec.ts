@@ -42,4 +42,14 @@ describe('the kernels give the same bits as the TypeScript loops [def]', () => {
     const { kernels, loops } = bothWays(() => Float32Array.from(glowField(emission, cell, glowPlan(cell, glass)).data));
     expect(firstDifference(kernels, loops)).toBe('same');
   });
+
+  test('a glow field of 7 × 3 samples (21: the share scaled four at a time, then one by one)', () => {
+    const base = PANEL_TYPES[0].defaults;
+    const cell = { ...base.cell, cols: 7, rows: 3 };
+    const glass = { ...base.glass, glowRadiusMm: 1, haloShare: 0 };
+    expect(glowPlan(cell, glass).oversample).toBe(1);
+    const emission = lightSamples(21, 3).map((v) => Math.min(v, 1));
+    const { kernels, loops } = bothWays(() => Float32Array.from(glowField(emission, cell, glowPlan(cell, glass)).data));
+    expect(firstDifference(kernels, loops)).toBe('same');
+  });
 });

@@ -18,6 +18,7 @@ interface Exports {
   ): void;
   acrossRow(row: number, i0: number, i1: number, t: number, out: number, n: number): void;
   blendRow(dst: number, top: number, bottom: number, n: number, share: number, t: number): void;
+  scale(input: number, out: number, n: number, share: number): void;
 }
 
 /** Bilinear taps along one axis (glow.ts bilinearTaps). */
@@ -28,8 +29,9 @@ export interface AxisTaps {
 }
 
 /**
- * The glow components' sum (glow.ts) as WebAssembly kernels (sum.wat): the halo's ring spread
- * and the upsampling of a coarse component onto the finer grid, with the same bits as glow.ts's
+ * The glow components' sum (glow.ts) as WebAssembly kernels (sum.wat): the halo's ring spread,
+ * the upsampling of a coarse component onto the finer grid and a component on the finest grid
+ * scaled by its share, with the same bits as glow.ts's
  * loops. The arrays are copied into the kernels' memory and the results back. Null where the
  * kernels cannot run.
  */
@@ -53,6 +55,8 @@ export interface SumKernels {
     y0: number,
     y1: number,
   ): void;
+  /** glow.ts scaleInto: into[i] = share × from[i + shift] for i in [i0, i1). */
+  scale(into: Float32Array, from: Float32Array, share: number, i0: number, i1: number, shift: number): void;
 }
 
 let loaded: SumKernels | null | undefined;
@@ -113,6 +117,14 @@ function load(): SumKernels | null {
         k.blendRow(at.row, across[ys.i0[y] & 1], across[ys.i1[y] & 1], fw, share, ys.t[y]);
         dst.set(row, o);
       }
+    },
+    scale(into, from, share, i0, i1, shift) {
+      const n = i1 - i0;
+      const { at, end } = layout({ values: n * 4 });
+      const values = new Float32Array(reserve(k.memory, end), at.values, n);
+      values.set(from.subarray(i0 + shift, i1 + shift));
+      k.scale(at.values, at.values, n, share);
+      into.set(values, i0);
     },
   };
 }

@@ -119,4 +119,27 @@
                 (f64.add
                   (f64.mul (f64.load (i32.add (local.get $top) (i32.shl (local.get $x) (i32.const 3)))) (f64.sub (f64.const 1) (local.get $t)))
                   (f64.mul (f64.load (i32.add (local.get $bottom) (i32.shl (local.get $x) (i32.const 3)))) (local.get $t))))))))))
+
+  ;; out[i] = share · in[i] for n float32s (the float64 product rounded to float32, as glow.ts
+  ;; scaleInto stores it), four at a time; out may be in.
+  (func (export "scale") (param $in i32) (param $out i32) (param $n i32) (param $share f64)
+    (local $i i32) (local $quads i32) (local $s v128) (local $v v128)
+    (local.set $s (f64x2.splat (local.get $share)))
+    (local.set $quads (i32.and (local.get $n) (i32.const -4)))
+    (block $quadsDone (loop $fours
+      (br_if $quadsDone (i32.ge_u (local.get $i) (local.get $quads)))
+      (local.set $v (v128.load (i32.add (local.get $in) (i32.shl (local.get $i) (i32.const 2)))))
+      (v128.store (i32.add (local.get $out) (i32.shl (local.get $i) (i32.const 2)))
+        (i8x16.shuffle 0 1 2 3 4 5 6 7 16 17 18 19 20 21 22 23
+          (f32x4.demote_f64x2_zero (f64x2.mul (local.get $s) (f64x2.promote_low_f32x4 (local.get $v))))
+          (f32x4.demote_f64x2_zero (f64x2.mul (local.get $s) (f64x2.promote_low_f32x4
+            (i8x16.shuffle 8 9 10 11 12 13 14 15 0 1 2 3 4 5 6 7 (local.get $v) (local.get $v)))))))
+      (local.set $i (i32.add (local.get $i) (i32.const 4)))
+      (br $fours)))
+    (block $tailDone (loop $ones
+      (br_if $tailDone (i32.ge_u (local.get $i) (local.get $n)))
+      (f32.store (i32.add (local.get $out) (i32.shl (local.get $i) (i32.const 2)))
+        (f32.demote_f64 (f64.mul (local.get $share) (f64.promote_f32 (f32.load (i32.add (local.get $in) (i32.shl (local.get $i) (i32.const 2))))))))
+      (local.set $i (i32.add (local.get $i) (i32.const 1)))
+      (br $ones))))
 )
