@@ -105,7 +105,9 @@ class FrameCache {
  * of grid rows for a frame that stands alone), the glow components blurred in bands, then the
  * output stages in row bands (each summing the glow rows it reads and deflating its rows for the
  * PNG file), one band a thread — so a single large render uses every core, and the pixels equal a
- * single-thread render (each output row depends only on the inputs).
+ * single-thread render (each output row depends only on the inputs). The pool's queue serves
+ * interactive renders before background ones (exports), and earlier renders' steps first
+ * (task-queue.ts).
  */
 export class RenderEngine {
   readonly threads: number;
