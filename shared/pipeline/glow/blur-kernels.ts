@@ -1,4 +1,5 @@
 import { instantiate, kernelsEnabled, layout, reserve } from '../wasm';
+import type { RowSource } from './blur';
 import { BLUR_WASM_BASE64 } from './blur-wasm';
 
 /**
@@ -8,17 +9,11 @@ import { BLUR_WASM_BASE64 } from './blur-wasm';
  * `blurKernels()` is null and blur.ts runs its own loops (see ../wasm.ts).
  */
 export interface BlurKernels {
-  /** Rows [y0, y1) of `row`'s field through `passes` extended-box passes across, into dst (width samples a row). */
-  across(
-    row: (y: number, into: Float32Array, offset: number) => void,
-    dst: Float32Array,
-    width: number,
-    y0: number,
-    y1: number,
-    r: number,
-    alpha: number,
-    passes: number,
-  ): void;
+  /**
+   * Rows [y0, y1) of `row`'s field through `passes` extended-box passes across, into dst (width
+   * samples a row). Rows that spread a coarser image (row.expanded) are made here too.
+   */
+  across(row: RowSource, dst: Float32Array, width: number, y0: number, y1: number, r: number, alpha: number, passes: number): void;
   /** Columns [x0, x1) of `data` through `passes` passes down, in place. */
   down(data: Float32Array, width: number, height: number, x0: number, x1: number, r: number, alpha: number, passes: number): void;
 }
@@ -27,6 +22,7 @@ interface Exports {
   memory: WebAssembly.Memory;
   acrossRows(a: number, b: number, p0: number, p1: number, w: number, r: number, c: number, alpha: number, passes: number): void;
   downBand(a: number, b: number, sums: number, w: number, h: number, r: number, c: number, ca: number, passes: number): number;
+  expandRow(src: number, out: number, cols: number, m: number, w: number, across: number): void;
 }
 
 /** Columns the down pass takes at a time: a band of 960 rows is then 2 MB, and its rows stay in cache. */
@@ -50,17 +46,33 @@ function load(): BlurKernels | null {
       const p = r + 1;
       // Two row buffers, then two interleaved pass buffers with p zero positions either side.
       const pairBytes = (width + 2 * p) * 8;
+      const spread = row.expanded;
       const {
-        at: { a, b, p0, p1 },
+        at: { a, b, p0, p1, source, across },
         end,
-      } = layout({ a: width * 4, b: width * 4, p0: pairBytes, p1: pairBytes });
+      } = layout({
+        a: width * 4,
+        b: width * 4,
+        p0: pairBytes,
+        p1: pairBytes,
+        source: spread ? spread.cols * 4 : 0,
+        across: spread ? spread.m * 8 : 0,
+      });
       const f32 = memory(end);
-      f32.fill(0, p0 / 4, end / 4);
+      f32.fill(0, p0 / 4, p1 / 4 + pairBytes / 4);
       const c = 1 / (2 * r + 1 + 2 * alpha);
+      if (spread) new Float64Array(f32.buffer, across, spread.m).set(spread.across);
+      // Row y at byte `at`: a spread row made by the kernel from its source row, any other by `row`.
+      const make = (y: number, at: number) => {
+        if (!spread) return row(y, f32, at / 4);
+        const base = Math.floor(y / spread.m) * spread.cols;
+        f32.set(spread.source.subarray(base, base + spread.cols), source / 4);
+        k.expandRow(source, at, spread.cols, spread.m, spread.down[y % spread.m], across);
+      };
       for (let y = y0; y < y1; y += 2) {
         const pair = y + 1 < y1;
-        row(y, f32, a / 4);
-        if (pair) row(y + 1, f32, b / 4);
+        make(y, a);
+        if (pair) make(y + 1, b);
         else f32.fill(0, b / 4, b / 4 + width);
         k.acrossRows(a, b, p0 + p * 8, p1 + p * 8, width, r, c, alpha, passes);
         dst.set(f32.subarray(a / 4, a / 4 + width), y * width);

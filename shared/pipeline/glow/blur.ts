@@ -2,6 +2,23 @@ import { scratchArray } from '../scratch';
 import { blurKernels } from './blur-kernels';
 
 /**
+ * Rows made by spreading a coarser image: row y, sample c·m + k, is
+ * (source[⌊y/m⌋·cols + c] · down[y mod m]) · across[k], in float64, rounded to float32. A row
+ * function that makes such rows may carry this description: the kernels then make the rows
+ * themselves, with the same bits.
+ */
+export interface ExpandedRows {
+  source: Float32Array;
+  cols: number;
+  m: number;
+  across: Float64Array;
+  down: Float64Array;
+}
+
+/** `row(y, into, offset)` writes row y at into[offset…]; `expanded` says how, when it spreads a coarser image. */
+export type RowSource = ((y: number, into: Float32Array, offset: number) => void) & { expanded?: ExpandedRows };
+
+/**
  * Gaussian blur by a cascade of extended box filters (Gwosdek, Grewenig, Bruhn & Weickert,
  * "Theoretical foundations of Gaussian convolution by extended box filtering", SSVM 2011 —
  * from memory). Each pass is a running sum, so the cost per sample does not depend on σ; the
@@ -50,15 +67,7 @@ function passRow(from: Float32Array, to: Float32Array, width: number, pad: numbe
  * buffers (they stay in the processor's cache), written once to dst. `row(y, into, offset)`
  * supplies row y.
  */
-function blurRows(
-  row: (y: number, into: Float32Array, offset: number) => void,
-  dst: Float32Array,
-  width: number,
-  y0: number,
-  y1: number,
-  r: number,
-  alpha: number,
-): void {
+function blurRows(row: RowSource, dst: Float32Array, width: number, y0: number, y1: number, r: number, alpha: number): void {
   const kernels = blurKernels();
   if (kernels) return kernels.across(row, dst, width, y0, y1, r, alpha, BOX_PASSES);
   const pad = r + 1;
@@ -160,14 +169,7 @@ export function gaussianBlurRows(
  * The first half of gaussianBlurRows for rows [y0, y1) of `out`: σx across (or the rows as they
  * are, for σx = 0). Row bands done apart, then blurDown, give gaussianBlurRows' values.
  */
-export function blurAcross(
-  row: (y: number, into: Float32Array, offset: number) => void,
-  out: Float32Array,
-  width: number,
-  y0: number,
-  y1: number,
-  sigmaX: number,
-): void {
+export function blurAcross(row: RowSource, out: Float32Array, width: number, y0: number, y1: number, sigmaX: number): void {
   if (sigmaX > 0) {
     const { r, alpha } = extendedBox(sigmaX);
     blurRows(row, out, width, y0, y1, r, alpha);

@@ -185,4 +185,22 @@
         (f32.load offset=4 (i32.add (local.get $p0) (i32.shl (local.get $i) (i32.const 3)))))
       (local.set $i (i32.add (local.get $i) (i32.const 1)))
       (br $outTail))))
+
+  ;; One row spread from a coarser one (blur.ts ExpandedRows): out[c·m + k] = (src[c]·w)·across[k]
+  ;; for c < cols, k < m, in float64, rounded to float32. `across` holds m float64s.
+  (func (export "expandRow") (param $src i32) (param $out i32) (param $cols i32) (param $m i32) (param $w f64) (param $across i32)
+    (local $c i32) (local $k i32) (local $e f64)
+    (block $done (loop $cells
+      (br_if $done (i32.ge_u (local.get $c) (local.get $cols)))
+      (local.set $e (f64.mul (f64.promote_f32 (f32.load (i32.add (local.get $src) (i32.shl (local.get $c) (i32.const 2))))) (local.get $w)))
+      (local.set $k (i32.const 0))
+      (block $samplesDone (loop $samples
+        (br_if $samplesDone (i32.ge_u (local.get $k) (local.get $m)))
+        (f32.store (local.get $out)
+          (f32.demote_f64 (f64.mul (local.get $e) (f64.load (i32.add (local.get $across) (i32.shl (local.get $k) (i32.const 3)))))))
+        (local.set $out (i32.add (local.get $out) (i32.const 4)))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (br $samples)))
+      (local.set $c (i32.add (local.get $c) (i32.const 1)))
+      (br $cells))))
 )

@@ -1,7 +1,7 @@
 import type { PanelParams } from '../../model/parameters';
 import type { Field } from '../types';
 import { RING_SLOT, scratchArray } from '../scratch';
-import { blurAcross, blurDown } from './blur';
+import { blurAcross, blurDown, type RowSource } from './blur';
 import { sumKernels } from './sum-kernels';
 
 /** Halation ring radius from faceplate thickness t and index n: r = 2·t·tan(asin(1/n)). */
@@ -161,17 +161,16 @@ export function fluxField(emission: Float32Array, cell: PanelParams['cell'], m: 
   return { width, height, data };
 }
 
-/** fluxField row by row: `row(y, into, offset)` writes glow-grid row y of the flux image. */
-export function fluxRows(
-  emission: Float32Array,
-  cell: PanelParams['cell'],
-  m: number,
-): (y: number, into: Float32Array, offset: number) => void {
+/**
+ * fluxField row by row: `row(y, into, offset)` writes glow-grid row y of the flux image. The rows
+ * spread the emission (blur.ts ExpandedRows), so the blur kernels can make them themselves.
+ */
+export function fluxRows(emission: Float32Array, cell: PanelParams['cell'], m: number): RowSource {
   const { cols } = cell;
   const fillY = cell.mode === 'crt' ? 1 : cell.fillY;
   const wx = Float64Array.from({ length: m }, (_, k) => apertureShare(cell.fillX, k, m));
   const wy = Float64Array.from({ length: m }, (_, k) => apertureShare(fillY, k, m));
-  return (y, into, offset) => {
+  const row: RowSource = (y, into, offset) => {
     const base = Math.floor(y / m) * cols;
     const w = wy[y % m];
     if (m === 1) {
@@ -194,6 +193,8 @@ export function fluxRows(
       for (let k = 0; k < m; k++) into[offset + c * m + k] = e * wx[k];
     }
   };
+  row.expanded = { source: emission, cols, m, across: wx, down: wy };
+  return row;
 }
 
 /**
