@@ -1,5 +1,5 @@
+import type { RowSource } from '../types';
 import { instantiate, kernelsEnabled, layout, reserve } from '../wasm';
-import type { RowSource } from './blur';
 import { BLUR_WASM_BASE64 } from './blur-wasm';
 
 /**

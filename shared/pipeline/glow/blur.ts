@@ -1,22 +1,6 @@
 import { scratchArray } from '../scratch';
+import type { RowSource } from '../types';
 import { blurKernels } from './blur-kernels';
-
-/**
- * Rows made by spreading a coarser image: row y, sample c·m + k, is
- * (source[⌊y/m⌋·cols + c] · down[y mod m]) · across[k], in float64, rounded to float32. A row
- * function that makes such rows may carry this description: the kernels then make the rows
- * themselves, with the same bits.
- */
-export interface ExpandedRows {
-  source: Float32Array;
-  cols: number;
-  m: number;
-  across: Float64Array;
-  down: Float64Array;
-}
-
-/** `row(y, into, offset)` writes row y at into[offset…]; `expanded` says how, when it spreads a coarser image. */
-export type RowSource = ((y: number, into: Float32Array, offset: number) => void) & { expanded?: ExpandedRows };
 
 /**
  * Gaussian blur by a cascade of extended box filters (Gwosdek, Grewenig, Bruhn & Weickert,

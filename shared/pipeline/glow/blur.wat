@@ -186,7 +186,7 @@
       (local.set $i (i32.add (local.get $i) (i32.const 1)))
       (br $outTail))))
 
-  ;; One row spread from a coarser one (blur.ts ExpandedRows): out[c·m + k] = (src[c]·w)·across[k]
+  ;; One row spread from a coarser one (ExpandedRows in types.ts): out[c·m + k] = (src[c]·w)·across[k]
   ;; for c < cols, k < m, in float64, rounded to float32. `across` holds m float64s.
   (func (export "expandRow") (param $src i32) (param $out i32) (param $cols i32) (param $m i32) (param $w f64) (param $across i32)
     (local $c i32) (local $k i32) (local $e f64)

@@ -1,7 +1,7 @@
 import type { PanelParams } from '../../model/parameters';
-import type { Field } from '../types';
+import type { Field, RowSource } from '../types';
 import { RING_SLOT, scratchArray } from '../scratch';
-import { blurAcross, blurDown, type RowSource } from './blur';
+import { blurAcross, blurDown } from './blur';
 import { sumKernels } from './sum-kernels';
 
 /** Halation ring radius from faceplate thickness t and index n: r = 2·t·tan(asin(1/n)). */
@@ -163,7 +163,7 @@ export function fluxField(emission: Float32Array, cell: PanelParams['cell'], m: 
 
 /**
  * fluxField row by row: `row(y, into, offset)` writes glow-grid row y of the flux image. The rows
- * spread the emission (blur.ts ExpandedRows), so the blur kernels can make them themselves.
+ * spread the emission (ExpandedRows, types.ts), so the blur kernels can make them themselves.
  */
 export function fluxRows(emission: Float32Array, cell: PanelParams['cell'], m: number): RowSource {
   const { cols } = cell;
